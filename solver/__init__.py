@@ -1,0 +1,52 @@
+"""Edgewise solver: 2-D electrostatics of conductor cross-sections by the boundary-element method.
+
+Pure numerics (numpy, scipy, shapely). Data flows one way:
+Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, radii).
+
+>>> from solver import Model, Conductor, Circle, Ring, solve
+>>> coax = Model(unit="mm", conductors=(
+...     Conductor("inner", (Circle((0, 0), 1.0),), role="fixed", potential_V=1.0),
+...     Conductor("shield", (Ring((0, 0), 3.5, 4.0),), role="reference")))
+>>> round(float(solve(coax).capacitance_maxwell_F_per_m[0, 0]) * 1e12, 2)  # pF/m
+44.41
+"""
+
+from .capacitance import maxwell_matrix_problems, mutual_from_maxwell
+from .constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
+from .errors import (
+    InvalidGeometryError,
+    InvalidModelError,
+    NoReferenceError,
+    ProjectFileError,
+    SolveCancelled,
+    SolverError,
+)
+from .model import (
+    LENGTH_UNITS,
+    MESH_DENSITIES,
+    ROLES,
+    Circle,
+    Conductor,
+    Dielectric,
+    GroundPlane,
+    Model,
+    Polygon,
+    Rectangle,
+    Ring,
+    Shape,
+    Strip,
+)
+from .panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
+from .solution import PeakField, Solution
+from .solve import equivalent_radius_m, solve, solve_mesh
+
+__all__ = [
+    "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
+    "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
+    "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
+    "PeakField", "Solution", "solve", "solve_mesh", "equivalent_radius_m",
+    "mutual_from_maxwell", "maxwell_matrix_problems",
+    "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
+    "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
+    "ProjectFileError", "SolveCancelled",
+]
