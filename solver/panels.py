@@ -141,7 +141,8 @@ class PanelMesh:
     conductor_index : (n,) int, index into the model's conductors.
     ring_index : (n,) int, which boundary ring the panel lies on.
     is_strip : (n,) bool, True for panels on zero-thickness strips (charge on both sides).
-    arc_length_m : (n,) float, distance along the ring from its first point to the midpoint.
+    arc_length_m : (n,) float, distance along the conductor's boundary to the midpoint (rings
+        of one conductor follow each other in order).
     corner_points : (k, 2) float, sharp corners and free edges (field singular there).
     corner_conductor : (k,) int, the conductor of each corner point.
     corner_opening_rad : (k,) float, opening angle beta of the field region at each corner.
@@ -248,6 +249,7 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
 
     starts, ends, cond, ring_idx, strip, arc = [], [], [], [], [], []
     corners, corner_cond, corner_beta = [], [], []
+    travelled_by_conductor: dict[int, float] = {}
     for r, ring in enumerate(rings):
         h_max = h_max_by_conductor[ring.conductor_index]
         h_corner = h_max * settings.corner_fraction
@@ -264,7 +266,7 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
         n_edges = len(pts) if ring.closed else len(pts) - 1
         edge_vec = np.roll(pts, -1, axis=0)[:n_edges] - pts[:n_edges] if ring.closed else np.diff(pts, axis=0)
         edge_len = np.hypot(*edge_vec.T)
-        travelled = 0.0
+        travelled = travelled_by_conductor.get(ring.conductor_index, 0.0)
         for e in range(n_edges):
             p, q = pts[e], pts[(e + 1) % len(pts)]
             v_start, v_end = e, (e + 1) % len(pts)
@@ -283,6 +285,7 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
             strip.append(np.full(m, not ring.closed))
             arc.append(travelled + 0.5 * (breaks[:-1] + breaks[1:]))
             travelled += edge_len[e]
+        travelled_by_conductor[ring.conductor_index] = travelled
 
     return PanelMesh(
         starts=np.concatenate(starts),
