@@ -38,13 +38,15 @@ from .model import (
 )
 from .panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
 from .solution import PeakField, Solution
-from .solve import equivalent_radius_m, solve, solve_mesh
+from .equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
+from .solve import solve, solve_mesh
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
     "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
     "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
-    "PeakField", "Solution", "solve", "solve_mesh", "equivalent_radius_m",
+    "PeakField", "Solution", "solve", "solve_mesh",
+    "EquilibriumCharge", "equilibrium_charge", "equivalent_radius_m",
     "mutual_from_maxwell", "maxwell_matrix_problems",
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",

@@ -5,15 +5,14 @@ solves for the operating point (the potentials and charges the user set) togethe
 right-hand side per fixed-potential conductor for the capacitance matrix. It then repeats the
 solve on a mesh at half the resolution to estimate the error.
 
-:func:`equivalent_radius_m` gives the logarithmic capacity of a conductor or a group of
-conductors tied together, seen in isolation.
+The equivalent radius of isolated conductors lives in :mod:`solver.equilibrium`.
 """
 
 from __future__ import annotations
 
 import logging
 import math
-from typing import Callable, Iterable
+from typing import Callable
 
 import numpy as np
 import scipy.linalg
@@ -21,7 +20,6 @@ import scipy.linalg
 from .assembly import assemble_single_layer, right_hand_sides
 from .constants import EPSILON_0_F_PER_M
 from .errors import InvalidModelError, SolveCancelled
-from .kernels import log_potential_integrals
 from .model import Model
 from .panels import MeshSettings, PanelMesh, discretize_boundary
 from .solution import Solution
@@ -162,33 +160,3 @@ def _with_error(solution: Solution, error: float, coarse_panels: int) -> Solutio
     from dataclasses import replace
 
     return replace(solution, estimated_relative_error=error, coarse_mesh_panels=coarse_panels)
-
-
-def equivalent_radius_m(model: Model, names: Iterable[str] | None = None, settings: MeshSettings | None = None) -> float:
-    """Equivalent radius (logarithmic capacity) of conductors tied together, in isolation, metres.
-
-    The named conductors (all by default) are taken alone — no other conductor, no ground
-    plane — connected together and given a net charge Q with the potential at infinity 0.
-    With the resulting potential V, cap = exp(-2 pi eps V / Q): a disc of radius r gives r,
-    a segment of length l gives l / 4, a bundle behaves like one round wire of this radius.
-    """
-    wanted = list(model.conductor_names if names is None else names)
-    for name in wanted:
-        model.conductor(name)  # raises a KeyError naming the known conductors
-    sub = model.with_conductors(tuple(c for c in model.conductors if c.name in wanted))
-    from dataclasses import replace
-
-    sub = replace(sub, ground_plane=None, dielectrics=())
-    mesh = discretize_boundary(sub, settings or MeshSettings.for_density(model.mesh_density))
-    ell = _length_scale(mesh)
-    starts, ends = mesh.starts / ell, mesh.ends / ell
-    n = mesh.n_panels
-    a = np.zeros((n + 1, n + 1))
-    a[:n, :n] = -log_potential_integrals(0.5 * (starts + ends), starts, ends)
-    a[:n, n] = -1.0
-    a[n, :n] = mesh.lengths / ell
-    b = np.zeros(n + 1)
-    b[n] = 1.0
-    x = scipy.linalg.solve(a, b, check_finite=False)
-    # Scaled total charge is 1 and the scaled potential is x[n]; undo the length scale.
-    return float(ell * math.exp(-x[n]))
