@@ -92,15 +92,16 @@ def graded_panels(length: float, h_start: float, h_end: float, h_max: float, rat
         # The two graded runs meet before reaching h_max: take the smaller next size each time.
         left, right, total = [], [], 0.0
         a, b = h_start, h_end
+        last = left
         while total < length:
             if a <= b:
                 left.append(a)
-                total, a = total + a, a * ratio
+                total, a, last = total + a, a * ratio, left
             else:
                 right.append(b)
-                total, b = total + b, b * ratio
-        if total - length > 0.5 * (left[-1] if a > b else right[-1]) and len(left) + len(right) > 1:
-            (left if a > b else right).pop()
+                total, b, last = total + b, b * ratio, right
+        if total - length > 0.5 * last[-1] and len(left) + len(right) > 1:
+            last.pop()
         sizes = left + right[::-1]
     sizes_arr = np.asarray(sizes, dtype=float)
     sizes_arr *= length / sizes_arr.sum()
