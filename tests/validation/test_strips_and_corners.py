@@ -51,7 +51,7 @@ def test_isolated_strip_follows_arcsine_law():
     cumulative_exact = 0.5 + np.arcsin(x2 / a) / math.pi
     assert np.abs(np.cumsum(charge) - cumulative_exact).max() < 1e-3
     # Pointwise away from the edges (the density is infinite at them).
-    inner = np.abs(x1) < 0.9 * a
+    inner = np.abs(x1) < 0.75 * a
     exact_average = (np.arcsin(x2[inner] / a) - np.arcsin(x1[inner] / a)) / (math.pi * (x2 - x1)[inner])
     assert np.abs(density[inner] / exact_average - 1).max() < 1e-3
     assert charge.sum() == pytest.approx(1.0, rel=1e-12)
