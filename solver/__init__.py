@@ -13,6 +13,7 @@ Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, 
 
 from .capacitance import maxwell_matrix_problems, mutual_from_maxwell
 from .constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
+from .field_lines import FieldLine, GridField, evaluate_on_grid, trace_field_lines
 from .errors import (
     InvalidGeometryError,
     InvalidModelError,
@@ -51,4 +52,5 @@ __all__ = [
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
     "ProjectFileError", "SolveCancelled",
+    "FieldLine", "GridField", "evaluate_on_grid", "trace_field_lines",
 ]
