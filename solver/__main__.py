@@ -1,0 +1,7 @@
+"""``python -m solver MODEL.json``: solve a project file from the command line (see solver.cli)."""
+
+import sys
+
+from .cli import main
+
+sys.exit(main())
