@@ -39,6 +39,7 @@ from .model import (
 )
 from .panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
 from .solution import PeakField, Solution
+from .project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
 from .equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
 from .solve import solve, solve_mesh
 
@@ -52,5 +53,6 @@ __all__ = [
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
     "ProjectFileError", "SolveCancelled",
+    "PROJECT_FORMAT_VERSION", "load_project", "save_project", "model_to_dict", "model_from_dict",
     "FieldLine", "GridField", "evaluate_on_grid", "trace_field_lines",
 ]
