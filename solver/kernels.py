@@ -24,7 +24,7 @@ from __future__ import annotations
 import numpy as np
 
 #: Largest number of (target, panel) pairs evaluated at once, to bound memory.
-CHUNK_PAIRS = 4_000_000
+CHUNK_PAIRS = 250_000
 
 
 def _local(targets: np.ndarray, starts: np.ndarray, ends: np.ndarray):
