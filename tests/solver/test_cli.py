@@ -1,0 +1,207 @@
+"""Command line: summary, --json, --csv, --density, exit status and one-line errors."""
+
+from __future__ import annotations
+
+import csv
+import json
+import math
+import re
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from solver import EPSILON_0_F_PER_M, Circle, Conductor, Model, Ring, save_project
+from solver import cli
+from solver.cli import format_engineering, main
+
+ROOT = Path(__file__).resolve().parents[2]
+SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))
+COAX = ROOT / "sample_geometries" / "coaxial_feeder.json"
+
+JSON_KEYS = {
+    "conductors", "signal_conductors", "capacitance_maxwell_F_per_m", "capacitance_mutual_F_per_m",
+    "capacitance_note", "conductor_potentials_V", "conductor_charges_C_per_m", "peak_surface_field_V_per_m",
+    "peak_surface_field_location_m", "peak_at_sharp_corner", "equivalent_radius_m",
+    "estimated_relative_error", "n_panels",
+}
+
+
+def small_coax(radius_mm: float = 1.0) -> Model:
+    return Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("core", (Circle((0.0, 0.0), radius_mm),), role="fixed", potential_V=1.0),
+        Conductor("tube", (Ring((0.0, 0.0), 3.5, 4.0),), role="reference")))
+
+
+@pytest.fixture
+def no_return_path(tmp_path) -> Path:
+    model = Model(unit="mm", mesh_density="coarse", title="Two wires, no return", conductors=(
+        Conductor("a", (Circle((-3.0, 0.0), 1.0),), role="fixed", potential_V=1.0),
+        Conductor("b", (Circle((3.0, 0.0), 1.0),), role="fixed", potential_V=-1.0)))
+    path = tmp_path / "loose.json"
+    save_project(model, path)
+    return path
+
+
+@pytest.mark.parametrize("sample", SAMPLES, ids=[p.stem for p in SAMPLES])
+def test_every_sample_prints_a_summary(sample, capsys):
+    assert main([str(sample)]) == 0
+    out = capsys.readouterr().out
+    data = json.loads(sample.read_text(encoding="utf-8"))
+    assert data["title"] in out
+    for conductor in data["conductors"]:
+        assert conductor["name"] in out
+    assert "pF/m" in out and "Maxwell form" in out and "mutual form" in out
+    assert "Estimated relative error" in out and "Equivalent radius" in out
+
+
+def test_coax_summary_figures(capsys):
+    assert main([str(COAX)]) == 0
+    out = capsys.readouterr().out
+    c_pF = 2 * math.pi * EPSILON_0_F_PER_M / math.log(3.5) * 1e12  # 44.408 pF/m
+    assert re.search(rf"^  inner +{re.escape(f'{c_pF:.5g}')}$", out, re.M)
+    e_peak = 1.0 / (1e-3 * math.log(3.5))  # V / (a ln(b/a)) = 798 V/m at the inner surface
+    assert re.search(rf"^  inner +{format_engineering(e_peak, 'V/m')} ", out, re.M)
+    assert re.search(r"^  inner +(0\.9999\d|1) mm$", out, re.M)  # equivalent radius
+    assert "High voltage" not in out
+
+
+def test_json_output_has_the_documented_keys(capsys):
+    assert main([str(COAX), "--json"]) == 0
+    result = json.loads(capsys.readouterr().out)
+    assert JSON_KEYS <= result.keys()
+    assert result["conductors"] == ["inner", "shield"] and result["signal_conductors"] == ["inner"]
+    c = 2 * math.pi * EPSILON_0_F_PER_M / math.log(3.5)
+    assert result["capacitance_maxwell_F_per_m"][0][0] == pytest.approx(c, rel=1e-4)
+    assert result["capacitance_mutual_F_per_m"][0][0] == pytest.approx(c, rel=1e-4)
+    assert result["capacitance_note"] is None
+    assert result["conductor_charges_C_per_m"] == pytest.approx([c, -c], rel=1e-4)
+    assert result["peak_surface_field_V_per_m"][0] == pytest.approx(1.0 / (1e-3 * math.log(3.5)), rel=1e-3)
+    assert math.hypot(*result["peak_surface_field_location_m"][0]) == pytest.approx(1e-3, rel=1e-3)
+    assert result["peak_at_sharp_corner"] == [False, False]
+    assert result["equivalent_radius_m"] == pytest.approx([1e-3, 4e-3], rel=1e-4)
+    assert 0 < result["estimated_relative_error"] < 1e-4
+    assert result["n_panels"] > 100
+
+
+def test_csv_has_names_as_headers(tmp_path, capsys):
+    sample = ROOT / "sample_geometries" / "three_traces_over_ground.json"
+    out_csv = tmp_path / "c.csv"
+    assert main([str(sample), "--json", "--csv", str(out_csv)]) == 0
+    result = json.loads(capsys.readouterr().out)
+    names = result["signal_conductors"]
+    with open(out_csv, newline="", encoding="utf-8") as f:
+        rows = list(csv.DictReader(f))
+        f.seek(0)
+        header = next(csv.reader(f))
+    assert header == ["matrix (pF/m)", "conductor", *names]
+    assert [r["matrix (pF/m)"] for r in rows] == ["maxwell"] * 3 + ["mutual"] * 3
+    assert [r["conductor"] for r in rows] == names * 2
+    for form, block in (("maxwell", rows[:3]), ("mutual", rows[3:])):
+        expected = result[f"capacitance_{form}_F_per_m"]
+        for i, row in enumerate(block):
+            assert [float(row[n]) for n in names] == pytest.approx([x * 1e12 for x in expected[i]], rel=1e-9)
+
+
+def test_density_option_changes_the_mesh(tmp_path, capsys):
+    path = tmp_path / "coax.json"
+    save_project(small_coax(), path)
+    panels = {}
+    for density in ("coarse", "fine"):
+        assert main([str(path), "--json", "--density", density]) == 0
+        panels[density] = json.loads(capsys.readouterr().out)["n_panels"]
+    assert panels["fine"] > 2 * panels["coarse"]
+
+
+def test_no_return_path_says_so_and_exits_0(no_return_path, capsys):
+    assert main([str(no_return_path)]) == 0
+    out = capsys.readouterr().out
+    assert "there is no 2-D capacitance without a return path" in out
+    assert "Maxwell form" not in out
+    assert main([str(no_return_path), "--json"]) == 0
+    result = json.loads(capsys.readouterr().out)
+    assert result["capacitance_maxwell_F_per_m"] is None and result["capacitance_mutual_F_per_m"] is None
+    assert "return path" in result["capacitance_note"]
+    assert result["conductor_charges_C_per_m"][0] == pytest.approx(-result["conductor_charges_C_per_m"][1])
+
+
+def test_csv_without_return_path_is_refused(no_return_path, tmp_path, capsys):
+    target = tmp_path / "never.csv"
+    assert main([str(no_return_path), "--csv", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "return path" in err and "never.csv" in err
+    assert not target.exists()
+
+
+def test_bad_file_exits_2_with_one_line(tmp_path, capsys):
+    path = tmp_path / "broken.json"
+    path.write_text('{"format": "edgewise-project", "version": 1, "unit": "mm", "conductors": [{"name": "a"}]}')
+    assert main([str(path)]) == 2
+    captured = capsys.readouterr()
+    assert captured.out == ""
+    assert captured.err == f"error: {path}: conductors[0].role: missing (one of fixed, floating, reference)\n"
+
+
+def test_missing_file_exits_2(tmp_path, capsys):
+    assert main([str(tmp_path / "nothing.json")]) == 2
+    assert capsys.readouterr().err == f"error: {tmp_path / 'nothing.json'}: file not found\n"
+
+
+def test_invalid_geometry_exits_2_naming_file_and_conductors(tmp_path, capsys):
+    model = Model(unit="mm", conductors=(
+        Conductor("a", (Circle((0.0, 0.0), 2.0),), role="fixed", potential_V=1.0),
+        Conductor("b", (Circle((1.0, 0.0), 2.0),), role="reference")))
+    path = tmp_path / "overlap.json"
+    save_project(model, path)
+    assert main([str(path)]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith(f"error: {path}: Conductors 'a' and 'b' touch or overlap")
+    assert err.count("\n") == 1
+
+
+def test_unknown_option_exits_2(capsys):
+    assert main([str(COAX), "--density", "ultra"]) == 2
+    assert "invalid choice" in capsys.readouterr().err
+
+
+def test_sections_and_json_parts_can_be_extended(tmp_path, capsys, monkeypatch):
+    path = tmp_path / "coax.json"
+    save_project(small_coax(), path)
+    monkeypatch.setattr(cli, "SUMMARY_SECTIONS", [*cli.SUMMARY_SECTIONS, lambda s: ["Extra section", "  42"]])
+    monkeypatch.setattr(cli, "JSON_PARTS", [*cli.JSON_PARTS, lambda s: {"extra_figure_V": 42.0}])
+    assert main([str(path)]) == 0
+    assert capsys.readouterr().out.rstrip().endswith("Extra section\n  42")
+    assert main([str(path), "--json"]) == 0
+    assert json.loads(capsys.readouterr().out)["extra_figure_V"] == 42.0
+
+
+def test_high_voltage_sample_carries_the_caution(capsys):
+    assert main([str(ROOT / "sample_geometries" / "hv_electrode_over_earth.json")]) == 0
+    out = capsys.readouterr().out
+    assert "does not determine clearances or creepage" in out and "qualified" in out
+
+
+def test_sharp_corner_note(capsys):
+    assert main([str(ROOT / "sample_geometries" / "three_traces_over_ground.json")]) == 0
+    out = capsys.readouterr().out
+    assert "At a sharp corner or edge (charge density ~ r^-0.33)" in out
+    assert "grows as the mesh is refined" in out
+
+
+@pytest.mark.parametrize("value, text", [
+    (2.31e6, "2.31 MV/m"), (798.24, "798 V/m"), (0.0, "0 V/m"), (999.7, "1 kV/m"),
+    (-4.5e-12, "-4.5 pV/m"), (1.5e-3, "1.5 mV/m"),
+])
+def test_format_engineering(value, text):
+    assert format_engineering(value, "V/m") == text
+
+
+def test_python_dash_m_runs_and_fails_cleanly(tmp_path):
+    ok = subprocess.run([sys.executable, "-m", "solver", str(COAX)], capture_output=True, text=True, cwd=ROOT)
+    assert ok.returncode == 0 and "Air-spaced 75-ohm coaxial feeder" in ok.stdout
+    bad = tmp_path / "bad.json"
+    bad.write_text("{not json")
+    failed = subprocess.run([sys.executable, "-m", "solver", str(bad)], capture_output=True, text=True, cwd=ROOT)
+    assert failed.returncode == 2 and "Traceback" not in failed.stderr
+    assert failed.stderr == f"error: {bad}: not JSON (line 1, column 2: Expecting property name enclosed in double quotes)\n"
