@@ -13,7 +13,7 @@ Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, 
 
 from .capacitance import maxwell_matrix_problems, mutual_from_maxwell
 from .constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
-from .field_lines import FieldLine, GridField, evaluate_on_grid, trace_field_lines
+from .field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
 from .errors import (
     InvalidGeometryError,
     InvalidModelError,
@@ -54,5 +54,5 @@ __all__ = [
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
     "ProjectFileError", "SolveCancelled",
     "PROJECT_FORMAT_VERSION", "load_project", "save_project", "model_to_dict", "model_from_dict",
-    "FieldLine", "GridField", "evaluate_on_grid", "trace_field_lines",
+    "FieldLine", "GridField", "evaluate_at_points", "evaluate_on_grid", "trace_field_lines",
 ]

@@ -116,15 +116,24 @@ def evaluate_on_grid(solution: Solution, x_m: np.ndarray, y_m: np.ndarray) -> Gr
     """
     x_m, y_m = np.asarray(x_m, float), np.asarray(y_m, float)
     xx, yy = np.meshgrid(x_m, y_m)
-    pts = np.column_stack([xx.ravel(), yy.ravel()])
+    phi, e = evaluate_at_points(solution, np.column_stack([xx.ravel(), yy.ravel()]))
+    shape = (len(y_m), len(x_m))
+    return GridField(x_m, y_m, phi.reshape(shape), e.reshape(shape))
+
+
+def evaluate_at_points(solution: Solution, points_m: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Potential (V) and field strength |E| (V/m) at (m, 2) points in metres, each shape (m,).
+
+    NaN inside conductors and at or below a ground plane (as :func:`evaluate_on_grid`).
+    """
+    pts = np.asarray(points_m, dtype=float).reshape(-1, 2)
     solid, _ = _solid_and_strip_geometry(solution)
     free = ~_blocked(solution, solid, pts)
     phi = np.full(len(pts), np.nan)
     e = np.full(len(pts), np.nan)
     phi[free] = potential_at(solution, pts[free])
     e[free] = np.hypot(*field_at(solution, pts[free]).T)
-    shape = (len(y_m), len(x_m))
-    return GridField(x_m, y_m, phi.reshape(shape), e.reshape(shape))
+    return phi, e
 
 
 def _size_m(solution: Solution) -> tuple[np.ndarray, float]:
