@@ -297,7 +297,7 @@ def write_capacitance_csv(solution: Solution, path: str) -> None:
 # ---- entry point -----------------------------------------------------------------------------
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
-        prog="python -m solver",
+        prog="edgewise-solve" if sys.argv[0].endswith("edgewise-solve") else "python -m solver",
         description="Solve an Edgewise project file (2-D electrostatics of conductor cross-sections).",
     )
     parser.add_argument("model", metavar="MODEL.json", help="project file to solve")

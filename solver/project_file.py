@@ -11,8 +11,8 @@ A project file is a JSON object::
 
 Lengths are in the file's ``unit``; potentials in volts, charges in coulombs per metre.
 ``docs/project_file.md`` describes every field and ``solver/project_schema.json`` is the JSON
-Schema of the format. Reading checks every field and raises :class:`ProjectFileError` with one
-line naming the file, the field path and the reason, e.g.
+Schema of the format. Reading (:mod:`solver.project_reading`) checks every field and raises
+:class:`ProjectFileError` with one line naming the file, the field path and the reason, e.g.
 ``coax.json: conductors[1].shapes[0].radius: expected a number, got "abc"``.
 """
 

@@ -107,6 +107,8 @@ def test_model_to_dict_validates_against_schema():
     lambda d: d["conductors"][0]["shapes"][0].update(radius="abc"),
     lambda d: d["conductors"][3].update(potential_V=1.0),
     lambda d: d.update(version=2),
+    lambda d: d["conductors"][0].update(colour="#ffffff"),
+    lambda d: d["conductors"][1].update(potential_V=1.0),
     lambda d: d["dielectrics"][0].update(shapes=[{"kind": "strip", "points": [[0, 0], [1, 0]]}]),
 ])
 def test_schema_rejects_what_the_reader_rejects(change):
@@ -280,3 +282,12 @@ def test_dict_input_is_not_modified():
     before = copy.deepcopy(data)
     model_from_dict(data)
     assert data == before
+
+
+def test_example_in_the_reference_loads():
+    text = (Path(__file__).resolve().parents[2] / "docs" / "project_file.md").read_text(encoding="utf-8")
+    block = text.split("```json\n", 1)[1].split("```", 1)[0]
+    data = json.loads(block)
+    jsonschema.validate(data, SCHEMA)
+    model = model_from_dict(data, "docs/project_file.md")
+    assert model.conductor_names == ("inner", "shield")
