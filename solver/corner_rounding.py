@@ -60,7 +60,7 @@ def _to_polygons(geom, where: str) -> tuple[Polygon, ...]:
     )
 
 
-def _rounded_conductor(conductor: Conductor, radius: float, level: float) -> Conductor:
+def _rounded_conductor(conductor: Conductor, radius: float, level: float, replace_radius: bool) -> Conductor:
     """``conductor`` with every convex corner rounded to ``radius`` (model units)."""
     where = f"Conductor '{conductor.name}'"
     if all(isinstance(s, (Circle, Ring)) for s in conductor.shapes):
@@ -73,7 +73,8 @@ def _rounded_conductor(conductor: Conductor, radius: float, level: float) -> Con
                 f"{where}: corner radius {radius:.6g} is more than half the smaller side ({limit:.6g}); "
                 "use a smaller radius."
             )
-        return replace(conductor, shapes=(replace(rect, corner_radius=max(rect.corner_radius, min(radius, limit))),))
+        new_radius = min(radius, limit) if replace_radius else max(rect.corner_radius, min(radius, limit))
+        return replace(conductor, shapes=(replace(rect, corner_radius=new_radius),))
     q = _quad_segs(level)
     step = MeshSettings(level).arc_step_rad
     solids, lines = [], []
@@ -105,6 +106,7 @@ def round_sharp_corners(
     corner_radius_m: float,
     conductors: Iterable[str] | None = None,
     level: float | None = None,
+    replace_radius: bool = False,
 ) -> Model:
     """A copy of ``model`` with the sharp corners of some conductors rounded.
 
@@ -117,6 +119,9 @@ def round_sharp_corners(
         Which conductors to round; by default every conductor with a sharp corner.
     level : float, optional
         Mesh resolution level the arcs are drawn for (default: the model's mesh density).
+    replace_radius : bool
+        A conductor made of one rectangle gets exactly this corner radius (for a sweep); by
+        default a rectangle keeps a larger radius it already has.
 
     Returns
     -------
@@ -140,5 +145,5 @@ def round_sharp_corners(
         model.conductor(name)  # KeyError naming the known conductors
     radius = corner_radius_m / model.metres_per_unit
     return model.with_conductors(
-        tuple(_rounded_conductor(c, radius, level) if c.name in names else c for c in model.conductors)
+        tuple(_rounded_conductor(c, radius, level, replace_radius) if c.name in names else c for c in model.conductors)
     )

@@ -96,7 +96,8 @@ def peak_field_vs_corner_radius(
         raise InvalidGeometryError(f"Corner radii {list(radii_m)} m: give one or more positive radii.")
     peaks, errors, factors, places = [], [], [], []
     for r in radii:
-        spot = analyse_hot_spots(model, target_relative_error, float(r), [conductor], max_panels).hot_spots[0]
+        spot = analyse_hot_spots(model, target_relative_error, float(r), [conductor], max_panels,
+                                 replace_radius=True).hot_spots[0]
         peaks.append(spot.field_V_per_m)
         errors.append(spot.estimated_relative_error if spot.estimated_relative_error is not None else math.nan)
         factors.append(spot.enhancement_factor if spot.enhancement_factor is not None else math.nan)

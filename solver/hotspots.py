@@ -38,6 +38,7 @@ import numpy as np
 import shapely
 
 from .corner_rounding import round_sharp_corners
+from .curvature import local_radius_of_curvature_m
 from .errors import InvalidModelError
 from .geometry import conductor_geometries
 from .model import Model
@@ -78,6 +79,8 @@ class HotSpot:
     gap_field_V_per_m : |V_k - V_j| / gap, V/m.
     enhancement_factor : field_V_per_m / gap_field_V_per_m (None without such a neighbour).
     peak_history_V_per_m : peak on each mesh of the refinement, coarsest first.
+    local_radius_of_curvature_m : radius of curvature of the outline at the peak, metres
+        (None on a straight run, at a sharp corner or on a strip).
     note : plain-words remark for the user.
     """
 
@@ -98,6 +101,7 @@ class HotSpot:
     enhancement_factor: float | None
     peak_history_V_per_m: tuple[float, ...]
     note: str
+    local_radius_of_curvature_m: float | None = None
 
 
 @dataclass(frozen=True)
@@ -193,6 +197,7 @@ def analyse_hot_spots(
     corner_radius_m: float | None = None,
     conductors: Iterable[str] | None = None,
     max_panels: int = DEFAULT_MAX_PANELS,
+    replace_radius: bool = False,
 ) -> HotSpotReport:
     """Peak surface field of each conductor, refined until its error estimate meets a target.
 
@@ -208,6 +213,9 @@ def analyse_hot_spots(
         Conductors to analyse (default: all).
     max_panels : int
         Panel budget of the finest mesh; the loop stops before exceeding it.
+    replace_radius : bool
+        With ``corner_radius_m``: a one-rectangle conductor gets exactly that radius even if
+        it is drawn with a larger one (used by the corner-radius sweep).
 
     Returns
     -------
@@ -235,7 +243,7 @@ def analyse_hot_spots(
     def model_at(level: float) -> Model:
         if corner_radius_m is None:
             return model
-        return round_sharp_corners(model, corner_radius_m, names, level=level)
+        return round_sharp_corners(model, corner_radius_m, names, level=level, replace_radius=replace_radius)
 
     def run(level: float) -> None:
         m = model_at(level)
@@ -304,6 +312,7 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
         else f"Estimated error {100 * error:.2g} % is above the target {100 * target:.2g} %: the panel budget "
         "ran out; treat the value with care or simplify the model."
     )
+    curvature = local_radius_of_curvature_m(mesh, i)
     return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
                    converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
-                   tuple(map(float, history)), note)
+                   tuple(map(float, history)), note, curvature if math.isfinite(curvature) else None)

@@ -157,9 +157,12 @@ class AirConditions:
 class ConductorMargin:
     """Margins of one conductor's peak surface field (all fields crest values, V/m).
 
-    ``*_margin`` = threshold / peak (None when the peak is not finite: a sharp corner);
-    ``corona_*`` are None for conductors that are not round. ``status`` is "ample",
-    "thin" (margin < thin threshold), "exceeded" (margin < 1) or "not assessed".
+    ``*_margin`` = threshold / peak (None when the peak is not finite: a sharp corner).
+    ``corona_radius_m`` is the radius put into Peek's formula: the conductor's own radius for a
+    round conductor, else the local radius of curvature of the outline at the peak (an
+    approximation, said in ``corona_radius_basis``); ``corona_*`` are None when there is
+    neither (peak on a straight run or at a corner). ``status`` is "ample", "thin"
+    (margin < thin threshold), "exceeded" (margin < 1) or "not assessed".
     """
 
     conductor: str
@@ -167,7 +170,8 @@ class ConductorMargin:
     peak_field_estimated_relative_error: float | None
     air_breakdown_field_V_per_m: float
     air_breakdown_margin: float | None
-    round_radius_m: float | None
+    corona_radius_m: float | None
+    corona_radius_basis: str | None
     corona_onset_field_V_per_m: float | None
     corona_onset_margin: float | None
     status: str
@@ -241,6 +245,11 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
     for spot in hot_spots:
         peak = float(spot.field_V_per_m)
         radius = round_radius_m(model, spot.conductor) if spot.conductor in model.conductor_names else None
+        basis = None if radius is None else "round conductor"
+        local = getattr(spot, "local_radius_of_curvature_m", None)
+        if radius is None and local is not None and not spot.singular:
+            radius, basis = local, ("local radius of curvature at the peak (approximation: Peek's formula "
+                                    "is for round conductors)")
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
         if spot.singular:
@@ -256,5 +265,5 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
             caution = "" if status == "ample" else (
                 f"Margin {worst:.2f} is below {thin_margin:g}. " + HIGH_VOLTAGE_CAUTION)
         out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, breakdown, m_air,
-                                   radius, corona, m_cor, status, caution))
+                                   radius, basis, corona, m_cor, status, caution))
     return MarginReport(tuple(out), air, float(thin_margin))
