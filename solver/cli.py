@@ -21,6 +21,7 @@ import argparse
 import csv
 import json
 import math
+import os
 import sys
 from typing import Callable, Sequence
 
@@ -340,6 +341,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     except SolverError as e:
         text = str(e)
         return _fail(text if text.startswith(str(args.model)) else f"{args.model}: {text}")
+    except BrokenPipeError:  # output piped into a program that stopped reading (e.g. head)
+        sys.stdout = open(os.devnull, "w")
+        return 0
     except OSError as e:
         return _fail(f"cannot write {getattr(e, 'filename', None) or args.csv}: {e.strerror or e}")
     return 0

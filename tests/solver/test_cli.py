@@ -205,3 +205,12 @@ def test_python_dash_m_runs_and_fails_cleanly(tmp_path):
     failed = subprocess.run([sys.executable, "-m", "solver", str(bad)], capture_output=True, text=True, cwd=ROOT)
     assert failed.returncode == 2 and "Traceback" not in failed.stderr
     assert failed.stderr == f"error: {bad}: not JSON (line 1, column 2: Expecting property name enclosed in double quotes)\n"
+
+
+def test_csv_into_missing_folder_exits_2(tmp_path, capsys):
+    path = tmp_path / "coax.json"
+    save_project(small_coax(), path)
+    target = tmp_path / "no_such_folder" / "c.csv"
+    assert main([str(path), "--csv", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert err == f"error: cannot write {target}: No such file or directory\n"
