@@ -1,0 +1,103 @@
+"""Margins: statuses, singular peaks, input checks, JSON form, and SAFETY.md agreeing with the code."""
+
+import json
+import re
+from dataclasses import dataclass
+from pathlib import Path
+
+import pytest
+
+from solver import Circle, Conductor, Model, Rectangle
+from solver.errors import InvalidModelError
+from solver.margins import (
+    HIGH_VOLTAGE_CAUTION,
+    THIN_MARGIN,
+    AirConditions,
+    assess_margins,
+    peek_corona_onset_field_V_per_m,
+    pressure_at_altitude_Pa,
+    relative_air_density,
+    round_radius_m,
+)
+
+ROOT = Path(__file__).resolve().parents[2]
+
+
+@dataclass(frozen=True)
+class _Spot:  # the fields assess_margins reads from a HotSpot
+    conductor: str
+    field_V_per_m: float
+    singular: bool = False
+    estimated_relative_error: float | None = 1e-4
+    local_radius_of_curvature_m: float | None = None
+
+
+MODEL = Model(unit="mm", conductors=(
+    Conductor("wire", (Circle((0, 0), 5.0),), potential_V=1e5),
+    Conductor("bar", (Rectangle((50, 0), 20, 10, 2.0),), role="reference"),
+))
+
+
+def test_round_radius_only_for_circles_and_rings():
+    assert round_radius_m(MODEL, "wire") == pytest.approx(5e-3)
+    assert round_radius_m(MODEL, "bar") is None
+
+
+def test_status_follows_the_smaller_margin():
+    # 5 mm smooth wire: Peek's onset (about 4.3 MV/m) is above 3 MV/m, so air sets the status.
+    onset = peek_corona_onset_field_V_per_m(5e-3)
+    assert onset > 3e6
+    for peak, status in ((1.0e6, "ample"), (2.5e6, "thin"), (3.5e6, "exceeded")):
+        m = assess_margins(MODEL, [_Spot("wire", peak)]).margins[0]
+        assert m.status == status
+        assert m.air_breakdown_margin == pytest.approx(3e6 / peak)
+        assert m.corona_onset_margin == pytest.approx(onset / peak)
+        assert bool(m.caution) == (status != "ample")
+
+
+def test_singular_peak_is_not_assessed_and_cautioned():
+    m = assess_margins(MODEL, [_Spot("bar", 9e9, singular=True)]).margins[0]
+    assert m.status == "not assessed" and m.air_breakdown_margin is None and m.corona_onset_margin is None
+    assert "corner radius" in m.caution and HIGH_VOLTAGE_CAUTION in m.caution
+
+
+def test_local_curvature_feeds_peek_for_non_round_conductors():
+    m = assess_margins(MODEL, [_Spot("bar", 1e6, local_radius_of_curvature_m=2e-3)]).margins[0]
+    assert m.corona_radius_m == 2e-3 and "approximation" in m.corona_radius_basis
+    assert m.corona_onset_field_V_per_m == pytest.approx(peek_corona_onset_field_V_per_m(2e-3))
+    flat = assess_margins(MODEL, [_Spot("bar", 1e6)]).margins[0]
+    assert flat.corona_onset_field_V_per_m is None and flat.corona_onset_margin is None
+
+
+def test_zero_field_gives_an_infinite_margin_and_clean_json():
+    report = assess_margins(MODEL, [_Spot("wire", 0.0), _Spot("bar", 2.9e6)], AirConditions.at_pressure(95e3, 303.15))
+    assert report.margins[0].status == "ample" and report.needs_caution
+    text = json.dumps(report.as_dict(), allow_nan=False)
+    data = json.loads(text)
+    assert data["conductors"][0]["air_breakdown_margin"] is None
+    assert data["thin_margin_threshold"] == THIN_MARGIN and data["caution"] == HIGH_VOLTAGE_CAUTION
+    assert data["relative_air_density"] == pytest.approx(relative_air_density(95e3, 303.15))
+
+
+def test_inputs_are_checked():
+    with pytest.raises(InvalidModelError, match="Altitude"):
+        pressure_at_altitude_Pa(20_000.0)
+    with pytest.raises(InvalidModelError, match="Surface factor"):
+        peek_corona_onset_field_V_per_m(0.01, surface_factor=1.2)
+    with pytest.raises(InvalidModelError, match="Peek form"):
+        peek_corona_onset_field_V_per_m(0.01, form="sphere")
+    with pytest.raises(InvalidModelError, match="positive"):
+        relative_air_density(-1.0)
+
+
+def _words(text: str) -> str:
+    return " ".join(text.split())
+
+
+def test_safety_file_repeats_the_caution_and_the_thresholds():
+    safety = _words((ROOT / "SAFETY.md").read_text(encoding="utf-8"))
+    assert _words(HIGH_VOLTAGE_CAUTION) in safety
+    for needed in ("does not determine clearances, creepage distances or insulation coordination",
+                   "qualified persons only", "Peek", "3 MV/m", "ISO 2533", "below 1.5"):
+        assert needed in safety
+    assert re.search(r"local codes, applicable standards and licensed or qualified practice prevail", safety, re.I)
