@@ -42,6 +42,24 @@ from .solution import PeakField, Solution
 from .project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
 from .equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
 from .solve import solve, solve_mesh
+from .hotspots import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
+from .corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from .corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from .curvature import local_radius_of_curvature_m
+from .margins import (
+    HIGH_VOLTAGE_CAUTION,
+    THIN_MARGIN,
+    AirConditions,
+    ConductorMargin,
+    MarginReport,
+    air_breakdown_field_V_per_m,
+    assess_margins,
+    peek_corona_onset_field_V_per_m,
+    pressure_at_altitude_Pa,
+    relative_air_density,
+    relative_air_density_at_altitude,
+)
+from .bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -55,4 +73,11 @@ __all__ = [
     "ProjectFileError", "SolveCancelled",
     "PROJECT_FORMAT_VERSION", "load_project", "save_project", "model_to_dict", "model_from_dict",
     "FieldLine", "GridField", "evaluate_at_points", "evaluate_on_grid", "trace_field_lines",
+    "HotSpot", "HotSpotReport", "analyse_hot_spots", "richardson_estimate",
+    "conductors_with_sharp_corners", "round_sharp_corners", "CornerRadiusSweep", "peak_field_vs_corner_radius",
+    "local_radius_of_curvature_m",
+    "HIGH_VOLTAGE_CAUTION", "THIN_MARGIN", "AirConditions", "ConductorMargin", "MarginReport",
+    "air_breakdown_field_V_per_m", "assess_margins", "peek_corona_onset_field_V_per_m",
+    "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
+    "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",
 ]

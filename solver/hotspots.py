@@ -81,6 +81,7 @@ class HotSpot:
     peak_history_V_per_m : peak on each mesh of the refinement, coarsest first.
     local_radius_of_curvature_m : radius of curvature of the outline at the peak, metres
         (None on a straight run, at a sharp corner or on a strip).
+    medium_eps_r : relative permittivity of the medium next to the peak (1 = air).
     note : plain-words remark for the user.
     """
 
@@ -102,6 +103,7 @@ class HotSpot:
     peak_history_V_per_m: tuple[float, ...]
     note: str
     local_radius_of_curvature_m: float | None = None
+    medium_eps_r: float = 1.0
 
 
 @dataclass(frozen=True)
@@ -315,4 +317,13 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
     curvature = local_radius_of_curvature_m(mesh, i)
     return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
                    converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
-                   tuple(map(float, history)), note, curvature if math.isfinite(curvature) else None)
+                   tuple(map(float, history)), note, curvature if math.isfinite(curvature) else None,
+                   _medium_eps_r(final, i))
+
+
+def _medium_eps_r(solution: Solution, panel: int) -> float:
+    """Relative permittivity next to a conductor panel (the dielectric solution knows it per panel)."""
+    per_panel = getattr(solution, "conductor_eps_r_plus", None)
+    if per_panel is not None and len(per_panel) == solution.mesh.n_panels:
+        return float(per_panel[panel])
+    return float(solution.model.background_eps_r)

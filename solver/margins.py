@@ -157,7 +157,8 @@ class AirConditions:
 class ConductorMargin:
     """Margins of one conductor's peak surface field (all fields crest values, V/m).
 
-    ``*_margin`` = threshold / peak (None when the peak is not finite: a sharp corner).
+    ``*_margin`` = threshold / peak (None when the peak is not finite, at a sharp corner, or
+    when the peak is not in air).
     ``corona_radius_m`` is the radius put into Peek's formula: the conductor's own radius for a
     round conductor, else the local radius of curvature of the outline at the peak (an
     approximation, said in ``corona_radius_basis``); ``corona_*`` are None when there is
@@ -252,11 +253,15 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
                                     "is for round conductors)")
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
-        if spot.singular:
+        medium = float(getattr(spot, "medium_eps_r", 1.0))
+        if spot.singular or medium != 1.0:
             m_air = m_cor = None
             status = "not assessed"
-            caution = ("Sharp corner or free edge: the 2-D peak field is not finite, so no margin can be given. "
-                       "Give a corner radius. " + HIGH_VOLTAGE_CAUTION)
+            reason = ("Sharp corner or free edge: the 2-D peak field is not finite, so no margin can be given. "
+                      "Give a corner radius. ") if spot.singular else (
+                f"The peak sits in a medium of relative permittivity {medium:g}, not air: the air-breakdown and "
+                "corona thresholds do not apply; judge the insulation by its material's own data. ")
+            caution = reason + HIGH_VOLTAGE_CAUTION
         else:
             m_air = breakdown / peak if peak > 0 else math.inf
             m_cor = None if corona is None else (corona / peak if peak > 0 else math.inf)

@@ -101,3 +101,13 @@ def test_safety_file_repeats_the_caution_and_the_thresholds():
                    "qualified persons only", "Peek", "3 MV/m", "ISO 2533", "below 1.5"):
         assert needed in safety
     assert re.search(r"local codes, applicable standards and licensed or qualified practice prevail", safety, re.I)
+
+
+def test_peak_in_a_dielectric_is_not_judged_against_air():
+    @dataclass(frozen=True)
+    class _InOil(_Spot):
+        medium_eps_r: float = 2.2
+
+    m = assess_margins(MODEL, [_InOil("wire", 1e6)]).margins[0]
+    assert m.status == "not assessed" and m.air_breakdown_margin is None
+    assert "relative permittivity 2.2" in m.caution
