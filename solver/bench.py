@@ -11,6 +11,7 @@ from __future__ import annotations
 import argparse
 import math
 import time
+from pathlib import Path
 from typing import Callable
 
 import numpy as np
@@ -65,7 +66,25 @@ def _busbars() -> BenchCase:
     return "three busbars in a round enclosure (4 conductors)", model, None
 
 
-CASES: list[Callable[[], BenchCase]] = [_coax, _stripline, _busbars]
+def _sample(file_name: str) -> Callable[[], BenchCase]:
+    """A bundled sample (compared against its own finest level)."""
+
+    def make() -> BenchCase:
+        from .project_file import load_project
+
+        path = Path(__file__).resolve().parents[1] / "sample_geometries" / file_name
+        return f"sample {file_name}", load_project(path), None
+
+    return make
+
+
+CASES: list[Callable[[], BenchCase]] = [
+    _coax,
+    _stripline,
+    _busbars,
+    _sample("busbar_enclosure.json"),
+    _sample("three_traces_over_ground.json"),
+]
 
 
 def _time_one(model: Model, level: float) -> tuple[int, float, float, float, np.ndarray]:
@@ -75,7 +94,8 @@ def _time_one(model: Model, level: float) -> tuple[int, float, float, float, np.
     roles = [c.role for c in model.conductors]
     pts = np.vstack([mesh.starts, mesh.ends])
     ell = float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0))))
-    a, layout = assemble_single_layer(mesh, roles, ell, None)
+    plane_y_m = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
+    a, layout = assemble_single_layer(mesh, roles, ell, plane_y_m)
     t2 = time.perf_counter()
     lu = scipy.linalg.lu_factor(a, check_finite=False)
     n_signal = sum(r == "fixed" for r in roles)
