@@ -42,7 +42,7 @@ def _check_solvable(model: Model) -> None:
         unequal = [d.name for d in model.dielectrics if d.eps_r != model.background_eps_r]
         if unequal:
             raise InvalidModelError(
-                f"Dielectric region '{unequal[0]}' needs the dielectric solver (solver.solve_dielectric); "
+                f"Dielectric region '{unequal[0]}' needs the dielectric solver (solver.solve dispatches to it); "
                 "the homogeneous solver handles only the background permittivity."
             )
 
@@ -131,6 +131,10 @@ def solve(
     >>> sol = solve(load_project("sample_geometries/coaxial_feeder.json"))
     >>> sol.capacitance_maxwell_F_per_m * 1e12  # pF/m  # doctest: +SKIP
     """
+    from .dielectric_solve import needs_dielectric_solver, solve_dielectric
+
+    if model.conductors and needs_dielectric_solver(model):
+        return solve_dielectric(model, estimate_error=estimate_error, settings=settings, progress=progress, cancel=cancel)
     _check_solvable(model)
     settings = settings or MeshSettings.for_density(model.mesh_density)
 
