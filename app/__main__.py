@@ -1,0 +1,60 @@
+"""Start the desktop program: ``python -m app [MODEL.json]``.
+
+With no argument it opens the coaxial feeder sample, already solved. If the last session
+ended with unsaved work, it offers to recover it first.
+"""
+
+from __future__ import annotations
+
+import argparse
+import logging
+import sys
+from pathlib import Path
+
+
+def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True):
+    """Create the main window, offer recovery, open ``path`` (or the default sample) and solve."""
+    from PySide6.QtWidgets import QMessageBox
+
+    from . import files
+    from .main_window import MainWindow
+
+    window = MainWindow(settings)
+    recovered = files.read_recovery() if ask_recovery else None
+    if recovered is not None:
+        model, original = recovered
+        answer = QMessageBox.question(
+            window, "Recover unsaved work?",
+            "Edgewise closed last time with unsaved changes"
+            + (f" to {original}" if original else "") + ". Recover them?",
+            QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
+        if answer == QMessageBox.Yes:
+            window.load(model, original, modified=True)
+            window.solve()
+            return window
+        files.discard_recovery()
+    target = path or files.SAMPLES_DIR / files.DEFAULT_SAMPLE
+    if target.is_file() or path is not None:
+        window.commands.open(target)
+    return window
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(prog="edgewise", description="Edgewise: 2-D electrostatics of conductor cross-sections.")
+    parser.add_argument("model", nargs="?", type=Path, help="project file to open (default: the coaxial feeder sample)")
+    args = parser.parse_args(argv)
+    logging.basicConfig(level=logging.WARNING)
+
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QApplication
+
+    app = QApplication.instance() or QApplication(sys.argv[:1])
+    app.setApplicationName("Edgewise")
+    app.setOrganizationName("Edgewise")
+    window = build_window(args.model, QSettings("Edgewise", "Edgewise"))
+    window.show()
+    return app.exec()
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,302 @@
+"""The drawing area: the cross-section in model units, with grid, rulers, tools and overlays.
+
+The canvas redraws the parts from the document on ``model_changed`` and shows the selection
+on ``selection_changed``. Mouse gestures go to the current tool (see :mod:`app.tools`); the
+middle or right button, the wheel and dragging empty space with the pick tool pan and zoom.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import QPointF, Qt, Signal
+from PySide6.QtGui import QColor
+
+from . import shapes
+from .document import PartRef
+from .drawing import cosmetic_pen, dielectric_item, shape_item
+from .overlays import Overlays
+from .tools import TOOLS, PickTool
+
+pg.setConfigOptions(imageAxisOrder="row-major", antialias=True)
+
+
+def nice_step(span: float, divisions: int = 40) -> float:
+    """A 1-2-5 step near ``span / divisions``."""
+    raw = max(span / divisions, 1e-12)
+    base = 10 ** math.floor(math.log10(raw))
+    for m in (1, 2, 5, 10):
+        if m * base >= raw:
+            return m * base
+    return 10 * base
+
+
+class Canvas(pg.PlotWidget):
+    """The cross-section view; ``document`` is an :class:`app.document.Document`."""
+
+    cursor_moved = Signal(float, float)
+    probe_drawn = Signal(object, object)
+    boundary_point_picked = Signal(int)
+    problem_reported = Signal(str)
+    tool_changed = Signal(str)
+
+    def __init__(self, document, parent=None) -> None:
+        super().__init__(parent, background="w")
+        self.document = document
+        self.snap_enabled = True
+        self.results = None
+        self.setFocusPolicy(Qt.StrongFocus)
+        self.setMouseTracking(True)
+        self.plotItem.setAspectLocked(True)
+        self.plotItem.showGrid(x=True, y=True, alpha=0.18)
+        self.plotItem.hideButtons()
+        self.plotItem.setMenuEnabled(False)
+        self._part_items: list = []
+        self._preview_item = None
+        self._plane_preview = None
+        self._handles = pg.ScatterPlotItem(symbol="s", size=9, pen=pg.mkPen("#111"), brush=pg.mkBrush("#ffffff"))
+        self._handles.setZValue(50)
+        self.addItem(self._handles)
+        self._probe = pg.PlotDataItem(pen=pg.mkPen("#000000", width=2, style=Qt.DashLine))
+        self._probe.setZValue(40)
+        self.addItem(self._probe)
+        self.overlays = Overlays(self.plotItem)
+        self.tools = {cls.name: cls(self) for cls in TOOLS}
+        self.tool = self.tools[PickTool.name]
+        self._mouse_down = False
+        self._error_items: list = []
+        document.events.connect("model_changed", self._on_model_changed)
+        document.events.connect("selection_changed", self._on_selection_changed)
+        self._on_model_changed(document.model)
+        self.fit_view()
+
+    # ---- view ------------------------------------------------------------------------------
+    def set_unit_labels(self, unit: str) -> None:
+        self.plotItem.setLabel("bottom", f"x ({unit})")
+        self.plotItem.setLabel("left", f"y ({unit})")
+
+    def fit_view(self) -> None:
+        from .results import view_box
+
+        x0, y0, x1, y1 = view_box(self.document.model, 0.2)
+        self.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
+
+    def snap_step(self) -> float:
+        (x0, x1), _ = self.plotItem.vb.viewRange()
+        return nice_step(x1 - x0)
+
+    def snap(self, x: float, y: float) -> tuple[float, float]:
+        if not self.snap_enabled:
+            return (x, y)
+        s = self.snap_step()
+        return (round(round(x / s) * s, 12), round(round(y / s) * s, 12))
+
+    def pixel_size(self) -> float:
+        (x0, x1), _ = self.plotItem.vb.viewRange()
+        return (x1 - x0) / max(self.plotItem.vb.width(), 1.0)
+
+    def set_tool(self, name: str) -> None:
+        self.tool.reset()
+        self.tool = self.tools[name]
+        self.setCursor(Qt.ArrowCursor if name == PickTool.name else Qt.CrossCursor)
+        self.tool_changed.emit(name)
+
+    # ---- parts -----------------------------------------------------------------------------
+    def _on_model_changed(self, model) -> None:
+        for item in self._part_items:
+            self.plotItem.removeItem(item)
+        self._part_items = []
+        self.set_unit_labels(model.unit)
+        selected = self.document.selection
+        for i, d in enumerate(model.dielectrics):
+            for j, s in enumerate(d.shapes):
+                self._add_part(dielectric_item(s, d.eps_r), 5)
+        for i, c in enumerate(model.conductors):
+            for j, s in enumerate(c.shapes):
+                sel = selected == PartRef("conductor", i, j)
+                self._add_part(shape_item(s, c.color or "#808080", selected=sel), 20)
+        if model.ground_plane is not None:
+            sel = selected == PartRef("plane")
+            line = pg.InfiniteLine(pos=model.ground_plane.y, angle=0,
+                                   pen=cosmetic_pen("#111111" if sel else "#4d4d4d", 4 if sel else 3))
+            below = pg.LinearRegionItem(values=(model.ground_plane.y - 1e6, model.ground_plane.y),
+                                        orientation="horizontal", movable=False,
+                                        brush=pg.mkBrush(120, 120, 120, 60), pen=pg.mkPen(None))
+            pg.InfLineLabel(line, text="ground plane, 0 V", position=0.08, color="#333333")  # child of line
+            self._add_part(below, 4)
+            self._add_part(line, 21)
+        self._update_handles()
+
+    def _add_part(self, item, z: float) -> None:
+        item.setZValue(z)
+        self.plotItem.addItem(item)
+        self._part_items.append(item)
+
+    def _on_selection_changed(self, ref) -> None:
+        self._on_model_changed(self.document.model)
+
+    def _update_handles(self) -> None:
+        ref = self.document.selection
+        if ref is None or ref.kind != "conductor":
+            self._handles.setData([], [])
+            return
+        from .edits import shape_of
+
+        pts = np.asarray(shapes.handles(shape_of(self.document.model, ref)))
+        self._handles.setData(pts[:, 0], pts[:, 1])
+
+    def part_at(self, raw) -> PartRef | None:
+        """The part under the point (conductors first, then the ground plane), or None."""
+        model = self.document.model
+        tol = 6 * self.pixel_size()
+        best, best_d = None, tol
+        for i, c in enumerate(model.conductors):
+            for j, s in enumerate(c.shapes):
+                d = shapes.distance(s, *raw)
+                if d <= best_d:
+                    best, best_d = PartRef("conductor", i, j), d
+                    if d == 0:
+                        return best
+        if best is None and model.ground_plane is not None and abs(raw[1] - model.ground_plane.y) <= tol:
+            return PartRef("plane")
+        return best
+
+    def handle_at(self, raw) -> int | None:
+        """Index of the selected shape's handle under the point, or None."""
+        ref = self.document.selection
+        if ref is None or ref.kind != "conductor":
+            return None
+        from .edits import shape_of
+
+        pts = np.asarray(shapes.handles(shape_of(self.document.model, ref)))
+        d = np.hypot(pts[:, 0] - raw[0], pts[:, 1] - raw[1])
+        i = int(np.argmin(d))
+        return i if d[i] <= 7 * self.pixel_size() else None
+
+    # ---- previews and markers --------------------------------------------------------------
+    def show_preview(self, shape, plane_y=None) -> None:
+        for item in (self._preview_item, self._plane_preview):
+            if item is not None:
+                self.plotItem.removeItem(item)
+        self._preview_item = self._plane_preview = None
+        if shape is not None:
+            self._preview_item = shape_item(shape, "#777777", alpha=60, dashed=True)
+            self._preview_item.setZValue(60)
+            self.plotItem.addItem(self._preview_item)
+        if plane_y is not None:
+            self._plane_preview = pg.InfiniteLine(pos=plane_y, angle=0, pen=cosmetic_pen("#777777", 2, Qt.DashLine))
+            self.plotItem.addItem(self._plane_preview)
+
+    def show_probe(self, a, b) -> None:
+        self._probe.setData([a[0], b[0]], [a[1], b[1]])
+
+    def clear_probe(self) -> None:
+        self._probe.setData([], [])
+
+    def report_problem(self, message: str) -> None:
+        self.problem_reported.emit(message)
+
+    def show_errors(self, names: list[str], message: str) -> None:
+        """Mark the named conductors and put the message next to the first of them."""
+        self.clear_errors()
+        model = self.document.model
+        for name in names:
+            if name not in model.conductor_names:
+                continue
+            c = model.conductor(name)
+            for s in c.shapes:
+                item = shape_item(s, "#ff0000", alpha=0, dashed=True)
+                item.setPen(cosmetic_pen("#e00000", 3, Qt.DashLine))
+                item.setZValue(70)
+                self.plotItem.addItem(item)
+                self._error_items.append(item)
+        anchor = None
+        if names and names[0] in model.conductor_names:
+            x0, y0, x1, y1 = shapes.bounds(model.conductor(names[0]).shapes[0])
+            anchor = (x1, y1)
+        elif shapes.model_bounds(model) is not None:
+            x0, y0, x1, y1 = shapes.model_bounds(model)
+            anchor = (x0, y1)
+        if anchor is not None:
+            text = pg.TextItem(_wrap(message), color="#7a0000", fill=pg.mkBrush(255, 235, 235, 235),
+                               border=pg.mkPen("#e00000"), anchor=(0, 1))
+            text.setPos(QPointF(*anchor))
+            text.setZValue(80)
+            self.plotItem.addItem(text)
+            self._error_items.append(text)
+
+    def clear_errors(self) -> None:
+        for item in self._error_items:
+            self.plotItem.removeItem(item)
+        self._error_items = []
+
+    def boundary_pick(self, raw) -> None:
+        """With results, find the boundary panel nearest the point and report it."""
+        if self.results is None:
+            return
+        mesh = self.results.solution.mesh
+        scale = self.results.model.metres_per_unit
+        mids = mesh.midpoints / scale
+        d = np.hypot(mids[:, 0] - raw[0], mids[:, 1] - raw[1])
+        i = int(np.argmin(d))
+        if d[i] <= 8 * self.pixel_size():
+            self.overlays.mark_point(mids[i])
+            self.boundary_point_picked.emit(i)
+
+    # ---- mouse and keys --------------------------------------------------------------------
+    def _model_pos(self, event) -> tuple[float, float]:
+        p = self.plotItem.vb.mapSceneToView(self.mapToScene(event.position().toPoint()))
+        return (float(p.x()), float(p.y()))
+
+    def mousePressEvent(self, event) -> None:
+        if event.button() == Qt.LeftButton:
+            raw = self._model_pos(event)
+            if self.tool.press(self.snap(*raw), raw):
+                self._mouse_down = True
+                event.accept()
+                return
+        super().mousePressEvent(event)
+
+    def mouseMoveEvent(self, event) -> None:
+        raw = self._model_pos(event)
+        self.cursor_moved.emit(*raw)
+        if self._mouse_down or self.tool.tracks_hover:
+            self.tool.move(self.snap(*raw), raw)
+            if self._mouse_down:
+                event.accept()
+                return
+        super().mouseMoveEvent(event)
+
+    def mouseReleaseEvent(self, event) -> None:
+        if self._mouse_down and event.button() == Qt.LeftButton:
+            self._mouse_down = False
+            raw = self._model_pos(event)
+            self.tool.release(self.snap(*raw), raw)
+            event.accept()
+            return
+        super().mouseReleaseEvent(event)
+
+    def mouseDoubleClickEvent(self, event) -> None:
+        raw = self._model_pos(event)
+        if event.button() == Qt.LeftButton and self.tool.double_click(self.snap(*raw), raw):
+            event.accept()
+            return
+        super().mouseDoubleClickEvent(event)
+
+    def keyPressEvent(self, event) -> None:
+        if self.tool.key(event.key()):
+            event.accept()
+            return
+        if event.key() == Qt.Key_Escape:
+            self.set_tool(PickTool.name)
+            self.document.select(None)
+            return
+        super().keyPressEvent(event)
+
+
+def _wrap(text: str, width: int = 60) -> str:
+    import textwrap
+
+    return "\n".join(textwrap.wrap(text, width))

@@ -1,0 +1,106 @@
+"""The caution and caveat texts, in one place, for the program, the report and SAFETY.md.
+
+Qt-free. The numbers here are the usual rules of thumb (common practice), not design limits:
+air breaks down at about 3 MV/m in a uniform field at sea level (20 degC, 101.3 kPa), in
+proportion to the relative air density; and end effects of a part of length L are small once
+L is above about ten times its largest cross-section dimension.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+#: Dielectric strength of air in a uniform field at sea level, V/m (about 3 MV/m; common practice).
+AIR_STRENGTH_SEA_LEVEL_V_PER_M = 3.0e6
+
+#: Scale height used to estimate relative air density from altitude, m (isothermal
+#: atmosphere, common practice; a rough figure — enter the measured density where known).
+AIR_SCALE_HEIGHT_M = 8400.0
+
+#: Length-to-cross-section ratio above which end effects are usually small (common practice).
+LENGTH_RATIO_RULE = 10.0
+
+#: The standing statement shown with every high-voltage figure (the same words as SAFETY.md).
+STANDING_STATEMENT = (
+    "Edgewise does not determine electrical clearances or creepage distances. Its figures are "
+    "no substitute for the applicable local codes and standards or for review by a licensed or "
+    "otherwise qualified engineer. Work on or near energised equipment is for qualified persons only."
+)
+
+#: The limits of a 2-D electrostatic model (the same points as SAFETY.md and the design brief).
+TWO_D_LIMITS = (
+    "Results are per metre of an infinitely long, uniform cross-section; a real part of finite "
+    "length has end fringing, so its total capacitance is larger than C' times its length.",
+    "In 2-D there is no capacitance 'to infinity': a return conductor (reference or ground plane) "
+    "is always implied.",
+    "The field at 3-D corners and at the ends of bars is stronger than the 2-D value at the same edge.",
+    "Electrostatic (quasi-TEM) only: the cross-section must be small against the wavelength; no skin "
+    "effect, conductor or dielectric loss, dispersion, space charge or conduction is modelled.",
+    "A sharp corner or free edge has no finite peak field; a peak reported there depends on the mesh. "
+    "Round the corner (corner radius) to get a meaningful value.",
+)
+
+
+def relative_air_density_at(altitude_m: float) -> float:
+    """Rough relative air density at ``altitude_m`` above sea level (1 at sea level)."""
+    return math.exp(-max(altitude_m, 0.0) / AIR_SCALE_HEIGHT_M)
+
+
+def air_strength_V_per_m(relative_air_density: float) -> float:
+    """Approximate uniform-field breakdown strength of air, V/m, scaled by relative air density."""
+    return AIR_STRENGTH_SEA_LEVEL_V_PER_M * relative_air_density
+
+
+@dataclass(frozen=True)
+class Caution:
+    """A high-voltage caution: ``level`` is "none", "approaching" or "exceeded"."""
+
+    level: str
+    headline: str
+    detail: str
+
+
+def field_caution(peak_field_V_per_m: float, relative_air_density: float = 1.0,
+                  at_sharp_corner: bool = False, conductor: str = "") -> Caution:
+    """Compare the peak surface field with the air strength and word the caution.
+
+    "approaching" from half the air strength, "exceeded" at or above it.
+    """
+    strength = air_strength_V_per_m(relative_air_density)
+    ratio = peak_field_V_per_m / strength
+    where = f" on '{conductor}'" if conductor else ""
+    numbers = (
+        f"Peak surface field{where}: {peak_field_V_per_m / 1e6:.3g} MV/m = {100 * ratio:.0f} % of about "
+        f"{strength / 1e6:.2f} MV/m, the uniform-field strength of air at relative air density "
+        f"{relative_air_density:.2f} (common practice)."
+    )
+    corner = (" The peak sits at a sharp corner or edge, where the 2-D value grows as the mesh is "
+              "refined: the real field there may be higher still.") if at_sharp_corner else ""
+    if ratio >= 1.0:
+        return Caution("exceeded", "CAUTION: the surface field exceeds the breakdown strength of air.",
+                       numbers + corner + " Expect corona or flashover in air at these potentials. " + STANDING_STATEMENT)
+    if ratio >= 0.5:
+        return Caution("approaching", "CAUTION: the surface field approaches the breakdown strength of air.",
+                       numbers + corner + " Margins are small. " + STANDING_STATEMENT)
+    return Caution("none", "Surface field below half the breakdown strength of air.",
+                   numbers + corner + " " + STANDING_STATEMENT)
+
+
+def length_caveat(part_length: float | None, largest_dimension: float, unit: str) -> str:
+    """How far a part of ``part_length`` is from the ~10x rule for trusting per-metre figures."""
+    if not part_length or part_length <= 0 or largest_dimension <= 0:
+        return (f"Enter the length of the real part to see how well the per-metre figures describe it "
+                f"(common practice: end effects are small above about {LENGTH_RATIO_RULE:g} times the "
+                "largest cross-section dimension).")
+    ratio = part_length / largest_dimension
+    head = (f"Part length {part_length:g} {unit} is {ratio:.1f} times the largest cross-section dimension "
+            f"({largest_dimension:.3g} {unit}).")
+    if ratio >= LENGTH_RATIO_RULE:
+        return head + (f" That is above the ~{LENGTH_RATIO_RULE:g}x of common practice: end effects should be "
+                       "small, and C' times the length is a fair estimate of the total.")
+    if ratio >= 3:
+        return head + (f" That is below the ~{LENGTH_RATIO_RULE:g}x of common practice: expect the ends to add "
+                       "noticeably to the total capacitance and to raise the field at the bar ends.")
+    return head + (" The part is short against its cross-section: the 2-D figures describe only its middle, "
+                   "and the total capacitance and end fields need a 3-D analysis.")

@@ -1,0 +1,84 @@
+"""Writing results to files: matrices (CSV, JSON), probe profiles (CSV), widgets (PNG, SVG)."""
+
+from __future__ import annotations
+
+import csv
+import json
+from pathlib import Path
+
+import numpy as np
+from PySide6.QtCore import QRect, QSize
+from PySide6.QtGui import QPainter
+from PySide6.QtSvg import QSvgGenerator
+
+PF = 1e-12
+
+
+def write_matrices_csv(results, path: Path) -> None:
+    """Both capacitance matrices in pF/m, one block each, with conductor names."""
+    sol = results.solution
+    names = list(sol.signal_names)
+    with open(path, "w", newline="", encoding="utf-8") as f:
+        w = csv.writer(f)
+        for title, matrix in (("Maxwell capacitance matrix (pF/m)", sol.capacitance_maxwell_F_per_m),
+                              ("Mutual capacitance matrix (pF/m)", sol.capacitance_mutual_F_per_m)):
+            w.writerow([title] + names)
+            for name, row in zip(names, matrix):
+                w.writerow([name] + [f"{v / PF:.9g}" for v in row])
+            w.writerow([])
+
+
+def write_matrices_json(results, path: Path) -> None:
+    """Matrices in F/m with names, the per-conductor figures and the error estimate."""
+    sol, model = results.solution, results.model
+    data = {
+        "title": model.title,
+        "unit": "F/m",
+        "conductors": list(sol.signal_names),
+        "capacitance_maxwell_F_per_m": np.asarray(sol.capacitance_maxwell_F_per_m).tolist(),
+        "capacitance_mutual_F_per_m": np.asarray(sol.capacitance_mutual_F_per_m).tolist(),
+        "estimated_relative_error": sol.estimated_relative_error,
+        "per_conductor": [
+            {
+                "name": c.name,
+                "role": c.role,
+                "potential_V": float(sol.conductor_potentials_V[k]),
+                "charge_C_per_m": float(sol.conductor_charges_C_per_m[k]),
+                "peak_surface_field_V_per_m": sol.peak_surface_fields[k].field_V_per_m,
+                "peak_at_sharp_corner": sol.peak_surface_fields[k].at_sharp_corner,
+                "equivalent_radius_m": results.equivalent_radius_m.get(c.name),
+            }
+            for k, c in enumerate(model.conductors)
+        ],
+    }
+    Path(path).write_text(json.dumps(data, indent=2), encoding="utf-8")
+
+
+def write_profile_csv(distance, potential_V, field_V_per_m, unit: str, path: Path) -> None:
+    """A probe profile: distance (model unit), potential (V), |E| (V/m); empty inside conductors."""
+    with open(path, "w", newline="", encoding="utf-8") as f:
+        w = csv.writer(f)
+        w.writerow([f"distance ({unit})", "potential (V)", "field strength (V/m)"])
+        for d, p, e in zip(distance, potential_V, field_V_per_m):
+            w.writerow([f"{d:.9g}", "" if np.isnan(p) else f"{p:.9g}", "" if np.isnan(e) else f"{e:.9g}"])
+
+
+def write_widget_png(widget, path: Path) -> None:
+    """A picture of the widget as PNG."""
+    if not widget.grab().save(str(path), "PNG"):
+        raise OSError(f"Could not write the picture to {path}.")
+
+
+def write_widget_svg(widget, path: Path, title: str = "Edgewise") -> None:
+    """A picture of the widget as SVG (vector where Qt can paint it so)."""
+    size = widget.size()
+    gen = QSvgGenerator()
+    gen.setFileName(str(path))
+    gen.setSize(QSize(size.width(), size.height()))
+    gen.setViewBox(QRect(0, 0, size.width(), size.height()))
+    gen.setTitle(title)
+    painter = QPainter(gen)
+    try:
+        widget.render(painter)
+    finally:
+        painter.end()

@@ -1,0 +1,272 @@
+"""The main window: drawing area in the middle, parts and properties on the left, results on
+the right, a caution strip above the drawing, readout and progress in the status bar.
+
+Menus and file commands live in :mod:`app.commands`; this module wires the views to the
+document and to the solve runner.
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+import numpy as np
+from PySide6.QtCore import Qt, QTimer
+from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainWindow, QProgressBar,
+                               QPushButton, QToolBar, QVBoxLayout, QWidget)
+
+import solver
+from solver import Model
+
+from . import files, refcount_guard
+from .canvas import Canvas
+from .commands import Commands
+from .document import Document
+from .overlays import SHADINGS
+from .parts_list import PartsList
+from .properties import PropertiesPanel
+from .results_panel import ResultsPanel
+from .safety_views import caution_for
+from .units import format_field, format_potential
+from .worker import SolveRunner
+
+#: Models with at most this many conductors re-solve by themselves after an edit.
+AUTO_SOLVE_MAX_CONDUCTORS = 8
+
+
+class MainWindow(QMainWindow):
+    def __init__(self, settings=None, *, grid_points: int = 120, n_field_lines: int = 48) -> None:
+        super().__init__()
+        self.settings = settings
+        self.document = Document()
+        self.results = None
+        self.auto_solve = True
+        self.runner = SolveRunner(self, grid_points=grid_points, n_field_lines=n_field_lines)
+
+        self.canvas = Canvas(self.document)
+        self.banner = QLabel()
+        self.banner.setWordWrap(True)
+        self.banner.setVisible(False)
+        self.stale_label = QLabel()
+        self.stale_label.setVisible(False)
+        self.stale_label.setStyleSheet("background: #fde9c4; color: #6b4000; padding: 4px; font-weight: bold;")
+        centre = QWidget()
+        column = QVBoxLayout(centre)
+        column.setContentsMargins(0, 0, 0, 0)
+        column.addWidget(self.banner)
+        column.addWidget(self.stale_label)
+        column.addWidget(self.canvas, 1)
+        self.setCentralWidget(centre)
+
+        self.parts = PartsList(self.document)
+        self.properties = PropertiesPanel(self.document)
+        self.results_panel = ResultsPanel(self.document)
+        self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
+        self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
+        self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
+        self._build_view_bar()
+        self._build_status_bar()
+        self.commands = Commands(self)
+
+        self.document.events.connect("model_changed", self._on_model_changed)
+        self.document.events.connect("modified_changed", lambda _: self._update_title())
+        self.document.events.connect("path_changed", lambda _: self._update_title())
+        self.runner.progress_changed.connect(self._on_progress_changed)
+        self.runner.solution_ready.connect(self._on_solution_ready)
+        self.runner.solve_failed.connect(self._on_solve_failed)
+        self.runner.solve_cancelled.connect(self._on_solve_cancelled)
+        self.runner.busy_changed.connect(self._on_busy_changed)
+        self.canvas.cursor_moved.connect(self._on_cursor_moved)
+        self.canvas.probe_drawn.connect(self._on_probe_drawn)
+        self.canvas.problem_reported.connect(lambda m: self.statusBar().showMessage(m, 6000))
+        self.canvas.tool_changed.connect(self._on_tool_changed)
+        self.canvas.boundary_point_picked.connect(self.results_panel.boundary.mark_panel)
+        self.results_panel.boundary.panel_picked.connect(self._on_boundary_panel_picked)
+        self.results_panel.probe.export_requested.connect(self.commands.export_profile_csv)
+
+        self._solve_timer = QTimer(self, singleShot=True, interval=700, timeout=self.solve)
+        self._recovery_timer = QTimer(self, singleShot=True, interval=1500, timeout=self._write_recovery)
+        self._guard_timer = QTimer(self, interval=500, timeout=refcount_guard.top_up)
+        self._guard_timer.start()
+        self.resize(1500, 900)
+        self._update_title()
+
+    # ---- layout ----------------------------------------------------------------------------
+    def _dock(self, title: str, widget, area) -> QDockWidget:
+        dock = QDockWidget(title, self)
+        dock.setObjectName(title)
+        dock.setWidget(widget)
+        dock.setFeatures(QDockWidget.DockWidgetMovable | QDockWidget.DockWidgetFloatable)
+        self.addDockWidget(area, dock)
+        return dock
+
+    def _build_view_bar(self) -> None:
+        bar = QToolBar("Show", self)
+        bar.setObjectName("show")
+        self.addToolBar(Qt.TopToolBarArea, bar)
+        bar.addWidget(QLabel(" Shading: "))
+        self.shading_combo = QComboBox()
+        self.shading_combo.addItems(list(SHADINGS))
+        self.shading_combo.setCurrentText(self.canvas.overlays.shading)
+        self.shading_combo.currentTextChanged.connect(self.canvas.overlays.set_shading)
+        bar.addWidget(self.shading_combo)
+        self.layer_boxes = {}
+        for layer in ("equipotentials", "field lines", "surface charge", "hot spots"):
+            box = QCheckBox(layer)
+            box.setChecked(self.canvas.overlays.show[layer])
+            box.toggled.connect(lambda on, name=layer: self.canvas.overlays.set_visible(name, on))
+            bar.addWidget(box)
+            self.layer_boxes[layer] = box
+
+    def _build_status_bar(self) -> None:
+        status = self.statusBar()
+        self.readout = QLabel("")
+        self.progress = QProgressBar()
+        self.progress.setMaximumWidth(220)
+        self.progress.setRange(0, 100)
+        self.progress.setVisible(False)
+        self.cancel_button = QPushButton("Cancel solve")
+        self.cancel_button.setVisible(False)
+        self.cancel_button.clicked.connect(self.runner.cancel)
+        status.addPermanentWidget(self.readout, 1)
+        status.addPermanentWidget(self.progress)
+        status.addPermanentWidget(self.cancel_button)
+
+    def _update_title(self) -> None:
+        name = self.document.path.name if self.document.path else "untitled"
+        self.setWindowTitle(f"{name}{' *' if self.document.is_modified else ''} — Edgewise")
+
+    # ---- document --------------------------------------------------------------------------
+    def load(self, model: Model, path: Path | None, *, modified: bool = False) -> None:
+        """Show ``model`` as a fresh document (after New, Open or recovery)."""
+        self.runner.cancel()
+        self.results = None
+        self.canvas.results = None
+        self.canvas.overlays.clear()
+        self.canvas.clear_errors()
+        self.canvas.clear_probe()
+        self.document.replace(model, path, modified=modified)
+        self.canvas.fit_view()
+
+    def _on_model_changed(self, model) -> None:
+        self.canvas.clear_errors()
+        stale = self.results is not None and model != self.results.model  # extras (view settings) ignored
+        self._set_stale(stale)
+        if self.results is not None and not stale:
+            self._update_banner()
+        if self.document.is_modified:
+            self._recovery_timer.start()
+        if self.auto_solve and model.conductors and len(model.conductors) <= AUTO_SOLVE_MAX_CONDUCTORS:
+            if self.results is None or model != self.results.model:
+                self._solve_timer.start()
+
+    def _set_stale(self, stale: bool) -> None:
+        self.canvas.overlays.set_stale(stale)
+        self.results_panel.mark_stale(stale)
+        self.stale_label.setText("Results are out of date: the drawing changed after the last solve. Press F5 to solve.")
+        self.stale_label.setVisible(stale)
+
+    def _write_recovery(self) -> None:
+        if self.document.is_modified:
+            files.write_recovery(self.document.model, self.document.path)
+
+    # ---- solving ---------------------------------------------------------------------------
+    def solve(self) -> None:
+        self._solve_timer.stop()
+        model = self.document.model
+        if not model.conductors:
+            self._show_error("Nothing to solve: draw a conductor first (Draw menu).", [])
+            return
+        self.runner.start(model)
+
+    def _on_busy_changed(self, busy: bool) -> None:
+        self.progress.setVisible(busy)
+        self.cancel_button.setVisible(busy)
+        if busy:
+            self.progress.setValue(0)
+
+    def _on_progress_changed(self, fraction: float, message: str) -> None:
+        self.progress.setValue(int(100 * fraction))
+        self.progress.setFormat(f"{message} %p%")
+
+    def _on_solution_ready(self, results) -> None:
+        self.results = results
+        self.canvas.results = results
+        self.canvas.clear_errors()
+        self.canvas.overlays.set_results(results)
+        self.results_panel.show_results(results)
+        self._set_stale(not (results.model == self.document.model))
+        self._update_banner()
+        self.statusBar().showMessage("Solved.", 4000)
+
+    def _on_solve_failed(self, message: str) -> None:
+        names = re.findall(r"'([^']+)'", message)
+        self._show_error(message, [n for n in names if n in self.document.model.conductor_names])
+
+    def _on_solve_cancelled(self) -> None:
+        self.statusBar().showMessage("Solve cancelled; the results shown (if any) are from before.", 6000)
+
+    def _show_error(self, message: str, names: list[str]) -> None:
+        self.canvas.show_errors(names, message)
+        self.banner.setText(f"Cannot solve: {message}")
+        self.banner.setStyleSheet("background: #fde2e2; color: #7a0000; padding: 6px; font-weight: bold;")
+        self.banner.setVisible(True)
+
+    def _update_banner(self) -> None:
+        caution = caution_for(self.results, self.document.model)
+        self.results_panel.high_voltage.show_results(self.results)
+        if caution is None or caution.level == "none":
+            self.banner.setVisible(False)
+            return
+        colour = "#b00000" if caution.level == "exceeded" else "#8a5200"
+        background = "#ffe0e0" if caution.level == "exceeded" else "#fff1cc"
+        self.banner.setText(f"{caution.headline} {caution.detail}")
+        self.banner.setStyleSheet(f"background: {background}; color: {colour}; padding: 6px; "
+                                  f"border: 2px solid {colour}; font-weight: bold;")
+        self.banner.setVisible(True)
+
+    # ---- readouts --------------------------------------------------------------------------
+    def _on_cursor_moved(self, x: float, y: float) -> None:
+        model = self.document.model
+        text = f"x = {x:.4g} {model.unit}, y = {y:.4g} {model.unit}   (snap {self.canvas.snap_step():g} {model.unit})"
+        if self.results is not None:
+            scale = self.results.model.metres_per_unit
+            phi, e = solver.evaluate_at_points(self.results.solution, np.array([[x * scale, y * scale]]))
+            if np.isfinite(phi[0]):
+                text += f"   potential {format_potential(phi[0])}, field strength {format_field(e[0])}"
+            else:
+                text += "   inside a conductor"
+            if self.stale_label.isVisible():
+                text += " (out of date)"
+        self.readout.setText(text)
+
+    def _on_probe_drawn(self, a, b) -> None:
+        if self.results is None:
+            self.statusBar().showMessage("Solve first, then draw the probe line.", 6000)
+            return
+        scale = self.results.model.metres_per_unit
+        t = np.linspace(0.0, 1.0, 301)
+        pts = np.column_stack([a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])])
+        phi, e = solver.evaluate_at_points(self.results.solution, pts * scale)
+        distance = t * float(np.hypot(b[0] - a[0], b[1] - a[1]))
+        self.results_panel.probe.show_profile(distance, phi, e, self.results.model.unit, (a, b))
+        self.results_panel.show_section("Probe line")
+
+    def _on_boundary_panel_picked(self, panel: int) -> None:
+        if self.results is not None:
+            mid = self.results.solution.mesh.midpoints[panel] / self.results.model.metres_per_unit
+            self.canvas.overlays.mark_point(mid)
+
+    def _on_tool_changed(self, name: str) -> None:
+        self.statusBar().showMessage(self.canvas.tool.hint, 10000)
+        self.commands.sync_tool(name)
+
+    # ---- closing ---------------------------------------------------------------------------
+    def closeEvent(self, event) -> None:
+        if not self.commands.maybe_save():
+            event.ignore()
+            return
+        self.runner.cancel()
+        self.runner.wait()
+        files.discard_recovery()
+        event.accept()

@@ -1,0 +1,139 @@
+"""The numbers tab: capacitance matrices (pF/m), per-conductor figures and the error estimate."""
+
+from __future__ import annotations
+
+import numpy as np
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QGuiApplication, QKeySequence, QShortcut
+from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QLabel, QPushButton, QTableWidget,
+                               QTableWidgetItem, QVBoxLayout, QWidget)
+
+from solver import NoReferenceError
+
+from .units import format_field, format_si
+
+PF = 1e-12
+
+
+class CopyableTable(QTableWidget):
+    """A read-only table; Ctrl+C copies the selection (or everything) as tab-separated text."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self.setEditTriggers(QAbstractItemView.NoEditTriggers)
+        self.setSelectionMode(QAbstractItemView.ExtendedSelection)
+        QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
+
+    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]]) -> None:
+        self.clear()
+        self.setRowCount(len(rows))
+        self.setColumnCount(len(columns))
+        self.setHorizontalHeaderLabels(columns)
+        self.setVerticalHeaderLabels(rows)
+        for i, row in enumerate(cells):
+            for j, text in enumerate(row):
+                item = QTableWidgetItem(text)
+                item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
+                self.setItem(i, j, item)
+        self.resizeColumnsToContents()
+
+    def as_text(self) -> str:
+        """The whole table with its headers as tab-separated lines."""
+        cols = [self.horizontalHeaderItem(j).text() for j in range(self.columnCount())]
+        lines = ["\t".join([""] + cols)]
+        for i in range(self.rowCount()):
+            cells = [self.item(i, j).text() if self.item(i, j) else "" for j in range(self.columnCount())]
+            lines.append("\t".join([self.verticalHeaderItem(i).text()] + cells))
+        return "\n".join(lines)
+
+    def copy_to_clipboard(self) -> None:
+        QGuiApplication.clipboard().setText(self.as_text())
+
+
+class MatricesView(QWidget):
+    """Capacitance matrices, per-conductor figures and the error estimate."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        layout = QVBoxLayout(self)
+        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status.setWordWrap(True)
+        layout.addWidget(self.status)
+        self.maxwell_label = QLabel("Capacitance matrix, Maxwell form (pF/m)")
+        self.maxwell = CopyableTable()
+        self.mutual_label = QLabel("Capacitance matrix, mutual form (pF/m): self capacitance on the diagonal, "
+                                   "capacitance between pairs off it")
+        self.mutual_label.setWordWrap(True)
+        self.mutual = CopyableTable()
+        self.conductors_label = QLabel("Per conductor")
+        self.conductors = CopyableTable()
+        for w in (self.maxwell_label, self.maxwell, self.mutual_label, self.mutual, self.conductors_label, self.conductors):
+            layout.addWidget(w)
+        buttons = QHBoxLayout()
+        for text, table in (("Copy Maxwell", self.maxwell), ("Copy mutual", self.mutual), ("Copy per conductor", self.conductors)):
+            b = QPushButton(text)
+            b.clicked.connect(table.copy_to_clipboard)
+            buttons.addWidget(b)
+        layout.addLayout(buttons)
+        self.error_label = QLabel()
+        self.error_label.setWordWrap(True)
+        layout.addWidget(self.error_label)
+
+    def show_results(self, results) -> None:
+        sol, model = results.solution, results.model
+        names = list(sol.signal_names)
+        if sol.has_capacitance:
+            c = sol.capacitance_maxwell_F_per_m / PF
+            m = sol.capacitance_mutual_F_per_m / PF
+            self.maxwell.fill(names, names, [[f"{v:.5g}" for v in row] for row in c])
+            self.mutual.fill(names, names, [[f"{v:.5g}" for v in row] for row in m])
+            self.status.setText(f"Solved: {len(model.conductors)} conductors, {sol.mesh.n_panels} boundary panels.")
+        else:
+            self.maxwell.fill([], [], [])
+            self.mutual.fill([], [], [])
+            try:
+                sol.capacitance_maxwell_F_per_m
+                reason = "No capacitance matrix."
+            except NoReferenceError as exc:
+                reason = str(exc)
+            self.status.setText(reason)
+        self._fill_conductors(results)
+        err = sol.estimated_relative_error
+        self.error_label.setText(
+            "Estimated relative error of the matrix: n/a" if err is None else
+            f"Estimated relative error: {err:.2g} ({100 * err:.2g} %), the change against a mesh at half the "
+            f"resolution ({sol.coarse_mesh_panels} panels against {sol.mesh.n_panels}).")
+
+    def _fill_conductors(self, results) -> None:
+        sol, model = results.solution, results.model
+        scale = model.metres_per_unit
+        peaks = {p.conductor: p for p in sol.peak_surface_fields}
+        rows, cells = [], []
+        for k, c in enumerate(model.conductors):
+            p = peaks.get(c.name)
+            radius = results.equivalent_radius_m.get(c.name)
+            rows.append(c.name)
+            cells.append([
+                c.role,
+                format_si(float(sol.conductor_potentials_V[k]), "V"),
+                format_si(float(sol.conductor_charges_C_per_m[k]), "C/m"),
+                format_field(p.field_V_per_m) if p else "n/a",
+                (f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g}) {model.unit}"
+                 + (" sharp corner" if p.at_sharp_corner else "")) if p else "",
+                f"{radius / scale:.4g} {model.unit}" if radius else "n/a",
+            ])
+        self.conductors.fill(rows, ["role", "potential", "charge per length", "peak surface field",
+                                    "peak at", "equivalent radius"], cells)
+
+    def mark_stale(self, stale: bool) -> None:
+        if stale:
+            self.status.setText("OUT OF DATE: the drawing changed after this solve. Solve again (F5).")
+            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+        else:
+            self.status.setStyleSheet("")
+
+
+def matrix_rows(results) -> tuple[list[str], np.ndarray, np.ndarray]:
+    """(names, Maxwell, mutual) in F/m for exports."""
+    sol = results.solution
+    return list(sol.signal_names), sol.capacitance_maxwell_F_per_m, sol.capacitance_mutual_F_per_m

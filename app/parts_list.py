@@ -1,0 +1,86 @@
+"""The parts list: conductors with their shapes, dielectric regions and the ground plane.
+
+Selecting a row selects the part on the drawing and the other way round.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QColor
+from PySide6.QtWidgets import QTreeWidget, QTreeWidgetItem
+
+from . import shapes
+from .document import PartRef
+
+ROLE_TEXT = {"fixed": "{v:g} V", "floating": "floating, {q:g} C/m", "reference": "reference, 0 V"}
+
+
+class PartsList(QTreeWidget):
+    def __init__(self, document, parent=None) -> None:
+        super().__init__(parent)
+        self.document = document
+        self.setHeaderLabels(["part", "role / value"])
+        self.setColumnWidth(0, 170)
+        self._refs: dict[int, PartRef] = {}
+        self._updating = False
+        self.itemSelectionChanged.connect(self._on_item_selection_changed)
+        document.events.connect("model_changed", self._on_model_changed)
+        document.events.connect("selection_changed", self._on_selection_changed)
+        self._on_model_changed(document.model)
+
+    def _on_model_changed(self, model) -> None:
+        self._updating = True
+        self.clear()
+        self._items: dict[PartRef, QTreeWidgetItem] = {}
+        for i, c in enumerate(model.conductors):
+            value = ROLE_TEXT[c.role].format(v=c.potential_V, q=c.charge_C_per_m)
+            top = QTreeWidgetItem([c.name, value])
+            top.setForeground(0, QColor(c.color or "#555555"))
+            self.addTopLevelItem(top)
+            self._items[PartRef("conductor", i, 0)] = top
+            if len(c.shapes) > 1:
+                for j, s in enumerate(c.shapes):
+                    child = QTreeWidgetItem([shapes.describe(s, model.unit), ""])
+                    top.addChild(child)
+                    self._items[PartRef("conductor", i, j)] = child
+                top.setExpanded(True)
+            else:
+                top.setText(1, f"{value}  ({shapes.describe(c.shapes[0], model.unit)})")
+        for i, d in enumerate(model.dielectrics):
+            item = QTreeWidgetItem([d.name, f"εr = {d.eps_r:g}"])
+            self.addTopLevelItem(item)
+            self._items[PartRef("dielectric", i, 0)] = item
+        if model.ground_plane is not None:
+            item = QTreeWidgetItem(["ground plane", f"y = {model.ground_plane.y:g} {model.unit}, 0 V"])
+            self.addTopLevelItem(item)
+            self._items[PartRef("plane")] = item
+        self._updating = False
+        self._on_selection_changed(self.document.selection)
+
+    def _on_selection_changed(self, ref) -> None:
+        self._updating = True
+        self.clearSelection()
+        item = self._items.get(ref) if ref is not None else None
+        if item is not None:
+            item.setSelected(True)
+            self.scrollToItem(item)
+        self._updating = False
+
+    def _on_item_selection_changed(self) -> None:
+        if self._updating:
+            return
+        chosen = self.selectedItems()
+        if not chosen:
+            self.document.select(None)
+            return
+        target = chosen[0].child(0) if chosen[0].childCount() else chosen[0]
+        for ref, item in self._items.items():
+            if item is target:
+                self.document.select(ref)
+                return
+
+    def ref_of(self, item) -> PartRef | None:
+        for ref, it in self._items.items():
+            if it is item:
+                return ref
+        return None

@@ -1,0 +1,92 @@
+"""The one-page PDF report: drawing, matrices, hot spots, error estimate, caveats and cautions."""
+
+from __future__ import annotations
+
+import datetime as dt
+import html
+from pathlib import Path
+
+from PySide6.QtCore import QMarginsF, QSizeF, QUrl
+from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
+
+from . import cautions, shapes
+from .safety_views import PART_LENGTH_KEY, caution_for
+from .units import format_field, format_si
+
+PF = 1e-12
+
+
+def _matrix_html(title: str, names, matrix) -> str:
+    head = "".join(f"<th>{html.escape(n)}</th>" for n in names)
+    rows = "".join(
+        f"<tr><th>{html.escape(n)}</th>" + "".join(f"<td align='right'>{v / PF:.5g}</td>" for v in row) + "</tr>"
+        for n, row in zip(names, matrix)
+    )
+    return f"<p><b>{title}</b></p><table border='1' cellspacing='0' cellpadding='2'><tr><th></th>{head}</tr>{rows}</table>"
+
+
+def report_html(results, document_name: str, image_name: str = "drawing") -> str:
+    """The report body as HTML (the drawing is the resource ``image_name``)."""
+    sol, model = results.solution, results.model
+    scale = model.metres_per_unit
+    parts = [f"<h2>Edgewise report: {html.escape(model.title or document_name)}</h2>",
+             f"<p>File: {html.escape(document_name)} &nbsp; Date: {dt.date.today().isoformat()} &nbsp; "
+             f"Unit: {model.unit} &nbsp; Panels: {sol.mesh.n_panels} &nbsp; Background εr = {model.background_eps_r:g}</p>",
+             f"<p><img src='{image_name}' width='640'></p>"]
+    if sol.has_capacitance:
+        names = list(sol.signal_names)
+        parts.append("<table><tr><td valign='top'>"
+                     + _matrix_html("Capacitance matrix, Maxwell form (pF/m)", names, sol.capacitance_maxwell_F_per_m)
+                     + "</td><td width='20'></td><td valign='top'>"
+                     + _matrix_html("Capacitance matrix, mutual form (pF/m)", names, sol.capacitance_mutual_F_per_m)
+                     + "</td></tr></table>")
+    else:
+        parts.append("<p><b>No capacitance matrix:</b> the model has no return path (reference conductor or ground plane).</p>")
+    rows = "".join(
+        f"<tr><td>{html.escape(c.name)}</td><td>{c.role}</td><td align='right'>{format_si(float(sol.conductor_potentials_V[k]), 'V')}</td>"
+        f"<td align='right'>{format_si(float(sol.conductor_charges_C_per_m[k]), 'C/m')}</td>"
+        f"<td align='right'>{format_field(p.field_V_per_m)}</td>"
+        f"<td>({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g}) {model.unit}{' — sharp corner, mesh-dependent' if p.at_sharp_corner else ''}</td></tr>"
+        for k, (c, p) in enumerate(zip(model.conductors, sol.peak_surface_fields))
+    )
+    parts.append("<p><b>Hot spots (peak surface field per conductor)</b></p><table border='1' cellspacing='0' cellpadding='2'>"
+                 "<tr><th>conductor</th><th>role</th><th>potential</th><th>charge per length</th><th>peak |E|</th><th>where</th></tr>"
+                 f"{rows}</table>")
+    err = sol.estimated_relative_error
+    parts.append(f"<p><b>Estimated relative error:</b> {'n/a' if err is None else f'{err:.2g} (against a mesh at half the resolution)'}</p>")
+    caution = caution_for(results, model)
+    if caution is not None:
+        colour = {"exceeded": "#b00000", "approaching": "#9a5b00", "none": "#1e6b30"}[caution.level]
+        parts.append(f"<p style='color:{colour}'><b>{html.escape(caution.headline)}</b> "
+                     f"{html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, ''))}</p>")
+    length = model.extras.get(PART_LENGTH_KEY)
+    parts.append("<p><b>What 2-D cannot tell.</b> "
+                 + html.escape(cautions.length_caveat(length, shapes.largest_dimension(model), model.unit)) + " "
+                 + " ".join(html.escape(t) for t in cautions.TWO_D_LIMITS) + "</p>")
+    parts.append(f"<p style='border:1px solid #8a6d00'><b>{html.escape(cautions.STANDING_STATEMENT)}</b></p>")
+    return "<html><body style='font-size:7pt'>" + "".join(parts) + "</body></html>"
+
+
+def write_report_pdf(results, drawing_image, path: Path, document_name: str) -> None:
+    """Write the one-page A4 report to ``path``; ``drawing_image`` is a QImage of the drawing."""
+    writer = QPdfWriter(str(path))
+    writer.setPageLayout(QPageLayout(QPageSize(QPageSize.A4), QPageLayout.Portrait, QMarginsF(12, 12, 12, 12)))
+    writer.setResolution(150)
+    writer.setTitle("Edgewise report")
+    doc = QTextDocument()
+    doc.addResource(QTextDocument.ImageResource, QUrl("drawing"), drawing_image)
+    doc.setHtml(report_html(results, document_name))
+    painter = QPainter(writer)
+    try:
+        page = writer.pageLayout().paintRectPixels(writer.resolution())
+        # Lay the text out at screen-like size and scale it onto the page, shrinking to one page.
+        width_px = 720.0
+        doc.setTextWidth(width_px)
+        factor = page.width() / width_px
+        height = doc.size().height() * factor
+        if height > page.height():
+            factor *= page.height() / height
+        painter.scale(factor, factor)
+        doc.drawContents(painter)
+    finally:
+        painter.end()

@@ -1,0 +1,103 @@
+"""Everything the program shows after a solve, computed in one go off the GUI thread (Qt-free).
+
+:func:`compute_results` calls the solver for the solution, the potential and field maps on a
+grid around the model, the field lines and each conductor's equivalent radius.
+"""
+
+from __future__ import annotations
+
+import logging
+from dataclasses import dataclass, field
+from typing import Callable
+
+import numpy as np
+
+import solver
+from solver import GridField, Model, Solution, SolveCancelled
+
+from . import shapes
+
+logger = logging.getLogger(__name__)
+
+
+@dataclass(frozen=True)
+class Results:
+    """A solution and the figures drawn from it.
+
+    Attributes
+    ----------
+    model : the Model solved.
+    solution : the Solution.
+    grid : potential and |E| maps (metres, volts, V/m) or None.
+    field_lines : tuple of solver.FieldLine (metres).
+    equivalent_radius_m : conductor name -> equivalent radius, metres.
+    """
+
+    model: Model
+    solution: Solution
+    grid: GridField | None
+    field_lines: tuple = ()
+    equivalent_radius_m: dict = field(default_factory=dict)
+
+
+def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, float]:
+    """(xmin, ymin, xmax, ymax) in model units around the model, with a margin."""
+    box = shapes.model_bounds(model) or (-1.0, -1.0, 1.0, 1.0)
+    x0, y0, x1, y1 = box
+    if model.ground_plane is not None:
+        y0 = min(y0, model.ground_plane.y)
+    size = max(x1 - x0, y1 - y0, 1e-12)
+    pad = margin * size
+    x0, x1 = x0 - pad, x1 + pad
+    y0 = model.ground_plane.y - 0.05 * size if model.ground_plane is not None else y0 - pad
+    return x0, y0, x1, y1 + pad
+
+
+def grid_axes(model: Model, n_long: int = 120) -> tuple[np.ndarray, np.ndarray]:
+    """Grid abscissae and ordinates in metres covering :func:`view_box`, about ``n_long`` along the longer side."""
+    x0, y0, x1, y1 = view_box(model)
+    step = max(x1 - x0, y1 - y0) / n_long
+    scale = model.metres_per_unit
+    nx = max(int(round((x1 - x0) / step)), 8)
+    ny = max(int(round((y1 - y0) / step)), 8)
+    return np.linspace(x0, x1, nx) * scale, np.linspace(y0, y1, ny) * scale
+
+
+def compute_results(
+    model: Model,
+    progress: Callable[[float, str], None] | None = None,
+    cancel: Callable[[], bool] | None = None,
+    *,
+    grid_points: int = 120,
+    n_field_lines: int = 48,
+) -> Results:
+    """Solve ``model`` and compute every figure the program draws.
+
+    Raises the solver's errors (SolverError subclasses) unchanged; SolveCancelled on cancel.
+    """
+    def report(fraction: float, message: str) -> None:
+        if progress is not None:
+            progress(fraction, message)
+        if cancel is not None and cancel():
+            raise SolveCancelled("Solve cancelled.")
+
+    solution = solver.solve(
+        model, estimate_error=True,
+        progress=lambda f, m: report(0.5 * f, m), cancel=cancel,
+    )
+    report(0.5, "Computing the potential and field maps")
+    grid = None
+    if grid_points > 0:
+        x_m, y_m = grid_axes(model, grid_points)
+        grid = solver.evaluate_on_grid(solution, x_m, y_m)
+    report(0.8, "Tracing field lines")
+    lines = solver.trace_field_lines(solution, n_field_lines) if n_field_lines > 0 else ()
+    report(0.9, "Equivalent radii")
+    radii = {}
+    for conductor in model.conductors:
+        try:
+            radii[conductor.name] = solver.equivalent_radius_m(model, [conductor.name])
+        except solver.SolverError as exc:  # shown as "n/a" with the reason logged
+            logger.warning("equivalent radius of %s: %s", conductor.name, exc)
+    report(1.0, "Done")
+    return Results(model, solution, grid, lines, radii)

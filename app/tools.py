@@ -1,0 +1,280 @@
+"""Mouse tools of the drawing area: pick and move, rectangle, circle, polygon, strip,
+ground plane and probe line.
+
+A tool receives positions in model units (already snapped where that makes sense) from the
+:class:`app.canvas.Canvas` and turns finished gestures into one edit of the document.
+"""
+
+from __future__ import annotations
+
+import math
+
+from PySide6.QtCore import Qt
+
+from solver import Polygon, Strip, SolverError
+
+from . import edits, shapes
+from .document import PartRef
+
+XY = tuple[float, float]
+
+
+class Tool:
+    """Base tool: every handler returns True when it used the event."""
+
+    name = "tool"
+    label = ""
+    hint = ""
+    tracks_hover = False  # True: gets mouse moves with no button held (rubber band)
+
+    def __init__(self, canvas) -> None:
+        self.canvas = canvas
+
+    @property
+    def doc(self):
+        return self.canvas.document
+
+    def press(self, pos: XY, raw: XY) -> bool:
+        return False
+
+    def move(self, pos: XY, raw: XY) -> None:
+        pass
+
+    def release(self, pos: XY, raw: XY) -> None:
+        pass
+
+    def double_click(self, pos: XY, raw: XY) -> bool:
+        return False
+
+    def key(self, key: int) -> bool:
+        return False
+
+    def reset(self) -> None:
+        self.canvas.show_preview(None)
+
+    def _add(self, shape, description: str) -> None:
+        try:
+            model, ref = edits.add_conductor(self.doc.model, shape)
+        except SolverError as exc:
+            self.canvas.report_problem(str(exc))
+            return
+        if self.doc.apply(model, description):
+            self.doc.select(ref)
+
+
+class PickTool(Tool):
+    """Pick a part; drag it to move it, drag a handle to resize it or move a vertex."""
+
+    name, label = "pick", "Pick and move"
+    hint = "Click a part to select it; drag it to move, drag a square handle to resize. Drag empty space to pan."
+
+    def __init__(self, canvas) -> None:
+        super().__init__(canvas)
+        self._start: XY | None = None
+        self._handle: int | None = None
+        self._ref: PartRef | None = None
+
+    def press(self, pos, raw) -> bool:
+        ref = self.doc.selection
+        handle = self.canvas.handle_at(raw) if ref is not None else None
+        if handle is None:
+            ref = self.canvas.part_at(raw)
+            self.doc.select(ref)
+            self.canvas.boundary_pick(raw)
+        if ref is None:
+            return False
+        self._start, self._handle, self._ref = pos, handle, ref
+        return True
+
+    def _edited(self, pos):
+        model = self.doc.model
+        if self._handle is not None:
+            shape = shapes.with_handle_moved(edits.shape_of(model, self._ref), self._handle, *pos)
+            return edits.replace_shape(model, self._ref, shape), "Resize"
+        dx, dy = pos[0] - self._start[0], pos[1] - self._start[1]
+        return edits.move_part(model, self._ref, dx, dy), "Move"
+
+    def move(self, pos, raw) -> None:
+        if self._ref is None:
+            return
+        model, _ = self._edited(pos)
+        if self._ref.kind == "plane":
+            self.canvas.show_preview(None, plane_y=model.ground_plane.y)
+        else:
+            self.canvas.show_preview(edits.shape_of(model, self._ref))
+
+    def release(self, pos, raw) -> None:
+        if self._ref is None:
+            return
+        model, description = self._edited(pos)
+        ref, self._ref = self._ref, None
+        self.canvas.show_preview(None)
+        if pos != self._start:
+            self.doc.apply(model, description)
+            self.doc.select(ref)
+
+    def reset(self) -> None:
+        self._ref = None
+        super().reset()
+
+
+class _DragTool(Tool):
+    """Press, drag and release draws one shape."""
+
+    def __init__(self, canvas) -> None:
+        super().__init__(canvas)
+        self._start: XY | None = None
+
+    def make(self, a: XY, b: XY):
+        raise NotImplementedError
+
+    def press(self, pos, raw) -> bool:
+        self._start = pos
+        return True
+
+    def move(self, pos, raw) -> None:
+        if self._start is not None:
+            self.canvas.show_preview(self.make(self._start, pos))
+
+    def release(self, pos, raw) -> None:
+        start, self._start = self._start, None
+        self.canvas.show_preview(None)
+        if start is None:
+            return
+        shape = self.make(start, pos)
+        if min(shapes.bounds(shape)[2] - shapes.bounds(shape)[0], shapes.bounds(shape)[3] - shapes.bounds(shape)[1]) <= 0:
+            self.canvas.report_problem(f"Drag to give the {self.name} a size.")
+            return
+        self._add(shape, f"Draw {self.name}")
+
+    def reset(self) -> None:
+        self._start = None
+        super().reset()
+
+
+class RectangleTool(_DragTool):
+    name, label = "rectangle", "Rectangle"
+    hint = "Drag from one corner to the opposite corner. Type the corner radius in the properties."
+
+    def make(self, a, b):
+        return shapes.rectangle_from_corners(a, b)
+
+
+class CircleTool(_DragTool):
+    name, label = "circle", "Circle"
+    hint = "Drag from the centre outwards to set the radius."
+
+    def make(self, a, b):
+        return shapes.circle_from_drag(a, b)
+
+
+class _PointsTool(Tool):
+    """Click points; double-click or Enter finishes; Esc or Backspace step back."""
+
+    minimum = 2
+    tracks_hover = True
+
+    def __init__(self, canvas) -> None:
+        super().__init__(canvas)
+        self.points: list[XY] = []
+
+    def make(self, points):
+        raise NotImplementedError
+
+    def press(self, pos, raw) -> bool:
+        if not self.points or math.dist(self.points[-1], pos) > 0:
+            self.points.append(pos)
+        self._preview(pos)
+        return True
+
+    def move(self, pos, raw) -> None:
+        if self.points:
+            self._preview(pos)
+
+    def _preview(self, pos) -> None:
+        pts = self.points + [pos]
+        self.canvas.show_preview(Strip(tuple(pts)) if len(pts) >= 2 else None)
+
+    def double_click(self, pos, raw) -> bool:
+        if not self.points or math.dist(self.points[-1], pos) > 0:
+            self.points.append(pos)
+        self.finish()
+        return True
+
+    def key(self, key) -> bool:
+        if key in (Qt.Key_Return, Qt.Key_Enter):
+            self.finish()
+            return True
+        if key == Qt.Key_Escape:
+            self.reset()
+            return True
+        if key == Qt.Key_Backspace and self.points:
+            self.points.pop()
+            self.canvas.show_preview(Strip(tuple(self.points)) if len(self.points) >= 2 else None)
+            return True
+        return False
+
+    def finish(self) -> None:
+        pts = self.points
+        self.points = []
+        self.canvas.show_preview(None)
+        if len(pts) < self.minimum:
+            self.canvas.report_problem(f"A {self.name} needs at least {self.minimum} points; click them, then double-click.")
+            return
+        self._add(self.make(pts), f"Draw {self.name}")
+
+    def reset(self) -> None:
+        self.points = []
+        super().reset()
+
+
+class PolygonTool(_PointsTool):
+    name, label, minimum = "polygon", "Polygon", 3
+    hint = "Click each corner; double-click or press Enter to close. Backspace removes the last point."
+
+    def make(self, points):
+        return Polygon(tuple(points))
+
+
+class StripTool(_PointsTool):
+    name, label, minimum = "strip", "Thin strip", 2
+    hint = "Click the points of a zero-thickness strip; double-click or Enter to finish."
+
+    def make(self, points):
+        return Strip(tuple(points))
+
+
+class GroundPlaneTool(Tool):
+    name, label = "ground plane", "Ground plane"
+    hint = "Click at the height of an infinite grounded plane (0 V). Everything must lie above it."
+
+    def press(self, pos, raw) -> bool:
+        if self.doc.apply(edits.set_ground_plane(self.doc.model, pos[1]), "Place ground plane"):
+            self.doc.select(PartRef("plane"))
+        return True
+
+
+class ProbeTool(Tool):
+    name, label = "probe line", "Probe line"
+    hint = "Drag a line to plot potential and field strength along it."
+
+    def __init__(self, canvas) -> None:
+        super().__init__(canvas)
+        self._start: XY | None = None
+
+    def press(self, pos, raw) -> bool:
+        self._start = raw
+        return True
+
+    def move(self, pos, raw) -> None:
+        if self._start is not None:
+            self.canvas.show_probe(self._start, raw)
+
+    def release(self, pos, raw) -> None:
+        start, self._start = self._start, None
+        if start is not None and math.dist(start, raw) > 0:
+            self.canvas.show_probe(start, raw)
+            self.canvas.probe_drawn.emit(start, raw)
+
+
+TOOLS = (PickTool, RectangleTool, CircleTool, PolygonTool, StripTool, GroundPlaneTool, ProbeTool)

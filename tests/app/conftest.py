@@ -1,0 +1,52 @@
+"""Fixtures for the desktop-program tests: offscreen Qt, a private recovery folder and settings."""
+
+import os
+
+os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+
+import pytest  # noqa: E402
+
+
+@pytest.fixture(autouse=True)
+def refcounts_topped_up():
+    """See app/refcount_guard.py: PySide6 6.12 leaks references to None on Python 3.11."""
+    from app import refcount_guard
+
+    refcount_guard.top_up()
+    yield
+    refcount_guard.top_up()
+
+
+@pytest.fixture(autouse=True)
+def private_recovery(tmp_path, monkeypatch):
+    """Keep recovery files of the tests away from the user's."""
+    folder = tmp_path / "recovery"
+    monkeypatch.setenv("EDGEWISE_RECOVERY_DIR", str(folder))
+    return folder
+
+
+@pytest.fixture
+def settings(tmp_path):
+    from PySide6.QtCore import QSettings
+
+    return QSettings(str(tmp_path / "settings.ini"), QSettings.IniFormat)
+
+
+@pytest.fixture
+def window(qtbot, settings):
+    """A main window with an empty drawing, coarse figures and no automatic re-solve."""
+    from app.main_window import MainWindow
+
+    w = MainWindow(settings, grid_points=24, n_field_lines=6)
+    w.auto_solve = False
+    w.show()
+    qtbot.waitExposed(w)
+    w.canvas.plotItem.vb.setRange(xRange=(-50, 50), yRange=(-10, 60), padding=0)
+    qtbot.wait(10)
+    yield w
+    w.runner.cancel()
+    w.runner.wait()
+    w.document.mark_saved(w.document.path or (settings.fileName() + ".json"))
+    w.close()
+    w.deleteLater()
+    qtbot.wait(1)
