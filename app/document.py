@@ -155,10 +155,11 @@ class Document:
         return None
 
     def _after_change(self, was_modified: bool) -> None:
-        self.events.emit("model_changed", self.model)
         still = self._valid(self._selection)
-        if still != self._selection:
-            self._selection = still
+        lost = still != self._selection
+        self._selection = still  # before model_changed, so views never see a dangling selection
+        self.events.emit("model_changed", self.model)
+        if lost:
             self.events.emit("selection_changed", still)
         if was_modified != self.is_modified:
             self.events.emit("modified_changed", self.is_modified)

@@ -1,0 +1,66 @@
+"""The "done when" path: draw a busbar pair over a ground plane with the mouse, set potentials,
+solve, read the matrices and the hot spots, export a report, save, and reopen."""
+
+import numpy as np
+from app_helpers import click, drag, wait_for_solve
+
+
+def _type(window, key, text):
+    field = window.properties.fields[key]
+    field.setText(text)
+    field.editingFinished.emit()
+
+
+def test_busbar_pair_over_ground_end_to_end(window, qtbot, tmp_path):
+    canvas = window.canvas
+    canvas.set_tool("ground plane")
+    click(canvas, (0, 0))
+    canvas.set_tool("rectangle")
+    drag(canvas, (-30, 10), (-10, 20))
+    _type(window, "potential", "1000")
+    _type(window, "name", "bar A")
+    canvas.set_tool("rectangle")
+    drag(canvas, (10, 10), (30, 20))
+    _type(window, "potential", "-1000")
+    _type(window, "corner_radius", "2")
+    model = window.document.model
+    assert model.conductor_names == ("bar A", "conductor 1")
+    assert model.ground_plane.y == 0.0
+    assert model.conductors[1].shapes[0].corner_radius == 2.0
+
+    window.solve()
+    wait_for_solve(qtbot, window)
+    assert window.results is not None and not window.stale_label.isVisible()
+    table = window.results_panel.numbers.maxwell
+    c = np.array([[float(table.item(i, j).text()) for j in range(2)] for i in range(2)])
+    assert c[0, 0] > 0 and c[1, 1] > 0 and c[0, 1] < 0
+    assert abs(c[0, 1] - c[1, 0]) <= 1e-9 * abs(c[0, 0])
+    per = window.results_panel.numbers.conductors
+    assert "V/m" in per.item(0, 3).text()  # peak surface field
+    assert "sharp corner" in per.item(0, 4).text()  # the square bar peaks at a corner
+
+    report = tmp_path / "busbars.pdf"
+    assert window.commands.export_report(report)
+    assert report.read_bytes().startswith(b"%PDF")
+    saved = tmp_path / "busbars.json"
+    assert window.commands.save_as(saved)
+    window.commands.new()
+    assert window.document.model.conductors == ()
+    assert window.commands.open(saved)
+    assert window.document.model == model
+    wait_for_solve(qtbot, window)
+
+
+def test_editing_after_a_solve_marks_results_out_of_date(window, qtbot):
+    canvas = window.canvas
+    canvas.set_tool("ground plane")
+    click(canvas, (0, 0))
+    canvas.set_tool("rectangle")
+    drag(canvas, (-10, 10), (10, 20))
+    window.solve()
+    wait_for_solve(qtbot, window)
+    canvas.set_tool("pick")
+    drag(canvas, (0, 15), (0, 25))
+    assert window.stale_label.isVisible()
+    assert "OUT OF DATE" in window.results_panel.numbers.status.text()
+    assert window.canvas.overlays.stale

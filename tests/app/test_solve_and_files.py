@@ -1,0 +1,105 @@
+"""Solving from the window, opening files (good and corrupt), saving, closing with changes."""
+
+import json
+import math
+from pathlib import Path
+from unittest import mock
+
+import pytest
+from app_helpers import wait_for_solve
+from PySide6.QtWidgets import QMessageBox
+
+from solver import EPSILON_0_F_PER_M, load_project
+
+from app import files
+
+COAX = files.SAMPLES_DIR / "coaxial_feeder.json"
+
+
+def test_solving_the_coax_sample_puts_its_capacitance_in_the_table(window, qtbot):
+    assert window.commands.open(COAX)
+    wait_for_solve(qtbot, window)
+    table = window.results_panel.numbers.maxwell
+    assert table.verticalHeaderItem(0).text() == "inner"
+    shown_pF = float(table.item(0, 0).text())
+    expected_pF = 2 * math.pi * EPSILON_0_F_PER_M / math.log(3.5) * 1e12  # about 44.41 pF/m
+    assert shown_pF == pytest.approx(expected_pF, rel=1e-3)
+    assert "inner\t" in table.as_text()
+    assert window.windowTitle().startswith("coaxial_feeder.json")
+
+
+def test_a_corrupt_file_shows_an_error_and_changes_nothing(window, tmp_path):
+    window.commands.open(COAX)
+    before = window.document.model
+    bad = tmp_path / "broken.json"
+    bad.write_text('{"format": "edgewise-project", "version": 1, "conductors": [', encoding="utf-8")
+    with mock.patch.object(QMessageBox, "critical") as critical:
+        assert not window.commands.open(bad)
+    critical.assert_called_once()
+    assert "broken.json" in critical.call_args.args[2]
+    assert window.document.model == before
+    assert window.document.path == COAX
+
+
+def test_a_file_with_a_bad_field_names_it(window, tmp_path):
+    data = json.loads(COAX.read_text())
+    data["conductors"][0]["role"] = "sideways"
+    bad = tmp_path / "bad_role.json"
+    bad.write_text(json.dumps(data))
+    with mock.patch.object(QMessageBox, "critical") as critical:
+        assert not window.commands.open(bad)
+    assert "sideways" in critical.call_args.args[2] or "role" in critical.call_args.args[2]
+    assert window.document.model.conductors == ()
+
+
+def test_closing_with_unsaved_changes_asks_and_can_be_cancelled(window):
+    window.commands.open(COAX)
+    window.properties  # the document is edited through the properties
+    window.document.select(window.document.selection)
+    from app import edits
+
+    window.document.apply(edits.update_conductor(window.document.model, 0, potential_V=2.0), "Potential")
+    with mock.patch.object(QMessageBox, "question", return_value=QMessageBox.Cancel) as question:
+        assert not window.close()
+    question.assert_called_once()
+    assert window.isVisible()
+
+
+def test_save_then_reopen_gives_the_same_model(window, tmp_path):
+    window.commands.open(COAX)
+    from app import edits
+
+    window.document.apply(edits.set_extra(window.document.model, "part_length", 2000.0), "Part length")
+    target = tmp_path / "feeder.json"
+    assert window.commands.save_as(target)
+    assert not window.document.is_modified
+    saved = window.document.model
+    assert window.commands.open(target)
+    assert window.document.model == saved
+    assert window.document.model.extras.get("part_length") == 2000.0
+    assert str(target.resolve()) in window.settings.value("recent_files")
+
+
+def test_unsaved_work_is_written_to_the_recovery_file(window, qtbot):
+    from app import edits
+    from solver import Circle
+
+    model, _ = edits.add_conductor(window.document.model, Circle((0, 0), 1))
+    window.document.apply(model, "Draw")
+    qtbot.waitUntil(lambda: files.recovery_path().is_file(), timeout=5000)
+    recovered, original = files.read_recovery()
+    assert recovered == model and original is None
+
+
+def test_a_solver_error_is_shown_next_to_the_parts(window, qtbot):
+    from app import edits
+    from solver import Circle
+
+    model, _ = edits.add_conductor(window.document.model, Circle((0, 10), 5))
+    model, _ = edits.add_conductor(model, Circle((6, 10), 5))
+    window.document.apply(model, "Draw")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    assert window.banner.isVisible()
+    assert "conductor 1" in window.banner.text() and "touch or overlap" in window.banner.text()
+    assert window.canvas._error_items  # outlines and a note on the drawing

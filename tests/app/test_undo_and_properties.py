@@ -1,0 +1,64 @@
+"""Undo/redo through the window, and the properties area in step with the drawing."""
+
+import pytest
+from app_helpers import drag
+
+from solver import Rectangle
+
+
+def _draw_bar(window):
+    window.canvas.set_tool("rectangle")
+    drag(window.canvas, (-20, 10), (0, 20))
+    window.canvas.set_tool("pick")
+
+
+def test_undo_and_redo_shortcuts_round_trip(window, qtbot):
+    from PySide6.QtCore import Qt
+
+    _draw_bar(window)
+    drawn = window.document.model
+    window.commands.undo_action.trigger()
+    assert window.document.model.conductors == ()
+    window.commands.redo_action.trigger()
+    assert window.document.model == drawn
+
+
+def test_typing_a_width_changes_the_shape(window, qtbot):
+    _draw_bar(window)
+    field = window.properties.fields["width"]
+    field.setText("35")
+    field.editingFinished.emit()
+    (shape,) = window.document.model.conductors[0].shapes
+    assert shape == Rectangle((-10, 15), 35, 10)
+
+
+def test_moving_on_the_canvas_updates_the_fields(window):
+    _draw_bar(window)
+    drag(window.canvas, (-10, 15), (10, 15))
+    assert window.properties.fields["cx"].text() == "10"
+
+
+def test_potential_and_role_from_the_properties(window):
+    _draw_bar(window)
+    window.properties.fields["potential"].setText("11000")
+    window.properties.fields["potential"].editingFinished.emit()
+    assert window.document.model.conductors[0].potential_V == 11000.0
+    window.properties.role_combo.activated.emit(2)
+    assert window.document.model.conductors[0].role == "reference"
+
+
+def test_a_bad_value_is_refused_with_the_reason(window):
+    _draw_bar(window)
+    before = window.document.model
+    window.properties.fields["height"].setText("-3")
+    window.properties.fields["height"].editingFinished.emit()
+    assert window.document.model == before
+    assert "height is -3" in window.properties.problem_label.text()
+
+
+def test_selecting_in_the_parts_list_selects_on_the_canvas(window):
+    _draw_bar(window)
+    window.document.select(None)
+    window.parts.topLevelItem(0).setSelected(True)
+    assert window.document.selection is not None
+    assert window.properties.fields["name"].text() == "conductor 1"
