@@ -111,7 +111,12 @@ def interface_rows(
     """D (n_interface x n_panels): E_pv . n at interface collocation points per unit strength."""
     pts = interfaces.points / ell
     own = n_conductor_panels + np.arange(interfaces.n_panels)
-    d = normal_derivative_matrix(pts, interfaces.normals, sources, plane, own)
+    d = normal_derivative_matrix(pts, interfaces.normals, sources, None, own)
+    image = None
+    if plane is not None:
+        image = -log_normal_derivative_integrals(
+            mirrored(pts, plane), interfaces.normals * np.array([1.0, -1.0]), sources.starts, sources.ends
+        ) * sources.weights[None, :]
     cid = interfaces.circle_id
     if (cid >= 0).any():
         same = (cid[:, None] == cid[None, :]) & (cid[:, None] >= 0)
@@ -124,7 +129,7 @@ def interface_rows(
         exact = centre_side[:, None] * (interfaces.arc_lengths / (2.0 * np.where(on, interfaces.circle_radius, 1.0)))[None, :]
         block = d[:, n_conductor_panels:]
         block[same] = exact[same]
-    return d
+    return d if image is None else d + image
 
 
 def assemble_dielectric(
