@@ -271,10 +271,14 @@ def _arc_piece(pts, run, n_v, centre, radius, s_vertex) -> _Piece:
 def _breaks(piece: _Piece, size_fn, arc_step_rad: float) -> np.ndarray:
     """Break positions (0..length) along a piece so that panels follow the size function."""
     length = piece.length
-    g = np.geomspace(1e-7, 1.0, 60) * length
+    g = np.geomspace(1e-13, 1.0, 120) * length
     u = np.unique(np.concatenate([np.linspace(0.0, length, 129), g, length - g]))
     h = size_fn(piece, u)
-    phi = np.concatenate([[0.0], np.cumsum(0.5 * (1.0 / h[1:] + 1.0 / h[:-1]) * np.diff(u))])
+    # integral of 1/h with h taken linear between samples (exact for geometric grading)
+    h1, h2 = h[:-1], h[1:]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        mean_inv = np.where(np.abs(h2 - h1) > 1e-9 * h1, np.log(h2 / h1) / (h2 - h1), 1.0 / h1)
+    phi = np.concatenate([[0.0], np.cumsum(mean_inv * np.diff(u))])
     n = max(1, int(math.ceil(phi[-1] - 1e-9)))
     if piece.centre is not None:
         n = max(n, int(math.ceil(abs(piece.dtheta) / arc_step_rad - 1e-9)))
