@@ -119,6 +119,9 @@ def run(levels: list[float]) -> None:
             err = float(np.abs(c - reference).max() / np.abs(reference).max())
             label = f"{err:13.2e}" if (exact is not None or level != levels[-1]) else f"{'(reference)':>13}"
             print(f"{level:6.2f} {n:9d} {t_mesh:8.3f} {t_asm:11.3f} {t_solve:15.3f} {label}")
+    from . import bench_dielectric
+
+    bench_dielectric.run(levels)
 
 
 def main(argv: list[str] | None = None) -> int:
