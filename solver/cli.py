@@ -33,6 +33,7 @@ from .project_file import load_project
 from .solution import Solution
 from .equilibrium import equivalent_radius_m
 from .solve import solve
+from . import hotspot_cli
 
 Section = Callable[[Solution], list[str]]
 JsonPart = Callable[[Solution], dict]
@@ -203,6 +204,7 @@ SUMMARY_SECTIONS: list[Section] = [
     peak_field_section,
     error_section,
     equivalent_radius_section,
+    hotspot_cli.hot_spot_section,
     caution_section,
 ]
 
@@ -271,7 +273,8 @@ def _figures_json(solution: Solution) -> dict:
 
 
 #: Functions building the JSON result; their dictionaries are merged in order.
-JSON_PARTS: list[JsonPart] = [_model_json, _capacitance_json, _operating_point_json, _figures_json]
+JSON_PARTS: list[JsonPart] = [_model_json, _capacitance_json, _operating_point_json, _figures_json,
+                              hotspot_cli.hot_spot_json]
 
 
 def result_to_json(solution: Solution) -> dict:
@@ -305,6 +308,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument("--json", action="store_true", help="print the full result as JSON (SI units)")
     parser.add_argument("--csv", metavar="FILE", help="write the capacitance matrices (pF/m) to FILE")
     parser.add_argument("--density", choices=MESH_DENSITIES, help="mesh density (default: as in the file)")
+    hotspot_cli.add_arguments(parser)
     return parser
 
 
@@ -325,6 +329,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     except SystemExit as e:
         return int(e.code or 0)
     try:
+        hotspot_cli.configure(args)
         model = load_project(args.model)
         if args.density:
             model = model.with_mesh_density(args.density)

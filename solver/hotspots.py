@@ -184,6 +184,27 @@ def _nearest_neighbours(model: Model, solution: Solution) -> list[tuple[str | No
     return out
 
 
+def _corner_field(solution: Solution, k: int) -> float:
+    """Largest surface field on the panels next to the sharp corners of conductor k (0 if none)."""
+    mesh = solution.mesh
+    near = (mesh.conductor_index == k) & (mesh.distance_to_corner_m < 2.0 * mesh.lengths + 1e-15)
+    return float(solution.surface_field_V_per_m[near].max()) if near.any() else 0.0
+
+
+def _corner_field_grows(coarse: Solution, fine: Solution, k: int) -> bool:
+    """True when conductor k has a sharp corner that carries charge.
+
+    The field next to a charged corner grows with every refinement (the first panel shrinks
+    and the field goes like r^(pi/beta - 1)); next to a corner that carries no charge (the
+    outside of a closed screen) it stays at round-off level and falls.
+    """
+    if not np.any(fine.mesh.corner_conductor == k):
+        return False
+    e_fine, e_coarse = _corner_field(fine, k), _corner_field(coarse, k)
+    floor = 1e-9 * float(fine.surface_field_V_per_m.max())
+    return e_fine > floor and e_fine > 1.2 * e_coarse
+
+
 def _most_singular_corner(solution: Solution, k: int) -> tuple[float | None, float | None]:
     mesh = solution.mesh
     betas = mesh.corner_opening_rad[mesh.corner_conductor == k]
@@ -253,12 +274,14 @@ def analyse_hot_spots(
         solutions.append(solve(m, estimate_error=False, settings=MeshSettings(level)))
         logger.info("hot spots: level %g, %d panels", level, solutions[-1].mesh.n_panels)
 
+    while levels[0] > 1.0 / 16.0 and discretize_boundary(model_at(levels[-1]), MeshSettings(levels[-1])).n_panels > max_panels:
+        levels = [level / 2.0 for level in levels]  # the first three meshes must fit the budget too
     for level in levels:
         run(level)
     index = [model.conductor_names.index(n) for n in names]
     while True:
         peaks = np.array([[s.surface_field_V_per_m[s.mesh.conductor_index == k].max() for k in index] for s in solutions])
-        singular = [bool(np.any(solutions[-1].mesh.corner_conductor == k)) for k in index]
+        singular = [_corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
         errors = [richardson_estimate(peaks[:, i])[0] for i in range(len(index))]
         pending = [e > target_relative_error for e, s in zip(errors, singular) if not s]
         if not any(pending):

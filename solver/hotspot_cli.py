@@ -1,0 +1,170 @@
+"""Command-line part for hot spots and margins: options, a summary section and JSON keys.
+
+:mod:`solver.cli` calls :func:`add_arguments` on its parser, :func:`configure` with the parsed
+arguments, and lists :func:`hot_spot_section` and :func:`hot_spot_json` among its sections.
+The analysis (:func:`solver.analyse_hot_spots`, :func:`solver.assess_margins`) runs once per
+solution and is shared by the summary and the JSON output.
+
+JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
+``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
+``air_breakdown_field_V_per_m``, ``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
+``corona_onset_margin``, ``margin_status``, ``relative_air_density``,
+``thin_margin_threshold``, ``high_voltage_caution`` and the details under ``hot_spots`` and
+``margins``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+
+from .hotspots import HotSpotReport, analyse_hot_spots
+from .margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
+from .solution import Solution
+
+_options: dict = {}
+_memo: dict = {}
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Add the air, surface, corner-radius and error-target options to ``parser``."""
+    group = parser.add_argument_group("hot spots and margins")
+    group.add_argument("--altitude-m", type=float, help="site altitude above sea level, m (standard-atmosphere pressure)")
+    group.add_argument("--pressure-kPa", type=float, help="air pressure, kPa (instead of --altitude-m)")
+    group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
+    group.add_argument("--surface-factor", type=float, default=1.0,
+                       help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
+    group.add_argument("--corner-radius-m", type=float,
+                       help="round every sharp corner and strip edge to this radius, m, for the peak fields")
+    group.add_argument("--peak-target", type=float, default=0.01,
+                       help="relative error target of the peak fields (default 0.01)")
+
+
+def configure(args: argparse.Namespace) -> None:
+    """Take the options of one command-line run (call before the sections run)."""
+    _memo.clear()
+    temperature_K = REFERENCE_TEMPERATURE_K if getattr(args, "temperature_C", None) is None else args.temperature_C + 273.15
+    m = getattr(args, "surface_factor", 1.0)
+    if getattr(args, "pressure_kPa", None) is not None:
+        air = AirConditions.at_pressure(args.pressure_kPa * 1e3, temperature_K, surface_factor=m)
+    elif getattr(args, "altitude_m", None) is not None:
+        air = AirConditions.at_altitude(args.altitude_m, temperature_K, surface_factor=m)
+    elif temperature_K != REFERENCE_TEMPERATURE_K:
+        air = AirConditions.at_pressure(REFERENCE_PRESSURE_PA, temperature_K, surface_factor=m)
+    else:
+        air = AirConditions(surface_factor=m)
+    _options.update(air=air, corner_radius_m=getattr(args, "corner_radius_m", None),
+                    target=getattr(args, "peak_target", 0.01))
+
+
+def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
+    """Hot spots and margins of the solution's model (computed once per solution)."""
+    key = id(solution)
+    if key not in _memo:
+        _memo.clear()
+        report = analyse_hot_spots(solution.model, _options.get("target", 0.01), _options.get("corner_radius_m"))
+        margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN)
+        _memo[key] = (solution, report, margins)
+    return _memo[key][1], _memo[key][2]
+
+
+def _fmt(value: float | None, unit: str = "", digits: int = 3) -> str:
+    from .cli import format_engineering
+
+    if value is None:
+        return "-"
+    if not math.isfinite(value):
+        return "inf"
+    return format_engineering(value, unit, digits) if unit else f"{value:.{digits}g}"
+
+
+def hot_spot_section(solution: Solution) -> list[str]:
+    """Peak fields refined to the target, with error, enhancement and margins per conductor."""
+    from .cli import _table
+
+    report, margins = analysis(solution)
+    model = solution.model
+    rounded = "" if report.corner_radius_m is None else f", corners rounded to {report.corner_radius_m * 1e3:g} mm"
+    rows = []
+    for spot, m in zip(report.hot_spots, margins.margins):
+        x, y = (v / model.metres_per_unit for v in spot.location_m)
+        error = "singular" if spot.singular else f"{100 * spot.estimated_relative_error:.2g} %"
+        rows.append([spot.conductor, _fmt(spot.field_V_per_m, "V/m"), error, f"({x:.4g}, {y:.4g}) {model.unit}",
+                     _fmt(spot.enhancement_factor), _fmt(m.air_breakdown_margin),
+                     _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.status])
+    air = margins.air
+    lines = [
+        f"Hot spots: peak surface field, refined to an error target of {100 * report.target_relative_error:g} % "
+        f"({report.n_panels[-1]} panels{rounded})",
+        *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
+                 "corona margin", "status"], rows),
+        f"  Air: {air.description}, relative density {air.relative_air_density:.3f}; breakdown "
+        f"{_fmt(margins.margins[0].air_breakdown_field_V_per_m if margins.margins else 3e6 * air.relative_air_density, 'V/m')} "
+        f"(3 MV/m x density, common practice); corona onset by Peek (1929, {air.peek_form.replace('_', ' ')}), "
+        f"surface factor {air.surface_factor:g}.",
+        f"  Enhancement = peak / (potential difference / gap) to the nearest conductor at another potential. "
+        f"Margin = threshold / peak; below {margins.thin_margin:g} is thin. Fields are crest values.",
+    ]
+    for spot, m in zip(report.hot_spots, margins.margins):
+        if m.corona_radius_basis and m.corona_radius_basis != "round conductor":
+            lines.append(f"  {spot.conductor}: corona onset uses the local radius of curvature at the peak "
+                         f"({spot.local_radius_of_curvature_m * 1e3:.3g} mm), an approximation.")
+        if spot.singular or not spot.converged:
+            lines.append(f"  {spot.conductor}: {spot.note}")
+    from .cli import HIGH_VOLTAGE_V
+
+    high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
+    if any(m.status in ("thin", "exceeded") for m in margins.margins) or (margins.needs_caution and high_voltage):
+        lines += ["", margins.caution_text]
+    return lines
+
+
+def hot_spot_json(solution: Solution) -> dict:
+    """JSON keys of the hot spots and margins (SI units; lists in conductor order)."""
+    report, margins = analysis(solution)
+    detail = [
+        {
+            "conductor": s.conductor,
+            "peak_field_V_per_m": s.field_V_per_m,
+            "peak_field_location_m": list(s.location_m),
+            "peak_field_estimated_relative_error": s.estimated_relative_error,
+            "peak_field_extrapolated_V_per_m": s.extrapolated_field_V_per_m,
+            "observed_order": s.observed_order,
+            "singular": s.singular,
+            "corner_exponent": s.corner_exponent,
+            "corner_opening_rad": s.corner_opening_rad,
+            "nearest_conductor": s.nearest_conductor,
+            "gap_m": s.gap_m,
+            "gap_field_V_per_m": s.gap_field_V_per_m,
+            "enhancement_factor": s.enhancement_factor,
+            "local_radius_of_curvature_m": s.local_radius_of_curvature_m,
+            "medium_eps_r": s.medium_eps_r,
+            "converged": s.converged,
+            "note": s.note,
+        }
+        for s in report.hot_spots
+    ]
+    margin_dict = margins.as_dict()
+    per = margin_dict["conductors"]
+    return {
+        "peak_field_V_per_m": [s.field_V_per_m for s in report.hot_spots],
+        "peak_field_estimated_relative_error": [s.estimated_relative_error for s in report.hot_spots],
+        "peak_field_singular": [s.singular for s in report.hot_spots],
+        "enhancement_factor": [s.enhancement_factor for s in report.hot_spots],
+        "air_breakdown_field_V_per_m": margins.margins[0].air_breakdown_field_V_per_m if margins.margins else None,
+        "air_breakdown_margin": [m["air_breakdown_margin"] for m in per],
+        "corona_onset_field_V_per_m": [m["corona_onset_field_V_per_m"] for m in per],
+        "corona_onset_margin": [m["corona_onset_margin"] for m in per],
+        "margin_status": [m["status"] for m in per],
+        "relative_air_density": margins.air.relative_air_density,
+        "thin_margin_threshold": margins.thin_margin,
+        "high_voltage_caution": margin_dict["caution"],
+        "hot_spots": {
+            "target_relative_error": report.target_relative_error,
+            "corner_radius_m": report.corner_radius_m,
+            "levels": list(report.levels),
+            "n_panels": list(report.n_panels),
+            "conductors": detail,
+        },
+        "margins": margin_dict,
+    }

@@ -1,0 +1,78 @@
+"""Command line: hot-spot and margin section, JSON keys, air options and their errors."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import pytest
+
+from solver import Conductor, GroundPlane, Model, Rectangle, save_project
+from solver.cli import main
+from solver.margins import HIGH_VOLTAGE_CAUTION, relative_air_density_at_altitude
+
+ROOT = Path(__file__).resolve().parents[2]
+HV = ROOT / "sample_geometries" / "hv_electrode_over_earth.json"
+
+
+def _json(capsys, *argv) -> dict:
+    assert main([*map(str, argv), "--json"]) == 0
+    return json.loads(capsys.readouterr().out)
+
+
+def test_json_has_margins_and_peak_error_in_si_keys(capsys):
+    data = _json(capsys, HV, "--altitude-m", "2000", "--surface-factor", "0.9")
+    assert data["conductors"] == ["electrode"]
+    assert data["peak_field_estimated_relative_error"][0] < 0.01
+    assert data["relative_air_density"] == pytest.approx(relative_air_density_at_altitude(2000.0))
+    assert data["air_breakdown_field_V_per_m"] == pytest.approx(3e6 * data["relative_air_density"])
+    assert data["air_breakdown_margin"][0] == pytest.approx(data["air_breakdown_field_V_per_m"]
+                                                            / data["peak_field_V_per_m"][0])
+    assert data["corona_onset_field_V_per_m"][0] > data["air_breakdown_field_V_per_m"]
+    assert data["corona_onset_margin"][0] == pytest.approx(data["corona_onset_field_V_per_m"][0]
+                                                           / data["peak_field_V_per_m"][0])
+    assert data["margins"]["surface_factor"] == 0.9
+    assert data["margin_status"] == ["ample"] and data["high_voltage_caution"] == ""
+    detail = data["hot_spots"]["conductors"][0]
+    assert detail["nearest_conductor"] == "ground plane" and detail["gap_m"] == pytest.approx(1.0)
+
+
+def test_summary_shows_thin_margin_with_the_caution(tmp_path, capsys):
+    # A sharp-cornered bar at 80 kV, 100 mm above earth, rounded to 5 mm on the command line:
+    # peak about 2.6 MV/m, air margin about 1.15.
+    bar = Model(unit="mm", ground_plane=GroundPlane(0.0), title="Bar", conductors=(
+        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=8e4),))
+    path = tmp_path / "bar.json"
+    save_project(bar, path)
+    assert main([str(path), "--corner-radius-m", "0.005"]) == 0
+    out = capsys.readouterr().out
+    assert "corners rounded to 5 mm" in out
+    section = out[out.index("Hot spots:"):].splitlines()
+    row = next(line for line in section if line.strip().startswith("bar "))
+    assert row.split()[-1] == "thin"
+    assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in " ".join(out.split())
+    data = _json(capsys, path, "--corner-radius-m", "0.005")
+    assert data["hot_spots"]["corner_radius_m"] == 0.005 and not data["peak_field_singular"][0]
+    assert data["high_voltage_caution"] == HIGH_VOLTAGE_CAUTION
+
+
+def test_sharp_corner_without_radius_is_not_assessed(tmp_path, capsys):
+    bar = Model(unit="mm", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=4.5e5),))
+    path = tmp_path / "bar.json"
+    save_project(bar, path)
+    data = _json(capsys, path)
+    assert data["peak_field_singular"] == [True] and data["margin_status"] == ["not assessed"]
+    assert data["air_breakdown_margin"] == [None]
+    assert data["hot_spots"]["conductors"][0]["corner_exponent"] == pytest.approx(-1 / 3)
+
+
+def test_pressure_and_temperature_options(capsys):
+    data = _json(capsys, HV, "--pressure-kPa", "90", "--temperature-C", "30")
+    assert data["relative_air_density"] == pytest.approx(0.858931, rel=1e-5)
+
+
+def test_bad_altitude_is_a_one_line_error(capsys):
+    assert main([str(HV), "--altitude-m", "30000"]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("error:") and "Altitude" in err and err.count("\n") == 1
