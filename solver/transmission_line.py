@@ -56,6 +56,8 @@ class TransmissionLineFigures:
     modal_voltages : (N, N) voltage eigenvectors as columns (largest entry +1).
     capacitive_coupling, inductive_coupling : (N, N) coupling coefficients (zero diagonal).
     estimated_relative_error : of C (the larger of the two solves' estimates), or None.
+    truncation_relative_error : change of C when the truncated layers (wide substrate
+        rectangles, see :mod:`solver.layers`) are drawn twice as wide, or None.
     """
 
     signal_names: tuple[str, ...]
@@ -79,6 +81,7 @@ class TransmissionLineFigures:
     differential_impedance_ohm: float | None = None
     common_mode_impedance_ohm: float | None = None
     estimated_relative_error: float | None = None
+    truncation_relative_error: float | None = None
 
     @property
     def is_symmetric_pair(self) -> bool:
@@ -183,8 +186,13 @@ def vacuum_model(model: Model) -> Model:
     return replace(model, dielectrics=(), background_eps_r=1.0)
 
 
-def transmission_line_figures(model: Model, *, estimate_error: bool = False, settings=None) -> TransmissionLineFigures:
+def transmission_line_figures(
+    model: Model, *, estimate_error: bool = False, estimate_truncation: bool = False, settings=None
+) -> TransmissionLineFigures:
     """Solve ``model`` with its dielectrics and in vacuum and return the transmission-line figures.
+
+    ``estimate_error`` also solves at half the mesh resolution; ``estimate_truncation`` also
+    solves with the truncated layers twice as wide (see :mod:`solver.layers`).
 
     Raises NoReferenceError when the model has no return path or no signal conductor.
 
@@ -205,9 +213,14 @@ def transmission_line_figures(model: Model, *, estimate_error: bool = False, set
     with_dielectrics = solve(model, estimate_error=estimate_error, settings=settings)
     in_vacuum = solve(vacuum_model(model), estimate_error=estimate_error, settings=settings)
     errors = [e for e in (with_dielectrics.estimated_relative_error, in_vacuum.estimated_relative_error) if e is not None]
-    return figures_from_matrices(
+    figures = figures_from_matrices(
         with_dielectrics.capacitance_maxwell_F_per_m,
         in_vacuum.capacitance_maxwell_F_per_m,
         model.signal_names,
         max(errors) if errors else None,
     )
+    if estimate_truncation:
+        from .layers import truncation_error
+
+        figures = replace(figures, truncation_relative_error=truncation_error(model, settings=settings))
+    return figures
