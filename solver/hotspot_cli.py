@@ -18,6 +18,7 @@ from __future__ import annotations
 import argparse
 import math
 
+from .bundles import BundleComparison, compare_bundle
 from .hotspots import HotSpotReport, analyse_hot_spots
 from .margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
 from .solution import Solution
@@ -59,13 +60,29 @@ def configure(args: argparse.Namespace) -> None:
 
 def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
     """Hot spots and margins of the solution's model (computed once per solution)."""
-    key = id(solution)
-    if key not in _memo:
-        _memo.clear()
+    cached = _memo.get("analysis")
+    if cached is None or cached[0] is not solution:
         report = analyse_hot_spots(solution.model, _options.get("target", 0.01), _options.get("corner_radius_m"))
         margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN)
-        _memo[key] = (solution, report, margins)
-    return _memo[key][1], _memo[key][2]
+        cached = _memo["analysis"] = (solution, report, margins)
+    return cached[1], cached[2]
+
+
+def bundle_groups(solution: Solution) -> list[tuple[str, ...]]:
+    """Groups of two or more fixed conductors at the same potential (tied together, like a bundle)."""
+    groups: dict[float, list[str]] = {}
+    for c in solution.model.conductors:
+        if c.role == "fixed":
+            groups.setdefault(float(c.potential_V), []).append(c.name)
+    return [tuple(names) for names in groups.values() if len(names) >= 2]
+
+
+def bundle_comparisons(solution: Solution) -> list[BundleComparison]:
+    """Equivalent radius of each group of :func:`bundle_groups`, with the bundle formula."""
+    cached = _memo.get("bundles")
+    if cached is None or cached[0] is not solution:
+        cached = _memo["bundles"] = (solution, [compare_bundle(solution.model, names) for names in bundle_groups(solution)])
+    return cached[1]
 
 
 def _fmt(value: float | None, unit: str = "", digits: int = 3) -> str:
@@ -114,6 +131,14 @@ def hot_spot_section(solution: Solution) -> list[str]:
     from .cli import HIGH_VOLTAGE_V
 
     high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
+    for b in bundle_comparisons(solution):
+        text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
+                f"{b.equivalent_radius_m / model.metres_per_unit:.5g} {model.unit}")
+        if b.is_regular_bundle:
+            text += (f"; bundle formula (n r A^(n-1))^(1/n) with n = {b.n_subconductors}: "
+                     f"{b.formula_equivalent_radius_m / model.metres_per_unit:.5g} {model.unit} "
+                     f"({100 * b.relative_difference:+.2g} %)")
+        lines.append(text + ".")
     if any(m.status in ("thin", "exceeded") for m in margins.margins) or (margins.needs_caution and high_voltage):
         lines += ["", margins.caution_text]
     return lines
@@ -167,4 +192,5 @@ def hot_spot_json(solution: Solution) -> dict:
             "conductors": detail,
         },
         "margins": margin_dict,
+        "bundles": [vars(b) | {"conductors": list(b.conductors)} for b in bundle_comparisons(solution)],
     }

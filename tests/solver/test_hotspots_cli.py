@@ -76,3 +76,19 @@ def test_bad_altitude_is_a_one_line_error(capsys):
     assert main([str(HV), "--altitude-m", "30000"]) == 2
     err = capsys.readouterr().err
     assert err.startswith("error:") and "Altitude" in err and err.count("\n") == 1
+
+
+def test_conductors_at_one_potential_are_compared_with_the_bundle_formula(tmp_path, capsys):
+    from solver import Circle
+
+    pair = Model(unit="mm", ground_plane=GroundPlane(0.0), mesh_density="coarse", conductors=(
+        Conductor("a", (Circle((-100.0, 5000.0), 5.0),), potential_V=1e5),
+        Conductor("b", (Circle((100.0, 5000.0), 5.0),), potential_V=1e5)))
+    path = tmp_path / "pair.json"
+    save_project(pair, path)
+    bundles = _json(capsys, path)["bundles"]
+    assert len(bundles) == 1 and bundles[0]["conductors"] == ["a", "b"] and bundles[0]["n_subconductors"] == 2
+    assert bundles[0]["formula_equivalent_radius_m"] == pytest.approx((2 * 0.005 * 0.1) ** 0.5)
+    assert abs(bundles[0]["relative_difference"]) < 2e-3
+    assert main([str(path)]) == 0
+    assert "bundle formula (n r A^(n-1))^(1/n) with n = 2" in capsys.readouterr().out
