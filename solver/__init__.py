@@ -60,6 +60,7 @@ from .margins import (
     relative_air_density_at_altitude,
 )
 from .bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
+from .end_effects import LengthCheck, check_part_length, end_field_rise_estimate
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -80,4 +81,5 @@ __all__ = [
     "air_breakdown_field_V_per_m", "assess_margins", "peek_corona_onset_field_V_per_m",
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
     "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",
+    "LengthCheck", "check_part_length", "end_field_rise_estimate",
 ]

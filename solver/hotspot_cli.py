@@ -19,6 +19,7 @@ import argparse
 import math
 
 from .bundles import BundleComparison, compare_bundle
+from .end_effects import check_part_length
 from .hotspots import HotSpotReport, analyse_hot_spots
 from .margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
 from .solution import Solution
@@ -39,6 +40,8 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
                        help="round every sharp corner and strip edge to this radius, m, for the peak fields")
     group.add_argument("--peak-target", type=float, default=0.01,
                        help="relative error target of the peak fields (default 0.01)")
+    group.add_argument("--part-length-m", type=float,
+                       help="length of the real part, m: how far it is from the 2-D assumption")
 
 
 def configure(args: argparse.Namespace) -> None:
@@ -55,7 +58,7 @@ def configure(args: argparse.Namespace) -> None:
     else:
         air = AirConditions(surface_factor=m)
     _options.update(air=air, corner_radius_m=getattr(args, "corner_radius_m", None),
-                    target=getattr(args, "peak_target", 0.01))
+                    target=getattr(args, "peak_target", 0.01), part_length_m=getattr(args, "part_length_m", None))
 
 
 def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
@@ -130,6 +133,9 @@ def hot_spot_section(solution: Solution) -> list[str]:
             lines.append(f"  {spot.conductor}: {spot.note}")
     from .cli import HIGH_VOLTAGE_V
 
+    if _options.get("part_length_m") is not None:
+        lines.append("  Part length: " + check_part_length(model, _options["part_length_m"]).note)
+
     high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
     for b in bundle_comparisons(solution):
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
@@ -192,5 +198,7 @@ def hot_spot_json(solution: Solution) -> dict:
             "conductors": detail,
         },
         "margins": margin_dict,
+        "part_length_check": None if _options.get("part_length_m") is None
+        else vars(check_part_length(solution.model, _options["part_length_m"])),
         "bundles": [vars(b) | {"conductors": list(b.conductors)} for b in bundle_comparisons(solution)],
     }

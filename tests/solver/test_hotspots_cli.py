@@ -92,3 +92,12 @@ def test_conductors_at_one_potential_are_compared_with_the_bundle_formula(tmp_pa
     assert abs(bundles[0]["relative_difference"]) < 2e-3
     assert main([str(path)]) == 0
     assert "bundle formula (n r A^(n-1))^(1/n) with n = 2" in capsys.readouterr().out
+
+
+def test_part_length_option(capsys):
+    data = _json(capsys, HV, "--part-length-m", "6")
+    check = data["part_length_check"]
+    assert check["length_to_size_ratio"] == pytest.approx(6 / 1.1) and check["long_enough"] is False
+    assert main([str(HV), "--part-length-m", "6"]) == 0
+    assert "Part length: The part is 5.45 times as long" in capsys.readouterr().out
+    assert _json(capsys, HV)["part_length_check"] is None
