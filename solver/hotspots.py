@@ -32,16 +32,21 @@ from __future__ import annotations
 import logging
 import math
 from dataclasses import dataclass, field
-from typing import Iterable, Sequence
+from typing import Iterable
 
 import numpy as np
-import shapely
 
-from .corner_rounding import round_sharp_corners
+from .corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from .curvature import local_radius_of_curvature_m
 from .errors import InvalidModelError
-from .geometry import conductor_geometries
 from .model import Model
+from .peak_diagnostics import (
+    GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
+    corner_field_grows,
+    most_singular_corner,
+    nearest_other_potential,
+    richardson_estimate,
+)
 from .panels import DENSITY_LEVELS, MeshSettings, discretize_boundary
 from .solution import Solution
 from .solve import solve
@@ -51,8 +56,6 @@ logger = logging.getLogger(__name__)
 #: Largest mesh the refinement loop will build (panels); the dense system grows as n^2.
 DEFAULT_MAX_PANELS = 5000
 
-#: Name used for the ground plane as the "nearest conductor".
-GROUND_PLANE_NAME = "ground plane"
 
 
 @dataclass(frozen=True)
@@ -142,78 +145,6 @@ class HotSpotReport:
         return all(s.converged for s in self.hot_spots)
 
 
-def richardson_estimate(values: Sequence[float]) -> tuple[float, float | None, float | None]:
-    """Relative error of the last of >= 3 values from successive level doublings.
-
-    Returns ``(relative_error, extrapolated_value, observed_order)``; the last two are None
-    when the last three values do not converge monotonically (then the error is the larger of
-    the last two relative changes). See the module docstring.
-    """
-    f1, f2, f3 = (float(v) for v in values[-3:])
-    d1, d2 = f2 - f1, f3 - f2
-    scale = abs(f3) or 1.0
-    if d2 == 0.0:
-        return abs(d1) / scale * 1e-3, f3, None
-    ratio = d1 / d2
-    if ratio > 1.0:
-        correction = d2 / (ratio - 1.0)
-        return abs(correction) / scale, f3 + correction, math.log2(ratio)
-    return max(abs(d1), abs(d2)) / scale, None, None
-
-
-def _nearest_neighbours(model: Model, solution: Solution) -> list[tuple[str | None, float | None, float | None]]:
-    """(name, gap_m, |dV|) of the nearest conductor at a different potential, per conductor."""
-    geoms = conductor_geometries(model, MeshSettings(1.0).arc_step_rad)
-    potentials = solution.conductor_potentials_V
-    vscale = max(1e-300, float(np.abs(potentials).max()))
-    plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
-    out = []
-    for k, g in enumerate(geoms):
-        best: tuple[str | None, float | None, float | None] = (None, None, None)
-        candidates = [
-            (model.conductors[j].name, float(shapely.distance(g, other)), abs(potentials[k] - potentials[j]))
-            for j, other in enumerate(geoms)
-            if j != k
-        ]
-        if plane_y is not None:
-            candidates.append((GROUND_PLANE_NAME, float(g.bounds[1] - plane_y), abs(potentials[k])))
-        for name, gap, dv in candidates:
-            if dv > 1e-9 * vscale and gap > 0 and (best[1] is None or gap < best[1]):
-                best = (name, gap, dv)
-        out.append(best)
-    return out
-
-
-def _corner_field(solution: Solution, k: int) -> float:
-    """Largest surface field on the panels next to the sharp corners of conductor k (0 if none)."""
-    mesh = solution.mesh
-    near = (mesh.conductor_index == k) & (mesh.distance_to_corner_m < 2.0 * mesh.lengths + 1e-15)
-    return float(solution.surface_field_V_per_m[near].max()) if near.any() else 0.0
-
-
-def _corner_field_grows(coarse: Solution, fine: Solution, k: int) -> bool:
-    """True when conductor k has a sharp corner that carries charge.
-
-    The field next to a charged corner grows with every refinement (the first panel shrinks
-    and the field goes like r^(pi/beta - 1)); next to a corner that carries no charge (the
-    outside of a closed screen) it stays at round-off level and falls.
-    """
-    if not np.any(fine.mesh.corner_conductor == k):
-        return False
-    e_fine, e_coarse = _corner_field(fine, k), _corner_field(coarse, k)
-    floor = 1e-9 * float(fine.surface_field_V_per_m.max())
-    return e_fine > floor and e_fine > 1.2 * e_coarse
-
-
-def _most_singular_corner(solution: Solution, k: int) -> tuple[float | None, float | None]:
-    mesh = solution.mesh
-    betas = mesh.corner_opening_rad[mesh.corner_conductor == k]
-    if betas.size == 0:
-        return None, None
-    beta = float(betas.max())
-    return math.pi / beta - 1.0, beta
-
-
 def analyse_hot_spots(
     model: Model,
     target_relative_error: float = 0.01,
@@ -263,10 +194,12 @@ def analyse_hot_spots(
     solved_models: list[Model] = []
     solutions: list[Solution] = []
 
+    to_round = names if replace_radius else [n for n in names if n in conductors_with_sharp_corners(model)]
+
     def model_at(level: float) -> Model:
-        if corner_radius_m is None:
+        if corner_radius_m is None or not to_round:
             return model
-        return round_sharp_corners(model, corner_radius_m, names, level=level, replace_radius=replace_radius)
+        return round_sharp_corners(model, corner_radius_m, to_round, level=level, replace_radius=replace_radius)
 
     def run(level: float) -> None:
         m = model_at(level)
@@ -281,7 +214,7 @@ def analyse_hot_spots(
     index = [model.conductor_names.index(n) for n in names]
     while True:
         peaks = np.array([[s.surface_field_V_per_m[s.mesh.conductor_index == k].max() for k in index] for s in solutions])
-        singular = [_corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
+        singular = [corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
         errors = [richardson_estimate(peaks[:, i])[0] for i in range(len(index))]
         pending = [e > target_relative_error for e, s in zip(errors, singular) if not s]
         if not any(pending):
@@ -295,7 +228,7 @@ def analyse_hot_spots(
         run(next_level)
 
     final = solutions[-1]
-    neighbours = _nearest_neighbours(solved_models[-1], final)
+    neighbours = nearest_other_potential(solved_models[-1], final)
     spots = []
     for i, k in enumerate(index):
         spots.append(_hot_spot(final, k, peaks[:, i], singular[i], neighbours[k], target_relative_error))
@@ -320,7 +253,7 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
     gap_field = None if gap is None else float(dv / gap)
     enhancement = None if not gap_field else float(peak / gap_field)
     if singular:
-        exponent, beta = _most_singular_corner(final, k)
+        exponent, beta = most_singular_corner(final, k)
         note = (
             f"Sharp corner or free edge (field-region opening {math.degrees(beta):.0f} degrees): the charge "
             f"density goes like r^({exponent:.3f}) and the 2-D peak field has no finite value; this number "
