@@ -34,6 +34,7 @@ from .solution import Solution
 from .equilibrium import equivalent_radius_m
 from .solve import solve
 from . import hotspot_cli
+from . import transmission_line_cli
 
 Section = Callable[[Solution], list[str]]
 JsonPart = Callable[[Solution], dict]
@@ -205,6 +206,8 @@ SUMMARY_SECTIONS: list[Section] = [
     error_section,
     equivalent_radius_section,
     hotspot_cli.hot_spot_section,
+    transmission_line_cli.dielectric_section,
+    transmission_line_cli.transmission_line_section,
     caution_section,
 ]
 
@@ -274,7 +277,7 @@ def _figures_json(solution: Solution) -> dict:
 
 #: Functions building the JSON result; their dictionaries are merged in order.
 JSON_PARTS: list[JsonPart] = [_model_json, _capacitance_json, _operating_point_json, _figures_json,
-                              hotspot_cli.hot_spot_json]
+                              hotspot_cli.hot_spot_json, transmission_line_cli.transmission_line_json]
 
 
 def result_to_json(solution: Solution) -> dict:
