@@ -36,6 +36,8 @@ class RegionPeakField:
     field_V_per_m : largest |E| in the region, V/m.
     location_m : (x, y) where it occurs, metres.
     where : "conductor '<name>'" or "interface".
+    at_sharp_corner : True when the peak sits next to a sharp conductor corner or strip edge,
+        where the 2-D field is singular and the value grows as the mesh is refined.
     """
 
     region: str
@@ -43,6 +45,7 @@ class RegionPeakField:
     field_V_per_m: float
     location_m: tuple[float, float]
     where: str
+    at_sharp_corner: bool = False
 
 
 @dataclass(frozen=True)
@@ -175,14 +178,21 @@ class DielectricSolution(Solution):
         e_minus = np.where(mesh.is_strip, np.abs(e_pv - jump), 0.0)
         f_plus, f_minus = self.interface_fields_V_per_m
         names = self.model.conductor_names
+        corners = mesh.corner_points
+        if len(corners) and self.interfaces.n_panels:
+            d = np.hypot(*(self.interfaces.points[:, None, :] - corners[None, :, :]).transpose(2, 0, 1)).min(axis=1)
+            near_interface = d < 2.0 * self.interfaces.arc_lengths
+        else:
+            near_interface = np.zeros(self.interfaces.n_panels, dtype=bool)
+        near_conductor = mesh.distance_to_corner_m < 2.0 * mesh.lengths
         out = []
         for r, (name, eps_r) in enumerate(zip(self.region_names, self.region_eps_r)):
-            best = (-1.0, (math.nan, math.nan), "")
-            for values, regions, pts, label in (
-                (e_plus, self.conductor_region_plus, mesh.midpoints, "c"),
-                (e_minus, self.conductor_region_minus, mesh.midpoints, "c"),
-                (np.hypot(*f_plus.T), self.interface_region_plus, self.interfaces.points, "i"),
-                (np.hypot(*f_minus.T), self.interface_region_minus, self.interfaces.points, "i"),
+            best = (-1.0, (math.nan, math.nan), "", False)
+            for values, regions, pts, label, near in (
+                (e_plus, self.conductor_region_plus, mesh.midpoints, "c", near_conductor),
+                (e_minus, self.conductor_region_minus, mesh.midpoints, "c", near_conductor),
+                (np.hypot(*f_plus.T), self.interface_region_plus, self.interfaces.points, "i", near_interface),
+                (np.hypot(*f_minus.T), self.interface_region_minus, self.interfaces.points, "i", near_interface),
             ):
                 mine = np.flatnonzero(regions == r)
                 if mine.size == 0:
@@ -190,7 +200,7 @@ class DielectricSolution(Solution):
                 i = int(mine[np.argmax(values[mine])])
                 if values[i] > best[0]:
                     where = f"conductor '{names[mesh.conductor_index[i]]}'" if label == "c" else "interface"
-                    best = (float(values[i]), (float(pts[i, 0]), float(pts[i, 1])), where)
+                    best = (float(values[i]), (float(pts[i, 0]), float(pts[i, 1])), where, bool(near[i]))
             if best[0] >= 0:
-                out.append(RegionPeakField(name, float(eps_r), best[0], best[1], best[2]))
+                out.append(RegionPeakField(name, float(eps_r), best[0], best[1], best[2], best[3]))
         return tuple(out)

@@ -95,7 +95,12 @@ def dielectric_section(solution: Solution) -> list[str]:
         x, y = (v / m.metres_per_unit for v in p.location_m)
         lines.append(
             f"  {p.region} (eps_r {p.eps_r:g}): {p.field_V_per_m / 1e6:.4g} MV/m at ({x:.4g}, {y:.4g}) {m.unit}, "
-            f"on {p.where}"
+            f"on {p.where}" + (" *" if p.at_sharp_corner else "")
+        )
+    if any(p.at_sharp_corner for p in peaks):
+        lines.append(
+            "  * Next to a sharp corner or edge: the 2-D field is singular there and this value grows as the "
+            "mesh is refined; round the corner for a usable figure."
         )
     lines.append("  Free charge is reported on conductors; fields include the bound charge of the dielectrics.")
     return lines
@@ -110,7 +115,8 @@ def transmission_line_json(solution: Solution) -> dict:
     peaks = getattr(solution, "peak_region_fields", ()) or ()
     regions = [
         {"name": p.region, "eps_r": p.eps_r, "peak_field_V_per_m": p.field_V_per_m,
-         "peak_field_location_m": list(p.location_m), "peak_field_on": p.where}
+         "peak_field_location_m": list(p.location_m), "peak_field_on": p.where,
+         "peak_at_sharp_corner": p.at_sharp_corner}
         for p in peaks
     ]
     return {"transmission_line": None if f is None else f.as_dict(), "transmission_line_note": note,
