@@ -61,6 +61,10 @@ from .margins import (
 )
 from .bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
 from .end_effects import LengthCheck, check_part_length, end_field_rise_estimate
+from .dielectric_solution import DielectricSolution, RegionPeakField
+from .materials import MATERIALS, Material, dielectric_of, material, material_names
+from .transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
+from .layers import truncated_layers, truncation_error, widen_until_converged
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -82,4 +86,7 @@ __all__ = [
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
     "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",
     "LengthCheck", "check_part_length", "end_field_rise_estimate",
+    "DielectricSolution", "RegionPeakField", "MATERIALS", "Material", "dielectric_of", "material", "material_names",
+    "TransmissionLineFigures", "figures_from_matrices", "transmission_line_figures",
+    "truncated_layers", "truncation_error", "widen_until_converged",
 ]
