@@ -145,3 +145,15 @@ def test_sweep_table_and_dict():
     assert len(table) == 4 and "radius mm" in table[1]
     d = sweep.as_dict()
     assert d["peak_field_V_per_m"][0] > d["peak_field_V_per_m"][1] and d["fitted_exponent"] < 0
+
+
+def test_uncharged_outer_corners_of_a_closed_screen_are_not_singular():
+    # The outside of a neutral closed screen carries no charge: its sharp outer corners do not
+    # make the screen's peak singular; the peak is on the inside.
+    box = Polygon(((0, 0), (10, 0), (10, 10), (0, 10)), (((2, 2), (8, 2), (8, 8), (2, 8)),))
+    m = Model(unit="mm", conductors=(Conductor("box", (box,), role="reference"),
+                                     Conductor("core", (Circle((5, 5), 1),), potential_V=100.0)))
+    spot = analyse_hot_spots(m).for_conductor("box")
+    assert not spot.singular and spot.converged
+    x, y = (v * 1e3 for v in spot.location_m)
+    assert 2 - 1e-9 <= x <= 8 + 1e-9 and 2 - 1e-9 <= y <= 8 + 1e-9
