@@ -194,7 +194,10 @@ def analyse_hot_spots(
     solved_models: list[Model] = []
     solutions: list[Solution] = []
 
-    to_round = names if replace_radius else [n for n in names if n in conductors_with_sharp_corners(model)]
+    to_round: list[str] = []
+    if corner_radius_m is not None:
+        sharp = set(conductors_with_sharp_corners(model))
+        to_round = names if replace_radius else [n for n in names if n in sharp]
 
     def model_at(level: float) -> Model:
         if corner_radius_m is None or not to_round:
