@@ -29,7 +29,8 @@ from shapely.ops import unary_union
 from .errors import InvalidGeometryError
 from .geometry import shape_geometry
 from .model import Model, Strip
-from .panels import CORNER_TURN_RAD, MeshSettings, PanelMesh
+from .interface_pieces import Piece, piece_breaks, split_into_pieces
+from .panels import MeshSettings, PanelMesh
 
 
 def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
@@ -166,125 +167,6 @@ def _interface_lines(model: Model, geoms: list, conductor_geoms: list, tol: floa
     return [p for p in parts if p.length > 100 * tol]
 
 
-def _circumcircles(a: np.ndarray, b: np.ndarray, c: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Centres (k, 2) and radii (k,) of the circles through point triples (inf radius if collinear)."""
-    ax, ay, bx, by, cx, cy = a[:, 0], a[:, 1], b[:, 0], b[:, 1], c[:, 0], c[:, 1]
-    d = 2.0 * (ax * (by - cy) + bx * (cy - ay) + cx * (ay - by))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        sa, sb, sc = ax * ax + ay * ay, bx * bx + by * by, cx * cx + cy * cy
-        ux = (sa * (by - cy) + sb * (cy - ay) + sc * (ay - by)) / d
-        uy = (sa * (cx - bx) + sb * (ax - cx) + sc * (bx - ax)) / d
-    centre = np.column_stack([ux, uy])
-    radius = np.hypot(ax - ux, ay - uy)
-    radius[~np.isfinite(radius)] = np.inf
-    return centre, radius
-
-
-@dataclass
-class _Piece:
-    """A straight edge or a circular arc run along one interface line."""
-
-    s0: float  # arc-length position of its start along the line
-    length: float
-    start: np.ndarray
-    end: np.ndarray
-    centre: np.ndarray | None = None
-    radius: float = math.nan
-    theta0: float = 0.0
-    dtheta: float = 0.0  # signed sweep
-
-    def at(self, u: np.ndarray) -> np.ndarray:
-        if self.centre is None:
-            return self.start[None, :] + (u / self.length)[:, None] * (self.end - self.start)[None, :]
-        th = self.theta0 + self.dtheta * u / self.length
-        return self.centre[None, :] + self.radius * np.column_stack([np.cos(th), np.sin(th)])
-
-
-def _pieces(pts: np.ndarray, closed: bool) -> tuple[list[_Piece], np.ndarray, float]:
-    """Split a polyline into straight edges and arc runs; also the grading positions."""
-    n_v = len(pts)
-    n_e = n_v if closed else n_v - 1
-    nxt = np.roll(pts, -1, axis=0)
-    edge_len = np.hypot(*(nxt - pts).T)[:n_e]
-    s_vertex = np.concatenate([[0.0], np.cumsum(edge_len)])
-    total = float(s_vertex[-1])
-    prev = np.roll(pts, 1, axis=0)
-    a, b = pts - prev, nxt - pts
-    turn = np.arctan2(a[:, 0] * b[:, 1] - a[:, 1] * b[:, 0], np.einsum("ij,ij->i", a, b))
-    centre, radius = _circumcircles(prev, pts, nxt)
-    has_triple = np.ones(n_v, dtype=bool) if closed else np.r_[False, np.ones(n_v - 2, dtype=bool), False]
-    if not closed:
-        turn[0] = turn[-1] = math.pi  # open ends grade like corners
-    smooth = has_triple & (np.abs(turn) < CORNER_TURN_RAD) & (np.abs(turn) > 1e-7) & np.isfinite(radius)
-    grading = s_vertex[:n_v][np.abs(turn) > CORNER_TURN_RAD] if closed else s_vertex[
-        np.r_[True, np.abs(turn[1:-1]) > CORNER_TURN_RAD, True]
-    ]
-
-    def same(i: int, j: int) -> bool:
-        r = radius[i]
-        return bool(
-            smooth[i] and smooth[j] and abs(radius[j] - r) < 1e-6 * r
-            and np.hypot(*(centre[i] - centre[j])) < 1e-6 * r
-        )
-
-    on_arc = np.array([same(e, (e + 1) % n_v) for e in range(n_e)], dtype=bool)
-    pieces: list[_Piece] = []
-    if closed and on_arc.all() and all(same(0, e) for e in range(n_e)):
-        c, r = centre[0], float(radius[0])
-        th0 = math.atan2(pts[0, 1] - c[1], pts[0, 0] - c[0])
-        sweep = 2 * math.pi * (1.0 if turn[0] > 0 else -1.0)
-        pieces.append(_Piece(0.0, abs(sweep) * r, pts[0], pts[0], c, r, th0, sweep))
-        return pieces, grading, abs(sweep) * r
-    # start at a vertex that does not sit inside an arc run
-    order = list(range(n_e))
-    if closed and on_arc.any() and not on_arc.all():
-        first = int(np.flatnonzero(~on_arc)[0])
-        order = [(first + k) % n_e for k in range(n_e)]
-    e_iter = iter(order)
-    pending = None
-    for e in e_iter:
-        if on_arc[e]:
-            pending = [e] if pending is None else pending + [e]
-            continue
-        if pending is not None:
-            pieces.append(_arc_piece(pts, pending, n_v, centre, radius, s_vertex))
-            pending = None
-        p, q = pts[e], pts[(e + 1) % n_v]
-        pieces.append(_Piece(float(s_vertex[e]), float(edge_len[e]), p, q))
-    if pending is not None:
-        pieces.append(_arc_piece(pts, pending, n_v, centre, radius, s_vertex))
-    return pieces, grading, total
-
-
-def _arc_piece(pts, run, n_v, centre, radius, s_vertex) -> _Piece:
-    e0, e1 = run[0], run[-1]
-    c, r = centre[(e0 + 1) % n_v], float(radius[(e0 + 1) % n_v])
-    p, q = pts[e0], pts[(e1 + 1) % n_v]
-    th0 = math.atan2(p[1] - c[1], p[0] - c[0])
-    sweep = 0.0
-    for e in run:
-        a, b = pts[e] - c, pts[(e + 1) % n_v] - c
-        sweep += math.atan2(a[0] * b[1] - a[1] * b[0], a @ b)
-    return _Piece(float(s_vertex[e0]), abs(sweep) * r, p, q, c, r, th0, sweep)
-
-
-def _breaks(piece: _Piece, size_fn, arc_step_rad: float) -> np.ndarray:
-    """Break positions (0..length) along a piece so that panels follow the size function."""
-    length = piece.length
-    g = np.geomspace(1e-13, 1.0, 120) * length
-    u = np.unique(np.concatenate([np.linspace(0.0, length, 129), g, length - g]))
-    h = size_fn(piece, u)
-    # integral of 1/h with h taken linear between samples (exact for geometric grading)
-    h1, h2 = h[:-1], h[1:]
-    with np.errstate(divide="ignore", invalid="ignore"):
-        mean_inv = np.where(np.abs(h2 - h1) > 1e-9 * h1, np.log(h2 / h1) / (h2 - h1), 1.0 / h1)
-    phi = np.concatenate([[0.0], np.cumsum(mean_inv * np.diff(u))])
-    n = max(1, int(math.ceil(phi[-1] - 1e-9)))
-    if piece.centre is not None:
-        n = max(n, int(math.ceil(abs(piece.dtheta) / arc_step_rad - 1e-9)))
-    return np.interp(np.linspace(0.0, phi[-1], n + 1), phi, u)
-
-
 def discretize_interfaces(
     model: Model, conductor_geoms: list, conductor_mesh: PanelMesh, settings: MeshSettings
 ) -> tuple[InterfaceMesh, list]:
@@ -314,12 +196,12 @@ def discretize_interfaces(
         closed = bool(line.is_ring)
         if closed:
             coords = coords[:-1]
-        pieces, grading, total = _pieces(coords, closed)
+        pieces, grading, total = split_into_pieces(coords, closed)
         h_max = min(h_global, total / settings.divisions_per_perimeter * (1.0 if closed else 0.5))
         h_max = max(h_max, 1e-6 * size)
         h_corner = h_max * settings.corner_fraction
 
-        def size_fn(piece: _Piece, u: np.ndarray) -> np.ndarray:
+        def size_fn(piece: Piece, u: np.ndarray) -> np.ndarray:
             s = piece.s0 + u
             if len(grading):
                 d = np.abs(s[:, None] - grading[None, :])
@@ -336,7 +218,7 @@ def discretize_interfaces(
             return np.minimum(np.minimum(h, near), h_max)
 
         for piece in pieces:
-            u = _breaks(piece, size_fn, settings.arc_step_rad)
+            u = piece_breaks(piece, size_fn, settings.arc_step_rad)
             if piece.centre is None:
                 seg = piece.at(u)
                 st, en = seg[:-1], seg[1:]

@@ -1,0 +1,84 @@
+"""Interface meshing: arcs recognised from polygons, panels on the true circle, sides and grading."""
+
+import math
+
+import numpy as np
+import pytest
+import shapely
+
+from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
+from solver.dielectric_mesh import discretize_interfaces
+from solver.geometry import conductor_geometries, shape_geometry
+from solver.interface_pieces import split_into_pieces
+from solver.panels import MeshSettings, discretize_boundary
+
+
+def _ring_points(shape):
+    g = shape_geometry(shape, 1e-3, MeshSettings().arc_step_rad, "test")
+    return np.asarray(shapely.geometry.polygon.orient(g).exterior.coords)[:-1]
+
+
+def test_a_polygonised_circle_is_one_full_arc():
+    pieces, grading, total = split_into_pieces(_ring_points(Circle((3.0, -2.0), 1.5)), closed=True)
+    assert len(pieces) == 1 and grading.size == 0
+    arc = pieces[0]
+    assert arc.radius == pytest.approx(1.5e-3, rel=1e-9)
+    np.testing.assert_allclose(arc.centre, [3e-3, -2e-3], atol=1e-12)
+    assert total == pytest.approx(2 * math.pi * 1.5e-3, rel=1e-9)
+
+
+def test_a_rounded_rectangle_is_four_sides_and_four_arcs():
+    pieces, grading, _ = split_into_pieces(_ring_points(Rectangle((0.0, 0.0), 4.0, 2.0, 0.5)), closed=True)
+    arcs = [p for p in pieces if p.centre is not None]
+    sides = [p for p in pieces if p.centre is None and p.length > 0.5e-3]
+    assert len(arcs) == 4 and len(sides) == 4 and grading.size == 0
+    for arc in arcs:
+        assert arc.radius == pytest.approx(0.5e-3, rel=1e-6)
+        assert abs(arc.dtheta) == pytest.approx(math.pi / 2, rel=1e-9)
+
+
+def test_a_square_has_four_straight_sides_and_four_corners():
+    pieces, grading, _ = split_into_pieces(_ring_points(Rectangle((0.0, 0.0), 2.0, 2.0)), closed=True)
+    assert len(pieces) == 4 and all(p.centre is None for p in pieces) and grading.size == 4
+
+
+def _mesh(model, level=1.0):
+    settings = MeshSettings(level)
+    mesh = discretize_boundary(model, settings)
+    return discretize_interfaces(model, conductor_geometries(model, settings.arc_step_rad), mesh, settings)[0]
+
+
+def test_arc_panels_lie_on_the_circle_with_sides_assigned():
+    model = Model(
+        unit="mm",
+        conductors=(Conductor("core", (Circle((0.0, 0.0), 1.0),), potential_V=1.0),
+                    Conductor("screen", (Ring((0.0, 0.0), 3.0, 3.2),), role="reference")),
+        dielectrics=(Dielectric("inner", (Ring((0.0, 0.0), 1.0, 2.0),), 4.0),),
+    )
+    ifc = _mesh(model)
+    np.testing.assert_allclose(np.hypot(*ifc.points.T), 2e-3, rtol=1e-9)
+    np.testing.assert_allclose(np.hypot(*ifc.starts.T), 2e-3, rtol=1e-9)
+    outward = np.einsum("ij,ij->i", ifc.normals, ifc.points) > 0
+    # the ring's inner boundary touches the core: no panels there
+    assert ifc.n_panels == np.count_nonzero(ifc.circle_id == 0)
+    assert np.all(np.where(outward, ifc.eps_r_plus, ifc.eps_r_minus) == 1.0)
+    assert np.all(np.where(outward, ifc.eps_r_minus, ifc.eps_r_plus) == 4.0)
+    assert ifc.arc_lengths.sum() == pytest.approx(2 * math.pi * 2e-3, rel=1e-12)
+
+
+def test_no_panels_on_the_ground_plane_or_under_a_strip_and_grading_at_junctions():
+    model = Model(
+        unit="mm",
+        ground_plane=GroundPlane(0.0),
+        conductors=(Conductor("trace", (Strip(((-0.5, 1.0), (0.5, 1.0))),), potential_V=1.0),),
+        dielectrics=(Dielectric("substrate", (Rectangle((0.0, 0.5), 20.0, 1.0),), 4.4),),
+    )
+    ifc = _mesh(model)
+    mids = 0.5 * (ifc.starts + ifc.ends)
+    assert mids[:, 1].min() > 0.0
+    on_top = np.isclose(mids[:, 1], 1e-3)
+    assert not np.any(on_top & (np.abs(mids[:, 0]) < 0.5e-3))
+    # panels next to the strip edges are far smaller than those far away
+    gap = np.abs(np.abs(mids[:, 0]) - 0.5e-3)
+    nearest = np.flatnonzero(on_top)[np.argsort(gap[on_top])[:2]]
+    assert ifc.chord_lengths[nearest].max() < 1e-3 * ifc.chord_lengths.max()
