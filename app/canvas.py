@@ -52,6 +52,8 @@ class Canvas(pg.PlotWidget):
         self.plotItem.setAspectLocked(True)
         self.plotItem.showGrid(x=True, y=True, alpha=0.18)
         self.plotItem.hideButtons()
+        for side in ("bottom", "left"):
+            self.plotItem.getAxis(side).enableAutoSIPrefix(False)
         self.plotItem.setMenuEnabled(False)
         self._part_items: list = []
         self._preview_item = None
@@ -82,6 +84,10 @@ class Canvas(pg.PlotWidget):
 
         x0, y0, x1, y1 = view_box(self.document.model, 0.2)
         self.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        self.fit_view()
 
     def snap_step(self) -> float:
         (x0, x1), _ = self.plotItem.vb.viewRange()
@@ -124,7 +130,7 @@ class Canvas(pg.PlotWidget):
             below = pg.LinearRegionItem(values=(model.ground_plane.y - 1e6, model.ground_plane.y),
                                         orientation="horizontal", movable=False,
                                         brush=pg.mkBrush(120, 120, 120, 60), pen=pg.mkPen(None))
-            pg.InfLineLabel(line, text="ground plane, 0 V", position=0.08, color="#333333")  # child of line
+            pg.InfLineLabel(line, text="ground plane, 0 V", position=0.15, color="#333333", anchors=[(0, 1), (0, 1)])  # child of line
             self._add_part(below, 4)
             self._add_part(line, 21)
         self._update_handles()
@@ -292,6 +298,17 @@ class Canvas(pg.PlotWidget):
         if event.key() == Qt.Key_Escape:
             self.set_tool(PickTool.name)
             self.document.select(None)
+            return
+        steps = {Qt.Key_Left: (-1, 0), Qt.Key_Right: (1, 0), Qt.Key_Up: (0, 1), Qt.Key_Down: (0, -1)}
+        ref = self.document.selection
+        if event.key() in steps and ref is not None and ref.kind != "dielectric":
+            from .edits import move_part
+
+            s = self.snap_step() * (0.1 if event.modifiers() & Qt.ShiftModifier else 1.0)
+            dx, dy = steps[event.key()]
+            self.document.apply(move_part(self.document.model, ref, dx * s, dy * s), "Nudge")
+            self.document.select(ref)
+            event.accept()
             return
         super().keyPressEvent(event)
 

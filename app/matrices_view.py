@@ -36,6 +36,8 @@ class CopyableTable(QTableWidget):
                 item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 self.setItem(i, j, item)
         self.resizeColumnsToContents()
+        height = self.horizontalHeader().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
+        self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
 
     def as_text(self) -> str:
         """The whole table with its headers as tab-separated lines."""
@@ -56,7 +58,8 @@ class MatricesView(QWidget):
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         layout = QVBoxLayout(self)
-        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self._status_text = "Not solved yet: press Solve (F5)."
+        self.status = QLabel(self._status_text)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
         self.maxwell_label = QLabel("Capacitance matrix, Maxwell form (pF/m)")
@@ -69,6 +72,11 @@ class MatricesView(QWidget):
         self.conductors = CopyableTable()
         for w in (self.maxwell_label, self.maxwell, self.mutual_label, self.mutual, self.conductors_label, self.conductors):
             layout.addWidget(w)
+        self.conductors_note = QLabel("Equivalent radius: the logarithmic capacity of the conductor on its own, "
+                                      "i.e. the radius of the round wire that looks the same from far away. "
+                                      "A peak at a sharp corner grows as the mesh is refined; give the corner a radius.")
+        self.conductors_note.setWordWrap(True)
+        layout.addWidget(self.conductors_note)
         buttons = QHBoxLayout()
         for text, table in (("Copy Maxwell", self.maxwell), ("Copy mutual", self.mutual), ("Copy per conductor", self.conductors)):
             b = QPushButton(text)
@@ -78,6 +86,7 @@ class MatricesView(QWidget):
         self.error_label = QLabel()
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
+        layout.addStretch(1)
 
     def show_results(self, results) -> None:
         sol, model = results.solution, results.model
@@ -97,6 +106,7 @@ class MatricesView(QWidget):
             except NoReferenceError as exc:
                 reason = str(exc)
             self.status.setText(reason)
+        self._status_text = self.status.text()
         self._fill_conductors(results)
         err = sol.estimated_relative_error
         self.error_label.setText(
@@ -114,22 +124,22 @@ class MatricesView(QWidget):
             radius = results.equivalent_radius_m.get(c.name)
             rows.append(c.name)
             cells.append([
-                c.role,
                 format_si(float(sol.conductor_potentials_V[k]), "V"),
                 format_si(float(sol.conductor_charges_C_per_m[k]), "C/m"),
                 format_field(p.field_V_per_m) if p else "n/a",
-                (f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g}) {model.unit}"
+                (f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g})"
                  + (" sharp corner" if p.at_sharp_corner else "")) if p else "",
-                f"{radius / scale:.4g} {model.unit}" if radius else "n/a",
+                f"{radius / scale:.4g}" if radius else "n/a",
             ])
-        self.conductors.fill(rows, ["role", "potential", "charge per length", "peak surface field",
-                                    "peak at", "equivalent radius"], cells)
+        self.conductors.fill(rows, ["potential", "charge per length", "peak surface field",
+                                    f"peak at ({model.unit})", f"equivalent radius ({model.unit})"], cells)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:
             self.status.setText("OUT OF DATE: the drawing changed after this solve. Solve again (F5).")
             self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
         else:
+            self.status.setText(self._status_text)
             self.status.setStyleSheet("")
 
 

@@ -129,7 +129,7 @@ class Overlays:
             else:
                 factor, prefix = si_scale(np.nanmax(e) if np.isfinite(e).any() else 1.0)
                 data, ticks = e / factor, None
-                label = f"field strength |E| ({prefix}V/m)"
+                label = f"field strength |E| ({prefix}V/m); darkest = 99.5th percentile and above"
         finite = data[np.isfinite(data)]
         if finite.size == 0:
             return
@@ -162,21 +162,28 @@ class Overlays:
         x, y = grid.x_m / scale, grid.y_m / scale
         dx, dy = x[1] - x[0], y[1] - y[0]
         pen = pg.mkPen((30, 30, 30, 200), width=1)
-        for level in levels:
-            lines = pg.functions.isocurve(phi, level, connected=True)
+        min_gap = 0.06 * max(x[-1] - x[0], y[-1] - y[0])  # keep labels apart
+        placed: list[tuple[float, float]] = []
+        for k, level in enumerate(levels):
             longest = None
-            for line in lines:
+            for line in pg.functions.isocurve(phi, level, connected=True):
                 pts = np.asarray(line) - 0.5
                 xs, ys = x[0] + pts[:, 1] * dx, y[0] + pts[:, 0] * dy
                 self._add(pg.PlotCurveItem(xs, ys, pen=pen), 10)
                 if longest is None or len(xs) > len(longest[0]):
                     longest = (xs, ys)
-            if longest is not None and len(longest[0]) > 4:
-                k = len(longest[0]) // 2
-                label = pg.TextItem(format_potential(level), color="#202020", anchor=(0.5, 0.5),
-                                    fill=pg.mkBrush(255, 255, 255, 170))
-                label.setPos(QPointF(longest[0][k], longest[1][k]))
-                self._add(label, 11)
+            if longest is None or len(longest[0]) <= 4:
+                continue
+            n = len(longest[0])
+            for t in ((0.5 + 0.382 * k + 0.05 * j) % 1.0 for j in range(20)):
+                px, py = longest[0][int(t * (n - 1))], longest[1][int(t * (n - 1))]
+                if all(np.hypot(px - qx, py - qy) >= min_gap for qx, qy in placed):
+                    placed.append((px, py))
+                    label = pg.TextItem(format_potential(level), color="#202020", anchor=(0.5, 0.5),
+                                        fill=pg.mkBrush(255, 255, 255, 170))
+                    label.setPos(QPointF(px, py))
+                    self._add(label, 11)
+                    break
 
     def _draw_field_lines(self, r, scale: float) -> None:
         if not r.field_lines:
@@ -210,12 +217,13 @@ class Overlays:
         ys = [p.location_m[1] / scale for p in peaks]
         self._add(pg.ScatterPlotItem(xs, ys, symbol="star", size=16, pen=pg.mkPen("#000"),
                                      brush=pg.mkBrush(255, 215, 0)), 35)
+        centre = 0.5 * (min(xs) + max(xs))
         for p, x, y in zip(peaks, xs, ys):
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}"
             if p.at_sharp_corner:
-                text += " (sharp corner: mesh-dependent)"
+                text += " (sharp corner)"
             bold = p.field_V_per_m == top
-            label = pg.TextItem(text, color="#000000", anchor=(0, 1.1),
+            label = pg.TextItem(text, color="#000000", anchor=(1.0 if x < centre else 0.0, 1.1),
                                 fill=pg.mkBrush(255, 250, 205, 230), border=pg.mkPen("#8a6d00" if bold else "#bbbbbb"))
             label.setPos(QPointF(x, y))
             self._add(label, 36)

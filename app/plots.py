@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
-from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 from .units import si_scale
 
@@ -33,6 +33,12 @@ class BoundaryPlot(QWidget):
                       "and free edges. Click a point to show it on the drawing.")
         note.setWordWrap(True)
         layout.addWidget(note)
+        row = QHBoxLayout()
+        row.addWidget(QLabel("conductor:"))
+        self.choice = QComboBox()
+        self.choice.currentIndexChanged.connect(self._on_choice_changed)
+        row.addWidget(self.choice, 1)
+        layout.addLayout(row)
         self.plot = _plot()
         layout.addWidget(self.plot)
         self.results = None
@@ -43,6 +49,21 @@ class BoundaryPlot(QWidget):
 
     def show_results(self, results) -> None:
         self.results = results
+        names = ["all conductors"] + list(results.model.conductor_names)
+        if [self.choice.itemText(i) for i in range(self.choice.count())] != names:
+            self.choice.blockSignals(True)
+            self.choice.clear()
+            self.choice.addItems(names)
+            self.choice.blockSignals(False)
+        self._draw()
+
+    def _on_choice_changed(self, index: int) -> None:
+        if self.results is not None:
+            self._draw()
+
+    def _draw(self) -> None:
+        results = self.results
+        only = self.choice.currentIndex() - 1  # -1: all
         self.plot.clear()
         self.plot.addItem(self._marker)
         sol, model = results.solution, results.model
@@ -53,6 +74,8 @@ class BoundaryPlot(QWidget):
         self.plot.setLabel("left", f"surface charge density ({prefix}C/m²)")
         xs, ys, panels = [], [], []
         for k, c in enumerate(model.conductors):
+            if only >= 0 and k != only:
+                continue
             idx = np.flatnonzero(mesh.conductor_index == k)
             s = mesh.arc_length_m[idx] / scale
             order = np.argsort(s, kind="stable")
@@ -68,6 +91,7 @@ class BoundaryPlot(QWidget):
                                                   pen=pg.mkPen(c.color or "#555", width=1, style=Qt.DashLine)))
         self._x, self._y, self._panel = (np.concatenate(a) if a else np.zeros(0) for a in (xs, ys, panels))
         self._marker.setData([], [])
+        self.plot.plotItem.vb.autoRange()
 
     @staticmethod
     def _corner_positions(sol, k: int, idx: np.ndarray) -> list[float]:
@@ -85,7 +109,11 @@ class BoundaryPlot(QWidget):
         return out
 
     def mark_panel(self, panel: int) -> None:
+        """Show the place of boundary panel ``panel`` (switching to its conductor if hidden)."""
         hit = np.flatnonzero(self._panel == panel)
+        if not hit.size and self.results is not None:
+            self.choice.setCurrentIndex(int(self.results.solution.mesh.conductor_index[panel]) + 1)
+            hit = np.flatnonzero(self._panel == panel)
         if hit.size:
             i = int(hit[0])
             self._marker.setData([self._x[i]], [self._y[i]])

@@ -56,6 +56,15 @@ def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, f
 def grid_axes(model: Model, n_long: int = 120) -> tuple[np.ndarray, np.ndarray]:
     """Grid abscissae and ordinates in metres covering :func:`view_box`, about ``n_long`` along the longer side."""
     x0, y0, x1, y1 = view_box(model)
+    # widen the short side so that the map fills a roughly square drawing area
+    if (x1 - x0) < (y1 - y0):
+        pad = 0.5 * ((y1 - y0) - (x1 - x0))
+        x0, x1 = x0 - pad, x1 + pad
+    elif model.ground_plane is None:
+        pad = 0.5 * ((x1 - x0) - (y1 - y0))
+        y0, y1 = y0 - pad, y1 + pad
+    else:
+        y1 = y0 + (x1 - x0)
     step = max(x1 - x0, y1 - y0) / n_long
     scale = model.metres_per_unit
     nx = max(int(round((x1 - x0) / step)), 8)

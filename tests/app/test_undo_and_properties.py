@@ -62,3 +62,16 @@ def test_selecting_in_the_parts_list_selects_on_the_canvas(window):
     window.parts.topLevelItem(0).setSelected(True)
     assert window.document.selection is not None
     assert window.properties.fields["name"].text() == "conductor 1"
+
+
+def test_arrow_keys_nudge_the_selected_part_by_the_snap_step(window, qtbot):
+    from PySide6.QtCore import Qt
+
+    _draw_bar(window)
+    step = window.canvas.snap_step()
+    qtbot.keyClick(window.canvas, Qt.Key_Right)
+    qtbot.keyClick(window.canvas, Qt.Key_Up)
+    (shape,) = window.document.model.conductors[0].shapes
+    assert shape.center == pytest.approx((-10 + step, 15 + step))
+    window.document.undo()
+    assert window.document.model.conductors[0].shapes[0].center == pytest.approx((-10 + step, 15))

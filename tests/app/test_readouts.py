@@ -1,0 +1,68 @@
+"""Readouts after a solve: cursor potential and field, the boundary plot linked with the drawing,
+the caveat and caution texts."""
+
+import pytest
+from app_helpers import to_pixel, wait_for_solve
+from PySide6.QtTest import QTest
+
+from app import cautions, edits, files
+
+
+@pytest.fixture
+def twin(window, qtbot):
+    window.commands.open(files.SAMPLES_DIR / "twin_lead.json")
+    wait_for_solve(qtbot, window)
+    return window
+
+
+def test_cursor_readout_shows_potential_and_field(twin):
+    QTest.mouseMove(twin.canvas.viewport(), to_pixel(twin.canvas, 0.0, 0.0))
+    text = twin.readout.text()
+    assert "potential" in text and "V/m" in text
+    QTest.mouseMove(twin.canvas.viewport(), to_pixel(twin.canvas, -4.0, 0.0))  # centre of the 'go' wire
+    assert "inside a conductor" in twin.readout.text()
+
+
+def test_boundary_plot_and_drawing_are_linked_both_ways(twin):
+    plot = twin.results_panel.boundary
+    panel = plot.pick_at(1.0, 0.0)
+    mid = twin.results.solution.mesh.midpoints[panel] * 1e3  # mm
+    x, y = twin.canvas.overlays._marker.getData()
+    assert (x[0], y[0]) == pytest.approx(tuple(mid))
+    # and from the drawing: a click on the 'return' wire outline marks the plot
+    twin.canvas.boundary_pick((4.0 + 0.65, 0.0))
+    mx, my = plot._marker.getData()
+    assert len(mx) == 1
+
+
+def test_hot_spot_caution_levels_and_statement():
+    low = cautions.field_caution(0.5e6)
+    near = cautions.field_caution(2.0e6)
+    over = cautions.field_caution(2.0e6, relative_air_density=0.6)
+    assert (low.level, near.level, over.level) == ("none", "approaching", "exceeded")
+    assert cautions.STANDING_STATEMENT in over.detail
+    assert "qualified persons" in cautions.STANDING_STATEMENT
+    assert cautions.relative_air_density_at(0.0) == 1.0
+    assert 0.8 < cautions.relative_air_density_at(1500.0) < 0.85
+
+
+def test_part_length_caveat_follows_the_ten_times_rule(twin):
+    caveats = twin.results_panel.caveats
+    caveats.length_edit.setText("40")  # the twin lead is about 9.3 mm across
+    caveats.length_edit.editingFinished.emit()
+    assert twin.document.model.extras["part_length"] == 40.0
+    assert "below the ~10x" in caveats.verdict.text()
+    caveats.length_edit.setText("500")
+    caveats.length_edit.editingFinished.emit()
+    assert "above the ~10x" in caveats.verdict.text()
+    assert not twin.stale_label.isVisible()  # a view setting does not outdate the results
+
+
+def test_high_voltage_banner_appears_when_the_field_approaches_air_strength(twin, qtbot):
+    assert not twin.banner.isVisible()
+    model = edits.update_conductor(twin.document.model, 0, potential_V=5000.0)
+    twin.document.apply(model, "Potential")
+    twin.solve()
+    wait_for_solve(qtbot, twin)
+    assert twin.banner.isVisible()
+    assert "CAUTION" in twin.banner.text() and "qualified persons" in twin.banner.text()
