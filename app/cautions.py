@@ -1,32 +1,29 @@
-"""The caution and caveat texts, in one place, for the program, the report and SAFETY.md.
+"""The caution and caveat texts of the program and the report, in one place.
 
-Qt-free. The numbers here are the usual rules of thumb (common practice), not design limits:
-air breaks down at about 3 MV/m in a uniform field at sea level (20 degC, 101.3 kPa), in
-proportion to the relative air density; and end effects of a part of length L are small once
-L is above about ten times its largest cross-section dimension.
+Qt-free. The high-voltage caution, the air strength and the air density are the solver's
+(:mod:`solver.margins`), whose caution SAFETY.md repeats word for word, so the program, the
+report, the command line and SAFETY.md say the same. The numbers are the usual rules of thumb
+(common practice), not design limits: air breaks down at about 3 MV/m in a uniform field at the
+reference atmosphere (20 degC, 101.325 kPa), in proportion to the relative air density; end
+effects of a part of length L are small once L is above about ten times its largest
+cross-section dimension.
 """
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
-#: Dielectric strength of air in a uniform field at sea level, V/m (about 3 MV/m; common practice).
-AIR_STRENGTH_SEA_LEVEL_V_PER_M = 3.0e6
+from solver import HIGH_VOLTAGE_CAUTION, air_breakdown_field_V_per_m
+from solver.margins import AIR_DIELECTRIC_STRENGTH_V_PER_M, relative_air_density_at_altitude
 
-#: Scale height used to estimate relative air density from altitude, m (isothermal
-#: atmosphere, common practice; a rough figure — enter the measured density where known).
-AIR_SCALE_HEIGHT_M = 8400.0
+#: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
+AIR_STRENGTH_SEA_LEVEL_V_PER_M = AIR_DIELECTRIC_STRENGTH_V_PER_M
+
+#: The standing statement shown with every high-voltage figure (SAFETY.md has it word for word).
+STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION
 
 #: Length-to-cross-section ratio above which end effects are usually small (common practice).
 LENGTH_RATIO_RULE = 10.0
-
-#: The standing statement shown with every high-voltage figure (the same words as SAFETY.md).
-STANDING_STATEMENT = (
-    "Edgewise does not determine electrical clearances or creepage distances. Its figures are "
-    "no substitute for the applicable local codes and standards or for review by a licensed or "
-    "otherwise qualified engineer. Work on or near energised equipment is for qualified persons only."
-)
 
 #: The limits of a 2-D electrostatic model (the same points as SAFETY.md and the design brief).
 TWO_D_LIMITS = (
@@ -43,13 +40,13 @@ TWO_D_LIMITS = (
 
 
 def relative_air_density_at(altitude_m: float) -> float:
-    """Rough relative air density at ``altitude_m`` above sea level (1 at sea level)."""
-    return math.exp(-max(altitude_m, 0.0) / AIR_SCALE_HEIGHT_M)
+    """Relative air density at ``altitude_m`` (standard atmosphere, 20 degC); SolverError out of range."""
+    return relative_air_density_at_altitude(altitude_m)
 
 
 def air_strength_V_per_m(relative_air_density: float) -> float:
-    """Approximate uniform-field breakdown strength of air, V/m, scaled by relative air density."""
-    return AIR_STRENGTH_SEA_LEVEL_V_PER_M * relative_air_density
+    """Uniform-field strength of air, 3 MV/m times the relative air density (common practice), V/m."""
+    return air_breakdown_field_V_per_m(relative_air_density)
 
 
 @dataclass(frozen=True)
@@ -73,7 +70,7 @@ def field_caution(peak_field_V_per_m: float, relative_air_density: float = 1.0,
     numbers = (
         f"Peak surface field{where}: {peak_field_V_per_m / 1e6:.3g} MV/m = {100 * ratio:.0f} % of about "
         f"{strength / 1e6:.2f} MV/m, the uniform-field strength of air at relative air density "
-        f"{relative_air_density:.2f} (common practice)."
+        f"{relative_air_density:.3g} (common practice)."
     )
     corner = (" The peak sits at a sharp corner or edge, where the 2-D value grows as the mesh is "
               "refined: the real field there may be higher still.") if at_sharp_corner else ""

@@ -9,6 +9,8 @@ from __future__ import annotations
 from PySide6.QtCore import Signal
 from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidget
 
+from solver import SolverError
+
 from . import cautions, edits, shapes
 
 PART_LENGTH_KEY = "part_length"
@@ -95,7 +97,7 @@ class HighVoltageView(QWidget):
         self.altitude_edit = QLineEdit()
         self.altitude_edit.setPlaceholderText("e.g. 1500")
         self.density_edit = QLineEdit()
-        form.addRow("site altitude above sea level (m)", self.altitude_edit)
+        form.addRow("site altitude above sea level (m), air at 20 °C", self.altitude_edit)
         form.addRow("relative air density (1 = sea level, 20 °C)", self.density_edit)
         layout.addLayout(form)
         self.headline = QLabel()
@@ -145,7 +147,12 @@ class HighVoltageView(QWidget):
             return
         model = edits.set_extra(self.document.model, ALTITUDE_KEY, altitude)
         if altitude is not None:
-            model = edits.set_extra(model, AIR_DENSITY_KEY, round(cautions.relative_air_density_at(altitude), 4))
+            try:
+                density = cautions.relative_air_density_at(altitude)
+            except SolverError as exc:
+                self.detail.setText(f"Not applied: {exc}")
+                return
+            model = edits.set_extra(model, AIR_DENSITY_KEY, round(density, 4))
         self.document.apply(model, "Set site altitude")
 
     def _on_density_edited(self) -> None:

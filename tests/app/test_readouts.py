@@ -66,3 +66,10 @@ def test_high_voltage_banner_appears_when_the_field_approaches_air_strength(twin
     wait_for_solve(qtbot, twin)
     assert twin.banner.isVisible()
     assert "CAUTION" in twin.banner.text() and "qualified persons" in twin.banner.text()
+
+
+def test_the_program_and_safety_md_state_the_same_caution():
+    from pathlib import Path
+
+    safety = " ".join((Path(files.SAMPLES_DIR).parent / "SAFETY.md").read_text(encoding="utf-8").split())
+    assert " ".join(cautions.STANDING_STATEMENT.split()) in safety
