@@ -264,4 +264,4 @@ class Commands:
             return False
         name = self.doc.path.name if self.doc.path else "untitled"
         image = self.w.canvas.grab().toImage()
-        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name), path)
+        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name, self.doc.model), path)

@@ -6,7 +6,7 @@ import datetime as dt
 import html
 from pathlib import Path
 
-from PySide6.QtCore import QMarginsF, QSizeF, QUrl
+from PySide6.QtCore import QMarginsF, QUrl
 from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
 
 from . import cautions, shapes
@@ -25,9 +25,13 @@ def _matrix_html(title: str, names, matrix) -> str:
     return f"<p><b>{title}</b></p><table border='1' cellspacing='0' cellpadding='2'><tr><th></th>{head}</tr>{rows}</table>"
 
 
-def report_html(results, document_name: str, image_name: str = "drawing") -> str:
-    """The report body as HTML (the drawing is the resource ``image_name``)."""
+def report_html(results, document_name: str, image_name: str = "drawing", settings_model=None) -> str:
+    """The report body as HTML (the drawing is the resource ``image_name``).
+
+    ``settings_model`` supplies the user's part length and air density (default: the solved model).
+    """
     sol, model = results.solution, results.model
+    settings_model = settings_model or model
     scale = model.metres_per_unit
     parts = [f"<h2>Edgewise report: {html.escape(model.title or document_name)}</h2>",
              f"<p>File: {html.escape(document_name)} &nbsp; Date: {dt.date.today().isoformat()} &nbsp; "
@@ -54,12 +58,12 @@ def report_html(results, document_name: str, image_name: str = "drawing") -> str
                  f"{rows}</table>")
     err = sol.estimated_relative_error
     parts.append(f"<p><b>Estimated relative error:</b> {'n/a' if err is None else f'{err:.2g} (against a mesh at half the resolution)'}</p>")
-    caution = caution_for(results, model)
+    caution = caution_for(results, settings_model)
     if caution is not None:
         colour = {"exceeded": "#b00000", "approaching": "#9a5b00", "none": "#1e6b30"}[caution.level]
         parts.append(f"<p style='color:{colour}'><b>{html.escape(caution.headline)}</b> "
                      f"{html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, ''))}</p>")
-    length = model.extras.get(PART_LENGTH_KEY)
+    length = settings_model.extras.get(PART_LENGTH_KEY)
     parts.append("<p><b>What 2-D cannot tell.</b> "
                  + html.escape(cautions.length_caveat(length, shapes.largest_dimension(model), model.unit)) + " "
                  + " ".join(html.escape(t) for t in cautions.TWO_D_LIMITS) + "</p>")
@@ -67,26 +71,52 @@ def report_html(results, document_name: str, image_name: str = "drawing") -> str
     return "<html><body style='font-size:7pt'>" + "".join(parts) + "</body></html>"
 
 
-def write_report_pdf(results, drawing_image, path: Path, document_name: str) -> None:
+def paint_report(painter: QPainter, page_width: float, page_height: float, results, drawing_image,
+                 document_name: str, settings_model=None) -> None:
+    """Paint the report onto ``painter`` within a page of the given size (device pixels)."""
+    doc = QTextDocument()
+    doc.addResource(QTextDocument.ImageResource, QUrl("drawing"), drawing_image)
+    doc.setHtml(report_html(results, document_name, settings_model=settings_model))
+    # Lay the text out at screen-like size and scale it onto the page, shrinking to one page.
+    width_px = 720.0
+    doc.setTextWidth(width_px)
+    factor = page_width / width_px
+    height = doc.size().height() * factor
+    if height > page_height:
+        factor *= page_height / height
+    painter.save()
+    painter.scale(factor, factor)
+    doc.drawContents(painter)
+    painter.restore()
+
+
+def write_report_pdf(results, drawing_image, path: Path, document_name: str, settings_model=None) -> None:
     """Write the one-page A4 report to ``path``; ``drawing_image`` is a QImage of the drawing."""
     writer = QPdfWriter(str(path))
     writer.setPageLayout(QPageLayout(QPageSize(QPageSize.A4), QPageLayout.Portrait, QMarginsF(12, 12, 12, 12)))
     writer.setResolution(150)
     writer.setTitle("Edgewise report")
-    doc = QTextDocument()
-    doc.addResource(QTextDocument.ImageResource, QUrl("drawing"), drawing_image)
-    doc.setHtml(report_html(results, document_name))
     painter = QPainter(writer)
     try:
         page = writer.pageLayout().paintRectPixels(writer.resolution())
-        # Lay the text out at screen-like size and scale it onto the page, shrinking to one page.
-        width_px = 720.0
-        doc.setTextWidth(width_px)
-        factor = page.width() / width_px
-        height = doc.size().height() * factor
-        if height > page.height():
-            factor *= page.height() / height
-        painter.scale(factor, factor)
-        doc.drawContents(painter)
+        paint_report(painter, page.width(), page.height(), results, drawing_image, document_name, settings_model)
     finally:
         painter.end()
+
+
+def report_preview(results, drawing_image, document_name: str, width_px: int = 1240, settings_model=None):
+    """A QImage of the report page (A4 proportions), for a look without a PDF viewer."""
+    from PySide6.QtGui import QColor, QImage
+
+    height_px = int(width_px * 297 / 210)
+    image = QImage(width_px, height_px, QImage.Format_RGB32)
+    image.fill(QColor("white"))
+    painter = QPainter(image)
+    try:
+        margin = width_px * 12 / 210
+        painter.translate(margin, margin)
+        paint_report(painter, width_px - 2 * margin, height_px - 2 * margin, results, drawing_image, document_name,
+                     settings_model)
+    finally:
+        painter.end()
+    return image

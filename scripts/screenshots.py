@@ -86,6 +86,11 @@ def main() -> None:
     settle(app, w, 0.1)
     shoot(w, out, "08_limits_of_2d")
 
+    from app.report import report_preview
+
+    report_preview(w.results, w.canvas.grab().toImage(), "busbar_enclosure.json",
+                   settings_model=w.document.model).save(str(out / "08b_report_page.png"))
+    w.commands.export_report(out / "busbar_report.pdf")
     open_sample(w, "hv_electrode_over_earth.json")
     settle(app, w)
     w.results_panel.show_section("Numbers")

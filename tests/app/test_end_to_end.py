@@ -64,3 +64,15 @@ def test_editing_after_a_solve_marks_results_out_of_date(window, qtbot):
     assert window.stale_label.isVisible()
     assert "OUT OF DATE" in window.results_panel.numbers.status.text()
     assert window.canvas.overlays.stale
+
+
+def test_small_models_re_solve_by_themselves_after_an_edit(window, qtbot):
+    window.auto_solve = True
+    canvas = window.canvas
+    canvas.set_tool("ground plane")
+    click(canvas, (0, 0))
+    canvas.set_tool("rectangle")
+    drag(canvas, (-10, 10), (10, 20))
+    qtbot.waitUntil(lambda: window.results is not None and window.results.model == window.document.model,
+                    timeout=30000)
+    assert not window.stale_label.isVisible()
