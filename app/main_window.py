@@ -47,6 +47,7 @@ class MainWindow(QMainWindow):
         self.banner = QLabel()
         self.banner.setWordWrap(True)
         self.banner.setVisible(False)
+        self._banner_is_error = False
         self.stale_label = QLabel()
         self.stale_label.setVisible(False)
         self.stale_label.setStyleSheet("background: #fde9c4; color: #6b4000; padding: 4px; font-weight: bold;")
@@ -150,6 +151,9 @@ class MainWindow(QMainWindow):
 
     def _on_model_changed(self, model) -> None:
         self.canvas.clear_errors()
+        if self._banner_is_error:
+            self.banner.setVisible(False)
+            self._banner_is_error = False
         stale = self.results is not None and model != self.results.model  # extras (view settings) ignored
         self._set_stale(stale)
         if self.results is not None and not stale:
@@ -208,6 +212,7 @@ class MainWindow(QMainWindow):
 
     def _show_error(self, message: str, names: list[str]) -> None:
         self.canvas.show_errors(names, message)
+        self._banner_is_error = True
         self.banner.setText(f"Cannot solve: {message}")
         self.banner.setStyleSheet("background: #fde2e2; color: #7a0000; padding: 6px; font-weight: bold;")
         self.banner.setVisible(True)
@@ -215,6 +220,7 @@ class MainWindow(QMainWindow):
     def _update_banner(self) -> None:
         caution = caution_for(self.results, self.document.model)
         self.results_panel.high_voltage.show_results(self.results)
+        self._banner_is_error = False
         if caution is None or caution.level == "none":
             self.banner.setVisible(False)
             return

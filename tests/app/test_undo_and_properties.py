@@ -75,3 +75,14 @@ def test_arrow_keys_nudge_the_selected_part_by_the_snap_step(window, qtbot):
     assert shape.center == pytest.approx((-10 + step, 15 + step))
     window.document.undo()
     assert window.document.model.conductors[0].shapes[0].center == pytest.approx((-10 + step, 15))
+
+
+def test_two_shapes_joined_into_one_conductor_from_the_properties(window):
+    _draw_bar(window)
+    window.canvas.set_tool("rectangle")
+    drag(window.canvas, (10, 10), (30, 20))
+    assert len(window.document.model.conductors) == 2
+    combo = window.properties.member_combo
+    combo.activated.emit(combo.findText("conductor 1"))
+    (c,) = window.document.model.conductors
+    assert len(c.shapes) == 2 and window.parts.topLevelItem(0).childCount() == 2
