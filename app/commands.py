@@ -171,13 +171,20 @@ class Commands:
     def _remember(self, path: Path) -> None:
         if self.w.settings is None:
             return
-        recent = files.updated_recent(list(self.w.settings.value("recent_files", []) or []), path)
+        recent = files.updated_recent(self._recent(), path)
         self.w.settings.setValue("recent_files", recent)
         self._refresh_recent()
 
+    def _recent(self) -> list[str]:
+        if self.w.settings is None:
+            return []
+        value = self.w.settings.value("recent_files", [])
+        # QSettings hands back a plain string when the list has one entry
+        return [value] if isinstance(value, str) else [str(v) for v in (value or [])]
+
     def _refresh_recent(self) -> None:
         self.recent_menu.clear()
-        recent = list(self.w.settings.value("recent_files", []) or []) if self.w.settings is not None else []
+        recent = self._recent()
         for p in recent:
             self._act(self.recent_menu, p, lambda p=p: self.open(Path(p)))
         self.recent_menu.setEnabled(bool(recent))

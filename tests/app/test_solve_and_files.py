@@ -77,7 +77,9 @@ def test_save_then_reopen_gives_the_same_model(window, tmp_path):
     assert window.commands.open(target)
     assert window.document.model == saved
     assert window.document.model.extras.get("part_length") == 2000.0
-    assert str(target.resolve()) in window.settings.value("recent_files")
+    recent = window.commands._recent()
+    assert recent[0] == str(target.resolve()) and str(COAX.resolve()) in recent
+    assert [a.text() for a in window.commands.recent_menu.actions()] == recent
 
 
 def test_unsaved_work_is_written_to_the_recovery_file(window, qtbot):
