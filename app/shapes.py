@@ -120,6 +120,32 @@ def with_handle_moved(shape: Shape, index: int, x: float, y: float) -> Shape:
     return Strip(tuple(pts))
 
 
+def with_vertex_inserted(shape: Shape, x: float, y: float) -> Shape:
+    """A polygon or strip with a new vertex at (x, y) on its nearest edge."""
+    closed = isinstance(shape, Polygon)
+    pts = np.asarray(shape.exterior if closed else shape.points, float)
+    a = pts
+    b = np.roll(pts, -1, axis=0) if closed else pts[1:]
+    a = a[: len(b)]
+    ab = b - a
+    t = np.clip(np.einsum("ij,ij->i", np.array([x, y]) - a, ab) / np.einsum("ij,ij->i", ab, ab), 0.0, 1.0)
+    d = np.hypot(*(a + t[:, None] * ab - np.array([x, y])).T)
+    i = int(np.argmin(d)) + 1
+    new = [tuple(map(float, p)) for p in pts]
+    new.insert(i, (float(x), float(y)))
+    return Polygon(tuple(new), shape.holes) if closed else Strip(tuple(new))
+
+
+def with_vertex_removed(shape: Shape, index: int) -> Shape:
+    """A polygon (kept at 3 vertices or more) or strip (2 or more) without vertex ``index``."""
+    closed = isinstance(shape, Polygon)
+    pts = list(shape.exterior if closed else shape.points)
+    if len(pts) <= (3 if closed else 2):
+        return shape
+    del pts[index]
+    return Polygon(tuple(pts), shape.holes) if closed else Strip(tuple(pts))
+
+
 def rectangle_from_corners(a: XY, b: XY) -> Rectangle:
     """The axis-aligned rectangle spanned by two opposite corners."""
     return Rectangle(((a[0] + b[0]) / 2, (a[1] + b[1]) / 2), abs(b[0] - a[0]), abs(b[1] - a[1]))

@@ -66,7 +66,8 @@ class PickTool(Tool):
     """Pick a part; drag it to move it, drag a handle to resize it or move a vertex."""
 
     name, label = "pick", "Pick and move"
-    hint = "Click a part to select it; drag it to move, drag a square handle to resize. Drag empty space to pan."
+    hint = ("Click a part to select it; drag it to move, drag a square handle to resize. Double-click a "
+            "polygon edge to add a vertex, a vertex to remove it. Drag empty space to pan; arrows nudge.")
 
     def __init__(self, canvas) -> None:
         super().__init__(canvas)
@@ -112,6 +113,25 @@ class PickTool(Tool):
         if pos != self._start:
             self.doc.apply(model, description)
             self.doc.select(ref)
+
+    def double_click(self, pos, raw) -> bool:
+        """On a selected polygon or strip: a vertex is removed, a point on an edge becomes a vertex."""
+        ref = self.doc.selection
+        if ref is None or ref.kind != "conductor":
+            return False
+        shape = edits.shape_of(self.doc.model, ref)
+        if not isinstance(shape, (Polygon, Strip)):
+            return False
+        handle = self.canvas.handle_at(raw)
+        if handle is not None:
+            new, description = shapes.with_vertex_removed(shape, handle), "Remove vertex"
+        elif shapes.distance(shape, *raw) <= 6 * self.canvas.pixel_size() or isinstance(shape, Polygon):
+            new, description = shapes.with_vertex_inserted(shape, *pos), "Add vertex"
+        else:
+            return False
+        self.doc.apply(edits.replace_shape(self.doc.model, ref, new), description)
+        self.doc.select(ref)
+        return True
 
     def reset(self) -> None:
         self._ref = None

@@ -72,3 +72,18 @@ def test_resize_by_dragging_a_corner_handle(window):
     (shape,) = window.document.model.conductors[0].shapes
     assert (shape.width, shape.height) == pytest.approx((30, 20))
     assert shape.center == pytest.approx((-5, 20))
+
+
+def test_double_click_adds_and_removes_polygon_vertices(window):
+    window.canvas.set_tool("polygon")
+    for p in [(0, 10), (20, 10), (20, 30)]:
+        click(window.canvas, p)
+    double_click(window.canvas, (0, 30))
+    window.canvas.set_tool("pick")
+    click(window.canvas, (10, 20))  # select it
+    double_click(window.canvas, (10, 10))  # on the bottom edge
+    (shape,) = window.document.model.conductors[0].shapes
+    assert np.allclose(shape.exterior, [(0, 10), (10, 10), (20, 10), (20, 30), (0, 30)])
+    double_click(window.canvas, (20, 30))  # on a vertex
+    (shape,) = window.document.model.conductors[0].shapes
+    assert np.allclose(shape.exterior, [(0, 10), (10, 10), (20, 10), (0, 30)])
