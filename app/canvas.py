@@ -11,12 +11,12 @@ import math
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QPointF, Qt, Signal
-from PySide6.QtGui import QColor
+from PySide6.QtCore import Qt, Signal
 
 from . import shapes
 from .document import PartRef
 from .drawing import cosmetic_pen, dielectric_item, shape_item
+from .error_marks import ErrorMarks
 from .overlays import Overlays
 from .tools import TOOLS, PickTool
 
@@ -68,7 +68,7 @@ class Canvas(pg.PlotWidget):
         self.tools = {cls.name: cls(self) for cls in TOOLS}
         self.tool = self.tools[PickTool.name]
         self._mouse_down = False
-        self._error_items: list = []
+        self.error_marks = ErrorMarks(self.plotItem, document)
         document.events.connect("model_changed", self._on_model_changed)
         document.events.connect("selection_changed", self._on_selection_changed)
         self._on_model_changed(document.model)
@@ -206,37 +206,10 @@ class Canvas(pg.PlotWidget):
 
     def show_errors(self, names: list[str], message: str) -> None:
         """Mark the named conductors and put the message next to the first of them."""
-        self.clear_errors()
-        model = self.document.model
-        for name in names:
-            if name not in model.conductor_names:
-                continue
-            c = model.conductor(name)
-            for s in c.shapes:
-                item = shape_item(s, "#ff0000", alpha=0, dashed=True)
-                item.setPen(cosmetic_pen("#e00000", 3, Qt.DashLine))
-                item.setZValue(70)
-                self.plotItem.addItem(item)
-                self._error_items.append(item)
-        anchor = None
-        if names and names[0] in model.conductor_names:
-            x0, y0, x1, y1 = shapes.bounds(model.conductor(names[0]).shapes[0])
-            anchor = (x1, y1)
-        elif shapes.model_bounds(model) is not None:
-            x0, y0, x1, y1 = shapes.model_bounds(model)
-            anchor = (x0, y1)
-        if anchor is not None:
-            text = pg.TextItem(_wrap(message), color="#7a0000", fill=pg.mkBrush(255, 235, 235, 235),
-                               border=pg.mkPen("#e00000"), anchor=(0, 1))
-            text.setPos(QPointF(*anchor))
-            text.setZValue(80)
-            self.plotItem.addItem(text)
-            self._error_items.append(text)
+        self.error_marks.show(names, message)
 
     def clear_errors(self) -> None:
-        for item in self._error_items:
-            self.plotItem.removeItem(item)
-        self._error_items = []
+        self.error_marks.clear()
 
     def boundary_pick(self, raw) -> None:
         """With results, find the boundary panel nearest the point and report it."""
@@ -311,9 +284,3 @@ class Canvas(pg.PlotWidget):
             event.accept()
             return
         super().keyPressEvent(event)
-
-
-def _wrap(text: str, width: int = 60) -> str:
-    import textwrap
-
-    return "\n".join(textwrap.wrap(text, width))

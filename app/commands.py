@@ -43,6 +43,8 @@ class Commands:
         self._act(export, "Drawing (SVG)…", lambda: self.export_picture(self.w.canvas, "svg"))
         self._act(export, "Charge plot (PNG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "png"))
         self._act(export, "Charge plot (SVG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "svg"))
+        self._act(export, "Probe plots (PNG)…", lambda: self.export_picture(self.w.results_panel.probe, "png"))
+        self._act(export, "Probe plots (SVG)…", lambda: self.export_picture(self.w.results_panel.probe, "svg"))
         self._act(export, "Probe profile (CSV)…", self.export_profile_csv)
         self._act(export, "One-page report (PDF)…", self.export_report, "Ctrl+Shift+P")
         self.file_menu.addSeparator()
@@ -83,6 +85,9 @@ class Commands:
         auto.setCheckable(True)
         auto.setChecked(True)
 
+        helps = bar.addMenu("&Help")
+        self._act(helps, "Mouse and keys", self.show_keys, QKeySequence.HelpContents)
+
         self.doc.events.connect("model_changed", lambda _: self._update_undo())
         self._update_undo()
         self._refresh_recent()
@@ -109,6 +114,14 @@ class Commands:
         self.undo_action.setText(f"&Undo {self.doc.undo_text}".strip())
         self.redo_action.setEnabled(self.doc.can_redo)
         self.redo_action.setText(f"&Redo {self.doc.redo_text}".strip())
+
+    def show_keys(self) -> None:
+        lines = [f"{TOOL_KEYS[cls.name]}  {cls.label}: {cls.hint}" for cls in TOOLS]
+        lines += ["", "Esc  back to Pick and move; Delete  delete part; Ctrl+D  duplicate; arrows  nudge by the snap "
+                  "step (Shift: a tenth)", "F  fit to window; wheel  zoom; middle or right drag  pan/zoom; "
+                  "Ctrl+G  snap on/off", "F5  solve; Ctrl+.  cancel the solve; Ctrl+Z / Ctrl+Shift+Z  undo / redo",
+                  "Ctrl+Shift+P  one-page PDF report"]
+        QMessageBox.information(self.w, "Mouse and keys", "\n".join(lines))
 
     # ---- files -----------------------------------------------------------------------------
     def maybe_save(self) -> bool:

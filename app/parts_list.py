@@ -5,7 +5,6 @@ Selecting a row selects the part on the drawing and the other way round.
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import QTreeWidget, QTreeWidgetItem
 

@@ -12,10 +12,9 @@ from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (QColorDialog, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit,
                                QPushButton, QVBoxLayout, QWidget)
 
-from solver import LENGTH_UNITS, MESH_DENSITIES, ROLES, Circle, Polygon, Rectangle, Ring, SolverError, Strip
+from solver import LENGTH_UNITS, MESH_DENSITIES, Circle, Polygon, Rectangle, Ring, SolverError, Strip
 
 from . import edits
-from .document import PartRef
 
 SHAPE_FIELDS = {
     Circle: (("centre x", "cx"), ("centre y", "cy"), ("radius", "radius")),

@@ -19,7 +19,6 @@ from dataclasses import dataclass
 import numpy as np
 import shapely
 from shapely.geometry import LineString, MultiLineString
-from shapely.geometry import Polygon as ShapelyPolygon
 from shapely.ops import unary_union
 
 from .geometry import conductor_geometries

@@ -2,14 +2,13 @@
 
 import json
 import math
-from pathlib import Path
 from unittest import mock
 
 import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import QMessageBox
 
-from solver import EPSILON_0_F_PER_M, load_project
+from solver import EPSILON_0_F_PER_M
 
 from app import files
 
@@ -104,4 +103,4 @@ def test_a_solver_error_is_shown_next_to_the_parts(window, qtbot):
     wait_for_solve(qtbot, window)
     assert window.banner.isVisible()
     assert "conductor 1" in window.banner.text() and "touch or overlap" in window.banner.text()
-    assert window.canvas._error_items  # outlines and a note on the drawing
+    assert window.canvas.error_marks.items  # outlines and a note on the drawing

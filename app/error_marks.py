@@ -1,0 +1,53 @@
+"""Solver errors shown on the drawing: the parts concerned outlined in red, the message beside them."""
+
+from __future__ import annotations
+
+import textwrap
+
+import pyqtgraph as pg
+from PySide6.QtCore import QPointF, Qt
+
+from . import shapes
+from .drawing import cosmetic_pen, shape_item
+
+
+class ErrorMarks:
+    """Red outlines and a note on a PlotItem, for the conductors an error names."""
+
+    def __init__(self, plot_item: pg.PlotItem, document) -> None:
+        self.plot = plot_item
+        self.document = document
+        self.items: list = []
+
+    def show(self, names: list[str], message: str) -> None:
+        self.clear()
+        model = self.document.model
+        for name in names:
+            if name not in model.conductor_names:
+                continue
+            for s in model.conductor(name).shapes:
+                item = shape_item(s, "#ff0000", alpha=0, dashed=True)
+                item.setPen(cosmetic_pen("#e00000", 3, Qt.DashLine))
+                self._add(item, 70)
+        anchor = None
+        if names and names[0] in model.conductor_names:
+            x0, y0, x1, y1 = shapes.bounds(model.conductor(names[0]).shapes[0])
+            anchor = (x1, y1)
+        elif shapes.model_bounds(model) is not None:
+            x0, y0, x1, y1 = shapes.model_bounds(model)
+            anchor = (x0, y1)
+        if anchor is not None:
+            text = pg.TextItem("\n".join(textwrap.wrap(message, 60)), color="#7a0000",
+                               fill=pg.mkBrush(255, 235, 235, 235), border=pg.mkPen("#e00000"), anchor=(0, 1))
+            text.setPos(QPointF(*anchor))
+            self._add(text, 80)
+
+    def _add(self, item, z: float) -> None:
+        item.setZValue(z)
+        self.plot.addItem(item)
+        self.items.append(item)
+
+    def clear(self) -> None:
+        for item in self.items:
+            self.plot.removeItem(item)
+        self.items = []
