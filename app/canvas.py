@@ -118,7 +118,10 @@ class Canvas(pg.PlotWidget):
         selected = self.document.selection
         for i, d in enumerate(model.dielectrics):
             for j, s in enumerate(d.shapes):
-                self._add_part(dielectric_item(s, d.eps_r), 5)
+                item = dielectric_item(s, d.eps_r)
+                if selected == PartRef("dielectric", i, j):
+                    item.setPen(cosmetic_pen("#111111", 2.5))
+                self._add_part(item, 5)
         for i, c in enumerate(model.conductors):
             for j, s in enumerate(c.shapes):
                 sel = selected == PartRef("conductor", i, j)
@@ -145,7 +148,7 @@ class Canvas(pg.PlotWidget):
 
     def _update_handles(self) -> None:
         ref = self.document.selection
-        if ref is None or ref.kind != "conductor":
+        if ref is None or ref.kind == "plane":
             self._handles.setData([], [])
             return
         from .edits import shape_of
@@ -167,12 +170,17 @@ class Canvas(pg.PlotWidget):
                         return best
         if best is None and model.ground_plane is not None and abs(raw[1] - model.ground_plane.y) <= tol:
             return PartRef("plane")
+        if best is None:
+            for i, d in enumerate(model.dielectrics):
+                for j, s in enumerate(d.shapes):
+                    if shapes.distance(s, *raw) <= tol:
+                        return PartRef("dielectric", i, j)
         return best
 
     def handle_at(self, raw) -> int | None:
         """Index of the selected shape's handle under the point, or None."""
         ref = self.document.selection
-        if ref is None or ref.kind != "conductor":
+        if ref is None or ref.kind == "plane":
             return None
         from .edits import shape_of
 
@@ -274,7 +282,7 @@ class Canvas(pg.PlotWidget):
             return
         steps = {Qt.Key_Left: (-1, 0), Qt.Key_Right: (1, 0), Qt.Key_Up: (0, 1), Qt.Key_Down: (0, -1)}
         ref = self.document.selection
-        if event.key() in steps and ref is not None and ref.kind != "dielectric":
+        if event.key() in steps and ref is not None:
             from .edits import move_part
 
             s = self.snap_step() * (0.1 if event.modifiers() & Qt.ShiftModifier else 1.0)

@@ -18,7 +18,7 @@ from .report import write_report_pdf
 from .tools import TOOLS
 
 TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "polygon": "P", "strip": "T",
-             "ground plane": "G", "probe line": "L"}
+             "ground plane": "G", "dielectric": "I", "probe line": "L"}
 
 
 class Commands:

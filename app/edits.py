@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from solver import Conductor, GroundPlane, InvalidModelError, Model, Shape
+from solver import Conductor, GroundPlane, InvalidModelError, Model, Shape, dielectric_of
 
 from . import shapes
 from .document import PartRef
@@ -33,6 +33,24 @@ def add_conductor(model: Model, shape: Shape, potential_V: float = 0.0) -> tuple
     conductor = Conductor(name, (shape,), role="fixed", potential_V=potential_V, color=color)
     new = model.with_conductors(model.conductors + (conductor,))
     return new, PartRef("conductor", len(new.conductors) - 1, 0)
+
+
+def add_dielectric(model: Model, shape: Shape, material_name: str = "FR-4") -> tuple[Model, PartRef]:
+    """Add a dielectric region of a library material made of ``shape``; returns the model and its ref."""
+    taken = {d.name for d in model.dielectrics}
+    n = 1
+    while f"region {n}" in taken:
+        n += 1
+    region = dielectric_of(f"region {n}", (shape,), material_name)
+    new = replace(model, dielectrics=model.dielectrics + (region,))
+    return new, PartRef("dielectric", len(new.dielectrics) - 1, 0)
+
+
+def update_dielectric(model: Model, index: int, **changes) -> Model:
+    """A copy with dielectric region ``index`` changed (name, eps_r, material)."""
+    regions = list(model.dielectrics)
+    regions[index] = replace(regions[index], **changes)
+    return replace(model, dielectrics=tuple(regions))
 
 
 def _parts(model: Model, kind: str):

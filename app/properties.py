@@ -12,7 +12,7 @@ from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (QColorDialog, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit,
                                QPushButton, QVBoxLayout, QWidget)
 
-from solver import LENGTH_UNITS, MESH_DENSITIES, Circle, Polygon, Rectangle, Ring, SolverError, Strip
+from solver import LENGTH_UNITS, MESH_DENSITIES, Circle, Polygon, Rectangle, Ring, SolverError, Strip, material, material_names
 
 from . import edits
 
@@ -147,6 +147,10 @@ class PropertiesPanel(QWidget):
             self.color_button.setStyleSheet(f"background: {c.color or '#808080'};")
             self.fields["potential"].setEnabled(c.role == "fixed")
             self.fields["charge"].setEnabled(c.role == "floating")
+        if ref.kind == "dielectric":
+            d = model.dielectrics[ref.index]
+            values.update(name=d.name, eps_r=f"{d.eps_r:g}")
+            self._set_combo(self.material_combo, d.material if d.material in material_names() else "(own value)")
         for key, text in values.items():
             if key in self.fields:
                 self.fields[key].blockSignals(True)
@@ -189,6 +193,13 @@ class PropertiesPanel(QWidget):
             self.member_combo = QComboBox()
             self.member_combo.activated.connect(self._on_member_chosen)
             self.part_form.addRow("shape belongs to", self.member_combo)
+        if kind == "dielectric":
+            self._add_field("name", "region name", lambda: self._edit_dielectric(name=self.fields["name"].text().strip()))
+            self.material_combo = QComboBox()
+            self.material_combo.addItems(list(material_names()) + ["(own value)"])
+            self.material_combo.activated.connect(self._on_material_chosen)
+            self.part_form.addRow("material", self.material_combo)
+            self._add_field("eps_r", "relative permittivity εr", self._on_eps_r_edited)
         for label, field in SHAPE_FIELDS[shape_cls]:
             self._add_field(field, f"{label} ({unit})", self._on_shape_edited)
 
@@ -259,6 +270,21 @@ class PropertiesPanel(QWidget):
         model, new_ref = edits.move_shape_to(self.document.model, ref, target)
         if self.document.apply(model, "Move shape to another conductor"):
             self.document.select(new_ref)
+
+    def _edit_dielectric(self, **changes) -> None:
+        ref = self.document.selection
+        if ref is None or ref.kind != "dielectric":
+            return
+        self._apply(lambda: edits.update_dielectric(self.document.model, ref.index, **changes), "Change dielectric region")
+
+    def _on_material_chosen(self, index: int) -> None:
+        names = material_names()
+        if index < len(names):
+            m = material(names[index])
+            self._edit_dielectric(material=m.name, eps_r=m.eps_r)
+
+    def _on_eps_r_edited(self) -> None:
+        self._number_edit("eps_r", lambda v: self._edit_dielectric(eps_r=v, material=None))
 
     def _on_plane_edited(self) -> None:
         self._apply(lambda: edits.set_ground_plane(self.document.model, float(self.fields["plane_y"].text())),

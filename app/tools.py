@@ -117,7 +117,7 @@ class PickTool(Tool):
     def double_click(self, pos, raw) -> bool:
         """On a selected polygon or strip: a vertex is removed, a point on an edge becomes a vertex."""
         ref = self.doc.selection
-        if ref is None or ref.kind != "conductor":
+        if ref is None or ref.kind == "plane":
             return False
         shape = edits.shape_of(self.doc.model, ref)
         if not isinstance(shape, (Polygon, Strip)):
@@ -186,6 +186,19 @@ class CircleTool(_DragTool):
 
     def make(self, a, b):
         return shapes.circle_from_drag(a, b)
+
+
+class DielectricTool(_DragTool):
+    name, label = "dielectric", "Dielectric region"
+    hint = "Drag a rectangle of insulating material (FR-4 at first); choose the material or type εr in the properties."
+
+    def make(self, a, b):
+        return shapes.rectangle_from_corners(a, b)
+
+    def _add(self, shape, description: str) -> None:
+        model, ref = edits.add_dielectric(self.doc.model, shape)
+        if self.doc.apply(model, "Draw dielectric region"):
+            self.doc.select(ref)
 
 
 class _PointsTool(Tool):
@@ -297,4 +310,4 @@ class ProbeTool(Tool):
             self.canvas.probe_drawn.emit(start, raw)
 
 
-TOOLS = (PickTool, RectangleTool, CircleTool, PolygonTool, StripTool, GroundPlaneTool, ProbeTool)
+TOOLS = (PickTool, RectangleTool, CircleTool, PolygonTool, StripTool, GroundPlaneTool, DielectricTool, ProbeTool)

@@ -87,3 +87,16 @@ def test_double_click_adds_and_removes_polygon_vertices(window):
     double_click(window.canvas, (20, 30))  # on a vertex
     (shape,) = window.document.model.conductors[0].shapes
     assert np.allclose(shape.exterior, [(0, 10), (10, 10), (20, 10), (0, 30)])
+
+
+def test_dielectric_region_by_dragging_and_its_permittivity(window):
+    window.canvas.set_tool("dielectric")
+    drag(window.canvas, (-30, 0), (30, 10))
+    (region,) = window.document.model.dielectrics
+    assert region.shapes[0] == Rectangle((0, 5), 60, 10)
+    assert region.material == "FR-4" and region.eps_r == pytest.approx(4.4)
+    field = window.properties.fields["eps_r"]
+    field.setText("3.5")
+    field.editingFinished.emit()
+    assert window.document.model.dielectrics[0].eps_r == 3.5
+    assert window.document.model.dielectrics[0].material is None

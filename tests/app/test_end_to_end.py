@@ -76,3 +76,21 @@ def test_small_models_re_solve_by_themselves_after_an_edit(window, qtbot):
     qtbot.waitUntil(lambda: window.results is not None and window.results.model == window.document.model,
                     timeout=30000)
     assert not window.stale_label.isVisible()
+
+
+def test_trace_on_a_drawn_board_solves_with_the_dielectric(window, qtbot):
+    canvas = window.canvas
+    canvas.set_tool("ground plane")
+    click(canvas, (0, 0))
+    canvas.set_tool("rectangle")
+    drag(canvas, (-5, 10), (5, 15))
+    window.solve()
+    wait_for_solve(qtbot, window)
+    c_air = window.results.solution.capacitance_maxwell_F_per_m[0, 0]
+    canvas.set_tool("dielectric")
+    drag(canvas, (-40, 0), (40, 10))  # a board from the plane up to the bar
+    window.solve()
+    wait_for_solve(qtbot, window)
+    c_board = window.results.solution.capacitance_maxwell_F_per_m[0, 0]
+    assert window.document.model.dielectrics and not window.banner.isVisible()
+    assert 1.2 * c_air < c_board < 4.4 * c_air  # partly filled: between air and a full fill
