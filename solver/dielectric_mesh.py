@@ -33,6 +33,12 @@ from .interface_pieces import Piece, piece_breaks, split_into_pieces
 from .panels import MeshSettings, PanelMesh
 
 
+#: Interface panels are this many times shorter than conductor panels in the same place: the
+#: second-kind interface equation with constant bound charge per panel needs the finer mesh
+#: to match the conductors' accuracy (measured on straight and rounded dielectric boxes).
+INTERFACE_REFINEMENT = 2.0
+
+
 def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
     """One merged shapely polygon geometry (metres) per dielectric region, validated.
 
@@ -50,6 +56,15 @@ def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
                 raise InvalidGeometryError(f"{where}: a dielectric region needs an area; a strip has none.")
             parts.append(shape_geometry(shape, scale, arc_step_rad, where))
         geoms.append(unary_union(parts))
+    if len(geoms) > 1:
+        # snap neighbours onto each other so that boundaries meant to be shared (drawn
+        # separately, equal up to rounding) coincide exactly and become one interface
+        b = np.array([g.bounds for g in geoms])
+        tol = 1e-9 * float(np.hypot(b[:, 2].max() - b[:, 0].min(), b[:, 3].max() - b[:, 1].min()))
+        for j in range(1, len(geoms)):
+            for i in range(j):
+                if shapely.distance(geoms[i], geoms[j]) < tol:
+                    geoms[j] = shapely.snap(geoms[j], geoms[i], tol)
     for i, gi in enumerate(geoms):
         for j in range(i + 1, len(geoms)):
             overlap = gi.intersection(geoms[j]).area
@@ -184,10 +199,10 @@ def discretize_interfaces(
     lines = _interface_lines(model, geoms, conductor_geoms, tol)
     if not lines:
         return InterfaceMesh.empty(), geoms
-    h_global = size / settings.divisions_per_size
+    h_global = size / (INTERFACE_REFINEMENT * settings.divisions_per_size)
     blockers = unary_union(conductor_geoms)
     plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
-    ratio = settings.growth_ratio
+    ratio = 1.0 + (settings.growth_ratio - 1.0) / 2.0
 
     starts, ends, points, normals, arcl, cid, crad = [], [], [], [], [], [], []
     circles: list[tuple[np.ndarray, float]] = []
@@ -197,7 +212,7 @@ def discretize_interfaces(
         if closed:
             coords = coords[:-1]
         pieces, grading, total = split_into_pieces(coords, closed)
-        h_max = min(h_global, total / settings.divisions_per_perimeter * (1.0 if closed else 0.5))
+        h_max = min(h_global, total / (INTERFACE_REFINEMENT * settings.divisions_per_perimeter) * (1.0 if closed else 0.5))
         h_max = max(h_max, 1e-6 * size)
         h_corner = h_max * settings.corner_fraction
 
@@ -214,7 +229,7 @@ def discretize_interfaces(
             d_c = shapely.distance(shapely.points(xy), blockers) if not blockers.is_empty else np.full(len(u), np.inf)
             if plane_y is not None:
                 d_c = np.minimum(d_c, xy[:, 1] - plane_y)
-            near = np.maximum(h_corner, settings.gap_fraction * d_c)
+            near = np.maximum(h_corner, settings.gap_fraction / INTERFACE_REFINEMENT * d_c)
             return np.minimum(np.minimum(h, near), h_max)
 
         for piece in pieces:

@@ -13,6 +13,7 @@ from solver import (
     GroundPlane,
     InvalidGeometryError,
     Model,
+    Polygon,
     Rectangle,
     Ring,
     Strip,
@@ -47,10 +48,11 @@ def test_overlapping_dielectrics_are_refused_naming_both():
 
 
 def test_touching_dielectrics_are_accepted():
-    model = _coax([
-        Dielectric("left", (Rectangle((-2.0, 0.0), 4.0, 8.0),), 2.0),
-        Dielectric("right", (Rectangle((2.0, 0.0), 4.0, 8.0),), 3.0),
-    ])
+    # two half discs sharing their diameter, ending inside the screen's metal
+    t = np.linspace(0.5 * math.pi, 1.5 * math.pi, 200)
+    left = tuple(zip(3.15 * np.cos(t), 3.15 * np.sin(t)))
+    right = tuple((-x, y) for x, y in left)
+    model = _coax([Dielectric("left", (Polygon(left),), 2.0), Dielectric("right", (Polygon(right),), 3.0)])
     c = solve(model, estimate_error=False).capacitance_maxwell_F_per_m[0, 0]
     assert c == pytest.approx(math.pi * EPS0 * 5.0 / math.log(3.0), rel=1e-5)
 
