@@ -48,7 +48,8 @@ def _check_solvable(model: Model) -> None:
 
 
 def solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None = None) -> Solution:
-    """Solve ``model`` on a given ``mesh`` (no error estimate)."""
+    """Solve ``model`` on a given ``mesh`` (no error estimate; homogeneous medium only)."""
+    _check_solvable(model)
     eps = EPSILON_0_F_PER_M * model.background_eps_r
     ell = _length_scale(mesh)
     plane_y_m = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit

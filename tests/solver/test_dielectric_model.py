@@ -183,3 +183,11 @@ def test_mesh_is_finer_at_finer_settings():
     coarse = solve_dielectric_mesh(model, MeshSettings(0.5))
     fine = solve_dielectric_mesh(model, MeshSettings(1.0))
     assert fine.interfaces.n_panels > coarse.interfaces.n_panels
+
+
+def test_the_homogeneous_mesh_solve_refuses_dielectric_models():
+    from solver import InvalidModelError, discretize_boundary, solve_mesh
+
+    model = _coax([Dielectric("sleeve", (Ring((0.0, 0.0), 1.0, 2.0),), 3.0)])
+    with pytest.raises(InvalidModelError, match="Dielectric region 'sleeve' needs the dielectric solver"):
+        solve_mesh(model, discretize_boundary(model))
