@@ -153,28 +153,6 @@ def hot_spot_section(solution: Solution) -> list[str]:
 def hot_spot_json(solution: Solution) -> dict:
     """JSON keys of the hot spots and margins (SI units; lists in conductor order)."""
     report, margins = analysis(solution)
-    detail = [
-        {
-            "conductor": s.conductor,
-            "peak_field_V_per_m": s.field_V_per_m,
-            "peak_field_location_m": list(s.location_m),
-            "peak_field_estimated_relative_error": s.estimated_relative_error,
-            "peak_field_extrapolated_V_per_m": s.extrapolated_field_V_per_m,
-            "observed_order": s.observed_order,
-            "singular": s.singular,
-            "corner_exponent": s.corner_exponent,
-            "corner_opening_rad": s.corner_opening_rad,
-            "nearest_conductor": s.nearest_conductor,
-            "gap_m": s.gap_m,
-            "gap_field_V_per_m": s.gap_field_V_per_m,
-            "enhancement_factor": s.enhancement_factor,
-            "local_radius_of_curvature_m": s.local_radius_of_curvature_m,
-            "medium_eps_r": s.medium_eps_r,
-            "converged": s.converged,
-            "note": s.note,
-        }
-        for s in report.hot_spots
-    ]
     margin_dict = margins.as_dict()
     per = margin_dict["conductors"]
     return {
@@ -190,13 +168,7 @@ def hot_spot_json(solution: Solution) -> dict:
         "relative_air_density": margins.air.relative_air_density,
         "thin_margin_threshold": margins.thin_margin,
         "high_voltage_caution": margin_dict["caution"],
-        "hot_spots": {
-            "target_relative_error": report.target_relative_error,
-            "corner_radius_m": report.corner_radius_m,
-            "levels": list(report.levels),
-            "n_panels": list(report.n_panels),
-            "conductors": detail,
-        },
+        "hot_spots": report.as_dict(),
         "margins": margin_dict,
         "part_length_check": None if _options.get("part_length_m") is None
         else vars(check_part_length(solution.model, _options["part_length_m"])),

@@ -144,6 +144,37 @@ class HotSpotReport:
         """Every non-singular peak met the error target (and none is singular)."""
         return all(s.converged for s in self.hot_spots)
 
+    def as_dict(self) -> dict:
+        """JSON-ready summary with SI keys (one entry per conductor under ``conductors``)."""
+        return {
+            "target_relative_error": self.target_relative_error,
+            "corner_radius_m": self.corner_radius_m,
+            "levels": list(self.levels),
+            "n_panels": list(self.n_panels),
+            "conductors": [
+                {
+                    "conductor": s.conductor,
+                    "peak_field_V_per_m": s.field_V_per_m,
+                    "peak_field_location_m": list(s.location_m),
+                    "peak_field_estimated_relative_error": s.estimated_relative_error,
+                    "peak_field_extrapolated_V_per_m": s.extrapolated_field_V_per_m,
+                    "observed_order": s.observed_order,
+                    "singular": s.singular,
+                    "corner_exponent": s.corner_exponent,
+                    "corner_opening_rad": s.corner_opening_rad,
+                    "nearest_conductor": s.nearest_conductor,
+                    "gap_m": s.gap_m,
+                    "gap_field_V_per_m": s.gap_field_V_per_m,
+                    "enhancement_factor": s.enhancement_factor,
+                    "local_radius_of_curvature_m": s.local_radius_of_curvature_m,
+                    "medium_eps_r": s.medium_eps_r,
+                    "converged": s.converged,
+                    "note": s.note,
+                }
+                for s in self.hot_spots
+            ],
+        }
+
 
 def analyse_hot_spots(
     model: Model,

@@ -1,5 +1,6 @@
 """Hot-spot analysis: Richardson estimate, corner rounding, curvature, neighbours, errors."""
 
+import json
 import math
 
 import numpy as np
@@ -125,6 +126,8 @@ def test_corner_radius_option_solves_the_rounded_model():
     assert report.solved_model.conductors[0].shapes[0].corner_radius == pytest.approx(1.0)
     assert not report.hot_spots[0].singular and report.all_converged
     assert report.hot_spots[0].local_radius_of_curvature_m == pytest.approx(1e-3, rel=1e-3)
+    data = json.loads(json.dumps(report.as_dict(), allow_nan=False))
+    assert data["corner_radius_m"] == 1e-3 and data["conductors"][0]["singular"] is False
 
 
 def test_bad_inputs_raise_clear_errors():
