@@ -84,6 +84,16 @@ def field_caution(peak_field_V_per_m: float, relative_air_density: float = 1.0,
                    numbers + corner + " " + STANDING_STATEMENT)
 
 
+def insulation_note(peak_field_V_per_m: float, eps_r: float, conductor: str = "") -> Caution:
+    """The note when every peak surface field sits in insulation (eps_r > 1), not in air."""
+    where = f" on '{conductor}'" if conductor else ""
+    return Caution(
+        "none", "The peak surface fields sit in insulation, not in air.",
+        f"Peak surface field{where}: {peak_field_V_per_m / 1e6:.3g} MV/m, in material of relative permittivity "
+        f"{eps_r:g}. The breakdown strength of air does not apply there; compare with the rating of the "
+        "insulation itself and mind any air gaps or voids. " + STANDING_STATEMENT)
+
+
 def length_caveat(part_length: float | None, largest_dimension: float, unit: str) -> str:
     """How far a part of ``part_length`` is from the ~10x rule for trusting per-metre figures."""
     if not part_length or part_length <= 0 or largest_dimension <= 0:

@@ -64,7 +64,7 @@ class MainWindow(QMainWindow):
         self.results_panel = ResultsPanel(self.document)
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
-        self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
+        results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
         self._build_view_bar()
         self._build_status_bar()
         self.commands = Commands(self)
@@ -90,6 +90,7 @@ class MainWindow(QMainWindow):
         self._guard_timer = QTimer(self, interval=500, timeout=refcount_guard.top_up)
         self._guard_timer.start()
         self.resize(1500, 900)
+        self.resizeDocks([results_dock], [640], Qt.Horizontal)
         self._update_title()
 
     # ---- layout ----------------------------------------------------------------------------

@@ -131,8 +131,8 @@ class MatricesView(QWidget):
                  + (" sharp corner" if p.at_sharp_corner else "")) if p else "",
                 f"{radius / scale:.4g}" if radius else "n/a",
             ])
-        self.conductors.fill(rows, ["potential", "charge per length", "peak surface field",
-                                    f"peak at ({model.unit})", f"equivalent radius ({model.unit})"], cells)
+        self.conductors.fill(rows, ["potential", "charge/length", "peak |E| at surface",
+                                    f"peak at ({model.unit})", f"equiv. radius ({model.unit})"], cells)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:

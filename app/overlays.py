@@ -106,6 +106,7 @@ class Overlays:
         bar = pg.ColorBarItem(values=(lo, hi), colorMap=cmap, label=label, interactive=False, width=14)
         if ticks is not None:
             bar.axis.setTicks([ticks])
+            bar.axis.setWidth(70)
         self.plot.layout.addItem(bar, 2, column)
         self._bars.append(bar)
         return bar
@@ -123,9 +124,13 @@ class Overlays:
             cmap = FIELD_MAP
             if self.shading == "field strength (log)":
                 data = np.log10(np.where(e > 0, e, np.nan))
-                lo, hi = np.nanmin(data), np.nanmax(data)
-                ticks = [(float(k), format_field(10.0 ** k)) for k in range(int(np.floor(lo)), int(np.ceil(hi)) + 1)]
-                label = "field strength |E| (log scale)"
+                hi = np.nanmax(data)
+                lo = max(np.nanmin(data), hi - 3.0)  # three decades; weaker fields share the lightest colour
+                data = np.clip(data, lo, None)
+                ticks = [(float(np.log10(m * 10.0 ** k)), format_field(m * 10.0 ** k))
+                         for k in range(int(np.floor(lo)), int(np.ceil(hi)) + 1) for m in (1, 2, 5)
+                         if lo <= np.log10(m * 10.0 ** k) <= hi]
+                label = "field strength |E| (log scale, three decades)"
             else:
                 factor, prefix = si_scale(np.nanmax(e) if np.isfinite(e).any() else 1.0)
                 data, ticks = e / factor, None

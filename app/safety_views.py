@@ -18,17 +18,34 @@ AIR_DENSITY_KEY = "relative_air_density"
 ALTITUDE_KEY = "altitude_m"
 
 
-def worst_peak(results):
-    """The PeakField with the largest surface field, or None."""
+def medium_eps_r(solution, panel: int) -> float:
+    """Relative permittivity of the medium next to a conductor panel (as the solution reports it)."""
+    per_panel = getattr(solution, "conductor_eps_r_plus", None)
+    if per_panel is not None and len(per_panel) == solution.mesh.n_panels:
+        return float(per_panel[panel])
+    return float(solution.model.background_eps_r)
+
+
+def worst_peak(results, *, in_air: bool | None = None):
+    """The PeakField with the largest surface field (only those in air, or not, if asked), or None."""
     peaks = results.solution.peak_surface_fields if results is not None else ()
+    if in_air is not None:
+        peaks = [p for p in peaks if (medium_eps_r(results.solution, p.panel_index) <= 1.001) == in_air]
     return max(peaks, key=lambda p: p.field_V_per_m) if peaks else None
 
 
 def caution_for(results, model) -> cautions.Caution | None:
-    """The caution for the largest peak field of ``results`` at the model's air density."""
-    peak = worst_peak(results)
-    if peak is None:
+    """The caution for the largest peak field in air of ``results`` at the model's air density.
+
+    When every peak sits in insulation, a note says that the strength of air does not apply.
+    """
+    if worst_peak(results) is None:
         return None
+    peak = worst_peak(results, in_air=True)
+    if peak is None:
+        inner = worst_peak(results)
+        return cautions.insulation_note(inner.field_V_per_m, medium_eps_r(results.solution, inner.panel_index),
+                                        inner.conductor)
     density = float(model.extras.get(AIR_DENSITY_KEY, 1.0) or 1.0)
     return cautions.field_caution(peak.field_V_per_m, density, peak.at_sharp_corner, peak.conductor)
 

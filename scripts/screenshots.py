@@ -112,6 +112,17 @@ def main() -> None:
     shoot(w, out, "10_three_traces_numbers")
     w.layer_boxes["field lines"].setChecked(False)
 
+    open_sample(w, "shielded_three_core_cable.json")
+    settle(app, w)
+    w.shading_combo.setCurrentText("field strength (log)")
+    w.layer_boxes["equipotentials"].setChecked(False)
+    settle(app, w, 0.1)
+    shoot(w, out, "13_cable_with_dielectrics_log_field")
+    w.shading_combo.setCurrentText("potential")
+    w.layer_boxes["equipotentials"].setChecked(True)
+    open_sample(w, "three_traces_over_ground.json")
+    settle(app, w)
+
     model, ref = edits.add_conductor(w.document.model, edits.shapes.translated(
         edits.shape_of(w.document.model, edits.PartRef("conductor", 0, 0)), 0.05, 0.0))
     w.document.apply(model, "Overlap")

@@ -73,3 +73,11 @@ def test_the_program_and_safety_md_state_the_same_caution():
 
     safety = " ".join((Path(files.SAMPLES_DIR).parent / "SAFETY.md").read_text(encoding="utf-8").split())
     assert " ".join(cautions.STANDING_STATEMENT.split()) in safety
+
+
+def test_no_air_caution_when_the_peaks_sit_in_insulation(window, qtbot):
+    window.commands.open(files.SAMPLES_DIR / "shielded_three_core_cable.json")
+    wait_for_solve(qtbot, window)
+    assert not window.banner.isVisible()
+    hv = window.results_panel.high_voltage
+    assert "in insulation" in hv.headline.text()
