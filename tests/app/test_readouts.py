@@ -76,7 +76,9 @@ def test_the_program_and_safety_md_state_the_same_caution():
 
 
 def test_no_air_caution_when_the_peaks_sit_in_insulation(window, qtbot):
-    window.commands.open(files.SAMPLES_DIR / "shielded_three_core_cable.json")
+    cable = files.open_model(files.SAMPLES_DIR / "shielded_three_core_cable.json").with_mesh_density("coarse")
+    window.load(cable, None)
+    window.solve()
     wait_for_solve(qtbot, window)
     assert not window.banner.isVisible()
     hv = window.results_panel.high_voltage
