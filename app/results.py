@@ -42,7 +42,7 @@ class Results:
 
 def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, float]:
     """(xmin, ymin, xmax, ymax) in model units around the model, with a margin."""
-    box = shapes.model_bounds(model) or (-1.0, -1.0, 1.0, 1.0)
+    box = shapes.model_bounds(model) or (-50.0, -30.0, 50.0, 50.0)  # an empty drawing: a 100-unit field
     x0, y0, x1, y1 = box
     if model.ground_plane is not None:
         y0 = min(y0, model.ground_plane.y)

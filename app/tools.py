@@ -162,7 +162,8 @@ class _DragTool(Tool):
         if start is None:
             return
         shape = self.make(start, pos)
-        if min(shapes.bounds(shape)[2] - shapes.bounds(shape)[0], shapes.bounds(shape)[3] - shapes.bounds(shape)[1]) <= 0:
+        x0, y0, x1, y1 = shapes.bounds(shape)
+        if not (x1 - x0 > 0 and y1 - y0 > 0):  # also catches the NaN bounds of an empty shape
             self.canvas.report_problem(f"Drag to give the {self.name} a size.")
             return
         self._add(shape, f"Draw {self.name}")

@@ -100,3 +100,11 @@ def test_dielectric_region_by_dragging_and_its_permittivity(window):
     field.editingFinished.emit()
     assert window.document.model.dielectrics[0].eps_r == 3.5
     assert window.document.model.dielectrics[0].material is None
+
+
+def test_a_click_without_a_drag_draws_nothing(window):
+    for tool in ("rectangle", "circle"):
+        window.canvas.set_tool(tool)
+        drag(window.canvas, (10, 10), (10, 10))
+    assert window.document.model.conductors == ()
+    assert not window.document.is_modified
