@@ -19,6 +19,16 @@ from .panels import PanelMesh
 def local_radius_of_curvature_m(mesh: PanelMesh, panel_index: int) -> float:
     """Radius of curvature (m) of the outline at ``panel_index``; ``inf`` on a straight run.
 
+    Convex and concave (seen from the field) alike; see :func:`signed_radius_of_curvature_m`.
+    """
+    return abs(signed_radius_of_curvature_m(mesh, panel_index))
+
+
+def signed_radius_of_curvature_m(mesh: PanelMesh, panel_index: int) -> float:
+    """Radius of curvature (m) at ``panel_index``: > 0 where the conductor bulges into the
+    field (the outside of a wire), < 0 where it is hollow toward the field (the inside of a
+    tube); ``inf`` on a straight run.
+
     Strips and panels next to sharp corners give ``inf`` (no curvature to speak of there).
 
     Parameters
@@ -58,8 +68,8 @@ def local_radius_of_curvature_m(mesh: PanelMesh, panel_index: int) -> float:
         slope = np.polyfit(ds[near], theta[near], 1)[0]
         if slope == 0 or not math.isfinite(slope):
             return math.inf
-        radius = abs(1.0 / slope)
-        new_window = 0.2 * radius
+        radius = 1.0 / slope
+        new_window = 0.2 * abs(radius)
         if abs(new_window - window) <= 0.05 * window:
             break
         window = new_window

@@ -66,7 +66,8 @@ def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
     cached = _memo.get("analysis")
     if cached is None or cached[0] is not solution:
         report = analyse_hot_spots(solution.model, _options.get("target", 0.01), _options.get("corner_radius_m"))
-        margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN)
+        margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN,
+                                 report.air_region)
         cached = _memo["analysis"] = (solution, report, margins)
     return cached[1], cached[2]
 
@@ -137,6 +138,13 @@ def hot_spot_section(solution: Solution) -> list[str]:
         lines.append("  Part length: " + check_part_length(model, _options["part_length_m"]).note)
 
     high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
+    if report.air_region is not None:
+        ar = report.air_region
+        x, y = (v / model.metres_per_unit for v in ar.location_m)
+        error = "singular" if ar.at_sharp_corner else f"error {100 * ar.estimated_relative_error:.2g} %"
+        lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
+                     f"{ar.where} at ({x:.4g}, {y:.4g}) {model.unit}; air margin {_fmt(margins.air_region_margin)}, "
+                     f"{margins.air_region_status}.")
     for b in bundle_comparisons(solution):
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
                 f"{b.equivalent_radius_m / model.metres_per_unit:.5g} {model.unit}")
@@ -145,7 +153,8 @@ def hot_spot_section(solution: Solution) -> list[str]:
                      f"{b.formula_equivalent_radius_m / model.metres_per_unit:.5g} {model.unit} "
                      f"({100 * b.relative_difference:+.2g} %)")
         lines.append(text + ".")
-    if any(m.status in ("thin", "exceeded") for m in margins.margins) or (margins.needs_caution and high_voltage):
+    thin = any(m.status in ("thin", "exceeded") for m in margins.margins) or margins.air_region_status in ("thin", "exceeded")
+    if thin or (margins.needs_caution and high_voltage):
         lines += ["", margins.caution_text]
     return lines
 
@@ -165,6 +174,8 @@ def hot_spot_json(solution: Solution) -> dict:
         "corona_onset_field_V_per_m": [m["corona_onset_field_V_per_m"] for m in per],
         "corona_onset_margin": [m["corona_onset_margin"] for m in per],
         "margin_status": [m["status"] for m in per],
+        "air_region_peak_field_V_per_m": margin_dict["air_region_peak_field_V_per_m"],
+        "air_region_margin": margin_dict["air_region_margin"],
         "relative_air_density": margins.air.relative_air_density,
         "thin_margin_threshold": margins.thin_margin,
         "high_voltage_caution": margin_dict["caution"],

@@ -36,8 +36,9 @@ from typing import Iterable
 
 import numpy as np
 
+from .air_region import AirRegionPeak, air_region_peak
 from .corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from .curvature import local_radius_of_curvature_m
+from .curvature import signed_radius_of_curvature_m
 from .errors import InvalidModelError
 from .model import Model
 from .peak_diagnostics import (
@@ -82,8 +83,9 @@ class HotSpot:
     gap_field_V_per_m : |V_k - V_j| / gap, V/m.
     enhancement_factor : field_V_per_m / gap_field_V_per_m (None without such a neighbour).
     peak_history_V_per_m : peak on each mesh of the refinement, coarsest first.
-    local_radius_of_curvature_m : radius of curvature of the outline at the peak, metres
-        (None on a straight run, at a sharp corner or on a strip).
+    local_radius_of_curvature_m : radius of curvature of the outline at the peak where it
+        bulges into the field, metres (None on a straight run, on a hollow surface such as the
+        inside of a tube, at a sharp corner or on a strip).
     medium_eps_r : relative permittivity of the medium next to the peak (1 = air).
     note : plain-words remark for the user.
     """
@@ -122,6 +124,8 @@ class HotSpotReport:
     corner_radius_m : radius the sharp corners were rounded to (None = not rounded).
     solved_model : the model actually solved (rounded copy when a radius was given).
     solution : the solution on the finest mesh.
+    air_region : with dielectric regions in air, the largest field in the air (e.g. on the
+        outer surface of insulation), else None.
     """
 
     hot_spots: tuple[HotSpot, ...]
@@ -131,6 +135,7 @@ class HotSpotReport:
     corner_radius_m: float | None
     solved_model: Model = field(compare=False, repr=False)
     solution: Solution = field(compare=False, repr=False)
+    air_region: AirRegionPeak | None = None
 
     def for_conductor(self, name: str) -> HotSpot:
         """The hot spot of conductor ``name`` (KeyError if it was not analysed)."""
@@ -151,6 +156,13 @@ class HotSpotReport:
             "corner_radius_m": self.corner_radius_m,
             "levels": list(self.levels),
             "n_panels": list(self.n_panels),
+            "air_region": None if self.air_region is None else {
+                "peak_field_V_per_m": self.air_region.field_V_per_m,
+                "peak_field_location_m": list(self.air_region.location_m),
+                "where": self.air_region.where,
+                "at_sharp_corner": self.air_region.at_sharp_corner,
+                "peak_field_estimated_relative_error": self.air_region.estimated_relative_error,
+            },
             "conductors": [
                 {
                     "conductor": s.conductor,
@@ -251,6 +263,9 @@ def analyse_hot_spots(
         singular = [corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
         errors = [richardson_estimate(peaks[:, i])[0] for i in range(len(index))]
         pending = [e > target_relative_error for e, s in zip(errors, singular) if not s]
+        air = air_region_peak(solutions)
+        if air is not None and air.estimated_relative_error is not None:
+            pending.append(air.estimated_relative_error > target_relative_error)
         if not any(pending):
             break
         next_level = 2.0 * levels[-1]
@@ -274,6 +289,7 @@ def analyse_hot_spots(
         corner_radius_m=corner_radius_m,
         solved_model=solved_models[-1],
         solution=final,
+        air_region=air,
     )
 
 
@@ -304,10 +320,10 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
         else f"Estimated error {100 * error:.2g} % is above the target {100 * target:.2g} %: the panel budget "
         "ran out; treat the value with care or simplify the model."
     )
-    curvature = local_radius_of_curvature_m(mesh, i)
+    curvature = signed_radius_of_curvature_m(mesh, i)
     return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
                    converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
-                   tuple(map(float, history)), note, curvature if math.isfinite(curvature) else None,
+                   tuple(map(float, history)), note, curvature if 0 < curvature < math.inf else None,
                    _medium_eps_r(final, i))
 
 

@@ -181,17 +181,25 @@ class ConductorMargin:
 
 @dataclass(frozen=True)
 class MarginReport:
-    """Margins of every analysed conductor, the air conditions and the caution text."""
+    """Margins of every analysed conductor, the air conditions and the caution text.
+
+    With insulated conductors in air, ``air_region_margin`` compares the largest field in the
+    surrounding air (on the outer surface of the insulation, say) with air breakdown, and
+    ``air_region_status`` grades it like a conductor's; both are None otherwise.
+    """
 
     margins: tuple[ConductorMargin, ...]
     air: AirConditions
     thin_margin: float
     caution_text: str = HIGH_VOLTAGE_CAUTION
+    air_region_peak_field_V_per_m: float | None = None
+    air_region_margin: float | None = None
+    air_region_status: str | None = None
 
     @property
     def needs_caution(self) -> bool:
         """True when any margin is thin, exceeded or not assessed."""
-        return any(m.status != "ample" for m in self.margins)
+        return any(m.status != "ample" for m in self.margins) or self.air_region_status not in (None, "ample")
 
     def as_dict(self) -> dict:
         """JSON-ready summary with SI keys (infinite margins become None)."""
@@ -206,25 +214,37 @@ class MarginReport:
             "peek_form": self.air.peek_form,
             "thin_margin_threshold": self.thin_margin,
             "conductors": [{k: clean(v) for k, v in vars(m).items()} for m in self.margins],
+            "air_region_peak_field_V_per_m": self.air_region_peak_field_V_per_m,
+            "air_region_margin": clean(self.air_region_margin),
+            "air_region_status": self.air_region_status,
             "caution": self.caution_text if self.needs_caution else "",
         }
 
 
-def round_radius_m(model: Model, conductor: str) -> float | None:
-    """Radius (m) of a conductor made of one circle or one ring (outer surface), else None."""
+def round_radius_m(model: Model, conductor: str, location_m: tuple[float, float] | None = None) -> float | None:
+    """Radius (m) of a conductor made of one circle or one ring, else None.
+
+    For a ring, the outer radius — unless ``location_m`` (the peak) lies on the inner surface,
+    which is hollow toward the field and has no corona-onset radius (None).
+    """
     shapes = model.conductor(conductor).shapes
     if len(shapes) != 1:
         return None
     s = shapes[0]
+    scale = model.metres_per_unit
     if isinstance(s, Circle):
-        return s.radius * model.metres_per_unit
+        return s.radius * scale
     if isinstance(s, Ring):
-        return s.outer_radius * model.metres_per_unit
+        if location_m is not None:
+            r = math.hypot(location_m[0] - s.center[0] * scale, location_m[1] - s.center[1] * scale)
+            if r < 0.5 * (s.inner_radius + s.outer_radius) * scale:
+                return None
+        return s.outer_radius * scale
     return None
 
 
 def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirConditions(),
-                   thin_margin: float = THIN_MARGIN) -> MarginReport:
+                   thin_margin: float = THIN_MARGIN, air_region=None) -> MarginReport:
     """Margins to air breakdown and (round conductors) corona onset, per conductor.
 
     Parameters
@@ -236,6 +256,9 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
     air : AirConditions
     thin_margin : float
         Margins below this are "thin" (default 1.5).
+    air_region : AirRegionPeak, optional
+        Largest field in the surrounding air of a model with insulation
+        (``HotSpotReport.air_region``).
 
     Returns
     -------
@@ -245,7 +268,8 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
     out = []
     for spot in hot_spots:
         peak = float(spot.field_V_per_m)
-        radius = round_radius_m(model, spot.conductor) if spot.conductor in model.conductor_names else None
+        radius = (round_radius_m(model, spot.conductor, getattr(spot, "location_m", None))
+                  if spot.conductor in model.conductor_names else None)
         basis = None if radius is None else "round conductor"
         local = getattr(spot, "local_radius_of_curvature_m", None)
         if radius is None and local is not None and not spot.singular:
@@ -271,4 +295,13 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
                 f"Margin {worst:.2f} is below {thin_margin:g}. " + HIGH_VOLTAGE_CAUTION)
         out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, breakdown, m_air,
                                    radius, basis, corona, m_cor, status, caution))
-    return MarginReport(tuple(out), air, float(thin_margin))
+    region_peak = region_margin = region_status = None
+    if air_region is not None:
+        region_peak = float(air_region.field_V_per_m)
+        if air_region.at_sharp_corner:
+            region_status = "not assessed"
+        else:
+            region_margin = breakdown / region_peak if region_peak > 0 else math.inf
+            region_status = "exceeded" if region_margin < 1 else "thin" if region_margin < thin_margin else "ample"
+    return MarginReport(tuple(out), air, float(thin_margin), HIGH_VOLTAGE_CAUTION, region_peak, region_margin,
+                        region_status)

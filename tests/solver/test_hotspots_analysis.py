@@ -160,3 +160,14 @@ def test_uncharged_outer_corners_of_a_closed_screen_are_not_singular():
     assert not spot.singular and spot.converged
     x, y = (v * 1e3 for v in spot.location_m)
     assert 2 - 1e-9 <= x <= 8 + 1e-9 and 2 - 1e-9 <= y <= 8 + 1e-9
+
+
+def test_curvature_sign_tells_a_wire_from_the_inside_of_a_tube():
+    from solver.curvature import signed_radius_of_curvature_m
+
+    m = Model(unit="mm", conductors=(Conductor("wire", (Circle((0, 0), 1),)), Conductor("tube", (Ring((0, 0), 3, 4),))))
+    mesh = discretize_boundary(m, MeshSettings(1.0))
+    i_wire, i_hollow, i_outer = (int(np.argmin(np.hypot(*(mesh.midpoints * 1e3 - p).T))) for p in ((1, 0), (3, 0), (4, 0)))
+    assert signed_radius_of_curvature_m(mesh, i_wire) == pytest.approx(1e-3, rel=1e-4)
+    assert signed_radius_of_curvature_m(mesh, i_hollow) == pytest.approx(-3e-3, rel=1e-4)
+    assert signed_radius_of_curvature_m(mesh, i_outer) == pytest.approx(4e-3, rel=1e-4)

@@ -33,6 +33,7 @@ def test_json_has_margins_and_peak_error_in_si_keys(capsys):
                                                            / data["peak_field_V_per_m"][0])
     assert data["margins"]["surface_factor"] == 0.9
     assert data["margin_status"] == ["ample"] and data["high_voltage_caution"] == ""
+    assert data["air_region_peak_field_V_per_m"] is None and data["air_region_margin"] is None  # no insulation
     detail = data["hot_spots"]["conductors"][0]
     assert detail["nearest_conductor"] == "ground plane" and detail["gap_m"] == pytest.approx(1.0)
 

@@ -111,3 +111,12 @@ def test_peak_in_a_dielectric_is_not_judged_against_air():
     m = assess_margins(MODEL, [_InOil("wire", 1e6)]).margins[0]
     assert m.status == "not assessed" and m.air_breakdown_margin is None
     assert "relative permittivity 2.2" in m.caution
+
+
+def test_inside_of_a_tube_has_no_corona_radius():
+    from solver import Ring
+
+    model = Model(unit="mm", conductors=(Conductor("tube", (Ring((0, 0), 3.0, 4.0),), role="reference"),))
+    assert round_radius_m(model, "tube") == pytest.approx(4e-3)
+    assert round_radius_m(model, "tube", (3e-3, 0.0)) is None
+    assert round_radius_m(model, "tube", (0.0, 4e-3)) == pytest.approx(4e-3)

@@ -140,3 +140,31 @@ def test_high_voltage_sample_peak_margins_and_sweep():
     sweep = peak_field_vs_corner_radius(model, "electrode", [0.01, 0.02, 0.03, 0.05])
     assert np.all(np.diff(sweep.peak_field_V_per_m) < 0)
     assert sweep.peak_field_V_per_m[2] == pytest.approx(spot.field_V_per_m, rel=0.01)
+
+
+def test_air_field_outside_the_insulation_of_a_coated_core():
+    # Concentric layers (Gauss's law; common practice, e.g. E. Kuffel, W. S. Zaengl and J. Kuffel,
+    # High Voltage Engineering: Fundamentals, 2nd ed., 2000, from memory): core radius a,
+    # insulation to b with eps_r, air to the earthed tube at c. With D = ln(b/a)/eps_r + ln(c/b):
+    # field in the insulation at the core V / (a eps_r D), in the air at the insulation V / (b D).
+    from solver import Dielectric
+
+    a, b, c, eps_r, v = 1.0, 2.0, 5.0, 4.0, 1e4
+    model = Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("core", (Circle((0.0, 0.0), a),), potential_V=v),
+        Conductor("tube", (Ring((0.0, 0.0), c, c + 1.0),), role="reference")),
+        dielectrics=(Dielectric("insulation", (Ring((0.0, 0.0), a, b),), eps_r),))
+    d = math.log(b / a) / eps_r + math.log(c / b)
+    report = analyse_hot_spots(model)
+    core = report.for_conductor("core")
+    assert core.medium_eps_r == eps_r
+    assert core.field_V_per_m == pytest.approx(v / (a * 1e-3 * eps_r * d), rel=1e-4)
+    air = report.air_region
+    assert air is not None and air.where == "interface"
+    assert air.field_V_per_m == pytest.approx(v / (b * 1e-3 * d), rel=1e-4)
+    assert math.hypot(*air.location_m) == pytest.approx(b * 1e-3, rel=1e-3)
+    assert air.estimated_relative_error < 1e-3
+    margins = assess_margins(model, report.hot_spots, air_region=air)
+    assert margins.margins[0].status == "not assessed"  # the core's surface is in the insulation
+    assert margins.air_region_margin == pytest.approx(3e6 / air.field_V_per_m)
+    assert margins.air_region_status == "exceeded" and margins.needs_caution
