@@ -45,7 +45,8 @@ from .solve import solve, solve_mesh
 from .hotspots import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
 from .corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from .corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from .curvature import local_radius_of_curvature_m
+from .curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from .air_region import AirRegionPeak
 from .margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
@@ -80,7 +81,7 @@ __all__ = [
     "FieldLine", "GridField", "evaluate_at_points", "evaluate_on_grid", "trace_field_lines",
     "HotSpot", "HotSpotReport", "analyse_hot_spots", "richardson_estimate",
     "conductors_with_sharp_corners", "round_sharp_corners", "CornerRadiusSweep", "peak_field_vs_corner_radius",
-    "local_radius_of_curvature_m",
+    "local_radius_of_curvature_m", "signed_radius_of_curvature_m", "AirRegionPeak",
     "HIGH_VOLTAGE_CAUTION", "THIN_MARGIN", "AirConditions", "ConductorMargin", "MarginReport",
     "air_breakdown_field_V_per_m", "assess_margins", "peek_corona_onset_field_V_per_m",
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
