@@ -19,7 +19,9 @@ import argparse
 import math
 
 from .bundles import BundleComparison, compare_bundle
+from .corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
 from .end_effects import check_part_length
+from .errors import InvalidModelError
 from .hotspots import HotSpotReport, analyse_hot_spots
 from .margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
 from .solution import Solution
@@ -42,6 +44,8 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
                        help="relative error target of the peak fields (default 0.01)")
     group.add_argument("--part-length-m", type=float,
                        help="length of the real part, m: how far it is from the 2-D assumption")
+    group.add_argument("--radius-sweep", metavar="CONDUCTOR=R1,R2,...",
+                       help="peak field of CONDUCTOR with its corners rounded to each radius (m)")
 
 
 def configure(args: argparse.Namespace) -> None:
@@ -58,7 +62,36 @@ def configure(args: argparse.Namespace) -> None:
     else:
         air = AirConditions(surface_factor=m)
     _options.update(air=air, corner_radius_m=getattr(args, "corner_radius_m", None),
-                    target=getattr(args, "peak_target", 0.01), part_length_m=getattr(args, "part_length_m", None))
+                    target=getattr(args, "peak_target", 0.01), part_length_m=getattr(args, "part_length_m", None),
+                    sweep=_parse_sweep(getattr(args, "radius_sweep", None)))
+
+
+def _parse_sweep(text: str | None) -> tuple[str, list[float]] | None:
+    if not text:
+        return None
+    name, sep, radii = text.rpartition("=")
+    try:
+        values = [float(r) for r in radii.split(",") if r.strip()]
+    except ValueError:
+        values = []
+    if not sep or not name or not values:
+        raise InvalidModelError(f"--radius-sweep '{text}': write CONDUCTOR=R1,R2,... with radii in metres.")
+    return name, values
+
+
+def radius_sweep(solution: Solution) -> CornerRadiusSweep | None:
+    """The corner-radius sweep asked for with --radius-sweep (None when not asked)."""
+    if _options.get("sweep") is None:
+        return None
+    cached = _memo.get("sweep")
+    if cached is None or cached[0] is not solution:
+        name, radii = _options["sweep"]
+        if name not in solution.model.conductor_names:
+            raise InvalidModelError(f"--radius-sweep: no conductor named '{name}'; the model has "
+                                    f"{', '.join(solution.model.conductor_names)}.")
+        cached = _memo["sweep"] = (solution, peak_field_vs_corner_radius(solution.model, name, radii,
+                                                                          _options.get("target", 0.01)))
+    return cached[1]
 
 
 def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
@@ -153,6 +186,11 @@ def hot_spot_section(solution: Solution) -> list[str]:
                      f"{b.formula_equivalent_radius_m / model.metres_per_unit:.5g} {model.unit} "
                      f"({100 * b.relative_difference:+.2g} %)")
         lines.append(text + ".")
+    sweep = radius_sweep(solution)
+    if sweep is not None:
+        lines += ["", *sweep.as_table().splitlines()]
+        if sweep.fitted_exponent is not None:
+            lines.append(f"  Peak grows like radius^{sweep.fitted_exponent:.3f} over this range.")
     thin = any(m.status in ("thin", "exceeded") for m in margins.margins) or margins.air_region_status in ("thin", "exceeded")
     if thin or (margins.needs_caution and high_voltage):
         lines += ["", margins.caution_text]
@@ -181,6 +219,7 @@ def hot_spot_json(solution: Solution) -> dict:
         "high_voltage_caution": margin_dict["caution"],
         "hot_spots": report.as_dict(),
         "margins": margin_dict,
+        "corner_radius_sweep": None if radius_sweep(solution) is None else radius_sweep(solution).as_dict(),
         "part_length_check": None if _options.get("part_length_m") is None
         else vars(check_part_length(solution.model, _options["part_length_m"])),
         "bundles": [vars(b) | {"conductors": list(b.conductors)} for b in bundle_comparisons(solution)],

@@ -102,3 +102,15 @@ def test_part_length_option(capsys):
     assert main([str(HV), "--part-length-m", "6"]) == 0
     assert "Part length: The part is 5.45 times as long" in capsys.readouterr().out
     assert _json(capsys, HV)["part_length_check"] is None
+
+
+def test_radius_sweep_option(capsys):
+    data = _json(capsys, HV, "--radius-sweep", "electrode=0.05,0.02")
+    sweep = data["corner_radius_sweep"]
+    assert sweep["conductor"] == "electrode" and sweep["corner_radius_m"] == [0.02, 0.05]
+    assert sweep["peak_field_V_per_m"][0] > sweep["peak_field_V_per_m"][1]
+    assert max(sweep["peak_field_estimated_relative_error"]) < 0.01
+    for bad, words in (("electrode", "CONDUCTOR=R1,R2"), ("nobody=0.01", "no conductor named 'nobody'")):
+        assert main([str(HV), "--radius-sweep", bad]) == 2
+        err = capsys.readouterr().err
+        assert words in err and err.count("\n") == 1
