@@ -20,6 +20,7 @@ from .constants import EPSILON_0_F_PER_M
 from .dielectric_assembly import assemble_dielectric, free_charge_operator, source_panels
 from .dielectric_mesh import conductor_side_regions, discretize_interfaces, region_permittivities
 from .geometry import conductor_geometries
+from .junctions import split_at_junctions
 from .model import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
 from .panels import MeshSettings, discretize_boundary
 from .transmission_line import transmission_line_figures
@@ -62,6 +63,7 @@ def _time_one(model: Model, level: float) -> tuple[int, float, float, float, flo
     mesh = discretize_boundary(model, settings)
     cgeoms = conductor_geometries(model, settings.arc_step_rad)
     interfaces, dgeoms = discretize_interfaces(model, cgeoms, mesh, settings)
+    mesh = split_at_junctions(mesh, dgeoms)
     t1 = time.perf_counter()
     eps = region_permittivities(model)
     plus, minus = conductor_side_regions(model, dgeoms, mesh)

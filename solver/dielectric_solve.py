@@ -20,6 +20,7 @@ from .dielectric_mesh import conductor_side_regions, discretize_interfaces, regi
 from .dielectric_solution import BACKGROUND_NAME, DielectricSolution
 from .errors import InvalidModelError, SolveCancelled
 from .geometry import conductor_geometries
+from .junctions import split_at_junctions
 from .model import Model
 from .panels import MeshSettings, discretize_boundary
 
@@ -38,6 +39,7 @@ def solve_dielectric_mesh(model: Model, settings: MeshSettings, cancel=None) -> 
     mesh = discretize_boundary(model, settings)
     cgeoms = conductor_geometries(model, settings.arc_step_rad)
     interfaces, dgeoms = discretize_interfaces(model, cgeoms, mesh, settings)
+    mesh = split_at_junctions(mesh, dgeoms)
     eps_regions = region_permittivities(model)
     reg_plus, reg_minus = conductor_side_regions(model, dgeoms, mesh)
     eps_plus = eps_regions[reg_plus]

@@ -82,3 +82,26 @@ def test_no_panels_on_the_ground_plane_or_under_a_strip_and_grading_at_junctions
     gap = np.abs(np.abs(mids[:, 0]) - 0.5e-3)
     nearest = np.flatnonzero(on_top)[np.argsort(gap[on_top])[:2]]
     assert ifc.chord_lengths[nearest].max() < 1e-3 * ifc.chord_lengths.max()
+
+
+def test_conductor_panels_crossing_a_region_boundary_are_split_and_graded():
+    from solver.dielectric_mesh import dielectric_geometries
+    from solver.dielectric_solve import solve_dielectric_mesh
+    from solver.junctions import split_at_junctions
+
+    model = Model(
+        unit="mm",
+        ground_plane=GroundPlane(0.0),
+        conductors=(Conductor("post", (Strip(((0.0, 0.5), (0.0, 1.7))),), potential_V=1.0),),
+        dielectrics=(Dielectric("substrate", (Rectangle((0.0, 0.5), 10.0, 1.0),), 4.0),),
+    )
+    mesh = discretize_boundary(model, MeshSettings(1.0))
+    split = split_at_junctions(mesh, dielectric_geometries(model, MeshSettings(1.0).arc_step_rad))
+    assert split.n_panels > mesh.n_panels
+    # no panel straddles y = 1 mm, and the panels next to it are small
+    lo, hi = np.minimum(split.starts[:, 1], split.ends[:, 1]), np.maximum(split.starts[:, 1], split.ends[:, 1])
+    assert not np.any((lo < 1e-3 - 1e-12) & (hi > 1e-3 + 1e-12))
+    touching = np.isclose(lo, 1e-3, rtol=0, atol=1e-12) | np.isclose(hi, 1e-3, rtol=0, atol=1e-12)
+    assert split.lengths[touching].max() < 1e-2 * mesh.lengths.max()
+    c = [solve_dielectric_mesh(model, MeshSettings(level)).capacitance_maxwell_F_per_m[0, 0] for level in (0.5, 1.0)]
+    assert abs(c[0] / c[1] - 1) < 1e-4
