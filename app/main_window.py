@@ -7,6 +7,7 @@ document and to the solve runner.
 
 from __future__ import annotations
 
+import html
 import re
 from pathlib import Path
 
@@ -18,7 +19,7 @@ from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainW
 import solver
 from solver import Model
 
-from . import files, refcount_guard
+from . import cautions, files, refcount_guard
 from .canvas import Canvas
 from .commands import Commands
 from .document import Document
@@ -214,7 +215,7 @@ class MainWindow(QMainWindow):
     def _show_error(self, message: str, names: list[str]) -> None:
         self.canvas.show_errors(names, message)
         self._banner_is_error = True
-        self.banner.setText(f"Cannot solve: {message}")
+        self.banner.setText(f"<b>Cannot solve:</b> {html.escape(message)}")
         self.banner.setStyleSheet("background: #fde2e2; color: #7a0000; padding: 6px; font-weight: bold;")
         self.banner.setVisible(True)
 
@@ -227,9 +228,11 @@ class MainWindow(QMainWindow):
             return
         colour = "#b00000" if caution.level == "exceeded" else "#8a5200"
         background = "#ffe0e0" if caution.level == "exceeded" else "#fff1cc"
-        self.banner.setText(f"{caution.headline} {caution.detail}")
+        numbers = html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, "").strip())
+        self.banner.setText(f"<b>{html.escape(caution.headline)} {numbers}</b><br>"
+                            f"{html.escape(cautions.STANDING_STATEMENT)}")
         self.banner.setStyleSheet(f"background: {background}; color: {colour}; padding: 6px; "
-                                  f"border: 2px solid {colour}; font-weight: bold;")
+                                  f"border: 2px solid {colour};")
         self.banner.setVisible(True)
 
     # ---- readouts --------------------------------------------------------------------------

@@ -44,6 +44,53 @@ def open_sample(window, name: str) -> None:
     window.commands.open(files.SAMPLES_DIR / name)
 
 
+def draw_busbars_by_mouse(app, w, out: Path) -> None:
+    """A new drawing made the way a person makes it: mouse on the canvas, numbers typed."""
+    from PySide6.QtCore import QPointF, Qt
+    from PySide6.QtTest import QTest
+
+    def px(x, y):
+        return w.canvas.mapFromScene(w.canvas.plotItem.vb.mapViewToScene(QPointF(x, y)))
+
+    def drag(a, b):
+        vp = w.canvas.viewport()
+        QTest.mousePress(vp, Qt.LeftButton, Qt.NoModifier, px(*a))
+        QTest.mouseMove(vp, px(*b))
+        QTest.mouseRelease(vp, Qt.LeftButton, Qt.NoModifier, px(*b))
+
+    def type_into(key, text):
+        w.properties.fields[key].setText(text)
+        w.properties.fields[key].editingFinished.emit()
+
+    w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")
+    w.commands.new()
+    w.auto_solve = False
+    settle(app, w, 0.2)
+    w.canvas.set_tool("ground plane")
+    QTest.mouseClick(w.canvas.viewport(), Qt.LeftButton, Qt.NoModifier, px(0, 0))
+    w.canvas.set_tool("rectangle")
+    drag((-30, 10), (-20, 40))
+    type_into("potential", "10000")
+    type_into("corner_radius", "2")
+    type_into("name", "phase A")
+    w.canvas.set_tool("rectangle")
+    drag((20, 10), (30, 40))
+    type_into("potential", "-10000")
+    type_into("corner_radius", "2")
+    type_into("name", "phase B")
+    w.canvas.set_tool("pick")
+    w.canvas.fit_view()
+    settle(app, w, 0.2)
+    shoot(w, out, "00a_busbars_drawn_by_mouse")
+    w.solve()
+    settle(app, w)
+    w.layer_boxes["field lines"].setChecked(True)
+    settle(app, w, 0.1)
+    shoot(w, out, "00b_busbars_drawn_by_mouse_solved")
+    w.layer_boxes["field lines"].setChecked(False)
+    w.auto_solve = True
+
+
 def main() -> None:
     out = Path(sys.argv[1]) if len(sys.argv) > 1 else ROOT / "screenshots"
     out.mkdir(parents=True, exist_ok=True)
@@ -52,6 +99,7 @@ def main() -> None:
     w = MainWindow(settings)
     w.resize(1600, 1000)
     w.show()
+    draw_busbars_by_mouse(app, w, out)
     open_sample(w, "busbar_enclosure.json")
     settle(app, w)
     shoot(w, out, "01_busbars_potential")
