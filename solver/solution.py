@@ -110,6 +110,16 @@ class Solution:
         """True when the model has a return path (reference conductor or ground plane)."""
         return self.model.has_return_path and len(self.signal_names) > 0
 
+    @property
+    def has_dielectrics(self) -> bool:
+        """True for a :class:`~solver.dielectric_solution.DielectricSolution` (regions of other eps_r)."""
+        return False
+
+    @property
+    def peak_region_fields(self) -> tuple:
+        """Largest field per dielectric region; empty in a homogeneous medium (see DielectricSolution)."""
+        return ()
+
     @cached_property
     def capacitance_maxwell_F_per_m(self) -> np.ndarray:
         """Maxwell capacitance matrix per unit length, F/m, over :attr:`signal_names`.

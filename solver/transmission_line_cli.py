@@ -86,7 +86,7 @@ def transmission_line_section(solution: Solution) -> list[str]:
 
 def dielectric_section(solution: Solution) -> list[str]:
     """Largest field inside each dielectric region (insulation stress), for models with regions."""
-    peaks = getattr(solution, "peak_region_fields", None)
+    peaks = solution.peak_region_fields
     if not peaks:
         return []
     m = solution.model
@@ -112,7 +112,7 @@ def transmission_line_json(solution: Solution) -> dict:
     note = None if f is not None else (
         "No transmission-line figures: they need a return path and at least one fixed-potential conductor."
     )
-    peaks = getattr(solution, "peak_region_fields", ()) or ()
+    peaks = solution.peak_region_fields
     regions = [
         {"name": p.region, "eps_r": p.eps_r, "peak_field_V_per_m": p.field_V_per_m,
          "peak_field_location_m": list(p.location_m), "peak_field_on": p.where,
