@@ -154,6 +154,7 @@ class Overlays:
         if not np.isfinite(phi).any():
             return
         invalid = ~np.isfinite(phi)
+        near_part = ndimage.binary_dilation(invalid, iterations=2)  # no labels on or next to conductors
         if invalid.any():
             idx = ndimage.distance_transform_edt(invalid, return_distances=False, return_indices=True)
             phi = phi[tuple(idx)]
@@ -182,6 +183,10 @@ class Overlays:
             n = len(longest[0])
             for t in ((0.5 + 0.382 * k + 0.05 * j) % 1.0 for j in range(20)):
                 px, py = longest[0][int(t * (n - 1))], longest[1][int(t * (n - 1))]
+                row = int(np.clip(round((py - y[0]) / dy), 0, len(y) - 1))
+                col = int(np.clip(round((px - x[0]) / dx), 0, len(x) - 1))
+                if near_part[row, col]:
+                    continue
                 if all(np.hypot(px - qx, py - qy) >= min_gap for qx, qy in placed):
                     placed.append((px, py))
                     label = pg.TextItem(format_potential(level), color="#202020", anchor=(0.5, 0.5),
