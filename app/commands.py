@@ -9,7 +9,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
-from PySide6.QtWidgets import QFileDialog, QMessageBox
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QFileDialog, QMessageBox, QToolBar
 
 from solver import Model, SolverError
 
@@ -71,6 +72,12 @@ class Commands:
             group.addAction(a)
             self.tool_actions[cls.name] = a
         self.tool_actions["pick"].setChecked(True)
+        tools_bar = QToolBar("Drawing tools", window)
+        tools_bar.setObjectName("drawing tools")
+        tools_bar.setToolButtonStyle(Qt.ToolButtonTextOnly)
+        window.addToolBar(Qt.TopToolBarArea, tools_bar)
+        for action in self.tool_actions.values():
+            tools_bar.addAction(action)
 
         view = bar.addMenu("&View")
         self._act(view, "&Fit to window", window.canvas.fit_view, "F")
@@ -79,7 +86,9 @@ class Commands:
         snap.setChecked(True)
 
         run = bar.addMenu("&Solve")
-        self._act(run, "&Solve now", window.solve, "F5")
+        solve_action = self._act(run, "&Solve now", window.solve, "F5")
+        tools_bar.addSeparator()
+        tools_bar.addAction(solve_action)
         self._act(run, "&Cancel solve", window.runner.cancel, "Ctrl+.")
         auto = self._act(run, "Re-solve small models after each edit", self._toggle_auto)
         auto.setCheckable(True)

@@ -66,9 +66,10 @@ class MainWindow(QMainWindow):
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
-        self._build_view_bar()
         self._build_status_bar()
         self.commands = Commands(self)
+        self.addToolBarBreak(Qt.TopToolBarArea)
+        self._build_view_bar()
 
         self.document.events.connect("model_changed", self._on_model_changed)
         self.document.events.connect("modified_changed", lambda _: self._update_title())
@@ -153,6 +154,7 @@ class MainWindow(QMainWindow):
 
     def _on_model_changed(self, model) -> None:
         self.canvas.clear_errors()
+        self.readout.setText("")  # refreshed at the next mouse move, in the model's unit
         if self._banner_is_error:
             self.banner.setVisible(False)
             self._banner_is_error = False

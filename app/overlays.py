@@ -228,12 +228,19 @@ class Overlays:
         self._add(pg.ScatterPlotItem(xs, ys, symbol="star", size=16, pen=pg.mkPen("#000"),
                                      brush=pg.mkBrush(255, 215, 0)), 35)
         centre = 0.5 * (min(xs) + max(xs))
+        (v0, v1), _ = self.plot.vb.viewRange()
+        room = 0.3 * (v1 - v0)  # about the width of a label
         for p, x, y in zip(peaks, xs, ys):
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}"
             if p.at_sharp_corner:
                 text += " (sharp corner)"
             bold = p.field_V_per_m == top
-            label = pg.TextItem(text, color="#000000", anchor=(1.0 if x < centre else 0.0, 1.1),
+            outward_left = x < centre
+            if outward_left and x - room < v0:
+                outward_left = False
+            elif not outward_left and x + room > v1:
+                outward_left = True
+            label = pg.TextItem(text, color="#000000", anchor=(1.0 if outward_left else 0.0, 1.1),
                                 fill=pg.mkBrush(255, 250, 205, 230), border=pg.mkPen("#8a6d00" if bold else "#bbbbbb"))
             label.setPos(QPointF(x, y))
             self._add(label, 36)
