@@ -14,7 +14,8 @@ from PySide6.QtWidgets import QFileDialog, QMessageBox, QToolBar
 
 from solver import Model, SolverError
 
-from . import edits, exports, files
+from . import edits, exports, files, shapes
+from .document import PartRef
 from .report import write_report_pdf
 from .tools import TOOLS
 
@@ -221,7 +222,7 @@ class Commands:
         ref = self.doc.selection
         if ref is None or ref.kind != "conductor":
             return
-        x0, y0, x1, y1 = edits.shapes.bounds(edits.shape_of(self.doc.model, ref))
+        x0, y0, x1, y1 = shapes.bounds(edits.shape_of(self.doc.model, ref))
         model, new_ref = edits.duplicate_part(self.doc.model, ref, 1.2 * (x1 - x0), 0.0)
         if self.doc.apply(model, "Duplicate"):
             self.doc.select(new_ref)
@@ -231,7 +232,7 @@ class Commands:
         if ref is None or ref.kind != "conductor" or ref.index == 0:
             self.w.statusBar().showMessage("Select a conductor after the first; it is aligned with the one before.", 6000)
             return
-        other = edits.PartRef("conductor", ref.index - 1, 0)
+        other = PartRef("conductor", ref.index - 1, 0)
         self.doc.apply(edits.align_to(self.doc.model, ref, other, how), f"Align {how}")
 
     # ---- exports ---------------------------------------------------------------------------

@@ -21,7 +21,8 @@ from PySide6.QtWidgets import QApplication  # noqa: E402
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from app import edits, files  # noqa: E402
+from app import edits, files, shapes  # noqa: E402
+from app.document import PartRef  # noqa: E402
 from app.main_window import MainWindow  # noqa: E402
 
 
@@ -171,15 +172,15 @@ def main() -> None:
     open_sample(w, "three_traces_over_ground.json")
     settle(app, w)
 
-    model, ref = edits.add_conductor(w.document.model, edits.shapes.translated(
-        edits.shape_of(w.document.model, edits.PartRef("conductor", 0, 0)), 0.05, 0.0))
+    model, ref = edits.add_conductor(w.document.model, shapes.translated(
+        edits.shape_of(w.document.model, PartRef("conductor", 0, 0)), 0.05, 0.0))
     w.document.apply(model, "Overlap")
     w.document.select(ref)
     w.solve()
     settle(app, w)
     shoot(w, out, "11_solver_error_next_to_part")
     w.document.undo()
-    w.document.select(edits.PartRef("conductor", 0, 0))
+    w.document.select(PartRef("conductor", 0, 0))
     settle(app, w)
     shoot(w, out, "12_selected_part_with_handles")
     w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")

@@ -86,3 +86,16 @@ def test_two_shapes_joined_into_one_conductor_from_the_properties(window):
     combo.activated.emit(combo.findText("conductor 1"))
     (c,) = window.document.model.conductors
     assert len(c.shapes) == 2 and window.parts.topLevelItem(0).childCount() == 2
+
+
+def test_duplicate_align_and_delete_commands(window):
+    _draw_bar(window)
+    window.commands.duplicate()
+    first, copy = window.document.model.conductors
+    assert copy.shapes[0].center == pytest.approx((14, 15)) and copy.potential_V == first.potential_V
+    window.document.apply(window.document.model, "nothing")  # no change, no edit
+    window.commands.align("bottom")  # the copy is selected; align with the one before
+    window.commands.align("centre x")
+    assert window.document.model.conductors[1].shapes[0].center == pytest.approx((-10, 15))
+    window.commands.delete()
+    assert len(window.document.model.conductors) == 1
