@@ -41,6 +41,7 @@ class MainWindow(QMainWindow):
         self.settings = settings
         self.document = Document()
         self.results = None
+        self._probe_ends = None
         self.auto_solve = True
         self.runner = SolveRunner(self, grid_points=grid_points, n_field_lines=n_field_lines)
 
@@ -149,6 +150,7 @@ class MainWindow(QMainWindow):
         self.canvas.overlays.clear()
         self.canvas.clear_errors()
         self.canvas.clear_probe()
+        self._probe_ends = None
         self.document.replace(model, path, modified=modified)
         self.canvas.fit_view()
 
@@ -205,6 +207,8 @@ class MainWindow(QMainWindow):
         self.results_panel.show_results(results)
         self._set_stale(not (results.model == self.document.model))
         self._update_banner()
+        if self._probe_ends is not None:
+            self._show_probe_profile(*self._probe_ends)  # the profile follows the new solution
         self.statusBar().showMessage("Solved.", 4000)
 
     def _on_solve_failed(self, message: str) -> None:
@@ -253,16 +257,20 @@ class MainWindow(QMainWindow):
         self.readout.setText(text)
 
     def _on_probe_drawn(self, a, b) -> None:
+        self._probe_ends = (a, b)
         if self.results is None:
             self.statusBar().showMessage("Solve first, then draw the probe line.", 6000)
             return
+        self._show_probe_profile(a, b)
+        self.results_panel.show_section("Probe line")
+
+    def _show_probe_profile(self, a, b) -> None:
         scale = self.results.model.metres_per_unit
         t = np.linspace(0.0, 1.0, 301)
         pts = np.column_stack([a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])])
         phi, e = solver.evaluate_at_points(self.results.solution, pts * scale)
         distance = t * float(np.hypot(b[0] - a[0], b[1] - a[1]))
         self.results_panel.probe.show_profile(distance, phi, e, self.results.model.unit, (a, b))
-        self.results_panel.show_section("Probe line")
 
     def _on_boundary_panel_picked(self, panel: int) -> None:
         if self.results is not None:
