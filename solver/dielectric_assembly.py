@@ -120,13 +120,9 @@ def interface_rows(
     cid = interfaces.circle_id
     if (cid >= 0).any():
         same = (cid[:, None] == cid[None, :]) & (cid[:, None] >= 0)
-        centre_side = np.ones(len(cid))
         on = cid >= 0
-        # outward (+1) or inward (-1) normal relative to the circle's centre
-        chord_mid = 0.5 * (interfaces.starts + interfaces.ends)
-        radial = interfaces.points - chord_mid
-        centre_side[on] = np.sign(np.einsum("ij,ij->i", radial[on], interfaces.normals[on]))
-        exact = centre_side[:, None] * (interfaces.arc_lengths / (2.0 * np.where(on, interfaces.circle_radius, 1.0)))[None, :]
+        radius = np.where(on, interfaces.circle_radius, 1.0)
+        exact = interfaces.circle_outward[:, None] * (interfaces.arc_lengths / (2.0 * radius))[None, :]
         block = d[:, n_conductor_panels:]
         block[same] = exact[same]
     return d if image is None else d + image

@@ -102,6 +102,8 @@ class InterfaceMesh:
     circle_id : (n,) int, index of the circle a panel lies on (-1 for straight panels).
     circle_radius : (n,) radius of that circle (nan for straight panels), metres.
     region_plus, region_minus : (n,) region index on each side (len(dielectrics) = background).
+    circle_outward : (n,) +1 where the normal points away from the panel's circle centre, -1
+        toward it, 0 on straight panels.
     """
 
     starts: np.ndarray
@@ -115,6 +117,7 @@ class InterfaceMesh:
     circle_radius: np.ndarray
     region_plus: np.ndarray
     region_minus: np.ndarray
+    circle_outward: np.ndarray
 
     @property
     def n_panels(self) -> int:
@@ -134,7 +137,7 @@ class InterfaceMesh:
     def empty(cls) -> "InterfaceMesh":
         z2, z1 = np.zeros((0, 2)), np.zeros(0)
         zi = np.zeros(0, dtype=int)
-        return cls(z2, z2, z2, z2, z1, z1, z1, zi, z1, zi, zi)
+        return cls(z2, z2, z2, z2, z1, z1, z1, zi, z1, zi, zi, z1)
 
 
 def region_index_at(model: Model, geoms: list, points_m: np.ndarray) -> np.ndarray:
@@ -204,7 +207,7 @@ def discretize_interfaces(
     plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
     ratio = 1.0 + (settings.growth_ratio - 1.0) / 2.0
 
-    starts, ends, points, normals, arcl, cid, crad = [], [], [], [], [], [], []
+    starts, ends, points, normals, arcl, cid, crad, outw = [], [], [], [], [], [], [], []
     circles: list[tuple[np.ndarray, float]] = []
     for line in lines:
         coords = np.asarray(line.coords)
@@ -242,6 +245,7 @@ def discretize_interfaces(
                 nrm = np.column_stack([t[:, 1], -t[:, 0]])
                 starts.append(st), ends.append(en), points.append(mid), normals.append(nrm)
                 arcl.append(np.hypot(*(en - st).T)), cid.append(np.full(len(st), -1)), crad.append(np.full(len(st), np.nan))
+                outw.append(np.zeros(len(st)))
                 continue
             seg = piece.at(u)
             st, en = seg[:-1], seg[1:]
@@ -249,7 +253,9 @@ def discretize_interfaces(
             radial = (mid - piece.centre[None, :]) / piece.radius
             t = (en - st) / np.hypot(*(en - st).T)[:, None]
             chord_n = np.column_stack([t[:, 1], -t[:, 0]])
-            nrm = radial * np.sign(np.einsum("ij,ij->i", radial, chord_n))[:, None]
+            outward = np.sign(np.einsum("ij,ij->i", radial, chord_n))
+            nrm = radial * outward[:, None]
+            outw.append(outward)
             k = _circle_index(circles, piece.centre, piece.radius)
             starts.append(st), ends.append(en), points.append(mid), normals.append(nrm)
             arcl.append(np.diff(u)), cid.append(np.full(len(st), k)), crad.append(np.full(len(st), piece.radius))
@@ -270,6 +276,7 @@ def discretize_interfaces(
         eps_r_plus=plus[keep], eps_r_minus=minus[keep], arc_lengths=lengths[keep],
         region_plus=r_plus[keep], region_minus=r_minus[keep],
         circle_id=np.concatenate(cid).astype(int)[keep], circle_radius=np.concatenate(crad)[keep],
+        circle_outward=np.concatenate(outw)[keep],
     )
     return mesh, geoms
 
