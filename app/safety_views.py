@@ -12,6 +12,7 @@ from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidg
 from solver import SolverError
 
 from . import cautions, edits, shapes
+from .units import format_si
 
 PART_LENGTH_KEY = "part_length"
 AIR_DENSITY_KEY = "relative_air_density"
@@ -74,6 +75,10 @@ class CaveatsView(QWidget):
         self.verdict.setWordWrap(True)
         self.verdict.setStyleSheet("font-weight: bold;")
         layout.addWidget(self.verdict)
+        self.totals = QLabel()
+        self.totals.setWordWrap(True)
+        layout.addWidget(self.totals)
+        self.results = None
         limits = QLabel("What a 2-D electrostatic model cannot tell:\n\n" +
                         "\n\n".join(f"•  {t}" for t in cautions.TWO_D_LIMITS))
         limits.setWordWrap(True)
@@ -90,6 +95,24 @@ class CaveatsView(QWidget):
         self.length_edit.setText("" if length is None else f"{length:g}")
         self.length_edit.blockSignals(False)
         self.verdict.setText(cautions.length_caveat(length, shapes.largest_dimension(model), model.unit))
+        self._show_totals()
+
+    def show_results(self, results) -> None:
+        self.results = results
+        self._show_totals()
+
+    def _show_totals(self) -> None:
+        """Per-metre self capacitances times the part length (2-D estimate, no end effects)."""
+        model, r = self.document.model, self.results
+        length = model.extras.get(PART_LENGTH_KEY)
+        if r is None or not length or not r.solution.has_capacitance:
+            self.totals.setText("")
+            return
+        length_m = length * model.metres_per_unit
+        c = r.solution.capacitance_maxwell_F_per_m
+        parts = [f"{name}: {format_si(c[i, i] * length_m, 'F')}" for i, name in enumerate(r.solution.signal_names)]
+        self.totals.setText(f"Maxwell self capacitance C'ii times the part length ({length:g} {model.unit}), "
+                            "a 2-D estimate without end effects: " + "; ".join(parts) + ".")
 
     def _on_length_edited(self) -> None:
         text = self.length_edit.text().strip()

@@ -55,6 +55,8 @@ def test_part_length_caveat_follows_the_ten_times_rule(twin):
     caveats.length_edit.setText("500")
     caveats.length_edit.editingFinished.emit()
     assert "above the ~10x" in caveats.verdict.text()
+    c_pF = twin.results.solution.capacitance_maxwell_F_per_m[0, 0] * 0.5 * 1e12  # 500 mm = 0.5 m
+    assert f"go: {c_pF:.4g} pF" in caveats.totals.text()
     assert not twin.stale_label.isVisible()  # a view setting does not outdate the results
 
 
