@@ -19,7 +19,7 @@ from .document import PartRef
 from .report import write_report_pdf
 from .tools import TOOLS
 
-TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "polygon": "P", "strip": "T",
+TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "tube": "U", "polygon": "P", "strip": "T",
              "ground plane": "G", "dielectric": "I", "probe line": "L"}
 
 

@@ -11,7 +11,7 @@ import math
 
 from PySide6.QtCore import Qt
 
-from solver import Polygon, Strip, SolverError
+from solver import Polygon, Ring, SolverError, Strip
 
 from . import edits, shapes
 from .document import PartRef
@@ -189,6 +189,15 @@ class CircleTool(_DragTool):
         return shapes.circle_from_drag(a, b)
 
 
+class TubeTool(_DragTool):
+    name, label = "tube", "Tube"
+    hint = "Drag from the centre to the outer radius of a tube (a shield); type the inner radius in the properties."
+
+    def make(self, a, b):
+        outer = max(math.dist(a, b), 1e-12)
+        return Ring(a, 0.85 * outer, outer)
+
+
 class DielectricTool(_DragTool):
     name, label = "dielectric", "Dielectric region"
     hint = "Drag a rectangle of insulating material (FR-4 at first); choose the material or type εr in the properties."
@@ -311,4 +320,5 @@ class ProbeTool(Tool):
             self.canvas.probe_drawn.emit(start, raw)
 
 
-TOOLS = (PickTool, RectangleTool, CircleTool, PolygonTool, StripTool, GroundPlaneTool, DielectricTool, ProbeTool)
+TOOLS = (PickTool, RectangleTool, CircleTool, TubeTool, PolygonTool, StripTool, GroundPlaneTool, DielectricTool,
+         ProbeTool)

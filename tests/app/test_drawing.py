@@ -108,3 +108,14 @@ def test_a_click_without_a_drag_draws_nothing(window):
         drag(window.canvas, (10, 10), (10, 10))
     assert window.document.model.conductors == ()
     assert not window.document.is_modified
+
+
+def test_tube_by_dragging_from_the_centre(window):
+    from solver import Ring
+
+    window.canvas.set_tool("tube")
+    drag(window.canvas, (0, 20), (20, 20))
+    (shape,) = window.document.model.conductors[0].shapes
+    assert isinstance(shape, Ring)
+    assert shape.center == pytest.approx((0, 20))
+    assert (shape.inner_radius, shape.outer_radius) == pytest.approx((17, 20))
