@@ -87,6 +87,8 @@ class MatricesView(QWidget):
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
         layout.addStretch(1)
+        for table in (self.maxwell, self.mutual, self.conductors):
+            table.fill([], [], [])  # compact until there is something to show
 
     def show_results(self, results) -> None:
         sol, model = results.solution, results.model
