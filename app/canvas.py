@@ -68,6 +68,7 @@ class Canvas(pg.PlotWidget):
         self.tools = {cls.name: cls(self) for cls in TOOLS}
         self.tool = self.tools[PickTool.name]
         self._mouse_down = False
+        self._fitted_once = False
         self.error_marks = ErrorMarks(self.plotItem, document)
         document.events.connect("model_changed", self._on_model_changed)
         document.events.connect("selection_changed", self._on_selection_changed)
@@ -87,7 +88,9 @@ class Canvas(pg.PlotWidget):
 
     def showEvent(self, event) -> None:
         super().showEvent(event)
-        self.fit_view()
+        if not self._fitted_once:  # the first time only: the size is known now
+            self._fitted_once = True
+            self.fit_view()
 
     def snap_step(self) -> float:
         (x0, x1), _ = self.plotItem.vb.viewRange()
