@@ -153,6 +153,18 @@ def update_model(model: Model, **changes) -> Model:
     return replace(model, **changes)
 
 
+def convert_unit(model: Model, unit: str) -> Model:
+    """The same physical cross-section expressed in another length unit (numbers converted).
+
+    The part length kept in ``extras`` is converted too.
+    """
+    new = model.converted_to(unit)
+    length = model.extras.get("part_length")
+    if length:
+        new = set_extra(new, "part_length", length * model.metres_per_unit / new.metres_per_unit)
+    return new
+
+
 def set_extra(model: Model, key: str, value) -> Model:
     """A copy whose ``extras`` (view settings kept in the file) has ``key`` set to ``value``."""
     extras = dict(model.extras)

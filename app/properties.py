@@ -83,7 +83,7 @@ class PropertiesPanel(QWidget):
         self.density_combo.addItems(list(MESH_DENSITIES))
         self.eps_edit = QLineEdit()
         form.addRow("title", self.title_edit)
-        form.addRow("length unit", self.unit_combo)
+        form.addRow("length unit (converts)", self.unit_combo)
         form.addRow("mesh density", self.density_combo)
         form.addRow("background εr", self.eps_edit)
         layout.addWidget(self.model_box)
@@ -98,7 +98,7 @@ class PropertiesPanel(QWidget):
         layout.addStretch(1)
 
         self.title_edit.editingFinished.connect(lambda: self._edit_model(title=self.title_edit.text()))
-        self.unit_combo.activated.connect(lambda _: self._edit_model(unit=self.unit_combo.currentText()))
+        self.unit_combo.activated.connect(self._on_unit_chosen)
         self.density_combo.activated.connect(lambda _: self._edit_model(mesh_density=self.density_combo.currentText()))
         self.eps_edit.editingFinished.connect(self._on_eps_edited)
         self._form_key = None
@@ -229,6 +229,11 @@ class PropertiesPanel(QWidget):
 
     def _edit_model(self, **changes) -> None:
         self._apply(lambda: edits.update_model(self.document.model, **changes), "Change cross-section settings")
+
+    def _on_unit_chosen(self, _index: int) -> None:
+        """A new unit converts every length, so the drawing keeps its physical size."""
+        unit = self.unit_combo.currentText()
+        self._apply(lambda: edits.convert_unit(self.document.model, unit), f"Convert to {unit}")
 
     def _on_eps_edited(self) -> None:
         self._apply(lambda: edits.update_model(self.document.model, background_eps_r=float(self.eps_edit.text())),

@@ -99,3 +99,15 @@ def test_duplicate_align_and_delete_commands(window):
     assert window.document.model.conductors[1].shapes[0].center == pytest.approx((-10, 15))
     window.commands.delete()
     assert len(window.document.model.conductors) == 1
+
+
+def test_choosing_another_unit_converts_the_drawing(window):
+    _draw_bar(window)
+    combo = window.properties.unit_combo
+    combo.setCurrentText("m")
+    combo.activated.emit(combo.currentIndex())
+    model = window.document.model
+    assert model.unit == "m"
+    shape = model.conductors[0].shapes[0]
+    assert shape.center == pytest.approx((-0.01, 0.015)) and (shape.width, shape.height) == pytest.approx((0.02, 0.01))
+    assert window.properties.fields["width"].text() == "0.02"
