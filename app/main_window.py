@@ -94,6 +94,9 @@ class MainWindow(QMainWindow):
         self._guard_timer.start()
         self.resize(1500, 900)
         self.resizeDocks([results_dock], [640], Qt.Horizontal)
+        if settings is not None and settings.value("window_geometry") is not None:
+            self.restoreGeometry(settings.value("window_geometry"))
+            self.restoreState(settings.value("window_state"))
         self._update_title()
 
     # ---- layout ----------------------------------------------------------------------------
@@ -289,4 +292,7 @@ class MainWindow(QMainWindow):
         self.runner.cancel()
         self.runner.wait()
         files.discard_recovery()
+        if self.settings is not None:
+            self.settings.setValue("window_geometry", self.saveGeometry())
+            self.settings.setValue("window_state", self.saveState())
         event.accept()
