@@ -111,3 +111,14 @@ def test_choosing_another_unit_converts_the_drawing(window):
     shape = model.conductors[0].shapes[0]
     assert shape.center == pytest.approx((-0.01, 0.015)) and (shape.width, shape.height) == pytest.approx((0.02, 0.01))
     assert window.properties.fields["width"].text() == "0.02"
+
+
+def test_picking_on_the_canvas_selects_the_row_in_the_parts_list(window):
+    from app_helpers import click
+
+    _draw_bar(window)
+    window.document.select(None)
+    assert not window.parts.selectedItems()
+    click(window.canvas, (-10, 15))
+    (row,) = window.parts.selectedItems()
+    assert row.text(0) == "conductor 1"
