@@ -252,6 +252,12 @@ class Canvas(pg.PlotWidget):
     def mouseMoveEvent(self, event) -> None:
         raw = self._model_pos(event)
         self.cursor_moved.emit(*raw)
+        if not self._mouse_down and self.tool is self.tools[PickTool.name]:
+            # show what a press would grab: a handle, a part, or empty space (pan)
+            shape = (Qt.SizeFDiagCursor if self.handle_at(raw) is not None
+                     else Qt.SizeAllCursor if self.part_at(raw) is not None else Qt.ArrowCursor)
+            if self.cursor().shape() != shape:
+                self.setCursor(shape)
         if self._mouse_down or self.tool.tracks_hover:
             self.tool.move(self.snap(*raw), raw)
             if self._mouse_down:
