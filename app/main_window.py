@@ -167,8 +167,7 @@ class MainWindow(QMainWindow):
         self._set_stale(stale)
         if self.results is not None and not stale:
             self._update_banner()
-        if self.document.is_modified:
-            self._recovery_timer.start()
+        self._recovery_timer.start()
         if self.auto_solve and model.conductors and len(model.conductors) <= AUTO_SOLVE_MAX_CONDUCTORS:
             if self.results is None or model != self.results.model:
                 self._solve_timer.start()
@@ -180,8 +179,11 @@ class MainWindow(QMainWindow):
         self.stale_label.setVisible(stale)
 
     def _write_recovery(self) -> None:
+        """Keep the recovery file in step: the unsaved model, or nothing once all is saved."""
         if self.document.is_modified:
             files.write_recovery(self.document.model, self.document.path)
+        else:
+            files.discard_recovery()
 
     # ---- solving ---------------------------------------------------------------------------
     def solve(self) -> None:

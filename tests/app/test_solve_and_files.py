@@ -104,3 +104,14 @@ def test_a_solver_error_is_shown_next_to_the_parts(window, qtbot):
     assert window.banner.isVisible()
     assert "conductor 1" in window.banner.text() and "touch or overlap" in window.banner.text()
     assert window.canvas.error_marks.items  # outlines and a note on the drawing
+
+
+def test_undoing_back_to_the_saved_state_removes_the_recovery_file(window, qtbot):
+    from app import edits
+    from solver import Circle
+
+    model, _ = edits.add_conductor(window.document.model, Circle((0, 0), 1))
+    window.document.apply(model, "Draw")
+    qtbot.waitUntil(lambda: files.recovery_path().is_file(), timeout=5000)
+    window.document.undo()
+    qtbot.waitUntil(lambda: not files.recovery_path().is_file(), timeout=5000)
