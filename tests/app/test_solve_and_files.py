@@ -115,3 +115,18 @@ def test_undoing_back_to_the_saved_state_removes_the_recovery_file(window, qtbot
     qtbot.waitUntil(lambda: files.recovery_path().is_file(), timeout=5000)
     window.document.undo()
     qtbot.waitUntil(lambda: not files.recovery_path().is_file(), timeout=5000)
+
+
+def test_closing_and_choosing_save_writes_the_file_first(window, tmp_path):
+    from PySide6.QtWidgets import QFileDialog
+
+    from app import edits
+    from solver import Circle
+
+    model, _ = edits.add_conductor(window.document.model, Circle((0, 5), 1))
+    window.document.apply(model, "Draw")
+    target = tmp_path / "kept.json"
+    with mock.patch.object(QMessageBox, "question", return_value=QMessageBox.Save), \
+            mock.patch.object(QFileDialog, "getSaveFileName", return_value=(str(target), "")):
+        assert window.close()
+    assert files.open_model(target) == model
