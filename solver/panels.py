@@ -62,7 +62,8 @@ class MeshSettings:
 
     @property
     def corner_fraction(self) -> float:
-        return 1e-3 * 10.0 ** (-2.0 * self.level)
+        # Floored so that the smallest panels stay far above round-off at very fine levels.
+        return max(1e-3 * 10.0 ** (-2.0 * self.level), 1e-9)
 
     @property
     def growth_ratio(self) -> float:
