@@ -19,6 +19,7 @@ from .dielectric_assembly import assemble_dielectric, free_charge_operator, norm
 from .dielectric_mesh import conductor_side_regions, discretize_interfaces, region_permittivities
 from .dielectric_solution import BACKGROUND_NAME, DielectricSolution
 from .errors import InvalidModelError, SolveCancelled
+from .solution import relative_change
 from .geometry import conductor_geometries
 from .junctions import split_at_junctions
 from .model import Model
@@ -113,15 +114,6 @@ def solve_dielectric_mesh(model: Model, settings: MeshSettings, cancel=None) -> 
     )
 
 
-def _relative_change(fine: DielectricSolution, coarse: DielectricSolution) -> float:
-    if fine.has_capacitance:
-        a, b = fine.capacitance_maxwell_F_per_m, coarse.capacitance_maxwell_F_per_m
-    else:
-        a, b = fine.conductor_charges_C_per_m, coarse.conductor_charges_C_per_m
-    scale = np.abs(a).max()
-    return float(np.abs(a - b).max() / scale) if scale > 0 else 0.0
-
-
 def solve_dielectric(
     model: Model,
     *,
@@ -151,7 +143,7 @@ def solve_dielectric(
         return solution
     report(0.7, "Estimating the error on a coarser mesh")
     coarse = solve_dielectric_mesh(model, MeshSettings(settings.level / 2.0), cancel)
-    error = _relative_change(solution, coarse)
+    error = relative_change(solution, coarse)
     logger.info(
         "solved %d conductor + %d interface panels; estimated relative error %.2e",
         solution.mesh.n_panels, solution.interfaces.n_panels, error,

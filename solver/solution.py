@@ -219,3 +219,15 @@ class Solution:
                 PeakField(conductor.name, float(e[i]), tuple(map(float, self.mesh.midpoints[i])), i, bool(near), exponent)
             )
         return tuple(peaks)
+
+
+def relative_change(fine: Solution, coarse: Solution) -> float:
+    """Largest change of the capacitance matrix (or, without a return path, of the conductor
+    charges) between two solutions of one model, relative to the largest entry of ``fine``.
+    """
+    if fine.has_capacitance:
+        a, b = fine.capacitance_maxwell_F_per_m, coarse.capacitance_maxwell_F_per_m
+    else:
+        a, b = fine.conductor_charges_C_per_m, coarse.conductor_charges_C_per_m
+    scale = np.abs(a).max()
+    return float(np.abs(a - b).max() / scale) if scale > 0 else 0.0

@@ -22,7 +22,7 @@ from .constants import EPSILON_0_F_PER_M
 from .errors import InvalidModelError, SolveCancelled
 from .model import Model
 from .panels import MeshSettings, PanelMesh, discretize_boundary
-from .solution import Solution
+from .solution import Solution, relative_change
 
 logger = logging.getLogger(__name__)
 
@@ -88,15 +88,6 @@ def solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None = No
     )
 
 
-def _relative_change(fine: Solution, coarse: Solution) -> float:
-    if fine.has_capacitance:
-        a, b = fine.capacitance_maxwell_F_per_m, coarse.capacitance_maxwell_F_per_m
-    else:
-        a, b = fine.conductor_charges_C_per_m, coarse.conductor_charges_C_per_m
-    scale = np.abs(a).max()
-    return float(np.abs(a - b).max() / scale) if scale > 0 else 0.0
-
-
 def solve(
     model: Model,
     *,
@@ -155,7 +146,7 @@ def solve(
     report(0.7, "Estimating the error on a coarser mesh")
     coarse_mesh = discretize_boundary(model, MeshSettings(settings.level / 2.0))
     coarse = solve_mesh(model, coarse_mesh, cancel)
-    error = _relative_change(solution, coarse)
+    error = relative_change(solution, coarse)
     logger.info("solved %d panels; estimated relative error %.2e", mesh.n_panels, error)
     report(1.0, "Done")
     return _with_error(solution, error, coarse_mesh.n_panels)
