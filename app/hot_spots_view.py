@@ -1,0 +1,325 @@
+"""The "Hot spots" section: peak surface fields you can trust, and their margins in air.
+
+When shown after a solve, :func:`solver.analyse_hot_spots` runs in the background (refining
+each conductor's peak field to 1 %); :func:`solver.assess_margins` turns the peaks into margins
+to air breakdown and Peek's corona onset for the air conditions typed in. Sharp corners are
+reported as singular with their exponent; a corner radius re-runs the analysis with the corners
+rounded. The standing statement is always visible; the full high-voltage caution shows in a
+coloured frame when a margin is below ``solver.THIN_MARGIN``. The corner-radius sweep and the
+equivalent radius are parts of this section. No physics here.
+"""
+
+from __future__ import annotations
+
+import math
+
+from PySide6.QtGui import QColor
+from PySide6.QtWidgets import (QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout, QLabel, QLineEdit,
+                               QPushButton, QVBoxLayout, QWidget)
+
+import solver
+from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN, AirConditions
+
+from .corner_radius_view import CornerRadiusPart, field_unit
+from .equivalent_radius_view import EquivalentRadiusPart
+from .figure_jobs import FigureJobRunner
+from .matrices_view import CopyableTable
+from .safety_views import ALTITUDE_KEY
+
+#: The standing part of the caution (no clearances; codes and qualified practice prevail).
+STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION[HIGH_VOLTAGE_CAUTION.index("This program does not determine"):]
+STATUS_COLOURS = {"ample": "#d8efdc", "thin": "#fde9c4", "exceeded": "#f7c6c6", "not assessed": "#e4e4e4"}
+STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
+TARGET = 0.01
+
+
+def _margin(value: float | None) -> str:
+    if value is None:
+        return "—"
+    return "∞" if not math.isfinite(value) else f"{value:.3g}"
+
+
+class HotSpotsView(QWidget):
+    """Per-conductor peak fields, margins, the caution, the radius sweep and the equivalent radius."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self.results = None
+        self.report: solver.HotSpotReport | None = None
+        self.margins: solver.MarginReport | None = None
+        self._pending = False
+        self._stale = False
+        self._last_status = ("", "")
+        self._corner_radius_m: float | None = None
+        self.runner = FigureJobRunner(self)
+        self.runner.result_ready.connect(self._on_report_ready)
+        self.runner.job_failed.connect(lambda m: self._set_status(f"No hot-spot analysis: {m}", error=True))
+
+        layout = QVBoxLayout(self)
+        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status.setWordWrap(True)
+        layout.addWidget(self.status)
+        self.caution_frame = QFrame()
+        self.caution_frame.setObjectName("caution_frame")
+        self.caution_frame.setStyleSheet("#caution_frame { border: 3px solid #b00000; background: #fde2e2; }")
+        frame_layout = QVBoxLayout(self.caution_frame)
+        self.caution_headline = QLabel()
+        self.caution_headline.setWordWrap(True)
+        self.caution_headline.setStyleSheet("color: #8a0000; font-weight: bold; font-size: 12pt;")
+        self.caution_text = QLabel(HIGH_VOLTAGE_CAUTION)
+        self.caution_text.setWordWrap(True)
+        frame_layout.addWidget(self.caution_headline)
+        frame_layout.addWidget(self.caution_text)
+        self.caution_frame.setVisible(False)
+        layout.addWidget(self.caution_frame)
+        self.table_label = QLabel("Peak surface field per conductor (crest values; margin = threshold / peak, "
+                                  f"below {THIN_MARGIN:g} is thin)")
+        self.table_label.setWordWrap(True)
+        layout.addWidget(self.table_label)
+        self.table = CopyableTable()
+        self.table.fill([], [], [])
+        layout.addWidget(self.table)
+        self.notes = QLabel()
+        self.notes.setWordWrap(True)
+        layout.addWidget(self.notes)
+        layout.addLayout(self._build_corner_row())
+        layout.addWidget(self._build_air_box())
+        self.statement = QLabel(STANDING_STATEMENT)
+        self.statement.setWordWrap(True)
+        self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
+        layout.addWidget(self.statement)
+        self.sweep_part = CornerRadiusPart()
+        self.radius_part = EquivalentRadiusPart()
+        layout.addWidget(self.sweep_part)
+        layout.addWidget(self.radius_part)
+        layout.addStretch(1)
+
+    def _build_corner_row(self) -> QHBoxLayout:
+        row = QHBoxLayout()
+        self.corner_label = QLabel("corner radius")
+        self.corner_edit = QLineEdit()
+        self.corner_edit.setPlaceholderText("round sharp corners to")
+        self.corner_button = QPushButton("Analyse with sharp corners rounded")
+        self.drawn_button = QPushButton("As drawn")
+        for w in (self.corner_label, self.corner_edit, self.corner_button, self.drawn_button):
+            row.addWidget(w)
+        self.corner_button.clicked.connect(self._on_corner_radius_applied)
+        self.drawn_button.clicked.connect(lambda: self._start(None))
+        return row
+
+    def _build_air_box(self) -> QGroupBox:
+        box = QGroupBox("Air at the site")
+        form = QFormLayout(box)
+        self.air_mode = QComboBox()
+        self.air_mode.addItems(["altitude (standard-atmosphere pressure)", "measured pressure and temperature"])
+        self.altitude_edit = QLineEdit("0")
+        self.pressure_edit = QLineEdit("101.325")
+        self.temperature_edit = QLineEdit("20")
+        self.surface_edit = QLineEdit("1")
+        self.peek_form = QComboBox()
+        self.peek_form.addItems(["parallel wires", "coaxial"])
+        self.apply_air = QPushButton("Apply air conditions")
+        self.air_label = QLabel()
+        self.air_label.setWordWrap(True)
+        form.addRow("air given by", self.air_mode)
+        form.addRow("altitude above sea level (m)", self.altitude_edit)
+        form.addRow("pressure (kPa)", self.pressure_edit)
+        form.addRow("temperature (°C)", self.temperature_edit)
+        form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit)
+        form.addRow("Peek form", self.peek_form)
+        form.addRow(self.apply_air)
+        form.addRow(self.air_label)
+        self.apply_air.clicked.connect(self._on_air_applied)
+        self.air_mode.currentIndexChanged.connect(self._on_air_mode_changed)
+        self._on_air_mode_changed(0)
+        return box
+
+    # ---- feeding -----------------------------------------------------------------------------
+    def show_results(self, results) -> None:
+        self.results = results
+        self.report = self.margins = None
+        self._stale = False
+        self.runner.cancel()
+        self.table.fill([], [], [])
+        self.table.setEnabled(True)
+        self.notes.setText("")
+        self.caution_frame.setVisible(False)
+        model = results.model
+        self.corner_label.setText(f"corner radius ({model.unit})")
+        altitude = model.extras.get(ALTITUDE_KEY)
+        if altitude is not None and self.air_mode.currentIndex() == 0:
+            self.altitude_edit.setText(f"{altitude:g}")
+        self.sweep_part.set_results(results)
+        self.radius_part.set_results(results)
+        self._corner_radius_m = None
+        self._pending = True
+        self._set_status("The peak fields are refined when this tab is shown.")
+        if self.isVisible():
+            self._start(None)
+
+    def mark_stale(self, stale: bool) -> None:
+        self._stale = stale
+        self.sweep_part.mark_stale(stale)
+        self.radius_part.mark_stale(stale)
+        self.table.setEnabled(not stale)
+        if stale:
+            if self.runner.is_busy:
+                self._pending = True
+                self.runner.cancel()
+            self.status.setText(STALE_TEXT)
+            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+        elif self.results is not None:
+            self._set_status(*self._last_status)
+            if self._pending and self.isVisible():
+                self._start(self._corner_radius_m)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        if self._pending and not self._stale and not self.runner.is_busy and self.results is not None:
+            self._start(self._corner_radius_m)
+
+    def _start(self, corner_radius_m: float | None) -> None:
+        if self.results is None:
+            return
+        self._pending = False
+        self._corner_radius_m = corner_radius_m
+        rounded = "" if corner_radius_m is None else " with sharp corners rounded"
+        self._set_status(f"Refining the peak surface fields{rounded} to {100 * TARGET:g} %…")
+        self.runner.start(solver.analyse_hot_spots, self.results.model, TARGET, corner_radius_m)
+
+    def _on_corner_radius_applied(self) -> None:
+        if self.results is None:
+            return
+        text = self.corner_edit.text().strip()
+        try:
+            radius = float(text)
+        except ValueError:
+            radius = -1.0
+        if not (radius > 0 and math.isfinite(radius)):
+            self._set_status(f"Corner radius '{text}': give a positive length in {self.results.model.unit}.",
+                             error=True)
+            return
+        self._start(radius * self.results.model.metres_per_unit)
+
+    # ---- air ---------------------------------------------------------------------------------
+    def _on_air_mode_changed(self, index: int) -> None:
+        self.altitude_edit.setEnabled(index == 0)
+        self.pressure_edit.setEnabled(index == 1)
+
+    def air_conditions(self) -> AirConditions:
+        """The air typed in; raises ValueError or a SolverError with a message for the user."""
+        temperature_K = float(self.temperature_edit.text()) + 273.15
+        surface = float(self.surface_edit.text())
+        form = "coaxial" if self.peek_form.currentIndex() == 1 else "parallel_wires"
+        if self.air_mode.currentIndex() == 1:
+            return AirConditions.at_pressure(float(self.pressure_edit.text()) * 1e3, temperature_K,
+                                             surface_factor=surface, peek_form=form)
+        return AirConditions.at_altitude(float(self.altitude_edit.text()), temperature_K,
+                                         surface_factor=surface, peek_form=form)
+
+    def _on_air_applied(self) -> None:
+        if self.report is not None:
+            self._assess()
+        else:
+            self._describe_air()
+
+    def _describe_air(self) -> AirConditions | None:
+        try:
+            air = self.air_conditions()
+            breakdown = solver.air_breakdown_field_V_per_m(air.relative_air_density)
+        except (ValueError, solver.SolverError) as exc:
+            self.air_label.setText(f"Air conditions not applied: {exc}")
+            self.air_label.setStyleSheet("color: #7a0000; font-weight: bold;")
+            return None
+        self.air_label.setStyleSheet("")
+        self.air_label.setText(
+            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Air breakdown "
+            f"{breakdown / 1e6:.3g} MV/m = 3 MV/m × δ (uniform field, common practice); corona onset of round "
+            f"conductors by Peek (1929), {self.peek_form.currentText()} form, surface factor {air.surface_factor:g}.")
+        return air
+
+    # ---- display -----------------------------------------------------------------------------
+    def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:
+        style = "color: #7a0000; font-weight: bold;" if error else style
+        self._last_status = (text, style)
+        if self._stale:
+            return
+        self.status.setText(text)
+        self.status.setStyleSheet(style)
+
+    def _on_report_ready(self, report) -> None:
+        self.report = report
+        rounded = ("" if report.corner_radius_m is None else
+                   f", sharp corners rounded to {report.corner_radius_m / self.results.model.metres_per_unit:g} "
+                   f"{self.results.model.unit}")
+        self._set_status(f"Peak fields refined to an error target of {100 * report.target_relative_error:g} % "
+                         f"({report.n_panels[-1]} panels on the finest mesh{rounded}).")
+        self._assess()
+
+    def _assess(self) -> None:
+        air = self._describe_air()
+        if air is None or self.report is None:
+            return
+        r = self.report
+        self.margins = solver.assess_margins(r.solved_model, r.hot_spots, air, THIN_MARGIN, r.air_region)
+        self._fill()
+
+    def _fill(self) -> None:
+        r, m, model = self.report, self.margins, self.results.model
+        scale, unit = model.metres_per_unit, model.unit
+        factor, label = field_unit([s.field_V_per_m for s in r.hot_spots] or [0.0])
+        rows, cells, statuses, notes = [], [], [], []
+        for spot, margin in zip(r.hot_spots, m.margins):
+            rows.append(spot.conductor)
+            x, y = spot.location_m[0] / scale, spot.location_m[1] / scale
+            if spot.singular:
+                corner = (f"yes, σ ~ r^({spot.corner_exponent:.3f}); mesh-dependent"
+                          if spot.corner_exponent is not None else "yes; mesh-dependent")
+                notes.append(f"'{spot.conductor}': {spot.note}")
+            else:
+                corner = "no"
+                if not spot.converged:
+                    notes.append(f"'{spot.conductor}': {spot.note}")
+            if margin.corona_radius_basis and margin.corona_radius_basis != "round conductor":
+                notes.append(f"'{spot.conductor}': corona onset uses the {margin.corona_radius_basis} "
+                             f"({margin.corona_radius_m / scale:.3g} {unit}).")
+            err = spot.estimated_relative_error
+            cells.append([
+                f"{spot.field_V_per_m / factor:.4g}", "— (singular)" if err is None else f"{100 * err:.2g}",
+                f"({x:.4g}, {y:.4g})", corner, _margin(spot.enhancement_factor),
+                f"{margin.air_breakdown_field_V_per_m / 1e6:.3g}", _margin(margin.air_breakdown_margin),
+                "—" if margin.corona_onset_field_V_per_m is None else f"{margin.corona_onset_field_V_per_m / 1e6:.3g}",
+                _margin(margin.corona_onset_margin), margin.status])
+            statuses.append(margin.status)
+        if r.air_region is not None:
+            ar = r.air_region
+            rows.append(f"air ({ar.where})")
+            cells.append([f"{ar.field_V_per_m / factor:.4g}",
+                          "—" if ar.estimated_relative_error is None else f"{100 * ar.estimated_relative_error:.2g}",
+                          f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
+                          "yes" if ar.at_sharp_corner else "no", "—", f"{m.margins[0].air_breakdown_field_V_per_m / 1e6:.3g}"
+                          if m.margins else "—", _margin(m.air_region_margin), "—", "—", m.air_region_status or "—"])
+            statuses.append(m.air_region_status or "not assessed")
+        quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x, y ({unit})", "at a sharp corner",
+                      "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",
+                      "corona-onset field (MV/m)", "corona-onset margin", "status"]
+        # one column per conductor, so that every figure stays in view in a narrow panel
+        self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [])
+        for j, status in enumerate(statuses):
+            self.table.item(len(quantities) - 1, j).setBackground(QColor(STATUS_COLOURS.get(status, "#ffffff")))
+        notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
+                     "potential. Potentials and fields are crest values (AC rms × √2).")
+        self.notes.setText("\n".join(notes))
+        self._show_caution()
+
+    def _show_caution(self) -> None:
+        m = self.margins
+        low = [c for c in m.margins if c.status in ("thin", "exceeded")]
+        region_low = m.air_region_status in ("thin", "exceeded")
+        self.caution_frame.setVisible(bool(low) or region_low)
+        if low or region_low:
+            worst = min((v for c in low for v in (c.air_breakdown_margin, c.corona_onset_margin) if v is not None),
+                        default=m.air_region_margin)
+            names = ", ".join(f"'{c.conductor}'" for c in low) or "the surrounding air"
+            verb = "exceeded" if worst is not None and worst < 1 else f"thin (below {THIN_MARGIN:g})"
+            self.caution_headline.setText(f"CAUTION: margin {verb} on {names}; smallest margin {_margin(worst)}.")

@@ -1,0 +1,209 @@
+"""The "Line figures" section: quasi-TEM transmission-line figures of the solved cross-section.
+
+After each solve the section (when shown) runs :func:`solver.transmission_line_figures` in the
+background — it needs a second solve with every eps_r = 1 — and shows the inductance matrix,
+the single-line figures (Z0, eps_eff, delay, velocity), the even/odd-mode figures of a
+symmetric pair, the modal table and the coupling coefficients. No physics here: every number
+comes from the solver's TransmissionLineFigures.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+
+import solver
+
+from .figure_jobs import FigureJobRunner
+from .matrices_view import CopyableTable
+
+QUASI_TEM_NOTE = ("Quasi-TEM figures: they hold while the cross-section is small against the wavelength; "
+                  "skin effect, conductor and dielectric loss and dispersion are not modelled.")
+NO_RETURN_PATH = ("No line figures: a transmission line needs a return path. Add a reference conductor "
+                  "or a ground plane (and at least one conductor at a fixed potential), then solve again.")
+STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
+
+LIGHT = solver.SPEED_OF_LIGHT_M_PER_S
+
+
+def inductance_unit(matrix_H_per_m: np.ndarray) -> tuple[float, str]:
+    """(factor, label) for an inductance matrix: µH/m from 1 µH/m up, else nH/m."""
+    return (1e-6, "µH/m") if np.max(np.abs(matrix_H_per_m)) >= 1e-6 else (1e-9, "nH/m")
+
+
+def delay_text(delay_s_per_m: float) -> str:
+    """Delay per metre in ns/m (ps/m below 1 ns/m), with the same per millimetre."""
+    if delay_s_per_m >= 1e-9:
+        return f"{delay_s_per_m * 1e9:.4g} ns/m  ({delay_s_per_m * 1e12 / 1e3:.4g} ps/mm)"
+    return f"{delay_s_per_m * 1e12:.4g} ps/m"
+
+
+def velocity_text(velocity_m_per_s: float) -> str:
+    return f"{velocity_m_per_s / 1e8:.4g} × 10⁸ m/s  ({100 * velocity_m_per_s / LIGHT:.4g} % of c)"
+
+
+class LineFiguresView(QWidget):
+    """Transmission-line figures after each solve, computed in the background."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self.results = None
+        self.figures: solver.TransmissionLineFigures | None = None
+        self._pending = False
+        self._stale = False
+        self._last_status = ("", "")
+        self.runner = FigureJobRunner(self)
+        self.runner.result_ready.connect(self._on_figures_ready)
+        self.runner.job_failed.connect(self._on_job_failed)
+
+        layout = QVBoxLayout(self)
+        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status.setWordWrap(True)
+        layout.addWidget(self.status)
+        self.note = QLabel(QUASI_TEM_NOTE)
+        self.note.setWordWrap(True)
+        self.note.setStyleSheet("color: #444;")
+        layout.addWidget(self.note)
+        self.line_label = QLabel()
+        self.line_table = CopyableTable()
+        self.inductance_label = QLabel()
+        self.inductance = CopyableTable()
+        self.modes_label = QLabel("Modes (slowest first): effective permittivity, velocity, modal impedance and "
+                                  "the modal voltages on each line (largest +1)")
+        self.modes = CopyableTable()
+        self.coupling_label = QLabel("Coupling coefficients between lines: capacitive k_C = −C_ij / √(C_ii C_jj), "
+                                     "inductive k_L = L_ij / √(L_ii L_jj)")
+        self.coupling = CopyableTable()
+        self.error_label = QLabel()
+        for w in (self.line_label, self.line_table, self.inductance_label, self.inductance, self.modes_label,
+                  self.modes, self.coupling_label, self.coupling, self.error_label):
+            if isinstance(w, QLabel):
+                w.setWordWrap(True)
+            layout.addWidget(w)
+        layout.addStretch(1)
+        self._clear()
+
+    # ---- feeding -----------------------------------------------------------------------------
+    def show_results(self, results) -> None:
+        self.results = results
+        self.figures = None
+        self._stale = False
+        self._grey_out(False)
+        self.runner.cancel()
+        self._clear()
+        model = results.model
+        if not model.has_return_path or not model.signal_names:
+            self._pending = False
+            self._set_status(NO_RETURN_PATH, "color: #7a0000; font-weight: bold;")
+            return
+        self._pending = True
+        self._set_status("Line figures are computed when this tab is shown.")
+        if self.isVisible():
+            self._start()
+
+    def mark_stale(self, stale: bool) -> None:
+        self._stale = stale
+        self._grey_out(stale)
+        if stale:
+            if self.runner.is_busy:
+                self._pending = True  # started again if the drawing returns to the solved state
+                self.runner.cancel()
+            self.status.setText(STALE_TEXT)
+            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+            return
+        self._set_status(*self._last_status)
+        if self._pending and self.isVisible():
+            self._start()
+
+    def _grey_out(self, stale: bool) -> None:
+        """Out-of-date figures stay readable but greyed."""
+        for table in (self.line_table, self.inductance, self.modes, self.coupling):
+            table.setEnabled(not stale)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        if self._pending and not self._stale and not self.runner.is_busy:
+            self._start()
+
+    def _start(self) -> None:
+        self._pending = False
+        self._set_status("Computing the line figures (a second solve with every relative permittivity 1)…")
+        self.runner.start(solver.transmission_line_figures, self.results.model, estimate_error=True)
+
+    def _on_job_failed(self, message: str) -> None:
+        self._set_status(f"No line figures: {message}", "color: #7a0000; font-weight: bold;")
+
+    def _on_figures_ready(self, figures) -> None:
+        self.figures = figures
+        self._show_figures_status()
+        self._fill(figures)
+
+    # ---- display -----------------------------------------------------------------------------
+    def _set_status(self, text: str, style: str = "") -> None:
+        self._last_status = (text, style)
+        if self._stale:
+            return
+        self.status.setText(text)
+        self.status.setStyleSheet(style)
+
+    def _show_figures_status(self) -> None:
+        names = ", ".join(self.figures.signal_names)
+        self._set_status(f"Line figures of {len(self.figures.signal_names)} signal line(s): {names}.")
+
+    def _clear(self) -> None:
+        for label, table in ((self.line_label, self.line_table), (self.inductance_label, self.inductance),
+                             (self.modes_label, self.modes), (self.coupling_label, self.coupling)):
+            table.fill([], [], [])
+            label.setVisible(False)
+            table.setVisible(False)
+        self.error_label.setText("")
+
+    def _show(self, label: QLabel, table: CopyableTable) -> None:
+        label.setVisible(True)
+        table.setVisible(True)
+
+    def _fill(self, f) -> None:
+        names = list(f.signal_names)
+        scale, unit = inductance_unit(f.inductance_H_per_m)
+        self.inductance_label.setText(f"Inductance matrix L = μ₀ε₀ C₀⁻¹ ({unit}), from the capacitance with every "
+                                      "relative permittivity set to 1")
+        self.inductance.fill(names, names, [[f"{v / scale:.5g}" for v in row] for row in f.inductance_H_per_m])
+        self._show(self.inductance_label, self.inductance)
+        if f.characteristic_impedance_ohm is not None:
+            self.line_label.setText(f"Single line '{names[0]}'")
+            rows = ["characteristic impedance Z₀", "effective permittivity ε_eff", "propagation delay",
+                    "phase velocity"]
+            cells = [[f"{f.characteristic_impedance_ohm:.4g} Ω"], [f"{f.effective_permittivity:.4g}"],
+                     [delay_text(f.delay_s_per_m)], [velocity_text(f.velocity_m_per_s)]]
+            self.line_table.fill(rows, ["value"], cells)
+            self._show(self.line_label, self.line_table)
+        elif f.is_symmetric_pair:
+            self.line_label.setText(f"Symmetric pair '{names[0]}' and '{names[1]}'")
+            rows = ["even-mode impedance Z_even", "odd-mode impedance Z_odd", "even-mode ε_eff", "odd-mode ε_eff",
+                    "differential impedance 2 Z_odd", "common-mode impedance Z_even / 2"]
+            cells = [[f"{f.even_mode_impedance_ohm:.4g} Ω"], [f"{f.odd_mode_impedance_ohm:.4g} Ω"],
+                     [f"{f.even_mode_effective_permittivity:.4g}"], [f"{f.odd_mode_effective_permittivity:.4g}"],
+                     [f"{f.differential_impedance_ohm:.4g} Ω"], [f"{f.common_mode_impedance_ohm:.4g} Ω"]]
+            self.line_table.fill(rows, ["value"], cells)
+            self._show(self.line_label, self.line_table)
+        if len(names) > 1:
+            columns = ["ε_eff", "velocity (10⁸ m/s)", "delay (ns/m)", "impedance (Ω)"] + [f"V({n})" for n in names]
+            cells = []
+            for k in range(len(names)):
+                v = float(f.modal_velocities_m_per_s[k])
+                cells.append([f"{f.modal_effective_permittivities[k]:.4g}", f"{v / 1e8:.4g}", f"{1e9 / v:.4g}",
+                              f"{f.modal_impedances_ohm[k]:.4g}"] + [f"{x:+.3f}" for x in f.modal_voltages[:, k]])
+            self.modes.fill([f"mode {k + 1}" for k in range(len(names))], columns, cells)
+            self._show(self.modes_label, self.modes)
+            pairs = [(i, j) for i in range(len(names)) for j in range(i + 1, len(names))]
+            self.coupling.fill([f"{names[i]} – {names[j]}" for i, j in pairs], ["capacitive k_C", "inductive k_L"],
+                               [[f"{f.capacitive_coupling[i, j]:.4g}", f"{f.inductive_coupling[i, j]:.4g}"]
+                                for i, j in pairs])
+            self._show(self.coupling_label, self.coupling)
+        err = f.estimated_relative_error
+        self.error_label.setText(
+            "" if err is None or not math.isfinite(err) else
+            f"Estimated relative error of the capacitances behind these figures: {100 * err:.2g} % "
+            "(change against meshes at half the resolution).")

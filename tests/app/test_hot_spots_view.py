@@ -1,0 +1,124 @@
+"""The "Hot spots" section: refined peak fields, margins, the caution frame, the sweep and the radius."""
+
+import csv
+import io
+
+import solver
+from solver import Circle, Conductor, GroundPlane, HIGH_VOLTAGE_CAUTION, Model, Rectangle
+
+from app.results import compute_results
+
+from test_line_figures_view import wait_until
+
+HV_SAMPLE = "sample_geometries/hv_electrode_over_earth.json"
+
+
+def open_view(qtbot, model):
+    from app.hot_spots_view import HotSpotsView
+
+    view = HotSpotsView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(compute_results(model, grid_points=0, n_field_lines=0))
+    wait_until(lambda: view.margins is not None or "No hot-spot" in view.status.text())
+    return view
+
+
+def column(view, name: str) -> dict[str, str]:
+    """Quantity -> shown text for one conductor's column of the table."""
+    t = view.table
+    j = [t.horizontalHeaderItem(k).text() for k in range(t.columnCount())].index(name)
+    return {t.verticalHeaderItem(i).text(): t.item(i, j).text() for i in range(t.rowCount())}
+
+
+def test_hv_electrode_peak_error_and_margins(qtbot):
+    view = open_view(qtbot, solver.load_project(HV_SAMPLE))
+    shown = column(view, "electrode")
+    assert float(shown["estimated error (%)"]) < 1.0
+    peak = view.report.for_conductor("electrode")
+    assert shown["peak |E| (kV/m)"] == f"{peak.field_V_per_m / 1e3:.4g}"
+    margin = view.margins.margins[0]
+    assert shown["air-breakdown margin"] == f"{margin.air_breakdown_margin:.3g}" and margin.air_breakdown_margin > 1
+    assert shown["corona-onset margin"] == f"{margin.corona_onset_margin:.3g}" and margin.corona_onset_margin > 1
+    assert shown["at a sharp corner"] == "no" and shown["status"] == "ample"
+    assert not view.caution_frame.isVisible()
+    assert "does not determine clearances" in view.statement.text() and view.statement.isVisible()
+
+
+def test_altitude_reruns_the_assessment(qtbot):
+    view = open_view(qtbot, solver.load_project(HV_SAMPLE))
+    before = view.margins.margins[0].air_breakdown_margin
+    view.altitude_edit.setText("2000")
+    view.apply_air.click()
+    after = view.margins.margins[0].air_breakdown_margin
+    assert after == before * solver.relative_air_density_at_altitude(2000.0)
+    assert "δ = 0.78" in view.air_label.text()
+    view.altitude_edit.setText("high")
+    view.apply_air.click()
+    assert "not applied" in view.air_label.text()
+
+
+def test_low_margin_shows_the_caution_frame(qtbot):
+    wire = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("wire", (Circle((0.0, 100.0), 5.0),), potential_V=60e3),))
+    view = open_view(qtbot, wire)
+    status = column(view, "wire")["status"]
+    assert status in ("thin", "exceeded")
+    assert view.caution_frame.isVisible() and view.caution_text.text() == HIGH_VOLTAGE_CAUTION
+    assert "'wire'" in view.caution_headline.text()
+
+
+def test_sharp_corner_is_singular_and_a_radius_rounds_it(qtbot):
+    bar = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("bar", (Rectangle((0.0, 30.0), 40.0, 10.0),), potential_V=10e3),))
+    view = open_view(qtbot, bar)
+    assert column(view, "bar")["at a sharp corner"].startswith("yes, σ ~ r^(-0.333)")
+    assert "grows with every refinement" in view.notes.text()
+    view.corner_edit.setText("2")
+    view.corner_button.click()
+    wait_until(lambda: view.report is not None and view.report.corner_radius_m == 0.002 and view.margins is not None
+               and view.margins.margins[0].peak_field_V_per_m == view.report.hot_spots[0].field_V_per_m)
+    assert column(view, "bar")["at a sharp corner"] == "no"
+
+
+def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
+    view = open_view(qtbot, solver.load_project(HV_SAMPLE))
+    part = view.sweep_part
+    part.radii_edit.setText("0.01, 0.02, 0.03")
+    part.run_sweep()
+    wait_until(lambda: part.sweep is not None)
+    x, y = part.curve.getData()
+    assert len(x) == 3 and list(x) == [0.01, 0.02, 0.03]
+    assert y[0] > y[1] > y[2]  # the peak falls as the radius grows
+    assert part.table.rowCount() == 3
+    assert "corner radius (m)" in part.plot.getAxis("bottom").labelText
+    path = tmp_path / "sweep.csv"
+    part.write_csv(str(path))
+    rows = list(csv.DictReader(io.StringIO(path.read_text())))
+    assert [float(r["corner_radius_m"]) for r in rows] == [0.01, 0.02, 0.03]
+    assert [float(r["peak_field_V_per_m"]) for r in rows] == [float(f"{v:.9g}") for v in part.sweep.peak_field_V_per_m]
+
+
+def test_equivalent_radius_of_a_regular_bundle(qtbot):
+    bundle = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("a", (Circle((-200.0, 10000.0), 10.0),), potential_V=1e5),
+        Conductor("b", (Circle((200.0, 10000.0), 10.0),), potential_V=1e5)))
+    view = open_view(qtbot, bundle)
+    part = view.radius_part
+    assert part.checked_names() == ["a", "b"]
+    part.compute()
+    wait_until(lambda: part.comparison is not None)
+    text = part.result.text()
+    assert "bundle formula (n r A^(n−1))^(1/n) gives 63.246 mm" in text  # sqrt(2 * 10 * 200)
+    assert f"{part.comparison.equivalent_radius_m * 1e3:.5g} mm" in text
+
+
+def test_stale_results_are_marked(qtbot):
+    from app.hot_spots_view import STALE_TEXT
+
+    view = open_view(qtbot, solver.load_project(HV_SAMPLE))
+    view.mark_stale(True)
+    assert view.status.text() == STALE_TEXT and not view.table.isEnabled()
+    assert not view.sweep_part.run_button.isEnabled()
+    view.mark_stale(False)
+    assert view.status.text().startswith("Peak fields refined") and view.table.isEnabled()

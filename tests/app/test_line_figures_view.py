@@ -1,0 +1,134 @@
+"""The "Line figures" section: background transmission-line figures after each solve.
+
+Waiting: PySide6's QTest.qWait (behind qtbot.waitUntil) keeps the Python GIL while it waits, which
+starves a Python worker thread; :func:`wait_until` spins a QEventLoop instead, which releases it.
+"""
+
+import math
+import re
+
+from PySide6.QtCore import QEventLoop, QTimer
+
+import solver
+from solver import Conductor, GroundPlane, Model, Rectangle
+
+from app.results import compute_results
+
+SAMPLE = "sample_geometries/microstrip_on_substrate.json"
+ETA0_OHM = 376.73  # free-space wave impedance
+
+
+def wait_until(condition, timeout_s: float = 60.0) -> None:
+    """Run the Qt event loop until ``condition()`` holds (AssertionError after ``timeout_s``)."""
+    import time
+
+    deadline = time.monotonic() + timeout_s
+    while not condition():
+        assert time.monotonic() < deadline, "timed out waiting for the background job"
+        loop = QEventLoop()
+        QTimer.singleShot(20, loop.quit)
+        loop.exec()
+
+
+def results_of(model):
+    return compute_results(model, grid_points=0, n_field_lines=0)
+
+
+def hammerstad_jensen_thick(w: float, h: float, t: float, eps_r: float) -> tuple[float, float]:
+    """Z0 (ohm) and eps_eff of a microstrip of width w and thickness t on a substrate of height h.
+
+    E. Hammerstad and O. Jensen, "Accurate models for microstrip computer-aided design", IEEE
+    MTT-S International Microwave Symposium Digest, 1980: the zero-thickness forms at the widths
+    u1 = u + du1 and ur = u + dur corrected for thickness,
+    du1 = (t/pi) ln(1 + 4e / (t coth^2 sqrt(6.517 u))), dur = (1 + sech sqrt(eps_r - 1)) du1 / 2
+    (t normalised by h); Z0 = Z01(ur) / sqrt(eps_eff0(ur)), eps_eff = eps_eff0(ur) (Z01(u1) / Z01(ur))^2.
+    """
+    def z01(u):
+        f = 6 + (2 * math.pi - 6) * math.exp(-((30.666 / u) ** 0.7528))
+        return ETA0_OHM / (2 * math.pi) * math.log(f / u + math.sqrt(1 + 4 / u**2))
+
+    def eps_eff0(u):
+        a = 1 + math.log((u**4 + (u / 52) ** 2) / (u**4 + 0.432)) / 49 + math.log(1 + (u / 18.1) ** 3) / 18.7
+        b = 0.564 * ((eps_r - 0.9) / (eps_r + 3)) ** 0.053
+        return (eps_r + 1) / 2 + (eps_r - 1) / 2 * (1 + 10 / u) ** (-a * b)
+
+    u, tn = w / h, t / h
+    du1 = tn / math.pi * math.log(1 + 4 * math.e / (tn / math.tanh(math.sqrt(6.517 * u)) ** 2))
+    dur = 0.5 * (1 + 1 / math.cosh(math.sqrt(eps_r - 1))) * du1
+    u1, ur = u + du1, u + dur
+    return z01(ur) / math.sqrt(eps_eff0(ur)), eps_eff0(ur) * (z01(u1) / z01(ur)) ** 2
+
+
+def shown_value(view, row_name: str) -> str:
+    table = view.line_table
+    for i in range(table.rowCount()):
+        if table.verticalHeaderItem(i).text().startswith(row_name):
+            return table.item(i, 0).text()
+    raise AssertionError(f"no row {row_name!r} in {table.as_text()}")
+
+
+def test_microstrip_sample_shows_its_impedance(qtbot):
+    from app.line_figures_view import LineFiguresView
+
+    model = solver.load_project(SAMPLE)
+    view = LineFiguresView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(results_of(model))
+    wait_until(lambda: view.figures is not None)
+    own = solver.transmission_line_figures(model, estimate_error=True)
+    shown_z0 = float(re.match(r"([\d.]+) Ω", shown_value(view, "characteristic impedance")).group(1))
+    assert shown_value(view, "characteristic impedance") == f"{own.characteristic_impedance_ohm:.4g} Ω"
+    trace, board = model.conductors[0].shapes[0], model.dielectrics[0]
+    z0_hj, eps_hj = hammerstad_jensen_thick(trace.width, board.shapes[0].height, trace.height, board.eps_r)
+    assert abs(shown_z0 / z0_hj - 1) < 0.01
+    assert abs(float(shown_value(view, "effective permittivity")) / eps_hj - 1) < 0.01
+    assert "ns/m" in shown_value(view, "propagation delay")
+    assert "nH/m" in view.inductance_label.text() and view.inductance.rowCount() == 1
+    assert "quasi-tem" in view.note.text().lower() and "skin effect" in view.note.text()
+
+
+def test_stale_figures_are_marked_and_greyed(qtbot):
+    from app.line_figures_view import STALE_TEXT, LineFiguresView
+
+    view = LineFiguresView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(results_of(solver.load_project(SAMPLE)))
+    wait_until(lambda: view.figures is not None)
+    view.mark_stale(True)
+    assert view.status.text() == STALE_TEXT and not view.line_table.isEnabled()
+    view.mark_stale(False)
+    assert view.status.text().startswith("Line figures of 1") and view.line_table.isEnabled()
+
+
+def test_no_return_path_says_so_plainly(qtbot):
+    from app.line_figures_view import NO_RETURN_PATH, LineFiguresView
+
+    floating = Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("a", (Rectangle((-2.0, 0.0), 1.0, 1.0),), potential_V=1.0),
+        Conductor("b", (Rectangle((2.0, 0.0), 1.0, 1.0),), potential_V=0.0)))
+    view = LineFiguresView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(results_of(floating))
+    assert view.status.text() == NO_RETURN_PATH and not view.runner.is_busy
+    assert not view.line_table.isVisible()
+
+
+def test_pair_shows_even_odd_modes_and_coupling(qtbot):
+    from app.line_figures_view import LineFiguresView
+
+    pair = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("p", (Rectangle((-1.0, 1.0), 1.0, 0.1),), potential_V=1.0),
+        Conductor("n", (Rectangle((1.0, 1.0), 1.0, 0.1),), potential_V=1.0)))
+    view = LineFiguresView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(results_of(pair))
+    wait_until(lambda: view.figures is not None)
+    f = view.figures
+    assert shown_value(view, "differential impedance") == f"{f.differential_impedance_ohm:.4g} Ω"
+    assert shown_value(view, "odd-mode impedance") == f"{f.odd_mode_impedance_ohm:.4g} Ω"
+    assert view.modes.rowCount() == 2 and view.coupling.rowCount() == 1
+    assert float(view.coupling.item(0, 0).text()) > 0.0
