@@ -111,7 +111,10 @@ class CornerRadiusPart(QWidget):
             self.conductor_box.setCurrentText(sharp[0])
         self.conductor_box.blockSignals(False)
         self._on_conductor_changed(self.conductor_box.currentText())
-        self._set_status("Pick a conductor and radii, then run the sweep.")
+        self._set_axes(model.unit, "kV/m")
+        self._set_status("Pick a conductor and radii, then run the sweep." if sharp else
+                         "No conductor has sharp corners as drawn. The sweep gives each corner of a one-rectangle "
+                         "conductor the radius in turn; a round conductor has no corner to change.")
 
     def mark_stale(self, stale: bool) -> None:
         if stale:

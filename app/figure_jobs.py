@@ -10,6 +10,7 @@ swallowed.
 
 from __future__ import annotations
 
+import atexit
 import logging
 from typing import Callable
 
@@ -100,3 +101,6 @@ def wait_for_all(timeout_ms: int = 60000) -> None:
     """Block until every figure job thread has ended (for closing the program and for tests)."""
     for thread in list(_LIVE_THREADS):
         thread.wait(timeout_ms)
+
+
+atexit.register(wait_for_all)  # a thread still running at exit would otherwise abort the interpreter

@@ -19,6 +19,7 @@ from PySide6.QtWidgets import (QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxL
 
 import solver
 from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN, AirConditions
+from solver.cli import HIGH_VOLTAGE_V  # potentials (V) from which the command line cautions too
 
 from .corner_radius_view import CornerRadiusPart, field_unit
 from .equivalent_radius_view import EquivalentRadiusPart
@@ -285,7 +286,7 @@ class HotSpotsView(QWidget):
                              f"({margin.corona_radius_m / scale:.3g} {unit}).")
             err = spot.estimated_relative_error
             cells.append([
-                f"{spot.field_V_per_m / factor:.4g}", "— (singular)" if err is None else f"{100 * err:.2g}",
+                f"{spot.field_V_per_m / factor:.4g}" + (" (mesh value)" if spot.singular else ""), "— (singular)" if err is None else f"{100 * err:.2g}",
                 f"({x:.4g}, {y:.4g})", corner, _margin(spot.enhancement_factor),
                 f"{margin.air_breakdown_field_V_per_m / 1e6:.3g}", _margin(margin.air_breakdown_margin),
                 "—" if margin.corona_onset_field_V_per_m is None else f"{margin.corona_onset_field_V_per_m / 1e6:.3g}",
@@ -313,13 +314,29 @@ class HotSpotsView(QWidget):
         self._show_caution()
 
     def _show_caution(self) -> None:
+        """Red frame when a margin is thin or exceeded; amber when a high-voltage peak has no margin."""
         m = self.margins
         low = [c for c in m.margins if c.status in ("thin", "exceeded")]
         region_low = m.air_region_status in ("thin", "exceeded")
-        self.caution_frame.setVisible(bool(low) or region_low)
+        unassessed = [c for c in m.margins if c.status == "not assessed"]
+        high_voltage = max((abs(float(v)) for v in self.results.solution.conductor_potentials_V), default=0.0) \
+            >= HIGH_VOLTAGE_V
         if low or region_low:
             worst = min((v for c in low for v in (c.air_breakdown_margin, c.corona_onset_margin) if v is not None),
                         default=m.air_region_margin)
             names = ", ".join(f"'{c.conductor}'" for c in low) or "the surrounding air"
             verb = "exceeded" if worst is not None and worst < 1 else f"thin (below {THIN_MARGIN:g})"
-            self.caution_headline.setText(f"CAUTION: margin {verb} on {names}; smallest margin {_margin(worst)}.")
+            self._frame(f"CAUTION: margin {verb} on {names}; smallest margin {_margin(worst)}.", "#b00000", "#fde2e2")
+        elif unassessed and high_voltage:
+            names = ", ".join(f"'{c.conductor}'" for c in unassessed)
+            self._frame(f"No margin for {names}: the peak sits at a sharp corner or in insulation, where the air "
+                        "thresholds give no answer. Give a corner radius above, or judge the insulation by its own "
+                        "rating.", "#9a5b00", "#fff1dc")
+        else:
+            self.caution_frame.setVisible(False)
+
+    def _frame(self, headline: str, colour: str, background: str) -> None:
+        self.caution_frame.setStyleSheet(f"#caution_frame {{ border: 3px solid {colour}; background: {background}; }}")
+        self.caution_headline.setStyleSheet(f"color: {colour}; font-weight: bold; font-size: 12pt;")
+        self.caution_headline.setText(headline)
+        self.caution_frame.setVisible(True)

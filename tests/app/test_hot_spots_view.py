@@ -74,11 +74,14 @@ def test_sharp_corner_is_singular_and_a_radius_rounds_it(qtbot):
     view = open_view(qtbot, bar)
     assert column(view, "bar")["at a sharp corner"].startswith("yes, σ ~ r^(-0.333)")
     assert "grows with every refinement" in view.notes.text()
+    assert column(view, "bar")["status"] == "not assessed" and view.caution_frame.isVisible()
+    assert "No margin for 'bar'" in view.caution_headline.text()
     view.corner_edit.setText("2")
     view.corner_button.click()
     wait_until(lambda: view.report is not None and view.report.corner_radius_m == 0.002 and view.margins is not None
                and view.margins.margins[0].peak_field_V_per_m == view.report.hot_spots[0].field_V_per_m)
-    assert column(view, "bar")["at a sharp corner"] == "no"
+    assert column(view, "bar")["at a sharp corner"] == "no" and column(view, "bar")["status"] == "ample"
+    assert not view.caution_frame.isVisible()
 
 
 def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
