@@ -12,6 +12,8 @@ from PySide6.QtWidgets import QScrollArea, QTabWidget
 from .matrices_view import MatricesView
 from .plots import BoundaryPlot, ProbePlot
 from .safety_views import CaveatsView, HighVoltageView
+from .line_figures_view import LineFiguresView
+from .hot_spots_view import HotSpotsView
 
 
 class ResultsPanel(QTabWidget):
@@ -23,6 +25,8 @@ class ResultsPanel(QTabWidget):
         self.probe = self.add_section("Probe line", ProbePlot())
         self.high_voltage = self.add_section("High voltage", HighVoltageView(document), scroll=True)
         self.caveats = self.add_section("Limits of 2-D", CaveatsView(document), scroll=True)
+        self.line_figures = self.add_section("Line figures", LineFiguresView(), scroll=True)
+        self.hot_spots = self.add_section("Hot spots", HotSpotsView(), scroll=True)
 
     def add_section(self, title: str, widget, *, scroll: bool = False):
         """Add a tab; returns ``widget``."""

@@ -125,3 +125,19 @@ def test_stale_results_are_marked(qtbot):
     assert not view.sweep_part.run_button.isEnabled()
     view.mark_stale(False)
     assert view.status.text().startswith("Peak fields refined") and view.table.isEnabled()
+
+
+def test_window_runs_the_section_when_its_tab_is_shown_and_marks_it_stale(window, qtbot):
+    from app import files
+    from app.hot_spots_view import STALE_TEXT
+    from app_helpers import wait_for_solve
+
+    assert window.commands.open(files.SAMPLES_DIR / "hv_electrode_over_earth.json")
+    wait_for_solve(qtbot, window)
+    view = window.results_panel.hot_spots
+    assert view.report is None and not view.runner.is_busy  # nothing runs while the tab is hidden
+    window.results_panel.show_section("Hot spots")
+    wait_until(lambda: view.margins is not None)
+    assert column(view, "electrode")["status"] == "ample"
+    window.document.apply(window.document.model.with_potentials({"electrode": 50e3}), "Lower the potential")
+    assert view.status.text() == STALE_TEXT and not view.table.isEnabled()

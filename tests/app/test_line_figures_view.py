@@ -132,3 +132,16 @@ def test_pair_shows_even_odd_modes_and_coupling(qtbot):
     assert shown_value(view, "odd-mode impedance") == f"{f.odd_mode_impedance_ohm:.4g} Ω"
     assert view.modes.rowCount() == 2 and view.coupling.rowCount() == 1
     assert float(view.coupling.item(0, 0).text()) > 0.0
+
+
+def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):
+    from app import files
+    from app_helpers import wait_for_solve
+
+    assert window.commands.open(files.SAMPLES_DIR / "microstrip_on_substrate.json")
+    wait_for_solve(qtbot, window)
+    view = window.results_panel.line_figures
+    assert view.figures is None and not view.runner.is_busy  # nothing runs while the tab is hidden
+    window.results_panel.show_section("Line figures")
+    wait_until(lambda: view.figures is not None)
+    assert shown_value(view, "characteristic impedance") == f"{view.figures.characteristic_impedance_ohm:.4g} Ω"
