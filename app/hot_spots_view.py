@@ -40,6 +40,10 @@ def _margin(value: float | None) -> str:
     return "∞" if not math.isfinite(value) else f"{value:.3g}"
 
 
+def _names(names: list[str]) -> str:
+    return ", ".join(f"'{n}'" for n in names)
+
+
 class HotSpotsView(QWidget):
     """Per-conductor peak fields, margins, the caution, the radius sweep and the equivalent radius."""
 
@@ -294,7 +298,8 @@ class HotSpotsView(QWidget):
             statuses.append(margin.status)
         if r.air_region is not None:
             ar = r.air_region
-            rows.append(f"air ({ar.where})")
+            place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
+            rows.append(f"largest in air ({place})")
             cells.append([f"{ar.field_V_per_m / factor:.4g}",
                           "—" if ar.estimated_relative_error is None else f"{100 * ar.estimated_relative_error:.2g}",
                           f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
@@ -328,10 +333,17 @@ class HotSpotsView(QWidget):
             verb = "exceeded" if worst is not None and worst < 1 else f"thin (below {THIN_MARGIN:g})"
             self._frame(f"CAUTION: margin {verb} on {names}; smallest margin {_margin(worst)}.", "#b00000", "#fde2e2")
         elif unassessed and high_voltage:
-            names = ", ".join(f"'{c.conductor}'" for c in unassessed)
-            self._frame(f"No margin for {names}: the peak sits at a sharp corner or in insulation, where the air "
-                        "thresholds give no answer. Give a corner radius above, or judge the insulation by its own "
-                        "rating.", "#9a5b00", "#fff1dc")
+            spots = {spot.conductor: spot for spot in self.report.hot_spots}
+            at_corner = [c.conductor for c in unassessed if spots[c.conductor].singular]
+            in_insulation = [c.conductor for c in unassessed if not spots[c.conductor].singular]
+            parts = []
+            if at_corner:
+                parts.append(f"{_names(at_corner)}: the peak sits at a sharp corner, where the 2-D field has no "
+                             "finite value; give a corner radius above")
+            if in_insulation:
+                parts.append(f"{_names(in_insulation)}: the peak sits in insulation, where the air thresholds do "
+                             "not apply; judge it by the insulation's own rating")
+            self._frame("No margin for " + "; for ".join(parts) + ".", "#9a5b00", "#fff1dc")
         else:
             self.caution_frame.setVisible(False)
 
