@@ -193,9 +193,10 @@ class CornerRadiusPart(QWidget):
         self.export_button.setEnabled(True)
         trend = ("" if sweep.fitted_exponent is None else
                  f" Over this range the peak goes like radius^{sweep.fitted_exponent:.3f}.")
+        largest = 100 * np.nanmax(sweep.estimated_relative_error)
         self._set_status(f"Peak surface field of '{sweep.conductor}' for {len(x)} corner radii; the error bars span "
-                         f"± the estimated error of each peak (largest {100 * np.nanmax(sweep.estimated_relative_error):.2g} "
-                         f"%, so they may hide behind the markers).{trend}")
+                         f"± the estimated error of each peak (largest {largest:.2g} %, so they may hide behind "
+                         f"the markers).{trend}")
 
     # ---- export ------------------------------------------------------------------------------
     def csv_text(self) -> str:

@@ -14,13 +14,13 @@ from __future__ import annotations
 import math
 
 from PySide6.QtGui import QColor
-from PySide6.QtWidgets import (QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout, QLabel, QLineEdit,
-                               QPushButton, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
-from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN, AirConditions
+from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
 from solver.cli import HIGH_VOLTAGE_V  # potentials (V) from which the command line cautions too
 
+from .air_conditions_box import AirConditionsBox
 from .corner_radius_view import CornerRadiusPart, field_unit
 from .equivalent_radius_view import EquivalentRadiusPart
 from .figure_jobs import FigureJobRunner
@@ -88,7 +88,9 @@ class HotSpotsView(QWidget):
         self.notes.setWordWrap(True)
         layout.addWidget(self.notes)
         layout.addLayout(self._build_corner_row())
-        layout.addWidget(self._build_air_box())
+        self.air_box = AirConditionsBox()
+        self.air_box.applied.connect(self._on_air_applied)
+        layout.addWidget(self.air_box)
         self.statement = QLabel(STANDING_STATEMENT)
         self.statement.setWordWrap(True)
         self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
@@ -112,33 +114,6 @@ class HotSpotsView(QWidget):
         self.drawn_button.clicked.connect(lambda: self._start(None))
         return row
 
-    def _build_air_box(self) -> QGroupBox:
-        box = QGroupBox("Air at the site")
-        form = QFormLayout(box)
-        self.air_mode = QComboBox()
-        self.air_mode.addItems(["altitude (standard-atmosphere pressure)", "measured pressure and temperature"])
-        self.altitude_edit = QLineEdit("0")
-        self.pressure_edit = QLineEdit("101.325")
-        self.temperature_edit = QLineEdit("20")
-        self.surface_edit = QLineEdit("1")
-        self.peek_form = QComboBox()
-        self.peek_form.addItems(["parallel wires", "coaxial"])
-        self.apply_air = QPushButton("Apply air conditions")
-        self.air_label = QLabel()
-        self.air_label.setWordWrap(True)
-        form.addRow("air given by", self.air_mode)
-        form.addRow("altitude above sea level (m)", self.altitude_edit)
-        form.addRow("pressure (kPa)", self.pressure_edit)
-        form.addRow("temperature (°C)", self.temperature_edit)
-        form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit)
-        form.addRow("Peek form", self.peek_form)
-        form.addRow(self.apply_air)
-        form.addRow(self.air_label)
-        self.apply_air.clicked.connect(self._on_air_applied)
-        self.air_mode.currentIndexChanged.connect(self._on_air_mode_changed)
-        self._on_air_mode_changed(0)
-        return box
-
     # ---- feeding -----------------------------------------------------------------------------
     def show_results(self, results) -> None:
         self.results = results
@@ -152,8 +127,8 @@ class HotSpotsView(QWidget):
         model = results.model
         self.corner_label.setText(f"corner radius ({model.unit})")
         altitude = model.extras.get(ALTITUDE_KEY)
-        if altitude is not None and self.air_mode.currentIndex() == 0:
-            self.altitude_edit.setText(f"{altitude:g}")
+        if altitude is not None:
+            self.air_box.set_altitude(altitude)
         self.sweep_part.set_results(results)
         self.radius_part.set_results(results)
         self._corner_radius_m = None
@@ -207,41 +182,11 @@ class HotSpotsView(QWidget):
         self._start(radius * self.results.model.metres_per_unit)
 
     # ---- air ---------------------------------------------------------------------------------
-    def _on_air_mode_changed(self, index: int) -> None:
-        self.altitude_edit.setEnabled(index == 0)
-        self.pressure_edit.setEnabled(index == 1)
-
-    def air_conditions(self) -> AirConditions:
-        """The air typed in; raises ValueError or a SolverError with a message for the user."""
-        temperature_K = float(self.temperature_edit.text()) + 273.15
-        surface = float(self.surface_edit.text())
-        form = "coaxial" if self.peek_form.currentIndex() == 1 else "parallel_wires"
-        if self.air_mode.currentIndex() == 1:
-            return AirConditions.at_pressure(float(self.pressure_edit.text()) * 1e3, temperature_K,
-                                             surface_factor=surface, peek_form=form)
-        return AirConditions.at_altitude(float(self.altitude_edit.text()), temperature_K,
-                                         surface_factor=surface, peek_form=form)
-
     def _on_air_applied(self) -> None:
         if self.report is not None:
             self._assess()
         else:
-            self._describe_air()
-
-    def _describe_air(self) -> AirConditions | None:
-        try:
-            air = self.air_conditions()
-            breakdown = solver.air_breakdown_field_V_per_m(air.relative_air_density)
-        except (ValueError, solver.SolverError) as exc:
-            self.air_label.setText(f"Air conditions not applied: {exc}")
-            self.air_label.setStyleSheet("color: #7a0000; font-weight: bold;")
-            return None
-        self.air_label.setStyleSheet("")
-        self.air_label.setText(
-            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Air breakdown "
-            f"{breakdown / 1e6:.3g} MV/m = 3 MV/m × δ (uniform field, common practice); corona onset of round "
-            f"conductors by Peek (1929), {self.peek_form.currentText()} form, surface factor {air.surface_factor:g}.")
-        return air
+            self.air_box.conditions()
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:
@@ -262,7 +207,7 @@ class HotSpotsView(QWidget):
         self._assess()
 
     def _assess(self) -> None:
-        air = self._describe_air()
+        air = self.air_box.conditions()
         if air is None or self.report is None:
             return
         r = self.report
@@ -290,7 +235,8 @@ class HotSpotsView(QWidget):
                              f"({margin.corona_radius_m / scale:.3g} {unit}).")
             err = spot.estimated_relative_error
             cells.append([
-                f"{spot.field_V_per_m / factor:.4g}" + (" (mesh value)" if spot.singular else ""), "— (singular)" if err is None else f"{100 * err:.2g}",
+                f"{spot.field_V_per_m / factor:.4g}" + (" (mesh value)" if spot.singular else ""),
+                "— (singular)" if err is None else f"{100 * err:.2g}",
                 f"({x:.4g}, {y:.4g})", corner, _margin(spot.enhancement_factor),
                 f"{margin.air_breakdown_field_V_per_m / 1e6:.3g}", _margin(margin.air_breakdown_margin),
                 "—" if margin.corona_onset_field_V_per_m is None else f"{margin.corona_onset_field_V_per_m / 1e6:.3g}",
@@ -300,11 +246,12 @@ class HotSpotsView(QWidget):
             ar = r.air_region
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
             rows.append(f"largest in air ({place})")
-            cells.append([f"{ar.field_V_per_m / factor:.4g}",
-                          "—" if ar.estimated_relative_error is None else f"{100 * ar.estimated_relative_error:.2g}",
+            breakdown = solver.air_breakdown_field_V_per_m(m.air.relative_air_density)
+            error = ar.estimated_relative_error
+            cells.append([f"{ar.field_V_per_m / factor:.4g}", "—" if error is None else f"{100 * error:.2g}",
                           f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
-                          "yes" if ar.at_sharp_corner else "no", "—", f"{m.margins[0].air_breakdown_field_V_per_m / 1e6:.3g}"
-                          if m.margins else "—", _margin(m.air_region_margin), "—", "—", m.air_region_status or "—"])
+                          "yes" if ar.at_sharp_corner else "no", "—", f"{breakdown / 1e6:.3g}",
+                          _margin(m.air_region_margin), "—", "—", m.air_region_status or "—"])
             statuses.append(m.air_region_status or "not assessed")
         quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x, y ({unit})", "at a sharp corner",
                       "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",

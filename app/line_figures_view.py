@@ -194,7 +194,8 @@ class LineFiguresView(QWidget):
             for k in range(len(names)):
                 v = float(f.modal_velocities_m_per_s[k])
                 cells.append([f"{f.modal_effective_permittivities[k]:.4g}", f"{v / 1e8:.4g}", f"{1e9 / v:.4g}",
-                              f"{f.modal_impedances_ohm[k]:.4g}"] + [f"{(0.0 if abs(x) < 5e-4 else x):+.3f}" for x in f.modal_voltages[:, k]])
+                              f"{f.modal_impedances_ohm[k]:.4g}"]
+                             + [f"{(0.0 if abs(x) < 5e-4 else x):+.3f}" for x in f.modal_voltages[:, k]])
             self.modes.fill([f"mode {k + 1}" for k in range(len(names))], columns, cells)
             self._show(self.modes_label, self.modes)
             pairs = [(i, j) for i in range(len(names)) for j in range(i + 1, len(names))]

@@ -48,14 +48,23 @@ def test_hv_electrode_peak_error_and_margins(qtbot):
 def test_altitude_reruns_the_assessment(qtbot):
     view = open_view(qtbot, solver.load_project(HV_SAMPLE))
     before = view.margins.margins[0].air_breakdown_margin
-    view.altitude_edit.setText("2000")
-    view.apply_air.click()
+    view.air_box.altitude_edit.setText("2000")
+    view.air_box.apply_button.click()
     after = view.margins.margins[0].air_breakdown_margin
     assert after == before * solver.relative_air_density_at_altitude(2000.0)
-    assert "δ = 0.78" in view.air_label.text()
-    view.altitude_edit.setText("high")
-    view.apply_air.click()
-    assert "not applied" in view.air_label.text()
+    assert "δ = 0.78" in view.air_box.label.text()
+    box = view.air_box
+    box.mode.setCurrentIndex(1)
+    box.pressure_edit.setText("90")
+    box.temperature_edit.setText("30")
+    box.apply_button.click()
+    delta = (90.0 / 101.325) * (293.15 / 303.15)
+    assert abs(view.margins.margins[0].air_breakdown_margin / (before * delta) - 1) < 1e-9
+    box.mode.setCurrentIndex(0)
+    box.temperature_edit.setText("20")
+    view.air_box.altitude_edit.setText("high")
+    view.air_box.apply_button.click()
+    assert "not applied" in view.air_box.label.text()
 
 
 def test_low_margin_shows_the_caution_frame(qtbot):
