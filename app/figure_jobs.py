@@ -3,7 +3,8 @@
 :class:`FigureJobRunner` runs ``function(*args, **kwargs)`` (a solver call) in a QThread and
 emits exactly one of ``result_ready(result)`` or ``job_failed(message)`` on the GUI thread for
 the latest job it started. ``cancel()`` drops the running job: the solver calls used here take no
-cancel hook, so the thread runs to its end, but its outcome is never shown. Errors are passed
+cancel hook, so the thread runs to its end, but its outcome is never shown; a job started
+meanwhile waits for that thread, so one runner never has two threads computing at once. Errors are passed
 on as text (the solver's own message, or the type and text of an unexpected failure), never
 swallowed.
 """
@@ -58,28 +59,53 @@ class FigureJobRunner(QObject):
 
     def __init__(self, parent: QObject | None = None) -> None:
         super().__init__(parent)
-        self._current: _JobThread | None = None
+        self._current: _JobThread | None = None  # the job whose outcome will be reported
+        self._running: _JobThread | None = None  # the thread still computing (perhaps a dropped job)
+        self._queued: _JobThread | None = None  # waits for a dropped job's thread to end
 
     @property
     def is_busy(self) -> bool:
         return self._current is not None
 
     def start(self, function: Callable, *args, **kwargs) -> None:
-        """Run ``function(*args, **kwargs)``; the outcome of any job still running is dropped."""
+        """Run ``function(*args, **kwargs)``; the outcome of any job still running is dropped.
+
+        At most one thread per runner computes at a time: while a dropped job's thread is still
+        running, the new job waits for it (the solver calls take no cancel hook).
+        """
         self.cancel()
         thread = _JobThread(function, args, kwargs)
         thread.finished_with.connect(self._on_thread_finished)
-        thread.finished.connect(lambda t=thread: _forget(t))
-        _LIVE_THREADS.add(thread)
+        thread.finished.connect(self._on_thread_ended)  # delivered on the GUI thread
         self._current = thread
         self.busy_changed.emit(True)
+        if self._running is None:
+            self._launch(thread)
+        else:
+            self._queued = thread
+
+    def _launch(self, thread: _JobThread) -> None:
+        _LIVE_THREADS.add(thread)
+        self._running = thread
         thread.start()
 
     def cancel(self) -> None:
-        """Drop the running job (its result or error will not be reported)."""
+        """Drop the current job (its result or error will not be reported)."""
+        if self._queued is not None:
+            self._queued.deleteLater()
+            self._queued = None
         if self._current is not None:
             self._current = None
             self.busy_changed.emit(False)
+
+    def _on_thread_ended(self) -> None:
+        thread = self.sender()
+        _forget(thread)
+        if thread is self._running:
+            self._running = None
+            queued, self._queued = self._queued, None
+            if queued is not None:
+                self._launch(queued)
 
     def _on_thread_finished(self, result, error) -> None:
         if self.sender() is not self._current:

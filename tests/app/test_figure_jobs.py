@@ -53,3 +53,15 @@ def test_errors_are_reported_with_their_message(qtbot):
     wait_until(lambda: not runner.is_busy)
     assert messages == ["Conductor 'x' is invalid: no shapes; draw one.",
                         "Unexpected error in the solver: ZeroDivisionError: division by zero"]
+
+
+def test_a_new_job_waits_for_a_dropped_thread_so_only_one_computes(qtbot):
+    runner = FigureJobRunner()
+    got = []
+    runner.result_ready.connect(got.append)
+    runner.start(slow, "first", 0.3)
+    runner.start(slow, "second", 0.0)
+    runner.start(slow, "third", 0.0)
+    assert runner.is_busy and runner._queued is not None  # the later jobs wait for the first thread
+    wait_until(lambda: not runner.is_busy)
+    assert got == ["third"]
