@@ -145,3 +145,19 @@ def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):
     window.results_panel.show_section("Line figures")
     wait_until(lambda: view.figures is not None)
     assert shown_value(view, "characteristic impedance") == f"{view.figures.characteristic_impedance_ohm:.4g} Ω"
+
+
+def test_a_new_solve_replaces_figures_still_being_computed(qtbot):
+    from app.line_figures_view import LineFiguresView
+
+    pair = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("p", (Rectangle((-1.0, 1.0), 1.0, 0.1),), potential_V=1.0),
+        Conductor("n", (Rectangle((1.0, 1.0), 1.0, 0.1),), potential_V=1.0)))
+    view = LineFiguresView()
+    qtbot.addWidget(view)
+    view.show()
+    view.show_results(results_of(solver.load_project(SAMPLE)))
+    assert view.runner.is_busy
+    view.show_results(results_of(pair))  # arrives while the microstrip figures are computed
+    wait_until(lambda: view.figures is not None)
+    assert view.figures.signal_names == ("p", "n") and view.line_label.text() == "Symmetric pair 'p' and 'n'"
