@@ -175,7 +175,14 @@ class Overlays:
             for line in pg.functions.isocurve(phi, level, connected=True):
                 pts = np.asarray(line) - 0.5
                 xs, ys = x[0] + pts[:, 1] * dx, y[0] + pts[:, 0] * dy
-                self._add(pg.PlotCurveItem(xs, ys, pen=pen), 10)
+                # The filled-in values only steady the contouring: no line where there is no field.
+                rows = np.clip(np.rint(pts[:, 0]).astype(int), 0, len(y) - 1)
+                cols = np.clip(np.rint(pts[:, 1]).astype(int), 0, len(x) - 1)
+                outside = invalid[rows, cols]
+                xs, ys = np.where(outside, np.nan, xs), np.where(outside, np.nan, ys)
+                if not np.isfinite(xs).any():
+                    continue
+                self._add(pg.PlotCurveItem(xs, ys, pen=pen, connect="finite"), 10)
                 if longest is None or len(xs) > len(longest[0]):
                     longest = (xs, ys)
             if longest is None or len(longest[0]) <= 4:
@@ -183,6 +190,8 @@ class Overlays:
             n = len(longest[0])
             for t in ((0.5 + 0.382 * k + 0.05 * j) % 1.0 for j in range(20)):
                 px, py = longest[0][int(t * (n - 1))], longest[1][int(t * (n - 1))]
+                if not (np.isfinite(px) and np.isfinite(py)):
+                    continue
                 row = int(np.clip(round((py - y[0]) / dy), 0, len(y) - 1))
                 col = int(np.clip(round((px - x[0]) / dx), 0, len(x) - 1))
                 if near_part[row, col]:
