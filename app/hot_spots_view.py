@@ -245,7 +245,7 @@ class HotSpotsView(QWidget):
         if r.air_region is not None:
             ar = r.air_region
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
-            rows.append(f"largest in air ({place})")
+            rows.append(f"largest in air ({place}{', negligible' if ar.negligible else ''})")
             breakdown = solver.air_breakdown_field_V_per_m(m.air.relative_air_density)
             error = ar.estimated_relative_error
             cells.append([f"{ar.field_V_per_m / factor:.4g}", "—" if error is None else f"{100 * error:.2g}",

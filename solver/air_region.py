@@ -31,8 +31,10 @@ class AirRegionPeak:
     location_m : (x, y) where it occurs, metres.
     where : "interface" (outer surface of insulation) or "conductor '<name>'" (a bare surface).
     at_sharp_corner : the peak sits at a sharp corner, so the value is mesh-dependent.
-    estimated_relative_error : Richardson estimate (None at a sharp corner).
+    estimated_relative_error : Richardson estimate (None at a sharp corner, or when negligible).
     peak_history_V_per_m : the peak on each mesh, coarsest first.
+    negligible : the air field is below :data:`NEGLIGIBLE_FRACTION` of the largest field in the
+        model — zero to solver accuracy (as outside an earthed screen), so no error is given.
     """
 
     field_V_per_m: float
@@ -41,6 +43,11 @@ class AirRegionPeak:
     at_sharp_corner: bool
     estimated_relative_error: float | None
     peak_history_V_per_m: tuple[float, ...]
+    negligible: bool = False
+
+
+#: Air fields below this fraction of the model's largest field are numerical zero.
+NEGLIGIBLE_FRACTION = 1e-4
 
 
 def _background_peak(solution: Solution):
@@ -66,6 +73,8 @@ def air_region_peak(solutions: Sequence[Solution]) -> AirRegionPeak | None:
         return None
     history = tuple(float(p.field_V_per_m) for p in peaks)
     last = peaks[-1]
-    error = None if last.at_sharp_corner else richardson_estimate(history)[0]
+    largest = float(max((float(p.field_V_per_m) for p in getattr(final, "peak_region_fields", ())), default=0.0))
+    negligible = history[-1] < NEGLIGIBLE_FRACTION * largest
+    error = None if (last.at_sharp_corner or negligible) else richardson_estimate(history)[0]
     return AirRegionPeak(history[-1], tuple(map(float, last.location_m)), last.where, bool(last.at_sharp_corner),
-                         error, history)
+                         error, history, bool(negligible))

@@ -174,7 +174,10 @@ def hot_spot_section(solution: Solution) -> list[str]:
     if report.air_region is not None:
         ar = report.air_region
         x, y = (v / model.metres_per_unit for v in ar.location_m)
-        error = "singular" if ar.at_sharp_corner else f"error {100 * ar.estimated_relative_error:.2g} %"
+        if ar.negligible:
+            error = "negligible: zero to solver accuracy, as outside an earthed screen"
+        else:
+            error = "singular" if ar.at_sharp_corner else f"error {100 * ar.estimated_relative_error:.2g} %"
         lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
                      f"{ar.where} at ({x:.4g}, {y:.4g}) {model.unit}; air margin {_fmt(margins.air_region_margin)}, "
                      f"{margins.air_region_status}.")
