@@ -77,6 +77,12 @@ class MatricesView(QWidget):
                                       "A peak at a sharp corner grows as the mesh is refined; give the corner a radius.")
         self.conductors_note.setWordWrap(True)
         layout.addWidget(self.conductors_note)
+        self.regions_label = QLabel("Largest field in each dielectric region (insulation stress); fields include "
+                                    "the bound charge of the dielectrics, charges above are free charge")
+        self.regions_label.setWordWrap(True)
+        self.regions = CopyableTable()
+        layout.addWidget(self.regions_label)
+        layout.addWidget(self.regions)
         buttons = QHBoxLayout()
         for text, table in (("Copy Maxwell", self.maxwell), ("Copy mutual", self.mutual), ("Copy per conductor", self.conductors)):
             b = QPushButton(text)
@@ -87,8 +93,10 @@ class MatricesView(QWidget):
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
         layout.addStretch(1)
-        for table in (self.maxwell, self.mutual, self.conductors):
+        for table in (self.maxwell, self.mutual, self.conductors, self.regions):
             table.fill([], [], [])  # compact until there is something to show
+        self.regions_label.setVisible(False)
+        self.regions.setVisible(False)
 
     def show_results(self, results) -> None:
         sol, model = results.solution, results.model
@@ -110,6 +118,7 @@ class MatricesView(QWidget):
             self.status.setText(reason)
         self._status_text = self.status.text()
         self._fill_conductors(results)
+        self._fill_regions(results)
         err = sol.estimated_relative_error
         self.error_label.setText(
             "Estimated relative error of the matrix: n/a" if err is None else
@@ -135,6 +144,18 @@ class MatricesView(QWidget):
             ])
         self.conductors.fill(rows, ["potential", "charge/length", "peak |E| at surface",
                                     f"peak at ({model.unit})", f"equiv. radius ({model.unit})"], cells)
+
+    def _fill_regions(self, results) -> None:
+        sol, model = results.solution, results.model
+        peaks = tuple(getattr(sol, "peak_region_fields", ()))
+        self.regions_label.setVisible(bool(peaks))
+        self.regions.setVisible(bool(peaks))
+        scale = model.metres_per_unit
+        rows = [p.region for p in peaks]
+        cells = [[f"{p.eps_r:.3g}", format_field(p.field_V_per_m),
+                  f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g})",
+                  p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else "")] for p in peaks]
+        self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:
