@@ -20,6 +20,7 @@ from .dielectric_mesh import conductor_side_regions, discretize_interfaces, regi
 from .dielectric_solution import BACKGROUND_NAME, DielectricSolution
 from .errors import InvalidModelError, SolveCancelled
 from .solution import relative_change
+from .solve import progress_reporter
 from .geometry import conductor_geometries
 from .junctions import split_at_junctions
 from .model import Model
@@ -130,11 +131,7 @@ def solve_dielectric(
     """
     settings = settings or MeshSettings.for_density(model.mesh_density)
 
-    def report(fraction: float, message: str) -> None:
-        if progress is not None:
-            progress(fraction, message)
-        if cancel is not None and cancel():
-            raise SolveCancelled("Solve cancelled.")
+    report = progress_reporter(progress, cancel)
 
     report(0.0, "Meshing conductors and dielectric interfaces")
     solution = solve_dielectric_mesh(model, settings, cancel)

@@ -30,6 +30,18 @@ ProgressCallback = Callable[[float, str], None]
 CancelCallback = Callable[[], bool]
 
 
+def progress_reporter(progress: ProgressCallback | None, cancel: CancelCallback | None) -> ProgressCallback:
+    """A callback that passes progress on and raises SolveCancelled once ``cancel()`` is True."""
+
+    def report(fraction: float, message: str) -> None:
+        if progress is not None:
+            progress(fraction, message)
+        if cancel is not None and cancel():
+            raise SolveCancelled("Solve cancelled.")
+
+    return report
+
+
 def _length_scale(mesh: PanelMesh) -> float:
     pts = np.vstack([mesh.starts, mesh.ends])
     return float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0)))) or 1.0
@@ -130,11 +142,7 @@ def solve(
     _check_solvable(model)
     settings = settings or MeshSettings.for_density(model.mesh_density)
 
-    def report(fraction: float, message: str) -> None:
-        if progress is not None:
-            progress(fraction, message)
-        if cancel is not None and cancel():
-            raise SolveCancelled("Solve cancelled.")
+    report = progress_reporter(progress, cancel)
 
     report(0.0, "Meshing boundaries")
     mesh = discretize_boundary(model, settings)
