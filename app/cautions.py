@@ -1,7 +1,7 @@
 """The caution and caveat texts of the program and the report, in one place.
 
 Qt-free. The high-voltage caution, the air strength and the air density are the solver's
-(:mod:`solver.margins`), whose caution SAFETY.md repeats word for word, so the program, the
+(:mod:`solver.hot_spots.margins`), whose caution SAFETY.md repeats word for word, so the program, the
 report, the command line and SAFETY.md say the same. The numbers are the usual rules of thumb
 (common practice), not design limits: air breaks down at about 3 MV/m in a uniform field at the
 reference atmosphere (20 degC, 101.325 kPa), in proportion to the relative air density; end
@@ -14,7 +14,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from solver import HIGH_VOLTAGE_CAUTION, air_breakdown_field_V_per_m
-from solver.margins import AIR_DIELECTRIC_STRENGTH_V_PER_M, relative_air_density_at_altitude
+from solver.hot_spots.margins import AIR_DIELECTRIC_STRENGTH_V_PER_M, relative_air_density_at_altitude
 
 #: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
 AIR_STRENGTH_SEA_LEVEL_V_PER_M = AIR_DIELECTRIC_STRENGTH_V_PER_M

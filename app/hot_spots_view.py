@@ -18,7 +18,7 @@ from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QLineEdit, QPushButto
 
 import solver
 from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
-from solver.cli import HIGH_VOLTAGE_V  # potentials (V) from which the command line cautions too
+from solver.cli.command import HIGH_VOLTAGE_V  # potentials (V) from which the command line cautions too
 
 from .air_conditions_box import AirConditionsBox
 from .corner_radius_view import CornerRadiusPart, field_unit

@@ -11,10 +11,10 @@ Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, 
 44.41
 """
 
-from .capacitance import maxwell_matrix_problems, mutual_from_maxwell
-from .constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
-from .field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
-from .errors import (
+from solver.bem.capacitance import maxwell_matrix_problems, mutual_from_maxwell
+from solver.constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
+from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
+from solver.errors import (
     InvalidGeometryError,
     InvalidModelError,
     NoReferenceError,
@@ -22,7 +22,7 @@ from .errors import (
     SolveCancelled,
     SolverError,
 )
-from .model import (
+from solver.model.model import (
     LENGTH_UNITS,
     MESH_DENSITIES,
     ROLES,
@@ -37,17 +37,17 @@ from .model import (
     Shape,
     Strip,
 )
-from .panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
-from .solution import PeakField, Solution
-from .project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
-from .equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
-from .solve import solve, solve_mesh
-from .hotspots import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
-from .corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from .corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from .curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
-from .air_region import AirRegionPeak
-from .margins import (
+from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
+from solver.bem.solution import PeakField, RegionPeakField, Solution
+from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
+from solver.figures.equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
+from solver.bem.solve import solve, solve_mesh
+from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from solver.hot_spots.air_region import AirRegionPeak
+from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,
@@ -60,12 +60,11 @@ from .margins import (
     relative_air_density,
     relative_air_density_at_altitude,
 )
-from .bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
-from .end_effects import LengthCheck, check_part_length, end_field_rise_estimate
-from .dielectric_solution import DielectricSolution, RegionPeakField
-from .materials import MATERIALS, Material, dielectric_of, material, material_names
-from .transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
-from .layers import truncated_layers, truncation_error, widen_until_converged
+from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
+from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
+from solver.model.materials import MATERIALS, Material, dielectric_of, material, material_names
+from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
+from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -91,3 +90,6 @@ __all__ = [
     "TransmissionLineFigures", "figures_from_matrices", "transmission_line_figures",
     "truncated_layers", "truncation_error", "widen_until_converged",
 ]
+
+#: Earlier name of :class:`Solution` for models with dielectric regions; one type serves all models now.
+DielectricSolution = Solution

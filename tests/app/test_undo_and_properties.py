@@ -13,7 +13,6 @@ def _draw_bar(window):
 
 
 def test_undo_and_redo_shortcuts_round_trip(window, qtbot):
-    from PySide6.QtCore import Qt
 
     _draw_bar(window)
     drawn = window.document.model

@@ -13,8 +13,8 @@ from pathlib import Path
 import pytest
 
 from solver import EPSILON_0_F_PER_M, Circle, Conductor, Model, Ring, save_project
-from solver import cli
-from solver.cli import format_engineering, main
+from solver.cli import command as cli
+from solver.cli.command import format_engineering, main
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))

@@ -5,8 +5,8 @@ from pathlib import Path
 
 import pytest
 
-from solver.layers import truncated_layers, truncation_error, widen_until_converged, widened
-from solver.transmission_line import transmission_line_figures
+from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged, widened
+from solver.figures.transmission_line import transmission_line_figures
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "validation"))
 from test_dielectric_microstrip import microstrip  # noqa: E402

@@ -7,10 +7,10 @@ import pytest
 import shapely
 
 from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
-from solver.dielectric_mesh import discretize_interfaces
-from solver.geometry import conductor_geometries, shape_geometry
-from solver.interface_pieces import split_into_pieces
-from solver.panels import MeshSettings, discretize_boundary
+from solver.mesh.interfaces import discretize_interfaces
+from solver.model.geometry import conductor_geometries, shape_geometry
+from solver.mesh.interface_pieces import split_into_pieces
+from solver.mesh.panels import MeshSettings, discretize_boundary
 
 
 def _ring_points(shape):
@@ -85,9 +85,9 @@ def test_no_panels_on_the_ground_plane_or_under_a_strip_and_grading_at_junctions
 
 
 def test_conductor_panels_crossing_a_region_boundary_are_split_and_graded():
-    from solver.dielectric_mesh import dielectric_geometries
-    from solver.dielectric_solve import solve_dielectric_mesh
-    from solver.junctions import split_at_junctions
+    from solver.mesh.interfaces import dielectric_geometries
+    from solver import solve
+    from solver.mesh.junctions import split_at_junctions
 
     model = Model(
         unit="mm",
@@ -103,5 +103,5 @@ def test_conductor_panels_crossing_a_region_boundary_are_split_and_graded():
     assert not np.any((lo < 1e-3 - 1e-12) & (hi > 1e-3 + 1e-12))
     touching = np.isclose(lo, 1e-3, rtol=0, atol=1e-12) | np.isclose(hi, 1e-3, rtol=0, atol=1e-12)
     assert split.lengths[touching].max() < 1e-2 * mesh.lengths.max()
-    c = [solve_dielectric_mesh(model, MeshSettings(level)).capacitance_maxwell_F_per_m[0, 0] for level in (0.5, 1.0)]
+    c = [solve(model, estimate_error=False, settings=MeshSettings(level)).capacitance_maxwell_F_per_m[0, 0] for level in (0.5, 1.0)]
     assert abs(c[0] / c[1] - 1) < 1e-4

@@ -20,8 +20,7 @@ from solver import (
     maxwell_matrix_problems,
     solve,
 )
-from solver.dielectric_solution import DielectricSolution
-from solver.panels import MeshSettings
+from solver.mesh.panels import MeshSettings
 
 EPS0 = EPSILON_0_F_PER_M
 
@@ -77,15 +76,16 @@ def test_a_strip_cannot_be_a_dielectric():
 def test_a_region_filling_the_whole_gap_scales_the_capacitance():
     # the region touches both conductors: no interface panels inside the screen
     filled = solve(_coax([Dielectric("fill", (Ring((0.0, 0.0), 1.0, 3.0),), 3.7)]), estimate_error=False)
-    assert isinstance(filled, DielectricSolution)
+    assert filled.has_dielectrics
     plain = solve(_coax([]), estimate_error=False)
     ratio = filled.capacitance_maxwell_F_per_m[0, 0] / plain.capacitance_maxwell_F_per_m[0, 0]
     assert ratio == pytest.approx(3.7, rel=1e-6)
 
 
-def test_region_with_the_background_permittivity_uses_the_homogeneous_solver():
+def test_region_with_the_background_permittivity_adds_no_interface_unknowns():
     sol = solve(_coax([Dielectric("same", (Ring((0.0, 0.0), 1.0, 2.0),), 2.0)], background=2.0), estimate_error=False)
-    assert not isinstance(sol, DielectricSolution)
+    assert sol.interfaces.n_panels == 0 and not sol.has_dielectrics
+    assert sol.n_unknowns == sol.mesh.n_panels + 1  # the panels and phi_inf
     assert sol.capacitance_maxwell_F_per_m[0, 0] == pytest.approx(2 * math.pi * EPS0 * 2.0 / math.log(3.0), rel=1e-4)
 
 
@@ -178,16 +178,18 @@ def test_error_estimate_and_progress_reported():
 
 def test_mesh_is_finer_at_finer_settings():
     model = _asymmetric_model()
-    from solver.dielectric_solve import solve_dielectric_mesh
+    from solver import solve
 
-    coarse = solve_dielectric_mesh(model, MeshSettings(0.5))
-    fine = solve_dielectric_mesh(model, MeshSettings(1.0))
+    coarse = solve(model, estimate_error=False, settings=MeshSettings(0.5))
+    fine = solve(model, estimate_error=False, settings=MeshSettings(1.0))
     assert fine.interfaces.n_panels > coarse.interfaces.n_panels
 
 
-def test_the_homogeneous_mesh_solve_refuses_dielectric_models():
-    from solver import InvalidModelError, discretize_boundary, solve_mesh
+def test_a_solve_on_a_given_mesh_meshes_the_interfaces_too():
+    from solver import discretize_boundary, solve_mesh
 
     model = _coax([Dielectric("sleeve", (Ring((0.0, 0.0), 1.0, 2.0),), 3.0)])
-    with pytest.raises(InvalidModelError, match="Dielectric region 'sleeve' needs the dielectric solver"):
-        solve_mesh(model, discretize_boundary(model))
+    on_mesh = solve_mesh(model, discretize_boundary(model))
+    driver = solve(model, estimate_error=False)
+    assert on_mesh.interfaces.n_panels == driver.interfaces.n_panels > 0
+    assert np.allclose(on_mesh.capacitance_maxwell_F_per_m, driver.capacitance_maxwell_F_per_m, rtol=1e-14, atol=0)

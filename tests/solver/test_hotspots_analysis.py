@@ -5,16 +5,15 @@ import math
 
 import numpy as np
 import pytest
-import shapely
 
 from solver import Circle, Conductor, GroundPlane, MeshSettings, Model, Polygon, Rectangle, Ring, Strip
-from solver.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from solver.corner_sweep import peak_field_vs_corner_radius
-from solver.curvature import local_radius_of_curvature_m
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.corner_sweep import peak_field_vs_corner_radius
+from solver.hot_spots.curvature import local_radius_of_curvature_m
 from solver.errors import InvalidGeometryError, InvalidModelError
-from solver.geometry import shape_geometry
-from solver.hotspots import GROUND_PLANE_NAME, analyse_hot_spots, richardson_estimate
-from solver.panels import discretize_boundary
+from solver.model.geometry import shape_geometry
+from solver.hot_spots.analysis import GROUND_PLANE_NAME, analyse_hot_spots, richardson_estimate
+from solver.mesh.panels import discretize_boundary
 
 
 def test_richardson_recovers_limit_and_order_of_a_clean_sequence():
@@ -163,7 +162,7 @@ def test_uncharged_outer_corners_of_a_closed_screen_are_not_singular():
 
 
 def test_curvature_sign_tells_a_wire_from_the_inside_of_a_tube():
-    from solver.curvature import signed_radius_of_curvature_m
+    from solver.hot_spots.curvature import signed_radius_of_curvature_m
 
     m = Model(unit="mm", conductors=(Conductor("wire", (Circle((0, 0), 1),)), Conductor("tube", (Ring((0, 0), 3, 4),))))
     mesh = discretize_boundary(m, MeshSettings(1.0))

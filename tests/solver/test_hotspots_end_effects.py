@@ -5,14 +5,14 @@ import math
 
 import pytest
 
-import solver.end_effects
+import solver.figures.end_effects
 from solver import Circle, Conductor, GroundPlane, Model, Rectangle
-from solver.end_effects import LONG_ENOUGH_RATIO, check_part_length, cross_section_size_m, end_field_rise_estimate
+from solver.figures.end_effects import LONG_ENOUGH_RATIO, check_part_length, cross_section_size_m, end_field_rise_estimate
 from solver.errors import InvalidModelError
 
 
 def test_docstring_examples():
-    assert doctest.testmod(solver.end_effects).failed == 0
+    assert doctest.testmod(solver.figures.end_effects).failed == 0
 
 
 def test_size_includes_the_height_above_the_ground_plane():

@@ -9,7 +9,7 @@ import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
 from solver.errors import InvalidModelError
-from solver.margins import (
+from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,

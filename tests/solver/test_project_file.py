@@ -28,7 +28,7 @@ from solver import (
     save_project,
 )
 
-SCHEMA = json.loads((Path(solver.__file__).parent / "project_schema.json").read_text(encoding="utf-8"))
+SCHEMA = json.loads((Path(solver.__file__).parent / "io" / "project_schema.json").read_text(encoding="utf-8"))
 
 
 def every_kind_model() -> Model:

@@ -15,7 +15,7 @@ from solver import EPSILON_0_F_PER_M, load_project, maxwell_matrix_problems, mod
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))
-SCHEMA = json.loads((Path(solver.__file__).parent / "project_schema.json").read_text(encoding="utf-8"))
+SCHEMA = json.loads((Path(solver.__file__).parent / "io" / "project_schema.json").read_text(encoding="utf-8"))
 REQUIRED = {"coaxial_feeder", "twin_lead", "busbar_enclosure", "three_traces_over_ground", "hv_electrode_over_earth"}
 
 

@@ -5,8 +5,9 @@ from pathlib import Path
 
 import pytest
 
-from solver import cli, load_project, solve
-from solver.transmission_line_cli import transmission_line_json
+from solver import load_project, solve
+from solver.cli import command as cli
+from solver.cli.line_figures import transmission_line_json
 
 ROOT = Path(__file__).resolve().parents[2]
 

@@ -21,8 +21,7 @@ import numpy as np
 import pytest
 
 from solver import EPSILON_0_F_PER_M, Circle, Conductor, Dielectric, Model, Polygon, Ring, solve
-from solver.dielectric_solve import solve_dielectric_mesh
-from solver.panels import MeshSettings
+from solver.mesh.panels import MeshSettings
 
 EPS0 = EPSILON_0_F_PER_M
 
@@ -69,7 +68,7 @@ def test_curved_interface_converges_at_second_order():
     exact = _series(a, c, b, e1, e2)
     counts, errors = [], []
     for level in (0.25, 0.5, 1.0):
-        sol = solve_dielectric_mesh(model, MeshSettings(level))
+        sol = solve(model, estimate_error=False, settings=MeshSettings(level))
         counts.append(sol.interfaces.n_panels)
         errors.append(abs(sol.capacitance_maxwell_F_per_m[0, 0] / exact - 1))
     order = -np.polyfit(np.log(counts), np.log(errors), 1)[0]

@@ -16,8 +16,8 @@ from pathlib import Path
 
 import numpy as np
 
-from solver.dielectric_solve import solve_dielectric_mesh
-from solver.panels import MeshSettings
+from solver import solve
+from solver.mesh.panels import MeshSettings
 
 sys.path.insert(0, str(Path(__file__).parent))
 from test_dielectric_microstrip import microstrip  # noqa: E402
@@ -43,7 +43,7 @@ def _mismatch(sol, fraction):
 
 
 def test_conditions_hold_at_collocation_points():
-    sol = solve_dielectric_mesh(microstrip(1.0, 4.4), MeshSettings(1.0))
+    sol = solve(microstrip(1.0, 4.4), estimate_error=False, settings=MeshSettings(1.0))
     normal_d, tangential_e, count = _mismatch(sol, 0.5)
     assert count > 100
     assert normal_d < 1e-5
@@ -51,15 +51,15 @@ def test_conditions_hold_at_collocation_points():
 
 
 def test_mismatch_between_collocation_points_shrinks_with_refinement():
-    coarse = _mismatch(solve_dielectric_mesh(microstrip(1.0, 4.4), MeshSettings(0.5)), 0.25)
-    fine = _mismatch(solve_dielectric_mesh(microstrip(1.0, 4.4), MeshSettings(1.0)), 0.25)
+    coarse = _mismatch(solve(microstrip(1.0, 4.4), estimate_error=False, settings=MeshSettings(0.5)), 0.25)
+    fine = _mismatch(solve(microstrip(1.0, 4.4), estimate_error=False, settings=MeshSettings(1.0)), 0.25)
     assert fine[0] < 0.05
     assert fine[0] < 0.75 * coarse[0]
     assert fine[1] < 1e-5
 
 
 def test_two_sided_interface_fields_obey_the_conditions():
-    sol = solve_dielectric_mesh(microstrip(2.0, 9.8), MeshSettings(1.0))
+    sol = solve(microstrip(2.0, 9.8), estimate_error=False, settings=MeshSettings(1.0))
     ifc = sol.interfaces
     plus, minus = sol.interface_fields_V_per_m
     d_plus = ifc.eps_r_plus * np.einsum("ij,ij->i", plus, ifc.normals)

@@ -23,7 +23,7 @@ import math
 import pytest
 
 from solver import Conductor, Dielectric, GroundPlane, Model, Rectangle, Strip
-from solver.transmission_line import transmission_line_figures
+from solver.figures.transmission_line import transmission_line_figures
 
 ETA0 = 376.73
 

@@ -22,7 +22,7 @@ import pytest
 from scipy.special import ellipk
 
 from solver import Conductor, Dielectric, Model, Rectangle, Strip
-from solver.transmission_line import transmission_line_figures
+from solver.figures.transmission_line import transmission_line_figures
 
 ETA0 = 376.730313
 

@@ -19,7 +19,7 @@ import pytest
 from scipy.special import gamma
 
 from solver import Circle, Conductor, Model, Polygon, Rectangle, Strip, equivalent_radius_m
-from solver.bundles import bundle_equivalent_radius_formula_m, compare_bundle
+from solver.figures.bundles import bundle_equivalent_radius_formula_m, compare_bundle
 
 TOLERANCE = 1e-4
 

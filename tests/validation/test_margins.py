@@ -22,8 +22,8 @@ import math
 import pytest
 
 from solver import Circle, Conductor, GroundPlane, Model
-from solver.hotspots import analyse_hot_spots
-from solver.margins import (
+from solver.hot_spots.analysis import analyse_hot_spots
+from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     AirConditions,
     air_breakdown_field_V_per_m,

@@ -28,7 +28,7 @@ from solver import (
     Ring,
     load_project,
 )
-from solver.transmission_line import figures_from_matrices, transmission_line_figures
+from solver.figures.transmission_line import figures_from_matrices, transmission_line_figures
 
 ROOT = Path(__file__).resolve().parents[2]
 C_LIGHT = SPEED_OF_LIGHT_M_PER_S

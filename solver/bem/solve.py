@@ -1,0 +1,181 @@
+"""Solving a model: mesh, assemble, one factorisation, all right-hand sides, error estimate.
+
+:func:`solve` meshes the model, assembles the boundary-element system (conductors, and
+dielectric interfaces when regions of other permittivity exist), factorises it once and
+solves for the operating point (the potentials and charges the user set) together with one
+right-hand side per fixed-potential conductor for the capacitance matrix. It then repeats the
+solve on a mesh at half the resolution to estimate the error. :func:`solve_mesh` does one
+solve on a given conductor mesh.
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+import dataclasses
+from typing import Callable
+
+import numpy as np
+import scipy.linalg
+
+from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
+from solver.bem.system import BoundarySystem, build_system
+from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
+from solver.constants import EPSILON_0_F_PER_M
+from solver.errors import InvalidModelError, SolveCancelled
+from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
+from solver.model.model import Model
+
+logger = logging.getLogger(__name__)
+
+ProgressCallback = Callable[[float, str], None]
+CancelCallback = Callable[[], bool]
+
+
+def progress_reporter(progress: ProgressCallback | None, cancel: CancelCallback | None) -> ProgressCallback:
+    """A callback that passes progress on and raises SolveCancelled once ``cancel()`` is True."""
+
+    def report(fraction: float, message: str) -> None:
+        if progress is not None:
+            progress(fraction, message)
+        if cancel is not None and cancel():
+            raise SolveCancelled("Solve cancelled.")
+
+    return report
+
+
+def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -> Solution:
+    """Factorise ``system`` once and solve the operating point and one column per signal conductor."""
+    model, mesh, interfaces, layout = system.model, system.mesh, system.interfaces, system.layout
+    if cancel is not None and cancel():
+        raise SolveCancelled("Solve cancelled.")
+    lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+
+    roles = [c.role for c in model.conductors]
+    n_cond = len(model.conductors)
+    signal = [k for k, r in enumerate(roles) if r == "fixed"]
+    potentials = np.zeros((n_cond, 1 + len(signal)))
+    charges = np.zeros_like(potentials)
+    for k, c in enumerate(model.conductors):
+        if c.role == "fixed":
+            potentials[k, 0] = c.potential_V
+        elif c.role == "floating":
+            charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
+    for col, k in enumerate(signal, start=1):
+        potentials[k, col] = 1.0
+    x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
+
+    n = layout.n_panels
+    total = x[:n]
+    free = system.free_charge_rows @ total
+    conductor_potentials = potentials[:, 0].copy()
+    for f, k in enumerate(layout.floating):
+        conductor_potentials[k] = x[n + f, 0]
+    sources, ell = system.sources, system.length_scale_m
+    strip = mesh.is_strip
+    normal_pv = np.zeros(mesh.n_panels)
+    if strip.any():
+        normal_pv[strip] = normal_derivative_matrix(
+            mesh.midpoints[strip] / ell, mesh.normals[strip], sources, system.plane, np.flatnonzero(strip)
+        ) @ total[:, 0]
+    return Solution(
+        model=model,
+        mesh=mesh,
+        interfaces=interfaces,
+        length_scale_m=ell,
+        strengths=free[:, 0].copy(),
+        capacitance_strengths=free[:, 1:].copy(),
+        total_strengths=total[:, 0].copy(),
+        phi_inf_V=float(x[-1, 0]) if layout.has_phi_inf else 0.0,
+        conductor_potentials_V=conductor_potentials,
+        source_starts=sources.starts,
+        source_ends=sources.ends,
+        source_weights=sources.weights,
+        conductor_eps_r_plus=system.eps_r_plus,
+        conductor_eps_r_minus=system.eps_r_minus,
+        conductor_normal_pv=normal_pv,
+        interface_normal_pv=system.interface_rows @ total[:, 0] if interfaces.n_panels else np.zeros(0),
+        region_names=tuple(d.name for d in model.dielectrics) + (BACKGROUND_NAME,),
+        region_eps_r=system.region_eps_r,
+        interface_region_plus=interfaces.region_plus,
+        interface_region_minus=interfaces.region_minus,
+        conductor_region_plus=system.region_plus,
+        conductor_region_minus=system.region_minus,
+        n_unknowns=layout.size,
+    )
+
+
+def solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None = None) -> Solution:
+    """Solve ``model`` once on the conductor ``mesh`` (no error estimate).
+
+    Dielectric interfaces, if any, are meshed at the same settings as ``mesh``.
+    """
+    return solve_system(build_system(model, mesh), cancel)
+
+
+def solve(
+    model: Model,
+    *,
+    estimate_error: bool = True,
+    settings: MeshSettings | None = None,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> Solution:
+    """Solve a model of conductors, in a homogeneous medium or in dielectric regions.
+
+    Parameters
+    ----------
+    model : Model
+        Conductors, roles, optional ground plane, background permittivity and regions.
+    estimate_error : bool
+        Also solve on a mesh at half the resolution and record the relative change of the
+        capacitance matrix as ``estimated_relative_error`` (an honest, usually pessimistic,
+        estimate for the finer mesh).
+    settings : MeshSettings, optional
+        Mesh resolution; by default from ``model.mesh_density``.
+    progress : callable(fraction, message), optional
+        Called as the work advances (fraction from 0 to 1).
+    cancel : callable() -> bool, optional
+        Polled between stages; when it returns True the solve raises SolveCancelled.
+
+    Returns
+    -------
+    Solution
+        Charges and capacitance matrices are free-charge figures, in SI units.
+
+    Examples
+    --------
+    >>> from solver import load_project, solve
+    >>> sol = solve(load_project("sample_geometries/coaxial_feeder.json"))
+    >>> sol.capacitance_maxwell_F_per_m * 1e12  # pF/m  # doctest: +SKIP
+    """
+    if not model.conductors:
+        raise InvalidModelError("The model has no conductors; draw at least one.")
+    settings = settings or MeshSettings.for_density(model.mesh_density)
+    report = progress_reporter(progress, cancel)
+
+    report(0.0, "Meshing boundaries")
+    mesh = discretize_boundary(model, settings)
+    report(0.1, f"Solving {mesh.n_panels} panels")
+    solution = solve_mesh(model, mesh, cancel)
+    if not estimate_error:
+        report(1.0, "Done")
+        return solution
+    report(0.7, "Estimating the error on a coarser mesh")
+    coarse = solve_mesh(model, discretize_boundary(model, MeshSettings(settings.level / 2.0)), cancel)
+    error = relative_change(solution, coarse)
+    logger.info(
+        "solved %d conductor + %d interface panels; estimated relative error %.2e",
+        solution.mesh.n_panels, solution.interfaces.n_panels, error,
+    )
+    report(1.0, "Done")
+    return dataclasses.replace(solution, estimated_relative_error=error, coarse_mesh_panels=coarse.mesh.n_panels)
+
+
+def has_permittivity_contrast(model: Model) -> bool:
+    """True when some dielectric region's eps_r differs from the background's (the model's
+    capacitance then differs from its capacitance in a uniform medium)."""
+    return any(d.eps_r != model.background_eps_r for d in model.dielectrics)
+
+
+__all__ = ["solve", "solve_mesh", "solve_system", "progress_reporter", "has_permittivity_contrast"]

@@ -1,0 +1,109 @@
+"""The assembled boundary-element system of one model on one mesh (the "System" stage).
+
+Model -> Mesh -> **System** -> Solution: :func:`build_system` meshes the dielectric interfaces
+at the conductor mesh's settings, splits conductor panels where an interface meets them, and
+assembles the matrix of :mod:`solver.bem.assembly`. The value is frozen; solving it is
+:func:`solver.bem.solve.solve_system`.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+import numpy as np
+
+from solver.bem.assembly import SourcePanels, SystemLayout, assemble_system, free_charge_operator, source_panels
+from solver.errors import InvalidModelError
+from solver.mesh.interfaces import (
+    InterfaceMesh,
+    conductor_side_regions,
+    discretize_interfaces,
+    region_permittivities,
+)
+from solver.mesh.junctions import split_at_junctions
+from solver.mesh.panels import PanelMesh
+from solver.model.geometry import conductor_geometries
+from solver.model.model import Model
+
+
+@dataclass(frozen=True)
+class BoundarySystem:
+    """A model's boundary-element system, ready to factorise.
+
+    Attributes
+    ----------
+    model, mesh, interfaces : what was assembled (``mesh`` split at interface junctions).
+    length_scale_m : coordinates are divided by this inside the system, metres.
+    plane : ground-plane height / length_scale_m, or None.
+    sources : every charged panel, scaled.
+    matrix : (size, size) system matrix; layout : where each unknown sits.
+    free_charge_rows : (n_conductor_panels, n_panels) total -> free strengths.
+    interface_rows : (n_interface, n_panels) principal-value normal field at interfaces.
+    eps_r_plus, eps_r_minus : (n_conductor_panels,) eps_r on each side of conductor panels.
+    region_plus, region_minus : (n_conductor_panels,) region index on each side (-1 in metal).
+    region_eps_r : eps_r of every region, background last.
+    """
+
+    model: Model
+    mesh: PanelMesh
+    interfaces: InterfaceMesh
+    length_scale_m: float
+    plane: float | None
+    sources: SourcePanels
+    matrix: np.ndarray
+    layout: SystemLayout
+    free_charge_rows: np.ndarray
+    interface_rows: np.ndarray
+    eps_r_plus: np.ndarray
+    eps_r_minus: np.ndarray
+    region_plus: np.ndarray
+    region_minus: np.ndarray
+    region_eps_r: tuple[float, ...]
+
+
+def _with_contrast(interfaces: InterfaceMesh) -> InterfaceMesh:
+    """The interface panels that separate media of different permittivity (others carry no charge)."""
+    keep = interfaces.eps_r_plus != interfaces.eps_r_minus
+    if keep.all():
+        return interfaces
+    values = {f.name: getattr(interfaces, f.name)[keep] for f in dataclasses.fields(interfaces)}
+    return InterfaceMesh(**values)
+
+
+def _length_scale(mesh: PanelMesh, interfaces: InterfaceMesh) -> float:
+    pts = np.vstack([mesh.starts, mesh.ends, interfaces.starts, interfaces.ends])
+    return float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0)))) or 1.0
+
+
+def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
+    """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system."""
+    if not model.conductors:
+        raise InvalidModelError("The model has no conductors; draw at least one.")
+    settings = mesh.settings
+    interfaces = InterfaceMesh.empty()
+    dgeoms: list = []
+    if model.dielectrics:
+        cgeoms = conductor_geometries(model, settings.arc_step_rad)
+        interfaces, dgeoms = discretize_interfaces(model, cgeoms, mesh, settings)
+        interfaces = _with_contrast(interfaces)
+        mesh = split_at_junctions(mesh, dgeoms)
+    eps_regions = region_permittivities(model)
+    if dgeoms:
+        reg_plus, reg_minus = conductor_side_regions(model, dgeoms, mesh)
+    else:
+        reg_plus = np.full(mesh.n_panels, len(model.dielectrics), dtype=int)
+        reg_minus = np.where(mesh.is_strip, reg_plus, -1)
+    eps_plus = eps_regions[reg_plus]
+    eps_minus = np.where(reg_minus >= 0, eps_regions[np.maximum(reg_minus, 0)], 0.0)
+
+    ell = _length_scale(mesh, interfaces)
+    plane = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit / ell
+    sources = source_panels(mesh, interfaces, ell)
+    f_op = free_charge_operator(mesh, eps_plus, eps_minus, interfaces.n_panels, sources, ell, plane)
+    roles = [c.role for c in model.conductors]
+    a, layout, d_int = assemble_system(mesh, interfaces, roles, f_op, sources, plane, ell)
+    return BoundarySystem(
+        model, mesh, interfaces, ell, plane, sources, a, layout, f_op, d_int,
+        eps_plus, eps_minus, reg_plus, reg_minus, tuple(float(e) for e in eps_regions),
+    )

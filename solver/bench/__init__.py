@@ -1,0 +1,1 @@
+"""``python -m solver.bench``: speed and accuracy on a ladder of meshes."""

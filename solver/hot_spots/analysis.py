@@ -1,0 +1,335 @@
+"""Hot spots: the peak surface field of each conductor, with an error estimate you can trust.
+
+For each conductor the largest surface field |E| = |sigma| / eps is found on a sequence of
+meshes, each at twice the resolution level of the one before (every panel halves, and the
+grading toward corners deepens). From the last three peak values f1, f2, f3 the error of f3
+is estimated the Richardson way (common practice in convergence studies):
+
+    d1 = f2 - f1,  d2 = f3 - f2,  ratio = d1 / d2
+    if ratio > 1 (monotone convergence):  order p = log2(ratio),
+        extrapolated f = f3 + d2 / (ratio - 1),  error = |d2 / (ratio - 1)| / |f3|
+    otherwise (noise-level wobble):        error = max(|d1|, |d2|) / |f3|
+
+and refinement continues until every estimate is below the target (1 % by default) or the
+panel budget is spent.
+
+Sharp corners. Near a convex corner whose field region opens by beta > pi the charge density
+goes like r^(pi/beta - 1) (edge condition, e.g. J. D. Jackson, Classical Electrodynamics,
+3rd ed., 1999, sec. 2.11): the peak field has no finite value and grows with every refinement.
+Such a conductor is reported as ``singular`` with the exponent, no error estimate, and the
+advice to give a corner radius; with ``corner_radius_m`` set, the sharp corners are rounded
+(:mod:`solver.corner_rounding`) and the rounded model is solved instead.
+
+Enhancement factor. For conductor k the plain gap field is E_gap = |V_k - V_j| / d_kj, where
+j is the nearest conductor (or the ground plane) at a different potential and d_kj the
+shortest distance between their surfaces; the enhancement factor is E_peak / E_gap (>= 1 for
+most arrangements; the inverse is Schwaiger's utilisation factor, common practice in
+high-voltage engineering).
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+from dataclasses import dataclass, field
+from typing import Iterable
+
+import numpy as np
+
+from solver.hot_spots.air_region import AirRegionPeak, air_region_peak
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.curvature import signed_radius_of_curvature_m
+from solver.errors import InvalidModelError
+from solver.model.model import Model
+from solver.hot_spots.peak_diagnostics import (
+    GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
+    corner_field_grows,
+    most_singular_corner,
+    nearest_other_potential,
+    richardson_estimate,
+)
+from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, discretize_boundary
+from solver.bem.solution import Solution
+from solver.bem.solve import solve
+
+logger = logging.getLogger(__name__)
+
+#: Largest mesh the refinement loop will build (panels); the dense system grows as n^2.
+DEFAULT_MAX_PANELS = 5000
+
+
+
+@dataclass(frozen=True)
+class HotSpot:
+    """The peak surface field of one conductor.
+
+    Attributes
+    ----------
+    conductor : conductor name.
+    field_V_per_m : largest |E| on its surface on the finest mesh, V/m.
+    location_m : (x, y) where it occurs, metres.
+    singular : True when the conductor has a sharp corner or free edge: its 2-D peak field is
+        unbounded and ``field_V_per_m`` only reflects the mesh (give a corner radius).
+    corner_exponent : pi/beta - 1 of the most singular corner of a singular conductor, else None.
+    corner_opening_rad : opening angle beta of the field region at that corner, else None.
+    estimated_relative_error : Richardson estimate of the relative error of ``field_V_per_m``
+        (None when singular).
+    extrapolated_field_V_per_m : Richardson-extrapolated peak (None when not monotone or singular).
+    observed_order : fitted convergence order p in error ~ 2^(-p) per level doubling (or None).
+    converged : the estimate is at or below the target.
+    potential_V : the conductor's potential, V.
+    nearest_conductor : nearest conductor (or "ground plane") at a different potential, or None.
+    gap_m : shortest distance to it, metres.
+    gap_field_V_per_m : |V_k - V_j| / gap, V/m.
+    enhancement_factor : field_V_per_m / gap_field_V_per_m (None without such a neighbour).
+    peak_history_V_per_m : peak on each mesh of the refinement, coarsest first.
+    local_radius_of_curvature_m : radius of curvature of the outline at the peak where it
+        bulges into the field, metres (None on a straight run, on a hollow surface such as the
+        inside of a tube, at a sharp corner or on a strip).
+    medium_eps_r : relative permittivity of the medium next to the peak (1 = air).
+    note : plain-words remark for the user.
+    """
+
+    conductor: str
+    field_V_per_m: float
+    location_m: tuple[float, float]
+    singular: bool
+    corner_exponent: float | None
+    corner_opening_rad: float | None
+    estimated_relative_error: float | None
+    extrapolated_field_V_per_m: float | None
+    observed_order: float | None
+    converged: bool
+    potential_V: float
+    nearest_conductor: str | None
+    gap_m: float | None
+    gap_field_V_per_m: float | None
+    enhancement_factor: float | None
+    peak_history_V_per_m: tuple[float, ...]
+    note: str
+    local_radius_of_curvature_m: float | None = None
+    medium_eps_r: float = 1.0
+
+
+@dataclass(frozen=True)
+class HotSpotReport:
+    """Peak surface fields of a model, with the refinement that produced them.
+
+    Attributes
+    ----------
+    hot_spots : one :class:`HotSpot` per analysed conductor, model order.
+    target_relative_error : the requested error target.
+    levels : mesh resolution levels solved, coarsest first.
+    n_panels : panel count of each of those meshes.
+    corner_radius_m : radius the sharp corners were rounded to (None = not rounded).
+    solved_model : the model actually solved (rounded copy when a radius was given).
+    solution : the solution on the finest mesh.
+    air_region : with dielectric regions in air, the largest field in the air (e.g. on the
+        outer surface of insulation), else None.
+    """
+
+    hot_spots: tuple[HotSpot, ...]
+    target_relative_error: float
+    levels: tuple[float, ...]
+    n_panels: tuple[int, ...]
+    corner_radius_m: float | None
+    solved_model: Model = field(compare=False, repr=False)
+    solution: Solution = field(compare=False, repr=False)
+    air_region: AirRegionPeak | None = None
+
+    def for_conductor(self, name: str) -> HotSpot:
+        """The hot spot of conductor ``name`` (KeyError if it was not analysed)."""
+        for spot in self.hot_spots:
+            if spot.conductor == name:
+                return spot
+        raise KeyError(f"No hot spot for conductor '{name}'; analysed: {', '.join(s.conductor for s in self.hot_spots)}.")
+
+    @property
+    def all_converged(self) -> bool:
+        """Every non-singular peak met the error target (and none is singular)."""
+        return all(s.converged for s in self.hot_spots)
+
+    def as_dict(self) -> dict:
+        """JSON-ready summary with SI keys (one entry per conductor under ``conductors``)."""
+        return {
+            "target_relative_error": self.target_relative_error,
+            "corner_radius_m": self.corner_radius_m,
+            "levels": list(self.levels),
+            "n_panels": list(self.n_panels),
+            "air_region": None if self.air_region is None else {
+                "peak_field_V_per_m": self.air_region.field_V_per_m,
+                "peak_field_location_m": list(self.air_region.location_m),
+                "where": self.air_region.where,
+                "at_sharp_corner": self.air_region.at_sharp_corner,
+                "peak_field_estimated_relative_error": self.air_region.estimated_relative_error,
+            },
+            "conductors": [
+                {
+                    "conductor": s.conductor,
+                    "peak_field_V_per_m": s.field_V_per_m,
+                    "peak_field_location_m": list(s.location_m),
+                    "peak_field_estimated_relative_error": s.estimated_relative_error,
+                    "peak_field_extrapolated_V_per_m": s.extrapolated_field_V_per_m,
+                    "observed_order": s.observed_order,
+                    "singular": s.singular,
+                    "corner_exponent": s.corner_exponent,
+                    "corner_opening_rad": s.corner_opening_rad,
+                    "nearest_conductor": s.nearest_conductor,
+                    "gap_m": s.gap_m,
+                    "gap_field_V_per_m": s.gap_field_V_per_m,
+                    "enhancement_factor": s.enhancement_factor,
+                    "local_radius_of_curvature_m": s.local_radius_of_curvature_m,
+                    "medium_eps_r": s.medium_eps_r,
+                    "converged": s.converged,
+                    "note": s.note,
+                }
+                for s in self.hot_spots
+            ],
+        }
+
+
+def analyse_hot_spots(
+    model: Model,
+    target_relative_error: float = 0.01,
+    corner_radius_m: float | None = None,
+    conductors: Iterable[str] | None = None,
+    max_panels: int = DEFAULT_MAX_PANELS,
+    replace_radius: bool = False,
+) -> HotSpotReport:
+    """Peak surface field of each conductor, refined until its error estimate meets a target.
+
+    Parameters
+    ----------
+    model : Model
+    target_relative_error : float
+        Stop refining when every non-singular peak's Richardson estimate is at or below this.
+    corner_radius_m : float, optional
+        Round the sharp corners (and strip edges) of the analysed conductors to this radius,
+        metres, and solve the rounded model (see :func:`solver.round_sharp_corners`).
+    conductors : iterable of str, optional
+        Conductors to analyse (default: all).
+    max_panels : int
+        Panel budget of the finest mesh; the loop stops before exceeding it.
+    replace_radius : bool
+        With ``corner_radius_m``: a one-rectangle conductor gets exactly that radius even if
+        it is drawn with a larger one (used by the corner-radius sweep).
+
+    Returns
+    -------
+    HotSpotReport
+
+    Examples
+    --------
+    >>> from solver import Model, Conductor, Rectangle, GroundPlane
+    >>> bar = Model(unit="mm", ground_plane=GroundPlane(0.0), conductors=(
+    ...     Conductor("bar", (Rectangle((0, 30), 40, 10, 2.0),), potential_V=10e3),))
+    >>> spot = analyse_hot_spots(bar).for_conductor("bar")
+    >>> spot.estimated_relative_error < 0.01
+    True
+    """
+    if not (0 < target_relative_error < 1):
+        raise InvalidModelError(f"Target relative error is {target_relative_error}; give a number between 0 and 1.")
+    names = list(model.conductor_names if conductors is None else conductors)
+    for name in names:
+        model.conductor(name)
+    base = DENSITY_LEVELS[model.mesh_density]
+    levels = [base / 2.0, base, 2.0 * base]
+    solved_models: list[Model] = []
+    solutions: list[Solution] = []
+
+    to_round: list[str] = []
+    if corner_radius_m is not None:
+        sharp = set(conductors_with_sharp_corners(model))
+        to_round = names if replace_radius else [n for n in names if n in sharp]
+
+    def model_at(level: float) -> Model:
+        if corner_radius_m is None or not to_round:
+            return model
+        return round_sharp_corners(model, corner_radius_m, to_round, level=level, replace_radius=replace_radius)
+
+    def run(level: float) -> None:
+        m = model_at(level)
+        solved_models.append(m)
+        solutions.append(solve(m, estimate_error=False, settings=MeshSettings(level)))
+        logger.info("hot spots: level %g, %d panels", level, solutions[-1].mesh.n_panels)
+
+    while levels[0] > 1.0 / 16.0 and discretize_boundary(model_at(levels[-1]), MeshSettings(levels[-1])).n_panels > max_panels:
+        levels = [level / 2.0 for level in levels]  # the first three meshes must fit the budget too
+    for level in levels:
+        run(level)
+    index = [model.conductor_names.index(n) for n in names]
+    while True:
+        peaks = np.array([[s.surface_field_V_per_m[s.mesh.conductor_index == k].max() for k in index] for s in solutions])
+        singular = [corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
+        errors = [richardson_estimate(peaks[:, i])[0] for i in range(len(index))]
+        pending = [e > target_relative_error for e, s in zip(errors, singular) if not s]
+        air = air_region_peak(solutions)
+        if air is not None and air.estimated_relative_error is not None:
+            pending.append(air.estimated_relative_error > target_relative_error)
+        if not any(pending):
+            break
+        next_level = 2.0 * levels[-1]
+        growth = solutions[-1].mesh.n_panels / max(1, solutions[-2].mesh.n_panels)
+        if solutions[-1].mesh.n_panels * max(growth, 1.5) > max_panels:
+            logger.info("hot spots: panel budget %d reached before the error target", max_panels)
+            break
+        levels.append(next_level)
+        run(next_level)
+
+    final = solutions[-1]
+    neighbours = nearest_other_potential(solved_models[-1], final)
+    spots = []
+    for i, k in enumerate(index):
+        spots.append(_hot_spot(final, k, peaks[:, i], singular[i], neighbours[k], target_relative_error))
+    return HotSpotReport(
+        hot_spots=tuple(spots),
+        target_relative_error=float(target_relative_error),
+        levels=tuple(levels),
+        n_panels=tuple(s.mesh.n_panels for s in solutions),
+        corner_radius_m=corner_radius_m,
+        solved_model=solved_models[-1],
+        solution=final,
+        air_region=air,
+    )
+
+
+def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neighbour, target: float) -> HotSpot:
+    mesh = final.mesh
+    idx = np.flatnonzero(mesh.conductor_index == k)
+    i = int(idx[np.argmax(final.surface_field_V_per_m[idx])])
+    peak = float(final.surface_field_V_per_m[i])
+    name = final.model.conductors[k].name
+    near_name, gap, dv = neighbour
+    gap_field = None if gap is None else float(dv / gap)
+    enhancement = None if not gap_field else float(peak / gap_field)
+    if singular:
+        exponent, beta = most_singular_corner(final, k)
+        note = (
+            f"Sharp corner or free edge (field-region opening {math.degrees(beta):.0f} degrees): the charge "
+            f"density goes like r^({exponent:.3f}) and the 2-D peak field has no finite value; this number "
+            "grows with every refinement. Give a corner radius to get a peak you can use."
+        )
+        return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), True, exponent, beta, None, None, None,
+                       False, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
+                       tuple(map(float, history)), note)
+    error, extrapolated, order = richardson_estimate(history)
+    converged = error <= target
+    note = (
+        f"Peak field converged to an estimated {100 * error:.2g} % (target {100 * target:.2g} %)."
+        if converged
+        else f"Estimated error {100 * error:.2g} % is above the target {100 * target:.2g} %: the panel budget "
+        "ran out; treat the value with care or simplify the model."
+    )
+    curvature = signed_radius_of_curvature_m(mesh, i)
+    return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
+                   converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
+                   tuple(map(float, history)), note, curvature if 0 < curvature < math.inf else None,
+                   _medium_eps_r(final, i))
+
+
+def _medium_eps_r(solution: Solution, panel: int) -> float:
+    """Relative permittivity next to a conductor panel (the dielectric solution knows it per panel)."""
+    per_panel = getattr(solution, "conductor_eps_r_plus", None)
+    if per_panel is not None and len(per_panel) == solution.mesh.n_panels:
+        return float(per_panel[panel])
+    return float(solution.model.background_eps_r)

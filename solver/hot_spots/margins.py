@@ -1,0 +1,307 @@
+"""Margins of peak surface fields to air breakdown and corona onset, with the caution text.
+
+Thresholds and where they come from
+-----------------------------------
+* Air breakdown: about 3 MV/m (30 kV/cm crest) in a uniform field at standard conditions --
+  common practice -- scaled in proportion to the relative air density delta (breakdown of
+  centimetre gaps follows the gas density, Paschen's law). For long uniform gaps the value
+  falls toward about 2.4 MV/m, so 3 MV/m is not a conservative figure there.
+* Relative air density: delta = (p / p0) (T0 / T) with the standard reference atmosphere of
+  high-voltage testing, p0 = 101.325 kPa and T0 = 293.15 K (20 degC) (from memory of IEC
+  60060-1). Peek's own reference was 25 degC and 76 cm Hg (delta = 3.92 b / (273 + t)); the
+  two differ by 1.7 %.
+* Pressure at altitude: the barometric formula of the standard atmosphere in the troposphere
+  (ISO 2533:1975; U.S. Standard Atmosphere, 1976), p = 101325 Pa (1 - 2.25577e-5 h / m)^5.25588,
+  valid from sea level to 11 km. Unless a temperature is given, the air is taken at the
+  reference temperature, so altitude enters through pressure alone.
+* Corona onset on a round conductor of radius r: F. W. Peek, Dielectric Phenomena in
+  High-Voltage Engineering, 3rd ed., 1929, visual critical gradient, crest values:
+  parallel wires  E_c = 30 m delta (1 + 0.301 / sqrt(delta r)) kV/cm, r in cm (the default;
+  it suits wires over earth and between wires), or coaxial  E_c = 31 m delta (1 + 0.308 /
+  sqrt(delta r)) kV/cm. The surface factor m is 1 for a smooth, polished surface, about 0.93
+  to 0.98 for a roughened or weathered one and about 0.83 to 0.87 for a stranded conductor.
+
+The margin of a conductor is threshold / peak field. A margin below :data:`THIN_MARGIN` (1.5,
+a choice of this program, not a standard) is "thin" and brings :data:`HIGH_VOLTAGE_CAUTION`;
+below 1 the threshold is "exceeded". Potentials must be crest values (AC rms x sqrt 2).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Sequence
+
+from solver.errors import InvalidModelError
+from solver.model.model import Circle, Model, Ring
+
+#: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
+AIR_DIELECTRIC_STRENGTH_V_PER_M = 3.0e6
+#: Reference pressure of the relative air density, Pa.
+REFERENCE_PRESSURE_PA = 101_325.0
+#: Reference temperature of the relative air density, K (20 degC).
+REFERENCE_TEMPERATURE_K = 293.15
+#: Margins (threshold / peak) below this are reported as thin; a choice of this program.
+THIN_MARGIN = 1.5
+#: Peek's constants (A in kV/cm, B in cm^0.5) of E_c = A m delta (1 + B / sqrt(delta r)).
+PEEK_FORMS: dict[str, tuple[float, float]] = {"parallel_wires": (30.0, 0.301), "coaxial": (31.0, 0.308)}
+
+#: The caution shown with every high-voltage result; SAFETY.md repeats it word for word.
+HIGH_VOLTAGE_CAUTION = (
+    "Caution - high voltage. These figures come from a two-dimensional electrostatic model of an "
+    "infinitely long, uniform cross-section in clean, dry air. They are an aid to design, not a "
+    "safety assessment. Breakdown and corona onset also depend on gap length, field uniformity, "
+    "surface condition, humidity, contamination, altitude, voltage waveform and polarity, and the "
+    "ends, supports and joints of a real part (which a 2-D model cannot see) often carry higher "
+    "fields. Keep a generous margin. This program does not determine clearances, creepage "
+    "distances or insulation coordination. Applicable local codes and standards, and review by a "
+    "licensed or otherwise qualified engineer, prevail over anything it reports. Work on or near "
+    "energised equipment is for qualified persons only."
+)
+
+
+def pressure_at_altitude_Pa(altitude_m: float) -> float:
+    """Air pressure of the standard atmosphere at ``altitude_m`` above sea level, Pa.
+
+    Troposphere barometric formula (ISO 2533:1975), valid from 0 to 11 000 m.
+
+    >>> round(pressure_at_altitude_Pa(2000.0))
+    79495
+    """
+    if not (math.isfinite(altitude_m) and -500.0 <= altitude_m <= 11_000.0):
+        raise InvalidModelError(f"Altitude is {altitude_m} m; the standard-atmosphere formula holds from -500 to 11000 m.")
+    return REFERENCE_PRESSURE_PA * (1.0 - 2.25577e-5 * altitude_m) ** 5.25588
+
+
+def relative_air_density(pressure_Pa: float, temperature_K: float = REFERENCE_TEMPERATURE_K) -> float:
+    """Relative air density delta = (p / 101.325 kPa) (293.15 K / T), dimensionless."""
+    if not (pressure_Pa > 0 and temperature_K > 0):
+        raise InvalidModelError(
+            f"Air pressure {pressure_Pa} Pa and temperature {temperature_K} K; both must be positive."
+        )
+    return (pressure_Pa / REFERENCE_PRESSURE_PA) * (REFERENCE_TEMPERATURE_K / temperature_K)
+
+
+def relative_air_density_at_altitude(altitude_m: float, temperature_K: float = REFERENCE_TEMPERATURE_K) -> float:
+    """Relative air density at an altitude (standard-atmosphere pressure, given temperature)."""
+    return relative_air_density(pressure_at_altitude_Pa(altitude_m), temperature_K)
+
+
+def air_breakdown_field_V_per_m(relative_air_density: float = 1.0) -> float:
+    """Uniform-field dielectric strength of air, 3 MV/m x delta (common practice), V/m crest."""
+    if not relative_air_density > 0:
+        raise InvalidModelError(f"Relative air density is {relative_air_density}; it must be positive.")
+    return AIR_DIELECTRIC_STRENGTH_V_PER_M * relative_air_density
+
+
+def peek_corona_onset_field_V_per_m(
+    radius_m: float,
+    relative_air_density: float = 1.0,
+    surface_factor: float = 1.0,
+    form: str = "parallel_wires",
+) -> float:
+    """Peek's visual corona-onset surface field of a round conductor, V/m crest.
+
+    E_c = A m delta (1 + B / sqrt(delta r)) kV/cm with r in cm; (A, B) = (30, 0.301) for
+    parallel wires, (31, 0.308) for coaxial cylinders (Peek, 1929).
+
+    >>> round(peek_corona_onset_field_V_per_m(0.01) / 1e6, 4)  # r = 1 cm: 30 x 1.301 kV/cm
+    3.903
+    """
+    if form not in PEEK_FORMS:
+        raise InvalidModelError(f"Peek form '{form}' is not known; use one of {', '.join(PEEK_FORMS)}.")
+    if not radius_m > 0:
+        raise InvalidModelError(f"Conductor radius is {radius_m} m; it must be positive.")
+    if not 0 < surface_factor <= 1:
+        raise InvalidModelError(f"Surface factor is {surface_factor}; it lies between 0 and 1 (1 = smooth).")
+    if not relative_air_density > 0:
+        raise InvalidModelError(f"Relative air density is {relative_air_density}; it must be positive.")
+    a, b = PEEK_FORMS[form]
+    r_cm = radius_m * 100.0
+    kv_per_cm = a * surface_factor * relative_air_density * (1.0 + b / math.sqrt(relative_air_density * r_cm))
+    return kv_per_cm * 1e5
+
+
+@dataclass(frozen=True)
+class AirConditions:
+    """The air around the conductors and the surface of round conductors.
+
+    Attributes
+    ----------
+    relative_air_density : delta, 1 at 101.325 kPa and 20 degC.
+    surface_factor : Peek's m (1 smooth, ~0.95 weathered, ~0.85 stranded).
+    peek_form : "parallel_wires" or "coaxial".
+    description : where delta came from, in words.
+    """
+
+    relative_air_density: float = 1.0
+    surface_factor: float = 1.0
+    peek_form: str = "parallel_wires"
+    description: str = "standard reference atmosphere (101.325 kPa, 20 degC)"
+
+    @classmethod
+    def at_altitude(cls, altitude_m: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
+        """Air at ``altitude_m`` (standard-atmosphere pressure) and ``temperature_K``."""
+        delta = relative_air_density_at_altitude(altitude_m, temperature_K)
+        text = f"altitude {altitude_m:g} m, {temperature_K - 273.15:g} degC (standard-atmosphere pressure)"
+        return cls(delta, description=text, **kw)
+
+    @classmethod
+    def at_pressure(cls, pressure_Pa: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
+        """Air at a measured pressure and temperature."""
+        delta = relative_air_density(pressure_Pa, temperature_K)
+        return cls(delta, description=f"{pressure_Pa / 1e3:g} kPa, {temperature_K - 273.15:g} degC", **kw)
+
+
+@dataclass(frozen=True)
+class ConductorMargin:
+    """Margins of one conductor's peak surface field (all fields crest values, V/m).
+
+    ``*_margin`` = threshold / peak (None when the peak is not finite, at a sharp corner, or
+    when the peak is not in air).
+    ``corona_radius_m`` is the radius put into Peek's formula: the conductor's own radius for a
+    round conductor, else the local radius of curvature of the outline at the peak (an
+    approximation, said in ``corona_radius_basis``); ``corona_*`` are None when there is
+    neither (peak on a straight run or at a corner). ``status`` is "ample", "thin"
+    (margin < thin threshold), "exceeded" (margin < 1) or "not assessed".
+    """
+
+    conductor: str
+    peak_field_V_per_m: float
+    peak_field_estimated_relative_error: float | None
+    air_breakdown_field_V_per_m: float
+    air_breakdown_margin: float | None
+    corona_radius_m: float | None
+    corona_radius_basis: str | None
+    corona_onset_field_V_per_m: float | None
+    corona_onset_margin: float | None
+    status: str
+    caution: str
+
+
+@dataclass(frozen=True)
+class MarginReport:
+    """Margins of every analysed conductor, the air conditions and the caution text.
+
+    With insulated conductors in air, ``air_region_margin`` compares the largest field in the
+    surrounding air (on the outer surface of the insulation, say) with air breakdown, and
+    ``air_region_status`` grades it like a conductor's; both are None otherwise.
+    """
+
+    margins: tuple[ConductorMargin, ...]
+    air: AirConditions
+    thin_margin: float
+    caution_text: str = HIGH_VOLTAGE_CAUTION
+    air_region_peak_field_V_per_m: float | None = None
+    air_region_margin: float | None = None
+    air_region_status: str | None = None
+
+    @property
+    def needs_caution(self) -> bool:
+        """True when any margin is thin, exceeded or not assessed."""
+        return any(m.status != "ample" for m in self.margins) or self.air_region_status not in (None, "ample")
+
+    def as_dict(self) -> dict:
+        """JSON-ready summary with SI keys (infinite margins become None)."""
+
+        def clean(v):
+            return None if isinstance(v, float) and not math.isfinite(v) else v
+
+        return {
+            "relative_air_density": self.air.relative_air_density,
+            "air_conditions": self.air.description,
+            "surface_factor": self.air.surface_factor,
+            "peek_form": self.air.peek_form,
+            "thin_margin_threshold": self.thin_margin,
+            "conductors": [{k: clean(v) for k, v in vars(m).items()} for m in self.margins],
+            "air_region_peak_field_V_per_m": self.air_region_peak_field_V_per_m,
+            "air_region_margin": clean(self.air_region_margin),
+            "air_region_status": self.air_region_status,
+            "caution": self.caution_text if self.needs_caution else "",
+        }
+
+
+def round_radius_m(model: Model, conductor: str, location_m: tuple[float, float] | None = None) -> float | None:
+    """Radius (m) of a conductor made of one circle or one ring, else None.
+
+    For a ring, the outer radius — unless ``location_m`` (the peak) lies on the inner surface,
+    which is hollow toward the field and has no corona-onset radius (None).
+    """
+    shapes = model.conductor(conductor).shapes
+    if len(shapes) != 1:
+        return None
+    s = shapes[0]
+    scale = model.metres_per_unit
+    if isinstance(s, Circle):
+        return s.radius * scale
+    if isinstance(s, Ring):
+        if location_m is not None:
+            r = math.hypot(location_m[0] - s.center[0] * scale, location_m[1] - s.center[1] * scale)
+            if r < 0.5 * (s.inner_radius + s.outer_radius) * scale:
+                return None
+        return s.outer_radius * scale
+    return None
+
+
+def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirConditions(),
+                   thin_margin: float = THIN_MARGIN, air_region=None) -> MarginReport:
+    """Margins to air breakdown and (round conductors) corona onset, per conductor.
+
+    Parameters
+    ----------
+    model : Model
+        The model the peaks belong to (for the radii of round conductors).
+    hot_spots : sequence of HotSpot
+        From :func:`solver.analyse_hot_spots` (``HotSpotReport.hot_spots``).
+    air : AirConditions
+    thin_margin : float
+        Margins below this are "thin" (default 1.5).
+    air_region : AirRegionPeak, optional
+        Largest field in the surrounding air of a model with insulation
+        (``HotSpotReport.air_region``).
+
+    Returns
+    -------
+    MarginReport
+    """
+    breakdown = air_breakdown_field_V_per_m(air.relative_air_density)
+    out = []
+    for spot in hot_spots:
+        peak = float(spot.field_V_per_m)
+        radius = (round_radius_m(model, spot.conductor, getattr(spot, "location_m", None))
+                  if spot.conductor in model.conductor_names else None)
+        basis = None if radius is None else "round conductor"
+        local = getattr(spot, "local_radius_of_curvature_m", None)
+        if radius is None and local is not None and not spot.singular:
+            radius, basis = local, ("local radius of curvature at the peak (approximation: Peek's formula "
+                                    "is for round conductors)")
+        corona = None if radius is None else peek_corona_onset_field_V_per_m(
+            radius, air.relative_air_density, air.surface_factor, air.peek_form)
+        medium = float(getattr(spot, "medium_eps_r", 1.0))
+        if spot.singular or medium != 1.0:
+            m_air = m_cor = None
+            status = "not assessed"
+            reason = ("Sharp corner or free edge: the 2-D peak field is not finite, so no margin can be given. "
+                      "Give a corner radius. ") if spot.singular else (
+                f"The peak sits in a medium of relative permittivity {medium:g}, not air: the air-breakdown and "
+                "corona thresholds do not apply; judge the insulation by its material's own data. ")
+            caution = reason + HIGH_VOLTAGE_CAUTION
+        else:
+            m_air = breakdown / peak if peak > 0 else math.inf
+            m_cor = None if corona is None else (corona / peak if peak > 0 else math.inf)
+            worst = min(m for m in (m_air, m_cor) if m is not None)
+            status = "exceeded" if worst < 1 else "thin" if worst < thin_margin else "ample"
+            caution = "" if status == "ample" else (
+                f"Margin {worst:.2f} is below {thin_margin:g}. " + HIGH_VOLTAGE_CAUTION)
+        out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, breakdown, m_air,
+                                   radius, basis, corona, m_cor, status, caution))
+    region_peak = region_margin = region_status = None
+    if air_region is not None:
+        region_peak = float(air_region.field_V_per_m)
+        if air_region.at_sharp_corner:
+            region_status = "not assessed"
+        else:
+            region_margin = breakdown / region_peak if region_peak > 0 else math.inf
+            region_status = "exceeded" if region_margin < 1 else "thin" if region_margin < thin_margin else "ample"
+    return MarginReport(tuple(out), air, float(thin_margin), HIGH_VOLTAGE_CAUTION, region_peak, region_margin,
+                        region_status)

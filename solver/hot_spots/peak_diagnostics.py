@@ -1,0 +1,101 @@
+"""Diagnostics behind a peak surface field: convergence, corner singularity, nearest gap.
+
+* :func:`richardson_estimate` — error of the last of a sequence of values from successive
+  doublings of the mesh resolution (Richardson extrapolation, common practice).
+* :func:`corner_field_grows` — whether a conductor's sharp corners carry charge (then its 2-D
+  peak field is unbounded).
+* :func:`nearest_other_potential` — the nearest conductor (or ground plane) at a different
+  potential, for the plain gap field V / d.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Sequence
+
+import numpy as np
+import shapely
+
+from solver.model.geometry import conductor_geometries
+from solver.model.model import Model
+from solver.mesh.panels import MeshSettings
+from solver.bem.solution import Solution
+
+#: Name used for the ground plane as the "nearest conductor".
+GROUND_PLANE_NAME = "ground plane"
+
+
+def richardson_estimate(values: Sequence[float]) -> tuple[float, float | None, float | None]:
+    """Relative error of the last of >= 3 values from successive level doublings.
+
+    Returns ``(relative_error, extrapolated_value, observed_order)``; the last two are None
+    when the last three values do not converge monotonically (then the error is the larger of
+    the last two relative changes). See the module docstring.
+    """
+    f1, f2, f3 = (float(v) for v in values[-3:])
+    d1, d2 = f2 - f1, f3 - f2
+    scale = abs(f3) or 1.0
+    if d2 == 0.0:
+        return abs(d1) / scale * 1e-3, f3, None
+    ratio = d1 / d2
+    if ratio > 1.0:
+        correction = d2 / (ratio - 1.0)
+        return abs(correction) / scale, f3 + correction, math.log2(ratio)
+    return max(abs(d1), abs(d2)) / scale, None, None
+
+
+def nearest_other_potential(model: Model, solution: Solution) -> list[tuple[str | None, float | None, float | None]]:
+    """(name, gap_m, |dV|) of the nearest conductor at a different potential, per conductor."""
+    geoms = conductor_geometries(model, MeshSettings(1.0).arc_step_rad)
+    potentials = solution.conductor_potentials_V
+    vscale = max(1e-300, float(np.abs(potentials).max()))
+    plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
+    out = []
+    for k, g in enumerate(geoms):
+        best: tuple[str | None, float | None, float | None] = (None, None, None)
+        candidates = [
+            (model.conductors[j].name, float(shapely.distance(g, other)), abs(potentials[k] - potentials[j]))
+            for j, other in enumerate(geoms)
+            if j != k
+        ]
+        if plane_y is not None:
+            candidates.append((GROUND_PLANE_NAME, float(g.bounds[1] - plane_y), abs(potentials[k])))
+        for name, gap, dv in candidates:
+            if dv > 1e-9 * vscale and gap > 0 and (best[1] is None or gap < best[1]):
+                best = (name, gap, dv)
+        out.append(best)
+    return out
+
+
+def _corner_field(solution: Solution, k: int) -> float:
+    """Largest surface field on the panels next to the sharp corners of conductor k (0 if none)."""
+    mesh = solution.mesh
+    near = (mesh.conductor_index == k) & (mesh.distance_to_corner_m < 2.0 * mesh.lengths + 1e-15)
+    return float(solution.surface_field_V_per_m[near].max()) if near.any() else 0.0
+
+
+def corner_field_grows(coarse: Solution, fine: Solution, k: int) -> bool:
+    """True when conductor k has a sharp corner that carries charge.
+
+    The field next to a charged corner grows with every refinement (the first panel shrinks
+    and the field goes like r^(pi/beta - 1)); next to a corner that carries no charge (the
+    outside of a closed screen) it stays near round-off level, which can itself creep up on the
+    very small corner panels of fine meshes. A charged corner is therefore one whose field
+    grows and reaches at least 1e-3 of the conductor's largest surface field (with the deep
+    corner grading of the mesher a charged corner is far above that).
+    """
+    if not np.any(fine.mesh.corner_conductor == k):
+        return False
+    e_fine, e_coarse = _corner_field(fine, k), _corner_field(coarse, k)
+    floor = 1e-3 * float(fine.surface_field_V_per_m[fine.mesh.conductor_index == k].max())
+    return e_fine > floor and e_fine > 1.2 * e_coarse
+
+
+def most_singular_corner(solution: Solution, k: int) -> tuple[float | None, float | None]:
+    mesh = solution.mesh
+    betas = mesh.corner_opening_rad[mesh.corner_conductor == k]
+    if betas.size == 0:
+        return None, None
+    beta = float(betas.max())
+    return math.pi / beta - 1.0, beta
+

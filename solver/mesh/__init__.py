@@ -1,0 +1,1 @@
+"""Boundary meshes: graded panels on conductors and on dielectric interfaces, junctions between them."""

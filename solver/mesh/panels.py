@@ -1,0 +1,304 @@
+"""Boundary mesh: straight panels on every conductor boundary, graded toward corners.
+
+Near a conducting wedge whose field region opens by an angle beta the surface charge density
+goes like r^(pi/beta - 1) (singular when beta > pi). Panels therefore shrink geometrically
+toward sharp corners and toward the free edges of strips, and follow short neighbours (arcs)
+smoothly elsewhere.
+
+The mesh is a frozen value; :meth:`PanelMesh.refined` returns a finer copy built from the same
+geometry.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from functools import cached_property
+
+import numpy as np
+
+from solver.model.geometry import BoundaryRing, boundary_rings, conductor_geometries
+from solver.model.model import Model
+
+#: Turning angle above which a vertex counts as a corner (smaller ones are polygonised arcs).
+CORNER_TURN_RAD = math.radians(25.0)
+
+#: Numeric resolution level of each named mesh density.
+DENSITY_LEVELS = {"coarse": 0.5, "normal": 1.0, "fine": 2.0}
+
+
+@dataclass(frozen=True)
+class MeshSettings:
+    """How finely to divide boundaries; derived from one resolution ``level`` (normal = 1).
+
+    Attributes
+    ----------
+    arc_step_rad : angle between vertices on circles and fillets.
+    divisions_per_size : panels along the model's overall size (bounding-box diagonal).
+    divisions_per_perimeter : least number of panels on each conductor's outline.
+    gap_fraction : longest panel as a fraction of the gap to the nearest other conductor.
+    corner_fraction : first panel at a sharp corner or free edge, as a fraction of the
+        longest panel of that conductor.
+    growth_ratio : size ratio of neighbouring panels in a graded run.
+    """
+
+    level: float = 1.0
+
+    @property
+    def arc_step_rad(self) -> float:
+        return math.radians(0.703125) / self.level
+
+    @property
+    def divisions_per_size(self) -> float:
+        return 100.0 * self.level
+
+    @property
+    def divisions_per_perimeter(self) -> float:
+        return 60.0 * self.level
+
+    @property
+    def gap_fraction(self) -> float:
+        return 0.5 / self.level
+
+    @property
+    def corner_fraction(self) -> float:
+        # Floored so that the smallest panels stay far above round-off at very fine levels.
+        return max(1e-3 * 10.0 ** (-2.0 * self.level), 1e-9)
+
+    @property
+    def growth_ratio(self) -> float:
+        return 1.0 + 0.3 / self.level
+
+    @classmethod
+    def for_density(cls, density: str) -> "MeshSettings":
+        return cls(DENSITY_LEVELS[density])
+
+
+def graded_panels(length: float, h_start: float, h_end: float, h_max: float, ratio: float) -> np.ndarray:
+    """Break points (ascending, 0 to ``length``) of panels graded from both ends.
+
+    Panels start at ``h_start`` and ``h_end`` at the two ends, grow by ``ratio`` per panel
+    and are at most ``h_max`` in between. Sizes are finally scaled to fit ``length`` exactly.
+    """
+    h_start, h_end = min(h_start, h_max), min(h_end, h_max)
+    left, right = [h_start], [h_end]
+    while left[-1] * ratio < h_max:
+        left.append(left[-1] * ratio)
+    while right[-1] * ratio < h_max:
+        right.append(right[-1] * ratio)
+    if sum(left) + sum(right) <= length:
+        n_mid = max(0, round((length - sum(left) - sum(right)) / h_max))
+        sizes = left + [h_max] * n_mid + right[::-1]
+    else:
+        # The two graded runs meet before reaching h_max: take the smaller next size each time.
+        left, right, total = [], [], 0.0
+        a, b = h_start, h_end
+        last = left
+        while total < length:
+            if a <= b:
+                left.append(a)
+                total, a, last = total + a, a * ratio, left
+            else:
+                right.append(b)
+                total, b, last = total + b, b * ratio, right
+        if total - length > 0.5 * last[-1] and len(left) + len(right) > 1:
+            last.pop()
+        sizes = left + right[::-1]
+    sizes_arr = np.asarray(sizes, dtype=float)
+    sizes_arr *= length / sizes_arr.sum()
+    return np.concatenate([[0.0], np.cumsum(sizes_arr)])
+
+
+def _vertex_angles(points: np.ndarray, closed: bool) -> tuple[np.ndarray, np.ndarray]:
+    """Turning angle at each vertex (rad, left turn positive) and the field-side opening angle.
+
+    For a closed ring with material on the left, the field region at a vertex opens by
+    beta = pi + turn (a convex corner of the conductor turns left, so beta > pi).
+    For a strip, vertices have field on both sides; beta is the larger of the two openings,
+    and the free ends have beta = 2 pi.
+    """
+    n = len(points)
+    turn = np.zeros(n)
+    if closed:
+        a = points - np.roll(points, 1, axis=0)
+        b = np.roll(points, -1, axis=0) - points
+        turn = np.arctan2(a[:, 0] * b[:, 1] - a[:, 1] * b[:, 0], np.einsum("ij,ij->i", a, b))
+        beta = math.pi + turn
+    else:
+        a = points[1:-1] - points[:-2]
+        b = points[2:] - points[1:-1]
+        turn[1:-1] = np.arctan2(a[:, 0] * b[:, 1] - a[:, 1] * b[:, 0], np.einsum("ij,ij->i", a, b))
+        beta = math.pi + np.abs(turn)
+        beta[0] = beta[-1] = 2 * math.pi
+    return turn, beta
+
+
+@dataclass(frozen=True)
+class PanelMesh:
+    """Straight panels with constant surface charge density on each, in metres.
+
+    Attributes
+    ----------
+    starts, ends : (n, 2) float arrays, panel end points.
+    conductor_index : (n,) int, index into the model's conductors.
+    ring_index : (n,) int, which boundary ring the panel lies on.
+    is_strip : (n,) bool, True for panels on zero-thickness strips (charge on both sides).
+    arc_length_m : (n,) float, distance along the conductor's boundary to the midpoint (rings
+        of one conductor follow each other in order).
+    corner_points : (k, 2) float, sharp corners and free edges (field singular there).
+    corner_conductor : (k,) int, the conductor of each corner point.
+    corner_opening_rad : (k,) float, opening angle beta of the field region at each corner.
+    settings : MeshSettings used to build the mesh.
+    """
+
+    starts: np.ndarray
+    ends: np.ndarray
+    conductor_index: np.ndarray
+    ring_index: np.ndarray
+    is_strip: np.ndarray
+    arc_length_m: np.ndarray
+    corner_points: np.ndarray
+    corner_conductor: np.ndarray
+    corner_opening_rad: np.ndarray
+    settings: MeshSettings = field(default_factory=MeshSettings)
+    model: Model | None = field(default=None, compare=False, repr=False)
+
+    @property
+    def n_panels(self) -> int:
+        return len(self.starts)
+
+    @cached_property
+    def midpoints(self) -> np.ndarray:
+        """(n, 2) panel midpoints, the collocation points, metres."""
+        return 0.5 * (self.starts + self.ends)
+
+    @cached_property
+    def lengths(self) -> np.ndarray:
+        """(n,) panel lengths, metres."""
+        return np.hypot(*(self.ends - self.starts).T)
+
+    @cached_property
+    def tangents(self) -> np.ndarray:
+        """(n, 2) unit tangents in the direction start -> end."""
+        return (self.ends - self.starts) / self.lengths[:, None]
+
+    @cached_property
+    def normals(self) -> np.ndarray:
+        """(n, 2) unit normals pointing out of the conductor into the field (right-hand)."""
+        t = self.tangents
+        return np.column_stack([t[:, 1], -t[:, 0]])
+
+    @cached_property
+    def distance_to_corner_m(self) -> np.ndarray:
+        """(n,) distance from each midpoint to the nearest sharp corner of its conductor (inf if none)."""
+        out = np.full(self.n_panels, np.inf)
+        for k in np.unique(self.corner_conductor):
+            mine = self.conductor_index == k
+            pts = self.corner_points[self.corner_conductor == k]
+            d = np.hypot(*(self.midpoints[mine][:, None, :] - pts[None, :, :]).transpose(2, 0, 1))
+            out[mine] = d.min(axis=1)
+        return out
+
+    def refined(self, factor: float = 2.0) -> "PanelMesh":
+        """A mesh of the same model at ``factor`` times the resolution level."""
+        if self.model is None:
+            raise ValueError("This mesh was not built from a model and cannot be refined.")
+        return discretize_boundary(self.model, MeshSettings(self.settings.level * factor))
+
+
+def _conductor_h_max(model: Model, geoms: list, settings: MeshSettings) -> list[float]:
+    """Longest panel allowed on each conductor (metres)."""
+    import shapely
+
+    bounds = np.array([g.bounds for g in geoms])
+    lo, hi = bounds[:, :2].min(axis=0), bounds[:, 2:].max(axis=0)
+    if model.ground_plane is not None:
+        lo[1] = min(lo[1], model.ground_plane.y * model.metres_per_unit)
+    size = float(np.hypot(*(hi - lo)))
+    h_global = size / settings.divisions_per_size
+    out = []
+    for i, g in enumerate(geoms):
+        h = min(h_global, g.length / settings.divisions_per_perimeter)
+        gaps = [shapely.distance(g, other) for j, other in enumerate(geoms) if j != i]
+        if model.ground_plane is not None:
+            gaps.append(2.0 * (g.bounds[1] - model.ground_plane.y * model.metres_per_unit))
+        if gaps:
+            h = min(h, settings.gap_fraction * min(gaps))
+        out.append(h)
+    return out
+
+
+def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> PanelMesh:
+    """Divide every conductor boundary of ``model`` into straight, graded panels.
+
+    Parameters
+    ----------
+    model : Model
+        The cross-section; lengths are converted to metres.
+    settings : MeshSettings, optional
+        Resolution; by default from ``model.mesh_density``.
+
+    Returns
+    -------
+    PanelMesh
+    """
+    settings = settings or MeshSettings.for_density(model.mesh_density)
+    geoms = conductor_geometries(model, settings.arc_step_rad)
+    h_max_by_conductor = _conductor_h_max(model, geoms, settings)
+    rings: list[BoundaryRing] = []
+    for k, g in enumerate(geoms):
+        rings.extend(boundary_rings(k, g))
+
+    starts, ends, cond, ring_idx, strip, arc = [], [], [], [], [], []
+    corners, corner_cond, corner_beta = [], [], []
+    travelled_by_conductor: dict[int, float] = {}
+    for r, ring in enumerate(rings):
+        h_max = h_max_by_conductor[ring.conductor_index]
+        h_corner = h_max * settings.corner_fraction
+        pts = ring.points
+        turn, beta = _vertex_angles(pts, ring.closed)
+        is_corner = np.abs(turn) > CORNER_TURN_RAD
+        if not ring.closed:
+            is_corner[0] = is_corner[-1] = True
+        singular = is_corner & (beta > math.pi + CORNER_TURN_RAD)
+        corners.extend(pts[singular])
+        corner_cond.extend([ring.conductor_index] * int(singular.sum()))
+        corner_beta.extend(beta[singular])
+
+        n_edges = len(pts) if ring.closed else len(pts) - 1
+        edge_vec = np.roll(pts, -1, axis=0)[:n_edges] - pts[:n_edges] if ring.closed else np.diff(pts, axis=0)
+        edge_len = np.hypot(*edge_vec.T)
+        travelled = travelled_by_conductor.get(ring.conductor_index, 0.0)
+        for e in range(n_edges):
+            p, q = pts[e], pts[(e + 1) % len(pts)]
+            v_start, v_end = e, (e + 1) % len(pts)
+            prev_len = edge_len[e - 1] if (ring.closed or e > 0) else h_corner
+            next_len = edge_len[(e + 1) % n_edges] if (ring.closed or e < n_edges - 1) else h_corner
+            h_s = h_corner if is_corner[v_start] else min(h_max, prev_len)
+            h_e = h_corner if is_corner[v_end] else min(h_max, next_len)
+            breaks = graded_panels(edge_len[e], h_s, h_e, h_max, settings.growth_ratio)
+            t = breaks / edge_len[e]
+            seg = p[None, :] + t[:, None] * (q - p)[None, :]
+            starts.append(seg[:-1])
+            ends.append(seg[1:])
+            m = len(t) - 1
+            cond.append(np.full(m, ring.conductor_index))
+            ring_idx.append(np.full(m, r))
+            strip.append(np.full(m, not ring.closed))
+            arc.append(travelled + 0.5 * (breaks[:-1] + breaks[1:]))
+            travelled += edge_len[e]
+        travelled_by_conductor[ring.conductor_index] = travelled
+
+    return PanelMesh(
+        starts=np.concatenate(starts),
+        ends=np.concatenate(ends),
+        conductor_index=np.concatenate(cond).astype(int),
+        ring_index=np.concatenate(ring_idx).astype(int),
+        is_strip=np.concatenate(strip).astype(bool),
+        arc_length_m=np.concatenate(arc),
+        corner_points=np.asarray(corners, dtype=float).reshape(-1, 2),
+        corner_conductor=np.asarray(corner_cond, dtype=int),
+        corner_opening_rad=np.asarray(corner_beta, dtype=float),
+        settings=settings,
+        model=model,
+    )

@@ -1,0 +1,25 @@
+"""What the user drew: shapes, conductors, dielectric regions, materials and their geometry.
+
+The lowest layer of the solver: it imports nothing from the other stages.
+"""
+
+from solver.model.model import (
+    LENGTH_UNITS,
+    MESH_DENSITIES,
+    ROLES,
+    Circle,
+    Conductor,
+    Dielectric,
+    GroundPlane,
+    Model,
+    Polygon,
+    Rectangle,
+    Ring,
+    Shape,
+    Strip,
+)
+
+__all__ = [
+    "LENGTH_UNITS", "MESH_DENSITIES", "ROLES", "Circle", "Conductor", "Dielectric", "GroundPlane",
+    "Model", "Polygon", "Rectangle", "Ring", "Shape", "Strip",
+]
