@@ -13,7 +13,6 @@ import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
 
-from . import shapes
 from .document import PartRef
 from .drawing import cosmetic_pen, dielectric_item, shape_item
 from .error_marks import ErrorMarks
@@ -121,14 +120,15 @@ class Canvas(pg.PlotWidget):
         selected = self.document.selection
         for i, d in enumerate(model.dielectrics):
             for j, s in enumerate(d.shapes):
-                item = dielectric_item(s, d.eps_r)
+                item = dielectric_item(s, d.eps_r, f"Dielectric '{d.name}', shape {j + 1} ({s.kind})")
                 if selected == PartRef("dielectric", i, j):
                     item.setPen(cosmetic_pen("#111111", 2.5))
                 self._add_part(item, 5)
         for i, c in enumerate(model.conductors):
             for j, s in enumerate(c.shapes):
                 sel = selected == PartRef("conductor", i, j)
-                self._add_part(shape_item(s, c.color or "#808080", selected=sel), 20)
+                self._add_part(shape_item(s, c.color or "#808080", selected=sel,
+                                          where=f"Conductor '{c.name}', shape {j + 1} ({s.kind})"), 20)
         if model.ground_plane is not None:
             sel = selected == PartRef("plane")
             line = pg.InfiniteLine(pos=model.ground_plane.y, angle=0,
@@ -156,7 +156,7 @@ class Canvas(pg.PlotWidget):
             return
         from .edits import shape_of
 
-        pts = np.asarray(shapes.handles(shape_of(self.document.model, ref)))
+        pts = np.asarray(shape_of(self.document.model, ref).handles())
         self._handles.setData(pts[:, 0], pts[:, 1])
 
     def part_at(self, raw) -> PartRef | None:
@@ -166,7 +166,7 @@ class Canvas(pg.PlotWidget):
         best, best_d = None, tol
         for i, c in enumerate(model.conductors):
             for j, s in enumerate(c.shapes):
-                d = shapes.distance(s, *raw)
+                d = s.distance_to(*raw)
                 if d <= best_d:
                     best, best_d = PartRef("conductor", i, j), d
                     if d == 0:
@@ -176,7 +176,7 @@ class Canvas(pg.PlotWidget):
         if best is None:
             for i, d in enumerate(model.dielectrics):
                 for j, s in enumerate(d.shapes):
-                    if shapes.distance(s, *raw) <= tol:
+                    if s.distance_to(*raw) <= tol:
                         return PartRef("dielectric", i, j)
         return best
 
@@ -187,7 +187,7 @@ class Canvas(pg.PlotWidget):
             return None
         from .edits import shape_of
 
-        pts = np.asarray(shapes.handles(shape_of(self.document.model, ref)))
+        pts = np.asarray(shape_of(self.document.model, ref).handles())
         d = np.hypot(pts[:, 0] - raw[0], pts[:, 1] - raw[1])
         i = int(np.argmin(d))
         return i if d[i] <= 7 * self.pixel_size() else None

@@ -14,7 +14,7 @@ from PySide6.QtWidgets import QFileDialog, QMessageBox, QToolBar
 
 from solver import Model, SolverError
 
-from . import edits, exports, files, shapes
+from . import edits, exports, files
 from .document import PartRef
 from .report import write_report_pdf
 from .tools import TOOLS
@@ -222,7 +222,7 @@ class Commands:
         ref = self.doc.selection
         if ref is None or ref.kind != "conductor":
             return
-        x0, y0, x1, y1 = shapes.bounds(edits.shape_of(self.doc.model, ref))
+        x0, y0, x1, y1 = edits.shape_of(self.doc.model, ref).bounds()
         model, new_ref = edits.duplicate_part(self.doc.model, ref, 1.2 * (x1 - x0), 0.0)
         if self.doc.apply(model, "Duplicate"):
             self.doc.select(new_ref)

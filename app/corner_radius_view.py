@@ -18,7 +18,6 @@ from PySide6.QtWidgets import (QComboBox, QFileDialog, QHBoxLayout, QLabel, QLin
 
 import solver
 
-from . import shapes
 from .figure_jobs import FigureJobRunner
 from .matrices_view import CopyableTable
 
@@ -34,7 +33,7 @@ def field_unit(values_V_per_m) -> tuple[float, str]:
 
 def default_radii(model, conductor: str) -> list[float]:
     """Sensible corner radii (model unit) for ``conductor``: fractions of its smaller side."""
-    boxes = [shapes.bounds(s) for s in model.conductor(conductor).shapes]
+    boxes = [s.bounds() for s in model.conductor(conductor).shapes]
     x0, y0 = min(b[0] for b in boxes), min(b[1] for b in boxes)
     x1, y1 = max(b[2] for b in boxes), max(b[3] for b in boxes)
     side = min(x1 - x0, y1 - y0) or max(x1 - x0, y1 - y0)

@@ -7,9 +7,9 @@ import math
 
 from PySide6.QtCore import Qt
 
-from solver import Polygon, Ring, Strip
+from solver import Circle, Polygon, Rectangle, Ring, Strip
 
-from . import edits, shapes
+from . import edits
 from .document import PartRef
 from .tool_base import XY, Tool
 
@@ -38,7 +38,7 @@ class _DragTool(Tool):
         if start is None:
             return
         shape = self.make(start, pos)
-        x0, y0, x1, y1 = shapes.bounds(shape)
+        x0, y0, x1, y1 = shape.bounds()
         if not (x1 - x0 > 0 and y1 - y0 > 0):  # also catches the NaN bounds of an empty shape
             self.canvas.report_problem(f"Drag to give the {self.name} a size.")
             return
@@ -54,7 +54,7 @@ class RectangleTool(_DragTool):
     hint = "Drag from one corner to the opposite corner. Type the corner radius in the properties."
 
     def make(self, a, b):
-        return shapes.rectangle_from_corners(a, b)
+        return Rectangle.from_corners(a, b)
 
 
 class CircleTool(_DragTool):
@@ -62,7 +62,7 @@ class CircleTool(_DragTool):
     hint = "Drag from the centre outwards to set the radius."
 
     def make(self, a, b):
-        return shapes.circle_from_drag(a, b)
+        return Circle.from_centre_and_edge(a, b)
 
 
 class TubeTool(_DragTool):
@@ -79,7 +79,7 @@ class DielectricTool(_DragTool):
     hint = "Drag a rectangle of insulating material (FR-4 at first); choose the material or type εr in the properties."
 
     def make(self, a, b):
-        return shapes.rectangle_from_corners(a, b)
+        return Rectangle.from_corners(a, b)
 
     def _add(self, shape, description: str) -> None:
         model, ref = edits.add_dielectric(self.doc.model, shape)

@@ -4,44 +4,32 @@ from __future__ import annotations
 
 import math
 
-from PySide6.QtCore import QPointF, QRectF, Qt
+from PySide6.QtCore import QPointF, Qt
 from PySide6.QtGui import QBrush, QColor, QPainterPath, QPen
 from PySide6.QtWidgets import QGraphicsPathItem
 
-from solver import Circle, Polygon, Rectangle, Ring, Shape, Strip
+from solver import Shape
 
 #: Fill colours of dielectric regions, from eps_r = 1 (lightest) upwards.
 DIELECTRIC_TINT = QColor(214, 196, 120)
 
+#: Outline colour of a shape the solver rejects.
+INVALID_COLOR = QColor("#d00000")
+
 
 def shape_path(shape: Shape) -> QPainterPath:
-    """A QPainterPath of the shape (odd-even fill, so rings and holes stay open)."""
+    """A QPainterPath of the shape's outline as the solver builds it (odd-even fill, so rings
+    and holes stay open); an invalid shape is drawn as the user gave it, never repaired."""
     path = QPainterPath()
     path.setFillRule(Qt.OddEvenFill)
-    if isinstance(shape, Circle):
-        r = shape.radius
-        path.addEllipse(QPointF(*shape.center), r, r)
-    elif isinstance(shape, Ring):
-        for r in (shape.outer_radius, shape.inner_radius):
-            path.addEllipse(QPointF(*shape.center), r, r)
-    elif isinstance(shape, Rectangle):
-        cx, cy = shape.center
-        rect = QRectF(cx - shape.width / 2, cy - shape.height / 2, shape.width, shape.height)
-        r = min(shape.corner_radius, 0.5 * min(shape.width, shape.height))
-        if r > 0:
-            path.addRoundedRect(rect, r, r)
-        else:
-            path.addRect(rect)
-    elif isinstance(shape, Polygon):
-        for ring in (shape.exterior, *shape.holes):
-            path.moveTo(QPointF(*ring[0]))
-            for p in ring[1:]:
-                path.lineTo(QPointF(*p))
-            path.closeSubpath()
-    elif isinstance(shape, Strip):
-        path.moveTo(QPointF(*shape.points[0]))
-        for p in shape.points[1:]:
+    for ring in shape.outline():
+        if len(ring) == 0:
+            continue
+        path.moveTo(QPointF(*ring[0]))
+        for p in ring[1:]:
             path.lineTo(QPointF(*p))
+        if shape.is_solid:
+            path.closeSubpath()
     return path
 
 
@@ -52,12 +40,26 @@ def cosmetic_pen(color, width: float = 1.5, style=Qt.SolidLine) -> QPen:
     return pen
 
 
+def mark_if_invalid(item: QGraphicsPathItem, shape: Shape, where: str | None = None) -> str | None:
+    """Outline ``item`` in red dashes with the solver's message as its tooltip when ``shape``
+    is invalid; returns the message (None for a valid shape)."""
+    problem = shape.problem(where)
+    if problem is not None:
+        item.setPen(cosmetic_pen(INVALID_COLOR, 2.5, Qt.DashLine))
+        item.setToolTip(problem)
+    return problem
+
+
 def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int = 150,
-               dashed: bool = False) -> QGraphicsPathItem:
-    """A filled, outlined item for a conductor shape (strips drawn as thick lines)."""
+               dashed: bool = False, where: str | None = None) -> QGraphicsPathItem:
+    """A filled, outlined item for a conductor shape (strips drawn as thick lines).
+
+    An invalid shape gets a red dashed outline and the solver's message as its tooltip
+    (``where`` names it there, e.g. "Conductor 'bar', shape 2 (polygon)").
+    """
     item = QGraphicsPathItem(shape_path(shape))
     base = QColor(color)
-    strip = isinstance(shape, Strip)
+    strip = not shape.is_solid
     width = 4.0 if strip else (2.5 if selected else 1.5)
     outline = QColor("#111111") if selected else base.darker(150)
     if strip:
@@ -67,14 +69,17 @@ def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int =
         fill = QColor(base)
         fill.setAlpha(alpha)
         item.setBrush(QBrush(fill))
+    mark_if_invalid(item, shape, where)
     return item
 
 
-def dielectric_item(shape: Shape, eps_r: float) -> QGraphicsPathItem:
-    """A plain fill for a dielectric region, darker for higher relative permittivity."""
+def dielectric_item(shape: Shape, eps_r: float, where: str | None = None) -> QGraphicsPathItem:
+    """A plain fill for a dielectric region, darker for higher relative permittivity (marked
+    like :func:`shape_item` when invalid)."""
     item = QGraphicsPathItem(shape_path(shape))
     fill = QColor(DIELECTRIC_TINT)
     fill.setAlpha(int(min(60 + 25 * math.log2(max(eps_r, 1.0)), 200)))
     item.setBrush(QBrush(fill))
     item.setPen(cosmetic_pen(DIELECTRIC_TINT.darker(160), 1.0, Qt.DashLine))
+    mark_if_invalid(item, shape, where)
     return item

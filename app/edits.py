@@ -10,7 +10,6 @@ from dataclasses import replace
 
 from solver import Conductor, GroundPlane, InvalidModelError, Model, Shape, dielectric_of
 
-from . import shapes
 from .document import PartRef
 
 #: Colours given to new conductors in turn (our own palette).
@@ -83,7 +82,7 @@ def move_part(model: Model, ref: PartRef, dx: float, dy: float) -> Model:
     """A copy with the part at ``ref`` moved by (dx, dy) model units (the plane moves in y)."""
     if ref.kind == "plane":
         return set_ground_plane(model, model.ground_plane.y + dy)
-    return replace_shape(model, ref, shapes.translated(shape_of(model, ref), dx, dy))
+    return replace_shape(model, ref, shape_of(model, ref).translated(dx, dy))
 
 
 def delete_part(model: Model, ref: PartRef) -> Model:
@@ -102,7 +101,7 @@ def delete_part(model: Model, ref: PartRef) -> Model:
 
 def duplicate_part(model: Model, ref: PartRef, dx: float, dy: float) -> tuple[Model, PartRef]:
     """A copy with the shape at ``ref`` repeated, moved by (dx, dy), as a new conductor."""
-    shape = shapes.translated(shape_of(model, ref), dx, dy)
+    shape = shape_of(model, ref).translated(dx, dy)
     source = model.conductors[ref.index] if ref.kind == "conductor" else None
     new, new_ref = add_conductor(model, shape, source.potential_V if source else 0.0)
     if source is not None:
@@ -177,8 +176,8 @@ def align_to(model: Model, ref: PartRef, other: PartRef, how: str) -> Model:
 
     ``how`` is "centre x", "centre y", "left", "right", "top" or "bottom".
     """
-    a = shapes.bounds(shape_of(model, ref))
-    b = shapes.bounds(shape_of(model, other))
+    a = shape_of(model, ref).bounds()
+    b = shape_of(model, other).bounds()
     dx = dy = 0.0
     if how == "centre x":
         dx = (b[0] + b[2]) / 2 - (a[0] + a[2]) / 2

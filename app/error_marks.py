@@ -7,7 +7,6 @@ import textwrap
 import pyqtgraph as pg
 from PySide6.QtCore import QPointF, Qt
 
-from . import shapes
 from .drawing import cosmetic_pen, shape_item
 
 
@@ -31,10 +30,10 @@ class ErrorMarks:
                 self._add(item, 70)
         anchor = None
         if names and names[0] in model.conductor_names:
-            x0, y0, x1, y1 = shapes.bounds(model.conductor(names[0]).shapes[0])
+            x0, y0, x1, y1 = model.conductor(names[0]).shapes[0].bounds()
             anchor = (x1, y1)
-        elif shapes.model_bounds(model) is not None:
-            x0, y0, x1, y1 = shapes.model_bounds(model)
+        elif model.bounds() is not None:
+            x0, y0, x1, y1 = model.bounds()
             anchor = (x0, y1)
         if anchor is not None:
             text = pg.TextItem("\n".join(textwrap.wrap(message, 60)), color="#7a0000",

@@ -8,7 +8,6 @@ from __future__ import annotations
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import QTreeWidget, QTreeWidgetItem
 
-from . import shapes
 from .document import PartRef
 
 ROLE_TEXT = {"fixed": "{v:g} V", "floating": "floating, {q:g} C/m", "reference": "reference, 0 V"}
@@ -39,12 +38,12 @@ class PartsList(QTreeWidget):
             self._items[PartRef("conductor", i, 0)] = top
             if len(c.shapes) > 1:
                 for j, s in enumerate(c.shapes):
-                    child = QTreeWidgetItem([shapes.describe(s, model.unit), ""])
+                    child = QTreeWidgetItem([s.describe(model.unit), ""])
                     top.addChild(child)
                     self._items[PartRef("conductor", i, j)] = child
                 top.setExpanded(True)
             else:
-                top.setText(1, f"{value}  ({shapes.describe(c.shapes[0], model.unit)})")
+                top.setText(1, f"{value}  ({c.shapes[0].describe(model.unit)})")
         for i, d in enumerate(model.dielectrics):
             item = QTreeWidgetItem([d.name, f"εr = {d.eps_r:g}"])
             self.addTopLevelItem(item)

@@ -12,18 +12,10 @@ from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (QColorDialog, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit,
                                QPushButton, QVBoxLayout, QWidget)
 
-from solver import LENGTH_UNITS, MESH_DENSITIES, Circle, Polygon, Rectangle, Ring, SolverError, Strip, material, material_names
+from solver import LENGTH_UNITS, MESH_DENSITIES, Shape, SolverError, material, material_names
 
 from . import edits
 
-SHAPE_FIELDS = {
-    Circle: (("centre x", "cx"), ("centre y", "cy"), ("radius", "radius")),
-    Ring: (("centre x", "cx"), ("centre y", "cy"), ("inner radius", "inner_radius"), ("outer radius", "outer_radius")),
-    Rectangle: (("centre x", "cx"), ("centre y", "cy"), ("width", "width"), ("height", "height"),
-                ("corner radius", "corner_radius")),
-    Polygon: (("vertices x, y; ...", "points"),),
-    Strip: (("points x, y; ...", "points"),),
-}
 ROLE_LABELS = {"fixed": "fixed potential", "floating": "floating (net charge)", "reference": "reference (0 V)"}
 
 
@@ -40,29 +32,62 @@ def _parse_points(text: str):
     return tuple(pts)
 
 
-def shape_values(shape) -> dict[str, str]:
-    if isinstance(shape, (Polygon, Strip)):
-        return {"points": _points_text(shape.exterior if isinstance(shape, Polygon) else shape.points)}
-    values = {"cx": shape.center[0], "cy": shape.center[1]}
-    for _, key in SHAPE_FIELDS[type(shape)][2:]:
-        values[key] = getattr(shape, key)
-    return {k: f"{v:g}" for k, v in values.items()}
+def _label(name: str) -> str:
+    return name.replace("_", " ").replace("center", "centre")
 
 
-def shape_from_values(kind, values: dict[str, str], old):
-    """Build a shape of class ``kind`` from field texts (ValueError on a bad number)."""
-    if kind is Polygon:
-        return Polygon(_parse_points(values["points"]), old.holes)
-    if kind is Strip:
-        return Strip(_parse_points(values["points"]))
-    nums = {k: float(v) for k, v in values.items()}
-    for key, v in nums.items():
-        if key not in ("cx", "cy", "corner_radius") and not v > 0:
-            raise ValueError(f"{key.replace('_', ' ')} is {v:g}; it must be greater than 0.")
-    if nums.get("corner_radius", 0.0) < 0:
-        raise ValueError("corner radius must not be negative.")
-    center = (nums.pop("cx"), nums.pop("cy"))
-    return kind(center, **nums)
+def shape_fields(shape: Shape) -> tuple[tuple[str, str], ...]:
+    """(label, key) of each editable field of ``shape``, from its project-file form.
+
+    A number is one field; a point is two (``cx``/``cy`` for ``center``); a vertex list is one
+    text field "x, y; x, y; ..." (key ``points``). Lists of vertex lists (holes) are kept as they are.
+    """
+    out: list[tuple[str, str]] = []
+    for name, value in shape.to_dict().items():
+        if name == "kind":
+            continue
+        if isinstance(value, (int, float)):
+            out.append((_label(name), name))
+        elif _is_point(value):
+            out += [(f"{_label(name)} x", f"{name[0]}x"), (f"{_label(name)} y", f"{name[0]}y")]
+        elif value and all(_is_point(p) for p in value):
+            out.append(("vertices x, y; ..." if shape.is_solid else "points x, y; ...", "points"))
+    return tuple(out)
+
+
+def _is_point(value) -> bool:
+    return isinstance(value, list) and len(value) == 2 and all(isinstance(v, (int, float)) for v in value)
+
+
+def shape_values(shape: Shape) -> dict[str, str]:
+    """Field texts of ``shape`` by key (see :func:`shape_fields`)."""
+    out: dict[str, str] = {}
+    for name, value in shape.to_dict().items():
+        if isinstance(value, (int, float)) and name != "kind":
+            out[name] = f"{value:g}"
+        elif _is_point(value):
+            out[f"{name[0]}x"], out[f"{name[0]}y"] = f"{value[0]:g}", f"{value[1]:g}"
+        elif isinstance(value, list) and value and all(_is_point(p) for p in value):
+            out["points"] = _points_text(value)
+    return out
+
+
+def shape_from_values(values: dict[str, str], old: Shape) -> Shape:
+    """A shape of ``old``'s kind with the typed field texts (ValueError on a bad number, the
+    solver's message when the result is not a valid shape)."""
+    data = old.to_dict()
+    for name, value in list(data.items()):
+        if isinstance(value, (int, float)) and name in values:
+            data[name] = float(values[name])
+        elif _is_point(value) and f"{name[0]}x" in values:
+            data[name] = [float(values[f"{name[0]}x"]), float(values[f"{name[0]}y"])]
+        elif isinstance(value, list) and value and all(_is_point(p) for p in value) and "points" in values:
+            data[name] = [list(p) for p in _parse_points(values["points"])]
+    shape = Shape.from_dict(data)
+    problem = shape.problem(f"The {shape.kind}")
+    if problem is not None:
+        raise ValueError(problem)
+    return shape
 
 
 class PropertiesPanel(QWidget):
@@ -118,14 +143,28 @@ class PropertiesPanel(QWidget):
             combo.setCurrentText(text)
             combo.blockSignals(False)
         self._refresh_part()
+        self._show_shape_problem()
 
     def _on_selection_changed(self, ref) -> None:
         self.show_problem("")
         self._refresh_part()
+        self._show_shape_problem()
+
+    def _show_shape_problem(self) -> None:
+        """An invalid selected shape is shown with the solver's reason (it is never repaired)."""
+        ref, model = self.document.selection, self.document.model
+        if ref is None or ref.kind == "plane":
+            return
+        part = (model.conductors if ref.kind == "conductor" else model.dielectrics)[ref.index]
+        shape = edits.shape_of(model, ref)
+        problem = shape.problem(f"{ref.kind.capitalize()} '{part.name}', shape {ref.shape + 1} ({shape.kind})")
+        if problem is not None:
+            self.show_problem(problem)
 
     def _refresh_part(self) -> None:
         ref, model = self.document.selection, self.document.model
-        key = None if ref is None else (ref.kind, type(edits.shape_of(model, ref)) if ref.kind != "plane" else None)
+        shape = None if ref is None or ref.kind == "plane" else edits.shape_of(model, ref)
+        key = None if ref is None else (ref.kind, None if shape is None else (shape.kind, shape_fields(shape)))
         if key != self._form_key:
             self._build_form(key)
         if ref is None:
@@ -173,12 +212,12 @@ class PropertiesPanel(QWidget):
         if key is None:
             self.part_box.setTitle("Selected part (click a part on the drawing)")
             return
-        kind, shape_cls = key
+        kind, shape_key = key
         if kind == "plane":
             self.part_box.setTitle("Ground plane (0 V)")
             self._add_field("plane_y", f"height y ({unit})", self._on_plane_edited)
             return
-        self.part_box.setTitle(f"Selected {kind}: {shape_cls.kind}")
+        self.part_box.setTitle(f"Selected {kind}: {shape_key[0]}")
         if kind == "conductor":
             self._add_field("name", "conductor name", lambda: self._edit_conductor(name=self.fields["name"].text()))
             self.role_combo = QComboBox()
@@ -200,7 +239,7 @@ class PropertiesPanel(QWidget):
             self.material_combo.activated.connect(self._on_material_chosen)
             self.part_form.addRow("material", self.material_combo)
             self._add_field("eps_r", "relative permittivity εr", self._on_eps_r_edited)
-        for label, field in SHAPE_FIELDS[shape_cls]:
+        for label, field in shape_key[1]:
             self._add_field(field, f"{label} ({unit})", self._on_shape_edited)
 
     def _add_field(self, key: str, label: str, handler) -> None:
@@ -300,6 +339,6 @@ class PropertiesPanel(QWidget):
         if ref is None or ref.kind == "plane":
             return
         old = edits.shape_of(self.document.model, ref)
-        values = {key: self.fields[key].text() for _, key in SHAPE_FIELDS[type(old)]}
-        self._apply(lambda: edits.replace_shape(self.document.model, ref, shape_from_values(type(old), values, old)),
+        values = {key: self.fields[key].text() for _, key in shape_fields(old)}
+        self._apply(lambda: edits.replace_shape(self.document.model, ref, shape_from_values(values, old)),
                     "Change shape")

@@ -9,7 +9,7 @@ from pathlib import Path
 from PySide6.QtCore import QMarginsF, QUrl
 from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
 
-from . import cautions, shapes
+from . import cautions
 from .safety_views import PART_LENGTH_KEY, caution_for
 from .units import format_field, format_si
 
@@ -65,7 +65,7 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
                      f"{html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, ''))}</p>")
     length = settings_model.extras.get(PART_LENGTH_KEY)
     parts.append("<p><b>What 2-D cannot tell.</b> "
-                 + html.escape(cautions.length_caveat(length, shapes.largest_dimension(model), model.unit)) + " "
+                 + html.escape(cautions.length_caveat(length, model.largest_dimension(), model.unit)) + " "
                  + " ".join(html.escape(t) for t in cautions.TWO_D_LIMITS) + "</p>")
     parts.append(f"<p style='border:1px solid #8a6d00'><b>{html.escape(cautions.STANDING_STATEMENT)}</b></p>")
     return "<html><body style='font-size:7pt'>" + "".join(parts) + "</body></html>"

@@ -15,7 +15,6 @@ import numpy as np
 import solver
 from solver import GridField, Model, Solution, SolveCancelled
 
-from . import shapes
 
 logger = logging.getLogger(__name__)
 
@@ -42,7 +41,7 @@ class Results:
 
 def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, float]:
     """(xmin, ymin, xmax, ymax) in model units around the model, with a margin."""
-    box = shapes.model_bounds(model) or (-50.0, -30.0, 50.0, 50.0)  # an empty drawing: a 100-unit field
+    box = model.bounds() or (-50.0, -30.0, 50.0, 50.0)  # an empty drawing: a 100-unit field
     x0, y0, x1, y1 = box
     if model.ground_plane is not None:
         y0 = min(y0, model.ground_plane.y)

@@ -11,7 +11,7 @@ from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidg
 
 from solver import SolverError
 
-from . import cautions, edits, shapes
+from . import cautions, edits
 from .units import format_si
 
 PART_LENGTH_KEY = "part_length"
@@ -94,7 +94,7 @@ class CaveatsView(QWidget):
         self.length_edit.blockSignals(True)
         self.length_edit.setText("" if length is None else f"{length:g}")
         self.length_edit.blockSignals(False)
-        self.verdict.setText(cautions.length_caveat(length, shapes.largest_dimension(model), model.unit))
+        self.verdict.setText(cautions.length_caveat(length, model.largest_dimension(), model.unit))
         self._show_totals()
 
     def show_results(self, results) -> None:

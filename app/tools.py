@@ -7,9 +7,7 @@ A tool receives positions in model units (already snapped where that makes sense
 
 from __future__ import annotations
 
-from solver import Polygon, Strip
-
-from . import edits, shapes
+from . import edits
 from .document import PartRef
 from .draw_tools import (CircleTool, DielectricTool, GroundPlaneTool, PolygonTool, ProbeTool, RectangleTool,
                          StripTool, TubeTool)
@@ -44,7 +42,7 @@ class PickTool(Tool):
     def _edited(self, pos):
         model = self.doc.model
         if self._handle is not None:
-            shape = shapes.with_handle_moved(edits.shape_of(model, self._ref), self._handle, *pos)
+            shape = edits.shape_of(model, self._ref).with_handle_moved(self._handle, *pos)
             return edits.replace_shape(model, self._ref, shape), "Resize"
         dx, dy = pos[0] - self._start[0], pos[1] - self._start[1]
         return edits.move_part(model, self._ref, dx, dy), "Move"
@@ -74,13 +72,13 @@ class PickTool(Tool):
         if ref is None or ref.kind == "plane":
             return False
         shape = edits.shape_of(self.doc.model, ref)
-        if not isinstance(shape, (Polygon, Strip)):
+        if not shape.has_vertices:
             return False
         handle = self.canvas.handle_at(raw)
         if handle is not None:
-            new, description = shapes.with_vertex_removed(shape, handle), "Remove vertex"
-        elif shapes.distance(shape, *raw) <= 6 * self.canvas.pixel_size() or isinstance(shape, Polygon):
-            new, description = shapes.with_vertex_inserted(shape, *pos), "Add vertex"
+            new, description = shape.with_vertex_removed(handle), "Remove vertex"
+        elif shape.distance_to(*raw) <= 6 * self.canvas.pixel_size() or shape.is_solid:
+            new, description = shape.with_vertex_inserted(*pos), "Add vertex"
         else:
             return False
         self.doc.apply(edits.replace_shape(self.doc.model, ref, new), description)

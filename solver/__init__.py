@@ -37,6 +37,7 @@ from solver.model.model import (
     Shape,
     Strip,
 )
+from solver.model.shapes import DRAWING_ARC_STEP_RAD, SHAPE_KINDS, Arc, MeshingHints
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
 from solver.bem.solution import PeakField, RegionPeakField, Solution
 from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
@@ -69,6 +70,7 @@ from solver.figures.layers import truncated_layers, truncation_error, widen_unti
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
     "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
+    "SHAPE_KINDS", "Arc", "MeshingHints", "DRAWING_ARC_STEP_RAD",
     "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
     "PeakField", "Solution", "solve", "solve_mesh",
     "EquilibriumCharge", "equilibrium_charge", "equivalent_radius_m",

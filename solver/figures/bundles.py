@@ -21,7 +21,7 @@ import numpy as np
 
 from solver.figures.equilibrium import equivalent_radius_m
 from solver.errors import InvalidModelError
-from solver.model.model import Circle, Model
+from solver.model.model import Model
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings
 
 
@@ -71,12 +71,13 @@ def _regular_bundle(model: Model, names: list[str]) -> tuple[int, float, float] 
     circles = []
     for name in names:
         shapes = model.conductor(name).shapes
-        if len(shapes) != 1 or not isinstance(shapes[0], Circle):
+        disc = shapes[0].disc() if len(shapes) == 1 else None
+        if disc is None:
             return None
-        circles.append(shapes[0])
+        circles.append(disc)
     scale = model.metres_per_unit
-    radii = np.array([c.radius for c in circles]) * scale
-    centres = np.array([c.center for c in circles], dtype=float) * scale
+    radii = np.array([r for _, r in circles]) * scale
+    centres = np.array([c for c, _ in circles], dtype=float) * scale
     n = len(circles)
     if n == 1:
         return 1, float(radii[0]), 0.0

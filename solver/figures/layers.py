@@ -19,7 +19,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from solver.model.model import Model, Rectangle
+from solver.model.model import Model
 from solver.mesh.panels import MeshSettings
 
 #: Width, relative to the span of the signal and floating conductors, from which a
@@ -43,9 +43,9 @@ def truncated_layers(model: Model) -> tuple[str, ...]:
     span = _signal_span(model)
     out = []
     for d in model.dielectrics:
-        if len(d.shapes) == 1 and isinstance(d.shapes[0], Rectangle) and d.shapes[0].corner_radius == 0:
-            if d.shapes[0].width >= LAYER_WIDTH_FACTOR * max(span, d.shapes[0].height):
-                out.append(d.name)
+        size = d.shapes[0].rectangle_size() if len(d.shapes) == 1 else None
+        if size is not None and size[2] == 0 and size[0] >= LAYER_WIDTH_FACTOR * max(span, size[1]):
+            out.append(d.name)
     return tuple(out)
 
 
@@ -54,11 +54,12 @@ def widened(model: Model, factor: float) -> Model:
     names = set(truncated_layers(model))
     if not names:
         return model
-    narrowest = min(d.shapes[0].width for d in model.dielectrics if d.name in names)
+    narrowest = min(d.shapes[0].bounds()[2] - d.shapes[0].bounds()[0] for d in model.dielectrics if d.name in names)
 
     def grow(shape):
-        if isinstance(shape, Rectangle) and shape.width >= narrowest * (1 - 1e-9):
-            return replace(shape, width=shape.width * factor)
+        size = shape.rectangle_size()
+        if size is not None and size[0] >= narrowest * (1 - 1e-9):
+            return shape.widened(factor)
         return shape
 
     return replace(

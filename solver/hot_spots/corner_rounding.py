@@ -5,13 +5,15 @@ field in 2-D: the charge density goes like r^(pi/beta - 1). Real parts are never
 sharp, so the meaningful question is "what is the peak field if this corner has radius rho?".
 :func:`round_sharp_corners` answers it by returning a copy of the model in which
 
-* a rectangle gets ``corner_radius = max(its own, rho)`` (exact arcs, refined with the mesh);
+* a shape that can round itself exactly (a rectangle: ``corner_radius = max(its own, rho)``,
+  exact arcs refined with the mesh; see :meth:`solver.model.shapes.Shape.exactly_rounded`)
+  does so when it is the conductor's only shape;
 * any other solid outline is "opened" with shapely (eroded by rho, then grown by rho), which
   rounds every convex corner to radius rho and leaves concave corners (no singularity) sharp;
 * a zero-thickness strip becomes a bar of thickness 2 rho with round edges (a strip has no
   edge radius without a thickness); this changes the part, and the docstring says so.
 
-Circles and rings have no corners and are left alone. Polygonised arcs are drawn with the
+Shapes without corners (circles, rings: ``Shape.is_smooth``) are left alone. Polygonised arcs are drawn with the
 same angular step the mesher uses at the given resolution ``level`` so they refine with it.
 """
 
@@ -22,13 +24,12 @@ from dataclasses import replace
 from typing import Iterable
 
 import shapely
-from shapely.geometry import LineString, MultiPolygon
+from shapely.geometry import MultiPolygon
 from shapely.geometry import Polygon as ShapelyPolygon
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
-from solver.model.geometry import shape_geometry
-from solver.model.model import Circle, Conductor, Model, Polygon, Rectangle, Ring
+from solver.model.model import Conductor, Model, Polygon
 from solver.mesh.panels import MeshSettings, discretize_boundary
 
 
@@ -63,24 +64,21 @@ def _to_polygons(geom, where: str) -> tuple[Polygon, ...]:
 def _rounded_conductor(conductor: Conductor, radius: float, level: float, replace_radius: bool) -> Conductor:
     """``conductor`` with every convex corner rounded to ``radius`` (model units)."""
     where = f"Conductor '{conductor.name}'"
-    if all(isinstance(s, (Circle, Ring)) for s in conductor.shapes):
+    if all(s.is_smooth for s in conductor.shapes):
         return conductor
-    if len(conductor.shapes) == 1 and isinstance(conductor.shapes[0], Rectangle):
-        rect = conductor.shapes[0]
-        limit = 0.5 * min(rect.width, rect.height)
-        if radius > limit * (1 + 1e-12):
-            raise InvalidGeometryError(
-                f"{where}: corner radius {radius:.6g} is more than half the smaller side ({limit:.6g}); "
-                "use a smaller radius."
-            )
-        new_radius = min(radius, limit) if replace_radius else max(rect.corner_radius, min(radius, limit))
-        return replace(conductor, shapes=(replace(rect, corner_radius=new_radius),))
+    if len(conductor.shapes) == 1:
+        try:
+            exact = conductor.shapes[0].exactly_rounded(radius, replace_radius)
+        except InvalidGeometryError as e:
+            raise InvalidGeometryError(f"{where}: {str(e)[0].lower()}{str(e)[1:]}") from None
+        if exact is not None:
+            return replace(conductor, shapes=(exact,))
     q = _quad_segs(level)
     step = MeshSettings(level).arc_step_rad
     solids, lines = [], []
     for i, shape in enumerate(conductor.shapes):
-        g = shape_geometry(shape, 1.0, step, f"{where}, shape {i + 1} ({shape.kind})")
-        (lines if isinstance(g, LineString) else solids).append(g)
+        g = shape.geometry_m(1.0, step, f"{where}, shape {i + 1} ({shape.kind})")
+        (solids if shape.is_solid else lines).append(g)
     pieces = []
     if solids:
         merged = unary_union(solids)

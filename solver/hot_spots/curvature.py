@@ -1,6 +1,9 @@
-"""Local radius of curvature of a conductor outline at a panel, from the mesh alone.
+"""Local radius of curvature of a conductor outline at a panel.
 
-The tangent direction of the panels along a boundary ring, as a function of arc length,
+On the exact arcs of the shapes (circles, rings, rounded corners) the mesh knows each panel's
+circle (:attr:`PanelMesh.arc_radius_m`, carried from the shapes), and that radius is the
+answer. Elsewhere (outlines that are only polygons, e.g. corners rounded by shapely) the
+curvature comes from the panels: the tangent direction of the panels along a boundary ring, as a function of arc length,
 turns at the rate kappa = 1 / R. A straight-line fit of the unwrapped tangent angle against
 arc length over a window around the panel gives kappa; the window is 0.2 R wide (found by
 iterating from a few panel lengths), so a polygonised arc with many short chords gives its
@@ -43,6 +46,8 @@ def signed_radius_of_curvature_m(mesh: PanelMesh, panel_index: int) -> float:
     """
     if mesh.is_strip[panel_index]:
         return math.inf
+    if len(mesh.arc_radius_m) and math.isfinite(mesh.arc_radius_m[panel_index]):
+        return float(mesh.arc_radius_m[panel_index])
     ring = np.flatnonzero(mesh.ring_index == mesh.ring_index[panel_index])
     position = int(np.flatnonzero(ring == panel_index)[0])
     t = mesh.tangents[ring]

@@ -33,7 +33,7 @@ from dataclasses import dataclass
 from typing import Sequence
 
 from solver.errors import InvalidModelError
-from solver.model.model import Circle, Model, Ring
+from solver.model.model import Model
 
 #: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
 AIR_DIELECTRIC_STRENGTH_V_PER_M = 3.0e6
@@ -230,17 +230,10 @@ def round_radius_m(model: Model, conductor: str, location_m: tuple[float, float]
     shapes = model.conductor(conductor).shapes
     if len(shapes) != 1:
         return None
-    s = shapes[0]
     scale = model.metres_per_unit
-    if isinstance(s, Circle):
-        return s.radius * scale
-    if isinstance(s, Ring):
-        if location_m is not None:
-            r = math.hypot(location_m[0] - s.center[0] * scale, location_m[1] - s.center[1] * scale)
-            if r < 0.5 * (s.inner_radius + s.outer_radius) * scale:
-                return None
-        return s.outer_radius * scale
-    return None
+    point = None if location_m is None else (location_m[0] / scale, location_m[1] / scale)
+    radius = shapes[0].round_radius_at(point)
+    return None if radius is None else radius * scale
 
 
 def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirConditions(),

@@ -25,32 +25,13 @@ import tempfile
 from pathlib import Path
 from typing import Any
 
-from solver.errors import InvalidModelError, ProjectFileError
-from solver.model.model import Circle, Conductor, Model, Polygon, Rectangle, Ring, Shape, Strip
+from solver.errors import ProjectFileError
+from solver.model.model import Conductor, Model, Shape
 from solver.io.project_reading import PROJECT_FORMAT_NAME, PROJECT_FORMAT_VERSION, FieldProblem, read_model
 
 # ---- writing ---------------------------------------------------------------------------------
-def _point(p) -> list[float]:
-    return [float(p[0]), float(p[1])]
-
-
 def _shape_to_dict(shape: Shape) -> dict:
-    if isinstance(shape, Circle):
-        return {"kind": "circle", "center": _point(shape.center), "radius": float(shape.radius)}
-    if isinstance(shape, Ring):
-        return {"kind": "ring", "center": _point(shape.center),
-                "inner_radius": float(shape.inner_radius), "outer_radius": float(shape.outer_radius)}
-    if isinstance(shape, Rectangle):
-        return {"kind": "rectangle", "center": _point(shape.center), "width": float(shape.width),
-                "height": float(shape.height), "corner_radius": float(shape.corner_radius)}
-    if isinstance(shape, Polygon):
-        out: dict[str, Any] = {"kind": "polygon", "exterior": [_point(p) for p in shape.exterior]}
-        if shape.holes:
-            out["holes"] = [[_point(p) for p in hole] for hole in shape.holes]
-        return out
-    if isinstance(shape, Strip):
-        return {"kind": "strip", "points": [_point(p) for p in shape.points]}
-    raise InvalidModelError(f"Unknown shape type {type(shape).__name__}; cannot write it to a project file.")
+    return shape.to_dict()
 
 
 def _conductor_to_dict(c: Conductor) -> dict:

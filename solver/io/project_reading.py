@@ -18,17 +18,13 @@ from solver.model.model import (
     LENGTH_UNITS,
     MESH_DENSITIES,
     ROLES,
-    Circle,
     Conductor,
     Dielectric,
     GroundPlane,
     Model,
-    Polygon,
-    Rectangle,
-    Ring,
     Shape,
-    Strip,
 )
+from solver.model.shapes import SHAPE_KINDS
 
 #: Version of the project format written by this program (files up to it can be read).
 PROJECT_FORMAT_VERSION = 1
@@ -39,13 +35,7 @@ PROJECT_FORMAT_NAME = "edgewise-project"
 _COLOR = re.compile(r"^#[0-9a-fA-F]{6}$")
 _TOP_KEYS = {"$schema", "format", "version", "unit", "title", "description", "background_eps_r",
              "mesh_density", "ground_plane", "conductors", "dielectrics", "extras"}
-_SHAPE_KEYS = {
-    "circle": ({"center", "radius"}, set()),
-    "ring": ({"center", "inner_radius", "outer_radius"}, set()),
-    "rectangle": ({"center", "width", "height"}, {"corner_radius"}),
-    "polygon": ({"exterior"}, {"holes"}),
-    "strip": ({"points"}, set()),
-}
+_SHAPE_KEYS = {kind: (set(cls.required_fields), set(cls.optional_fields)) for kind, cls in SHAPE_KINDS.items()}
 _ROLE_KEYS = {"fixed": {"potential_V"}, "floating": {"charge_C_per_m"}, "reference": set()}
 
 
@@ -128,26 +118,31 @@ def _shape_from(value: Any, path: str, allow_strip: bool) -> Shape:
     kind = _string(value["kind"], f"{path}.kind", choices=kinds)
     required, optional = _SHAPE_KEYS[kind]
     v = _object(value, path, required | {"kind"}, optional)
-    if kind == "circle":
-        return Circle(_point_from(v["center"], f"{path}.center"), _number(v["radius"], f"{path}.radius", positive=True))
-    if kind == "ring":
-        inner = _number(v["inner_radius"], f"{path}.inner_radius", positive=True)
-        outer = _number(v["outer_radius"], f"{path}.outer_radius", positive=True)
-        if not outer > inner:
-            raise FieldProblem(f"{path}.outer_radius", f"must be greater than inner_radius ({inner:g}), got {outer:g}")
-        return Ring(_point_from(v["center"], f"{path}.center"), inner, outer)
-    if kind == "rectangle":
-        width = _number(v["width"], f"{path}.width", positive=True)
-        height = _number(v["height"], f"{path}.height", positive=True)
-        radius = _number(v.get("corner_radius", 0.0), f"{path}.corner_radius", minimum=0.0)
-        if radius > 0.5 * min(width, height) * (1 + 1e-12):
-            raise FieldProblem(f"{path}.corner_radius", f"{radius:g} is more than half the smaller side ({0.5 * min(width, height):g})")
-        return Rectangle(_point_from(v["center"], f"{path}.center"), width, height, radius)
-    if kind == "polygon":
-        exterior = _points_from(v["exterior"], f"{path}.exterior", 3)
-        holes = _list(v.get("holes", []), f"{path}.holes")
-        return Polygon(exterior, tuple(_points_from(h, f"{path}.holes[{i}]", 3) for i, h in enumerate(holes)))
-    return Strip(_points_from(v["points"], f"{path}.points", 2))
+    return SHAPE_KINDS[kind].from_dict(v, _ShapeFieldReader(v, path))
+
+
+class _ShapeFieldReader:
+    """Reads one shape's fields for :meth:`Shape.from_dict`, raising FieldProblem with the path."""
+
+    def __init__(self, data: dict, path: str) -> None:
+        self.data, self.path = data, path
+
+    def number(self, key: str, *, positive: bool = False, minimum: float | None = None) -> float:
+        default = 0.0 if minimum is not None else None
+        return _number(self.data.get(key, default), f"{self.path}.{key}", positive=positive, minimum=minimum)
+
+    def point(self, key: str) -> tuple[float, float]:
+        return _point_from(self.data[key], f"{self.path}.{key}")
+
+    def points(self, key: str, min_items: int) -> tuple[tuple[float, float], ...]:
+        return _points_from(self.data[key], f"{self.path}.{key}", min_items)
+
+    def point_lists(self, key: str, min_items: int) -> tuple[tuple[tuple[float, float], ...], ...]:
+        items = _list(self.data.get(key, []), f"{self.path}.{key}")
+        return tuple(_points_from(h, f"{self.path}.{key}[{i}]", min_items) for i, h in enumerate(items))
+
+    def problem(self, key: str, reason: str) -> Exception:
+        return FieldProblem(f"{self.path}.{key}", reason)
 
 
 def _model_error(path: str, error: InvalidModelError) -> FieldProblem:

@@ -5,8 +5,8 @@ the region boundaries, noded so that a boundary shared by two regions appears on
 parts on or inside conductors, on strips and on the ground plane removed (there the boundary
 is a conductor surface and carries conductor panels only).
 
-Circular arcs (circles, rings, rounded corners, polygonised by shapely) are recognised again
-from their vertices and meshed as arcs: panel end points and collocation points lie on the
+Circular arcs (circles, rings, rounded corners: polygons in shapely) are known exactly from
+the shapes (:meth:`solver.model.shapes.Shape.arcs_m`) and meshed as arcs: panel end points and collocation points lie on the
 true circle, and each panel remembers its circle so that the interface equation can use the
 exact circle kernel between panels of one circle (see :mod:`solver.bem.assembly`).
 This is what lifts curved interfaces from first- to second-order convergence.
@@ -28,7 +28,7 @@ from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
 from solver.model.geometry import shape_geometry
-from solver.model.model import Model, Strip
+from solver.model.model import Model
 from solver.mesh.interface_pieces import Piece, piece_breaks, split_into_pieces
 from solver.mesh.panels import MeshSettings, PanelMesh
 
@@ -52,7 +52,7 @@ def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
         parts = []
         for i, shape in enumerate(d.shapes):
             where = f"{owner}, shape {i + 1} ({shape.kind})"
-            if isinstance(shape, Strip):
+            if not shape.is_solid:
                 raise InvalidGeometryError(f"{where}: a dielectric region needs an area; a strip has none.")
             parts.append(shape_geometry(shape, scale, arc_step_rad, where))
         geoms.append(unary_union(parts))
@@ -206,6 +206,7 @@ def discretize_interfaces(
     blockers = unary_union(conductor_geoms)
     plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
     ratio = 1.0 + (settings.growth_ratio - 1.0) / 2.0
+    arcs = tuple(a for d in model.dielectrics for s in d.shapes for a in s.arcs_m(model.metres_per_unit))
 
     starts, ends, points, normals, arcl, cid, crad, outw = [], [], [], [], [], [], [], []
     circles: list[tuple[np.ndarray, float]] = []
@@ -214,7 +215,7 @@ def discretize_interfaces(
         closed = bool(line.is_ring)
         if closed:
             coords = coords[:-1]
-        pieces, grading, total = split_into_pieces(coords, closed)
+        pieces, grading, total = split_into_pieces(coords, closed, arcs)
         h_max = min(h_global, total / (INTERFACE_REFINEMENT * settings.divisions_per_perimeter) * (1.0 if closed else 0.5))
         h_max = max(h_max, 1e-6 * size)
         h_corner = h_max * settings.corner_fraction

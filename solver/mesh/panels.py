@@ -17,7 +17,7 @@ from functools import cached_property
 
 import numpy as np
 
-from solver.model.geometry import BoundaryRing, boundary_rings, conductor_geometries
+from solver.model.geometry import BoundaryRing, boundary_rings, conductor_arcs, conductor_geometries
 from solver.model.model import Model
 
 #: Turning angle above which a vertex counts as a corner (smaller ones are polygonised arcs).
@@ -148,7 +148,14 @@ class PanelMesh:
     corner_points : (k, 2) float, sharp corners and free edges (field singular there).
     corner_conductor : (k,) int, the conductor of each corner point.
     corner_opening_rad : (k,) float, opening angle beta of the field region at each corner.
+    arc_radius_m : (n,) float, signed radius of the exact arc a panel is a chord of: > 0 where
+        the conductor bulges into the field (the arc's centre on the material side), < 0 where
+        it is hollow toward the field; ``inf`` on straight edges and strips.
+    arc_centre_m : (n, 2) float, centre of that arc (NaN on straight panels).
     settings : MeshSettings used to build the mesh.
+
+    Panels on arcs are chords whose end points lie on the true circle; the arcs come from the
+    shapes themselves (:meth:`solver.model.shapes.Shape.meshing_hints`), never re-fitted.
     """
 
     starts: np.ndarray
@@ -160,6 +167,8 @@ class PanelMesh:
     corner_points: np.ndarray
     corner_conductor: np.ndarray
     corner_opening_rad: np.ndarray
+    arc_radius_m: np.ndarray = field(default_factory=lambda: np.zeros(0))
+    arc_centre_m: np.ndarray = field(default_factory=lambda: np.zeros((0, 2)))
     settings: MeshSettings = field(default_factory=MeshSettings)
     model: Model | None = field(default=None, compare=False, repr=False)
 
@@ -228,6 +237,15 @@ def _conductor_h_max(model: Model, geoms: list, settings: MeshSettings) -> list[
     return out
 
 
+def _signed_arc_radius(p: np.ndarray, q: np.ndarray, centre: np.ndarray, radius: float) -> float:
+    """Radius of the arc the edge p -> q is a chord of, > 0 when its centre lies on the
+    material (left) side; ``inf`` for a straight edge (NaN radius)."""
+    if not np.isfinite(radius):
+        return math.inf
+    t, c = q - p, centre - 0.5 * (p + q)
+    return float(radius if t[0] * c[1] - t[1] * c[0] > 0 else -radius)
+
+
 def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> PanelMesh:
     """Divide every conductor boundary of ``model`` into straight, graded panels.
 
@@ -245,11 +263,12 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
     settings = settings or MeshSettings.for_density(model.mesh_density)
     geoms = conductor_geometries(model, settings.arc_step_rad)
     h_max_by_conductor = _conductor_h_max(model, geoms, settings)
+    arcs = conductor_arcs(model)
     rings: list[BoundaryRing] = []
     for k, g in enumerate(geoms):
-        rings.extend(boundary_rings(k, g))
+        rings.extend(boundary_rings(k, g, arcs[k]))
 
-    starts, ends, cond, ring_idx, strip, arc = [], [], [], [], [], []
+    starts, ends, cond, ring_idx, strip, arc, arc_r, arc_c = [], [], [], [], [], [], [], []
     corners, corner_cond, corner_beta = [], [], []
     travelled_by_conductor: dict[int, float] = {}
     for r, ring in enumerate(rings):
@@ -286,6 +305,8 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
             ring_idx.append(np.full(m, r))
             strip.append(np.full(m, not ring.closed))
             arc.append(travelled + 0.5 * (breaks[:-1] + breaks[1:]))
+            arc_r.append(np.full(m, _signed_arc_radius(p, q, ring.edge_arc_centres[e], ring.edge_arc_radii[e])))
+            arc_c.append(np.tile(ring.edge_arc_centres[e], (m, 1)))
             travelled += edge_len[e]
         travelled_by_conductor[ring.conductor_index] = travelled
 
@@ -299,6 +320,8 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
         corner_points=np.asarray(corners, dtype=float).reshape(-1, 2),
         corner_conductor=np.asarray(corner_cond, dtype=int),
         corner_opening_rad=np.asarray(corner_beta, dtype=float),
+        arc_radius_m=np.concatenate(arc_r),
+        arc_centre_m=np.concatenate(arc_c),
         settings=settings,
         model=model,
     )

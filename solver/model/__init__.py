@@ -18,8 +18,9 @@ from solver.model.model import (
     Shape,
     Strip,
 )
+from solver.model.shapes import SHAPE_KINDS, Arc, MeshingHints
 
 __all__ = [
     "LENGTH_UNITS", "MESH_DENSITIES", "ROLES", "Circle", "Conductor", "Dielectric", "GroundPlane",
-    "Model", "Polygon", "Rectangle", "Ring", "Shape", "Strip",
+    "Model", "Polygon", "Rectangle", "Ring", "Shape", "Strip", "SHAPE_KINDS", "Arc", "MeshingHints",
 ]

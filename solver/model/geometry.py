@@ -2,7 +2,10 @@
 
 Each conductor becomes one shapely geometry: its solid shapes merged with ``unary_union``
 (a Polygon or MultiPolygon) and its zero-thickness strips as lines. Curved outlines
-(circles, rings, rounded corners) are polygons with one vertex every ``arc_step_rad``.
+(circles, rings, rounded corners) are polygons with one vertex every ``arc_step_rad``, all
+vertices on the true curve; the shapes' exact arcs travel beside them
+(:func:`conductor_arcs`) and :func:`boundary_rings` marks each boundary edge that is a
+piece of one of them, so later stages know the true circle without re-fitting it.
 
 Bad input raises :class:`~solver.errors.InvalidGeometryError` naming the conductor, the
 shape and the reason.
@@ -10,8 +13,7 @@ shape and the reason.
 
 from __future__ import annotations
 
-import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import shapely
@@ -20,7 +22,8 @@ from shapely.geometry import Polygon as ShapelyPolygon
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
-from solver.model.model import Circle, Model, Polygon, Rectangle, Ring, Shape, Strip
+from solver.model.model import Model
+from solver.model.shapes import Arc, Shape
 
 
 @dataclass(frozen=True)
@@ -31,23 +34,17 @@ class BoundaryRing:
     conductor material on its left, so the outward normal (into the field) of the edge
     p -> q is the right-hand normal ``(dy, -dx) / |q - p|``. A strip is open (``closed`` is
     False); its "+" side is the right-hand side.
+
+    ``edge_arc_centres`` (e, 2) and ``edge_arc_radii`` (e,) give, for each edge (from
+    ``points[i]`` to the next point), the exact circle it is a chord of, or NaN for a
+    straight edge.
     """
 
     conductor_index: int
     points: np.ndarray
     closed: bool
-
-
-def _arc(center: tuple[float, float], radius: float, a0: float, a1: float, step: float) -> list:
-    n = max(1, math.ceil(abs(a1 - a0) / step - 1e-9))
-    angles = np.linspace(a0, a1, n + 1)
-    return list(zip(center[0] + radius * np.cos(angles), center[1] + radius * np.sin(angles)))
-
-
-def _circle_points(center: tuple[float, float], radius: float, step: float) -> list:
-    n = max(8, math.ceil(2 * math.pi / step - 1e-9))
-    angles = 2 * math.pi * np.arange(n) / n
-    return list(zip(center[0] + radius * np.cos(angles), center[1] + radius * np.sin(angles)))
+    edge_arc_centres: np.ndarray = field(default_factory=lambda: np.zeros((0, 2)))
+    edge_arc_radii: np.ndarray = field(default_factory=lambda: np.zeros(0))
 
 
 def _describe(owner: str, index: int, shape: Shape) -> str:
@@ -58,90 +55,15 @@ def shape_geometry(shape: Shape, scale: float, arc_step_rad: float, where: str):
     """Shapely geometry of one shape in metres (``scale`` = metres per model unit).
 
     ``where`` names the shape in error messages, e.g. "Conductor 'bar', shape 2 (circle)".
+    The shape builds it itself (:meth:`solver.model.shapes.Shape.geometry_m`).
     """
-    if isinstance(shape, Circle):
-        if not shape.radius > 0:
-            raise InvalidGeometryError(f"{where}: radius is {shape.radius}; it must be greater than 0.")
-        cx, cy = shape.center
-        return ShapelyPolygon(_circle_points((cx * scale, cy * scale), shape.radius * scale, arc_step_rad))
-    if isinstance(shape, Ring):
-        if not (0 < shape.inner_radius < shape.outer_radius):
-            raise InvalidGeometryError(
-                f"{where}: inner radius {shape.inner_radius} and outer radius {shape.outer_radius}; "
-                "need 0 < inner radius < outer radius."
-            )
-        c = (shape.center[0] * scale, shape.center[1] * scale)
-        outer = _circle_points(c, shape.outer_radius * scale, arc_step_rad)
-        inner = _circle_points(c, shape.inner_radius * scale, arc_step_rad)
-        return ShapelyPolygon(outer, [inner[::-1]])
-    if isinstance(shape, Rectangle):
-        w, h, r = shape.width, shape.height, shape.corner_radius
-        if not (w > 0 and h > 0):
-            raise InvalidGeometryError(f"{where}: width {w} and height {h}; both must be greater than 0.")
-        if r < 0 or r > 0.5 * min(w, h) + 1e-12 * max(w, h):
-            raise InvalidGeometryError(
-                f"{where}: corner radius {r} must lie between 0 and half the smaller side ({0.5 * min(w, h)})."
-            )
-        r = min(r, 0.5 * min(w, h))
-        cx, cy = shape.center[0] * scale, shape.center[1] * scale
-        hw, hh, rr = 0.5 * w * scale, 0.5 * h * scale, r * scale
-        if rr <= 0:
-            pts = [(cx - hw, cy - hh), (cx + hw, cy - hh), (cx + hw, cy + hh), (cx - hw, cy + hh)]
-        else:
-            pts = []
-            corners = [
-                ((cx + hw - rr, cy - hh + rr), -0.5 * math.pi),
-                ((cx + hw - rr, cy + hh - rr), 0.0),
-                ((cx - hw + rr, cy + hh - rr), 0.5 * math.pi),
-                ((cx - hw + rr, cy - hh + rr), math.pi),
-            ]
-            for centre, a0 in corners:
-                pts.extend(_arc(centre, rr, a0, a0 + 0.5 * math.pi, arc_step_rad))
-            # drop repeated points where a full-side fillet makes arcs meet
-            cleaned = [pts[0]]
-            for p in pts[1:]:
-                if math.dist(p, cleaned[-1]) > 1e-12 * max(hw, hh):
-                    cleaned.append(p)
-            pts = cleaned
-        return ShapelyPolygon(pts)
-    if isinstance(shape, Polygon):
-        if len(shape.exterior) < 3:
-            raise InvalidGeometryError(f"{where}: a polygon needs at least 3 vertices, got {len(shape.exterior)}.")
-        poly = ShapelyPolygon(
-            [(x * scale, y * scale) for x, y in shape.exterior],
-            [[(x * scale, y * scale) for x, y in hole] for hole in shape.holes],
-        )
-        if not poly.is_valid:
-            reason = shapely.is_valid_reason(poly)
-            raise InvalidGeometryError(
-                f"{where} is invalid: {_reason_in_model_units(reason, scale)}; "
-                "redraw the outline so it does not cross or touch itself."
-            )
-        if poly.area <= 0:
-            raise InvalidGeometryError(f"{where} has zero area; its vertices lie on one line.")
-        return poly
-    if isinstance(shape, Strip):
-        if len(shape.points) < 2:
-            raise InvalidGeometryError(f"{where}: a strip needs at least 2 points, got {len(shape.points)}.")
-        line = LineString([(x * scale, y * scale) for x, y in shape.points])
-        if not line.length > 0:
-            raise InvalidGeometryError(f"{where} has zero length; move its end points apart.")
-        if not line.is_simple:
-            raise InvalidGeometryError(f"{where} crosses itself; redraw the strip so it does not.")
-        return line
-    raise InvalidGeometryError(f"{where}: unknown shape type {type(shape).__name__}.")
+    return shape.geometry_m(scale, arc_step_rad, where)
 
 
-def _reason_in_model_units(reason: str, scale: float) -> str:
-    """Rewrite shapely's "Self-intersection[x y]" (metres) into model units."""
-    if "[" not in reason:
-        return reason
-    head, _, rest = reason.partition("[")
-    try:
-        x, y = (float(v) / scale for v in rest.rstrip("]").split())
-    except ValueError:
-        return reason
-    return f"{head} at ({x:.6g}, {y:.6g})"
+def conductor_arcs(model: Model) -> list[tuple[Arc, ...]]:
+    """The exact arcs (metres) of every conductor's shapes, in model order."""
+    scale = model.metres_per_unit
+    return [tuple(a for s in c.shapes for a in s.arcs_m(scale)) for c in model.conductors]
 
 
 def conductor_geometries(model: Model, arc_step_rad: float) -> list:
@@ -157,7 +79,7 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
         solids, lines = [], []
         for i, shape in enumerate(conductor.shapes):
             g = shape_geometry(shape, scale, arc_step_rad, _describe(owner, i, shape))
-            (lines if isinstance(g, LineString) else solids).append(g)
+            (solids if shape.is_solid else lines).append(g)
         solid = unary_union(solids) if solids else None
         if lines:
             strip = unary_union(lines)
@@ -190,8 +112,12 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
     return merged
 
 
-def boundary_rings(conductor_index: int, geom) -> list[BoundaryRing]:
-    """Boundary rings of one merged conductor geometry, oriented as :class:`BoundaryRing` says."""
+def boundary_rings(conductor_index: int, geom, arcs: tuple[Arc, ...] = ()) -> list[BoundaryRing]:
+    """Boundary rings of one merged conductor geometry, oriented as :class:`BoundaryRing` says.
+
+    ``arcs`` are the conductor's exact arcs (:func:`conductor_arcs`); each edge that is a
+    chord of one of them carries its centre and radius.
+    """
     rings: list[BoundaryRing] = []
     polys = [g for g in getattr(geom, "geoms", [geom]) if isinstance(g, ShapelyPolygon)]
     lines = [g for g in getattr(geom, "geoms", [geom]) if isinstance(g, (LineString, MultiLineString))]
@@ -199,12 +125,27 @@ def boundary_rings(conductor_index: int, geom) -> list[BoundaryRing]:
         # Counter-clockwise exterior and clockwise holes keep the material on the left.
         poly = shapely.geometry.polygon.orient(poly, sign=1.0)
         for ring in [poly.exterior, *poly.interiors]:
-            pts = np.asarray(ring.coords)[:-1]
-            rings.append(BoundaryRing(conductor_index, _drop_collinear(pts), True))
+            pts = _drop_collinear(np.asarray(ring.coords)[:-1])
+            rings.append(BoundaryRing(conductor_index, pts, True, *edge_arcs(pts, True, arcs)))
     for line in lines:
         for part in getattr(line, "geoms", [line]):
-            rings.append(BoundaryRing(conductor_index, np.asarray(part.coords), False))
+            pts = np.asarray(part.coords)
+            rings.append(BoundaryRing(conductor_index, pts, False, *edge_arcs(pts, False, arcs)))
     return rings
+
+
+def edge_arcs(points: np.ndarray, closed: bool, arcs: tuple[Arc, ...]) -> tuple[np.ndarray, np.ndarray]:
+    """Centre (e, 2) and radius (e,) of the known arc each edge of a vertex chain lies on (NaN if none)."""
+    p = np.asarray(points, dtype=float)
+    q = np.roll(p, -1, axis=0) if closed else p[1:]
+    p = p[: len(q)]
+    centres = np.full((len(p), 2), np.nan)
+    radii = np.full(len(p), np.nan)
+    for arc in arcs:
+        hit = arc.holds_edges(p, q) & np.isnan(radii)
+        centres[hit] = arc.centre
+        radii[hit] = arc.radius
+    return centres, radii
 
 
 def _drop_collinear(pts: np.ndarray) -> np.ndarray:

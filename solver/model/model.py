@@ -17,9 +17,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
-from typing import Literal, Union
+from typing import Literal
 
 from solver.errors import InvalidModelError
+from solver.model.shapes import Circle, Polygon, Rectangle, Ring, Shape, Strip
+
+__all__ = ["LENGTH_UNITS", "MESH_DENSITIES", "ROLES", "Circle", "Conductor", "Dielectric", "GroundPlane",
+           "Model", "Polygon", "Rectangle", "Ring", "Shape", "Strip"]
 
 #: Length units a model may use, with their size in metres.
 LENGTH_UNITS: dict[str, float] = {
@@ -35,70 +39,6 @@ ROLES = ("fixed", "floating", "reference")
 
 #: Mesh densities, coarsest first.
 MESH_DENSITIES = ("coarse", "normal", "fine")
-
-Point = tuple[float, float]
-
-
-@dataclass(frozen=True)
-class Circle:
-    """A filled circle: ``center`` (x, y) and ``radius``, in model units."""
-
-    center: Point
-    radius: float
-
-    kind = "circle"
-
-
-@dataclass(frozen=True)
-class Ring:
-    """An annulus (a tube wall): ``center``, ``inner_radius`` < ``outer_radius``, model units."""
-
-    center: Point
-    inner_radius: float
-    outer_radius: float
-
-    kind = "ring"
-
-
-@dataclass(frozen=True)
-class Rectangle:
-    """An axis-aligned rectangle given by its ``center``, ``width`` and ``height``.
-
-    ``corner_radius`` rounds all four corners (0 = sharp); model units.
-    """
-
-    center: Point
-    width: float
-    height: float
-    corner_radius: float = 0.0
-
-    kind = "rectangle"
-
-
-@dataclass(frozen=True)
-class Polygon:
-    """A polygon: ``exterior`` vertices and optional ``holes`` (each a vertex list), model units.
-
-    The ring need not repeat its first vertex; orientation does not matter.
-    """
-
-    exterior: tuple[Point, ...]
-    holes: tuple[tuple[Point, ...], ...] = ()
-
-    kind = "polygon"
-
-
-@dataclass(frozen=True)
-class Strip:
-    """A zero-thickness conductor along the polyline ``points`` (at least two), model units."""
-
-    points: tuple[Point, ...]
-
-    kind = "strip"
-
-
-Shape = Union[Circle, Ring, Rectangle, Polygon, Strip]
-
 
 @dataclass(frozen=True)
 class Conductor:
@@ -145,7 +85,7 @@ class Conductor:
     @property
     def is_strip_only(self) -> bool:
         """True when every shape is a zero-thickness strip."""
-        return all(isinstance(s, Strip) for s in self.shapes)
+        return not any(s.is_solid for s in self.shapes)
 
 
 @dataclass(frozen=True)
@@ -291,33 +231,38 @@ class Model:
 
     def scaled(self, factor: float) -> "Model":
         """A copy with every coordinate and length multiplied by ``factor``."""
-        return self._mapped(lambda p: (p[0] * factor, p[1] * factor), factor)
+        return self._mapped(lambda s: s.scaled(factor), lambda y: y * factor)
 
     def translated(self, dx: float, dy: float) -> "Model":
         """A copy moved by (dx, dy) model units (the ground plane moves with it)."""
-        return self._mapped(lambda p: (p[0] + dx, p[1] + dy), 1.0, dy=dy)
+        return self._mapped(lambda s: s.translated(dx, dy), lambda y: y + dy)
 
-    def _mapped(self, f, length_factor: float, dy: float = 0.0) -> "Model":
-        def shape(s: Shape) -> Shape:
-            if isinstance(s, Circle):
-                return Circle(f(s.center), s.radius * length_factor)
-            if isinstance(s, Ring):
-                return Ring(f(s.center), s.inner_radius * length_factor, s.outer_radius * length_factor)
-            if isinstance(s, Rectangle):
-                return Rectangle(
-                    f(s.center), s.width * length_factor, s.height * length_factor,
-                    s.corner_radius * length_factor,
-                )
-            if isinstance(s, Polygon):
-                return Polygon(tuple(map(f, s.exterior)), tuple(tuple(map(f, h)) for h in s.holes))
-            return Strip(tuple(map(f, s.points)))
-
+    def _mapped(self, shape_map, plane_y_map) -> "Model":
         plane = self.ground_plane
         if plane is not None:
-            plane = GroundPlane(f((0.0, plane.y))[1])
+            plane = GroundPlane(plane_y_map(plane.y))
         return replace(
             self,
-            conductors=tuple(replace(c, shapes=tuple(map(shape, c.shapes))) for c in self.conductors),
-            dielectrics=tuple(replace(d, shapes=tuple(map(shape, d.shapes))) for d in self.dielectrics),
+            conductors=tuple(replace(c, shapes=tuple(map(shape_map, c.shapes))) for c in self.conductors),
+            dielectrics=tuple(replace(d, shapes=tuple(map(shape_map, d.shapes))) for d in self.dielectrics),
             ground_plane=plane,
         )
+
+    def bounds(self) -> tuple[float, float, float, float] | None:
+        """(xmin, ymin, xmax, ymax) of every conductor and dielectric shape, model units; None if empty."""
+        parts: tuple[Conductor | Dielectric, ...] = (*self.conductors, *self.dielectrics)
+        boxes = [s.bounds() for part in parts for s in part.shapes]
+        boxes = [b for b in boxes if all(math.isfinite(v) for v in b)]
+        if not boxes:
+            return None
+        return (min(b[0] for b in boxes), min(b[1] for b in boxes), max(b[2] for b in boxes), max(b[3] for b in boxes))
+
+    def largest_dimension(self) -> float:
+        """Largest extent of the cross-section (its shapes, and down to a ground plane), model units."""
+        box = self.bounds()
+        if box is None:
+            return 0.0
+        x0, y0, x1, y1 = box
+        if self.ground_plane is not None:
+            y0 = min(y0, self.ground_plane.y)
+        return max(x1 - x0, y1 - y0)

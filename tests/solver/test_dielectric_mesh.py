@@ -1,4 +1,5 @@
-"""Interface meshing: arcs recognised from polygons, panels on the true circle, sides and grading."""
+"""Interface meshing: the shapes' exact arcs carried to the panels, panels on the true circle,
+sides and grading."""
 
 import math
 
@@ -18,8 +19,12 @@ def _ring_points(shape):
     return np.asarray(shapely.geometry.polygon.orient(g).exterior.coords)[:-1]
 
 
+def _pieces(shape):
+    return split_into_pieces(_ring_points(shape), True, shape.arcs_m(1e-3))
+
+
 def test_a_polygonised_circle_is_one_full_arc():
-    pieces, grading, total = split_into_pieces(_ring_points(Circle((3.0, -2.0), 1.5)), closed=True)
+    pieces, grading, total = _pieces(Circle((3.0, -2.0), 1.5))
     assert len(pieces) == 1 and grading.size == 0
     arc = pieces[0]
     assert arc.radius == pytest.approx(1.5e-3, rel=1e-9)
@@ -28,7 +33,7 @@ def test_a_polygonised_circle_is_one_full_arc():
 
 
 def test_a_rounded_rectangle_is_four_sides_and_four_arcs():
-    pieces, grading, _ = split_into_pieces(_ring_points(Rectangle((0.0, 0.0), 4.0, 2.0, 0.5)), closed=True)
+    pieces, grading, _ = _pieces(Rectangle((0.0, 0.0), 4.0, 2.0, 0.5))
     arcs = [p for p in pieces if p.centre is not None]
     sides = [p for p in pieces if p.centre is None and p.length > 0.5e-3]
     assert len(arcs) == 4 and len(sides) == 4 and grading.size == 0
@@ -37,8 +42,22 @@ def test_a_rounded_rectangle_is_four_sides_and_four_arcs():
         assert abs(arc.dtheta) == pytest.approx(math.pi / 2, rel=1e-9)
 
 
+def test_without_the_shapes_arcs_nothing_is_guessed_to_be_an_arc():
+    pieces, _, _ = split_into_pieces(_ring_points(Circle((3.0, -2.0), 1.5)), closed=True)
+    assert all(p.centre is None for p in pieces)
+
+
+def test_a_stadium_is_two_half_circles_and_two_sides():
+    pieces, grading, _ = _pieces(Rectangle((0.0, 0.0), 4.0, 2.0, 1.0))
+    arcs = [p for p in pieces if p.centre is not None]
+    assert len(arcs) == 2 and grading.size == 0
+    for arc in arcs:
+        assert arc.radius == 1e-3
+        assert abs(arc.dtheta) == pytest.approx(math.pi, rel=1e-12)
+
+
 def test_a_square_has_four_straight_sides_and_four_corners():
-    pieces, grading, _ = split_into_pieces(_ring_points(Rectangle((0.0, 0.0), 2.0, 2.0)), closed=True)
+    pieces, grading, _ = _pieces(Rectangle((0.0, 0.0), 2.0, 2.0))
     assert len(pieces) == 4 and all(p.centre is None for p in pieces) and grading.size == 4
 
 

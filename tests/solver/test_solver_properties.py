@@ -194,7 +194,7 @@ def test_peak_at_a_sharp_corner_is_flagged_with_its_exponent():
             r"Conductor 'bow', shape 1 \(polygon\) is invalid: Self-intersection at \(1, 1\)",
         ),
         ((Conductor("dot", (Circle((0.0, 0.0), 0.0),)),), None, r"Conductor 'dot', shape 1 \(circle\): radius is 0"),
-        ((Conductor("bar", (Rectangle((0.0, 0.0), 1.0, 0.0),)),), None, "width 1.0 and height 0.0"),
+        ((Conductor("bar", (Rectangle((0.0, 0.0), 1.0, 0.0),)),), None, "height is 0; it must be greater than 0"),
         ((Conductor("s", (Strip(((1.0, 1.0), (1.0, 1.0))),)),), None, "zero length"),
         ((Conductor("r", (Rectangle((0.0, 0.0), 1.0, 1.0, 0.8),)),), None, "corner radius 0.8"),
     ],
