@@ -14,15 +14,16 @@ limit: it includes the crowding of charge toward the outside of the bundle.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass
-from typing import Iterable
 
 import numpy as np
 
-from solver.figures.equilibrium import equivalent_radius_m
+from solver.bem.solution import Solution
 from solver.errors import InvalidModelError
-from solver.model.model import Circle, Model
+from solver.figures.equilibrium import equivalent_radius_m
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings
+from solver.model.model import Circle, Model
 
 
 def bundle_equivalent_radius_formula_m(n_subconductors: int, subconductor_radius_m: float, bundle_radius_m: float) -> float:
@@ -94,8 +95,11 @@ def _regular_bundle(model: Model, names: list[str]) -> tuple[int, float, float] 
     return n, float(radii[0]), a
 
 
-def compare_bundle(model: Model, conductors: Iterable[str] | None = None) -> BundleComparison:
+def compare_bundle(source: Solution | Model, conductors: Iterable[str] | None = None) -> BundleComparison:
     """Equivalent radius of the named conductors (default all) tied together, and the formula.
+
+    ``source`` is a solution (the radius is computed at its mesh resolution and at half of it)
+    or a model (at its mesh density and half of it).
 
     Examples
     --------
@@ -105,10 +109,11 @@ def compare_bundle(model: Model, conductors: Iterable[str] | None = None) -> Bun
     >>> abs(compare_bundle(pair).relative_difference) < 1e-3
     True
     """
+    model = source.model if isinstance(source, Solution) else source
     names = list(model.conductor_names if conductors is None else conductors)
     if not names:
         raise InvalidModelError("No conductors named for the equivalent radius; name at least one.")
-    level = DENSITY_LEVELS[model.mesh_density]
+    level = source.mesh.settings.level if isinstance(source, Solution) else DENSITY_LEVELS[model.mesh_density]
     fine = equivalent_radius_m(model, names, MeshSettings(level))
     coarse = equivalent_radius_m(model, names, MeshSettings(level / 2.0))
     bundle = _regular_bundle(model, names)
