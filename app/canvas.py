@@ -12,6 +12,7 @@ import math
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
+from shapely.geometry import Point
 
 from . import shapes
 from .document import PartRef
@@ -68,6 +69,8 @@ class Canvas(pg.PlotWidget):
         self.tools = {cls.name: cls(self) for cls in TOOLS}
         self.tool = self.tools[PickTool.name]
         self._mouse_down = False
+        self._outlines: dict = {}  # PartRef -> shapely outline of the drawn model, for hit tests
+        self._outlines_model = None  # the Model those outlines belong to
         self._fitted_once = False
         self.error_marks = ErrorMarks(self.plotItem, document)
         document.events.connect("model_changed", self._on_model_changed)
@@ -159,14 +162,29 @@ class Canvas(pg.PlotWidget):
         pts = np.asarray(shapes.handles(shape_of(self.document.model, ref)))
         self._handles.setData(pts[:, 0], pts[:, 1])
 
+    def _part_outlines(self, model) -> dict:
+        """Outline of every conductor and dielectric shape, built once per Model (the pointer
+        asks on every move; Models are immutable, so an unchanged model keeps its outlines)."""
+        if self._outlines_model is not model:
+            self._outlines = {
+                **{PartRef("conductor", i, j): shapes.geometry(s)
+                   for i, c in enumerate(model.conductors) for j, s in enumerate(c.shapes)},
+                **{PartRef("dielectric", i, j): shapes.geometry(s)
+                   for i, d in enumerate(model.dielectrics) for j, s in enumerate(d.shapes)},
+            }
+            self._outlines_model = model
+        return self._outlines
+
     def part_at(self, raw) -> PartRef | None:
         """The part under the point (conductors first, then the ground plane), or None."""
         model = self.document.model
+        outlines = self._part_outlines(model)
+        point = Point(*raw)
         tol = 6 * self.pixel_size()
         best, best_d = None, tol
         for i, c in enumerate(model.conductors):
-            for j, s in enumerate(c.shapes):
-                d = shapes.distance(s, *raw)
+            for j, _ in enumerate(c.shapes):
+                d = float(outlines[PartRef("conductor", i, j)].distance(point))
                 if d <= best_d:
                     best, best_d = PartRef("conductor", i, j), d
                     if d == 0:
@@ -175,8 +193,8 @@ class Canvas(pg.PlotWidget):
             return PartRef("plane")
         if best is None:
             for i, d in enumerate(model.dielectrics):
-                for j, s in enumerate(d.shapes):
-                    if shapes.distance(s, *raw) <= tol:
+                for j, _ in enumerate(d.shapes):
+                    if float(outlines[PartRef("dielectric", i, j)].distance(point)) <= tol:
                         return PartRef("dielectric", i, j)
         return best
 

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
 from solver.errors import InvalidModelError
 from solver.figures.equilibrium import equivalent_radius_m
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings
@@ -95,11 +96,18 @@ def _regular_bundle(model: Model, names: list[str]) -> tuple[int, float, float] 
     return n, float(radii[0]), a
 
 
-def compare_bundle(source: Solution | Model, conductors: Iterable[str] | None = None) -> BundleComparison:
+def compare_bundle(
+    source: Solution | Model,
+    conductors: Iterable[str] | None = None,
+    *,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> BundleComparison:
     """Equivalent radius of the named conductors (default all) tied together, and the formula.
 
     ``source`` is a solution (the radius is computed at its mesh resolution and at half of it)
-    or a model (at its mesh density and half of it).
+    or a model (at its mesh density and half of it). ``progress(fraction, message)`` is called
+    before each of the two solves and ``cancel()`` polled (SolveCancelled when it returns True).
 
     Examples
     --------
@@ -114,8 +122,12 @@ def compare_bundle(source: Solution | Model, conductors: Iterable[str] | None = 
     if not names:
         raise InvalidModelError("No conductors named for the equivalent radius; name at least one.")
     level = source.mesh.settings.level if isinstance(source, Solution) else DENSITY_LEVELS[model.mesh_density]
+    report = progress_reporter(progress, cancel)
+    report(0.0, "Equivalent radius")
     fine = equivalent_radius_m(model, names, MeshSettings(level))
+    report(0.7, "Equivalent radius on a mesh at half the resolution")
     coarse = equivalent_radius_m(model, names, MeshSettings(level / 2.0))
+    report(1.0, "Done")
     bundle = _regular_bundle(model, names)
     formula = None if bundle is None else bundle_equivalent_radius_formula_m(*bundle)
     return BundleComparison(

@@ -30,6 +30,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback
 from solver.constants import SPEED_OF_LIGHT_M_PER_S
 from solver.errors import NoReferenceError
 from solver.mesh.panels import MeshSettings
@@ -190,7 +191,12 @@ def vacuum_model(model: Model) -> Model:
 
 
 def figures_from_solution(
-    solution: Solution, *, estimate_error: bool = False, estimate_truncation: bool = False
+    solution: Solution,
+    *,
+    estimate_error: bool = False,
+    estimate_truncation: bool = False,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
 ) -> TransmissionLineFigures:
     """Transmission-line figures of a solved model, reusing its capacitance matrix C.
 
@@ -199,12 +205,14 @@ def figures_from_solution(
     solution's mesh resolution (``estimate_error`` also at half of it).
     ``estimate_truncation`` solves with the truncated layers twice as wide (see
     :mod:`solver.layers`). The error of the figures is the larger of the two solves' estimates.
+    ``progress`` and ``cancel`` are passed to that solve (see :func:`solver.solve`).
 
     Raises NoReferenceError when the model has no return path or no signal conductor.
     """
-    from solver.bem.solve import has_permittivity_contrast, solve
+    from solver.bem.solve import has_permittivity_contrast, progress_reporter, solve
 
     model = solution.model
+    report = progress_reporter(progress, cancel)
     if not model.has_return_path or not model.signal_names:
         raise NoReferenceError(
             "No transmission-line figures: they need a return path (a reference conductor or a "
@@ -214,7 +222,8 @@ def figures_from_solution(
     settings = MeshSettings(solution.mesh.settings.level)
     errors = [solution.estimated_relative_error]
     if has_permittivity_contrast(model):
-        in_vacuum = solve(vacuum_model(model), estimate_error=estimate_error, settings=settings)
+        in_vacuum = solve(vacuum_model(model), estimate_error=estimate_error, settings=settings,
+                          progress=lambda f, m: report(0.9 * f, f"In vacuum: {m}"), cancel=cancel)
         c0 = in_vacuum.capacitance_maxwell_F_per_m
         errors.append(in_vacuum.estimated_relative_error)
     else:
@@ -224,14 +233,22 @@ def figures_from_solution(
     if estimate_truncation:
         from solver.figures.layers import truncation_error
 
+        report(0.9, "Truncation error of the layers")
         figures = replace(
             figures, truncation_relative_error=truncation_error(model, settings=settings, capacitance_F_per_m=c)
         )
+    report(1.0, "Done")
     return figures
 
 
 def transmission_line_figures(
-    source: Solution | Model, *, estimate_error: bool = False, estimate_truncation: bool = False, settings=None
+    source: Solution | Model,
+    *,
+    estimate_error: bool = False,
+    estimate_truncation: bool = False,
+    settings: MeshSettings | None = None,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
 ) -> TransmissionLineFigures:
     """Transmission-line figures of a solution, or of a model solved here first.
 
@@ -258,5 +275,6 @@ def transmission_line_figures(
                 "No transmission-line figures: they need a return path (a reference conductor or a "
                 "ground plane) and at least one conductor with a fixed potential."
             )
-        solution = solve(source, estimate_error=estimate_error, settings=settings)
-    return figures_from_solution(solution, estimate_error=estimate_error, estimate_truncation=estimate_truncation)
+        solution = solve(source, estimate_error=estimate_error, settings=settings, cancel=cancel)
+    return figures_from_solution(solution, estimate_error=estimate_error, estimate_truncation=estimate_truncation,
+                                 progress=progress, cancel=cancel)
