@@ -12,6 +12,9 @@ import math
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
+from shapely.geometry import Point
+
+from solver import DRAWING_ARC_STEP_RAD
 
 from .document import PartRef
 from .drawing import cosmetic_pen, dielectric_item, shape_item
@@ -67,6 +70,8 @@ class Canvas(pg.PlotWidget):
         self.tools = {cls.name: cls(self) for cls in TOOLS}
         self.tool = self.tools[PickTool.name]
         self._mouse_down = False
+        self._outlines: dict = {}  # PartRef -> shapely outline of the drawn model, for hit tests
+        self._outlines_model = None  # the Model those outlines belong to
         self._fitted_once = False
         self.error_marks = ErrorMarks(self.plotItem, document)
         document.events.connect("model_changed", self._on_model_changed)
@@ -159,14 +164,29 @@ class Canvas(pg.PlotWidget):
         pts = np.asarray(shape_of(self.document.model, ref).handles())
         self._handles.setData(pts[:, 0], pts[:, 1])
 
+    def _part_outlines(self, model) -> dict:
+        """Outline of every conductor and dielectric shape, built once per Model (the pointer
+        asks on every move; Models are immutable, so an unchanged model keeps its outlines)."""
+        if self._outlines_model is not model:
+            self._outlines = {
+                **{PartRef("conductor", i, j): _outline_or_none(s)
+                   for i, c in enumerate(model.conductors) for j, s in enumerate(c.shapes)},
+                **{PartRef("dielectric", i, j): _outline_or_none(s)
+                   for i, d in enumerate(model.dielectrics) for j, s in enumerate(d.shapes)},
+            }
+            self._outlines_model = model
+        return self._outlines
+
     def part_at(self, raw) -> PartRef | None:
         """The part under the point (conductors first, then the ground plane), or None."""
         model = self.document.model
+        outlines = self._part_outlines(model)
+        point = Point(*raw)
         tol = 6 * self.pixel_size()
         best, best_d = None, tol
         for i, c in enumerate(model.conductors):
             for j, s in enumerate(c.shapes):
-                d = s.distance_to(*raw)
+                d = _distance(outlines[PartRef("conductor", i, j)], s, point)
                 if d <= best_d:
                     best, best_d = PartRef("conductor", i, j), d
                     if d == 0:
@@ -176,7 +196,7 @@ class Canvas(pg.PlotWidget):
         if best is None:
             for i, d in enumerate(model.dielectrics):
                 for j, s in enumerate(d.shapes):
-                    if s.distance_to(*raw) <= tol:
+                    if _distance(outlines[PartRef("dielectric", i, j)], s, point) <= tol:
                         return PartRef("dielectric", i, j)
         return best
 
@@ -301,3 +321,14 @@ class Canvas(pg.PlotWidget):
             event.accept()
             return
         super().keyPressEvent(event)
+
+
+def _outline_or_none(shape):
+    """The shape's geometry in model units for hit tests, or None when it is invalid."""
+    return None if shape.problem() is not None else shape.geometry_m(1.0, DRAWING_ARC_STEP_RAD)
+
+
+def _distance(outline, shape, point: Point) -> float:
+    """Distance from ``point`` to a part: from its cached outline, or from the shape itself
+    when the shape is invalid (drawn as given)."""
+    return float(outline.distance(point)) if outline is not None else shape.distance_to(point.x, point.y)

@@ -18,7 +18,8 @@ from PySide6.QtWidgets import (QComboBox, QFileDialog, QHBoxLayout, QLabel, QLin
 
 import solver
 
-from .figure_jobs import FigureJobRunner
+
+from .figure_jobs import FigureJobRunner, JobProgress
 from .matrices_view import CopyableTable
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
@@ -76,6 +77,9 @@ class CornerRadiusPart(QWidget):
         self.status = QLabel("Solve first; then pick a conductor and run the sweep.")
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
+        self.progress = JobProgress(self.runner)
+        layout.addWidget(self.progress)
+        self.runner.job_cancelled.connect(lambda: self._set_status("Sweep cancelled: press Run sweep to start again."))
         self.plot = pg.PlotWidget(background="w")
         self.plot.setMinimumHeight(230)
         self.plot.showGrid(x=True, y=True, alpha=0.3)
@@ -143,7 +147,8 @@ class CornerRadiusPart(QWidget):
             return
         name = self.conductor_box.currentText()
         self._set_status(f"Sweeping the peak field of '{name}' over {len(radii)} corner radii…")
-        self.runner.start(solver.peak_field_vs_corner_radius, model, name, [r * model.metres_per_unit for r in radii])
+        self.runner.start_with_progress(solver.peak_field_vs_corner_radius, self.results.solution, name,
+                                        [r * model.metres_per_unit for r in radii])
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:

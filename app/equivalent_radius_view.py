@@ -12,7 +12,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QListWidget, QListWidgetItem,
 
 import solver
 
-from .figure_jobs import FigureJobRunner
+from .figure_jobs import FigureJobRunner, JobProgress
 
 
 def default_group(model) -> list[str]:
@@ -58,6 +58,9 @@ class EquivalentRadiusPart(QWidget):
         self.result.setWordWrap(True)
         self.result.setTextInteractionFlags(Qt.TextSelectableByMouse)
         layout.addWidget(self.result)
+        self.progress = JobProgress(self.runner)
+        layout.addWidget(self.progress)
+        self.runner.job_cancelled.connect(self._on_job_cancelled)
         self.compute_button.clicked.connect(self.compute)
 
     def set_results(self, results) -> None:
@@ -92,7 +95,10 @@ class EquivalentRadiusPart(QWidget):
             self._set_result("Tick at least one conductor.", error=True)
             return
         self._set_result(f"Computing the equivalent radius of {', '.join(names)}…")
-        self.runner.start(solver.compare_bundle, self.results.model, names)
+        self.runner.start_with_progress(solver.compare_bundle, self.results.solution, names)
+
+    def _on_job_cancelled(self) -> None:
+        self._set_result("Cancelled: press the button to compute again.")
 
     def _set_result(self, text: str, *, error: bool = False, stale: bool = False) -> None:
         self.result.setText(text)

@@ -2,22 +2,27 @@
 
 :class:`FigureJobRunner` runs ``function(*args, **kwargs)`` (a solver call) in a QThread and
 emits exactly one of ``result_ready(result)`` or ``job_failed(message)`` on the GUI thread for
-the latest job it started. ``cancel()`` drops the running job: the solver calls used here take no
-cancel hook, so the thread runs to its end, but its outcome is never shown; a job started
-meanwhile waits for that thread, so one runner never has two threads computing at once. Errors are passed
-on as text (the solver's own message, or the type and text of an unexpected failure), never
-swallowed.
+the latest job it started. Solver calls that take ``progress`` and ``cancel`` hooks (hot spots,
+corner-radius sweep, equivalent radius, line figures) are started with
+:meth:`FigureJobRunner.start_with_progress`: they report ``progress_changed(fraction, message)``
+and stop soon after :meth:`FigureJobRunner.cancel` (like the main solve, :mod:`app.worker`).
+A cancelled job's outcome is never shown; a job started meanwhile waits for the cancelled
+thread to end, so one runner never has two threads computing at once. Errors are passed on as
+text (the solver's own message, or the type and text of an unexpected failure), never
+swallowed. :class:`JobProgress` is the small progress bar with a Cancel button each section shows.
 """
 
 from __future__ import annotations
 
 import atexit
 import logging
+import threading
 from typing import Callable
 
 from PySide6.QtCore import QObject, QThread, Signal
+from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QPushButton, QWidget
 
-from solver import SolverError
+from solver import SolveCancelled, SolverError
 
 logger = logging.getLogger(__name__)
 
@@ -34,9 +39,13 @@ def error_text(error: BaseException) -> str:
 
 class _JobThread(QThread):
     finished_with = Signal(object, object)  # (result or None, error or None)
+    progressed = Signal(float, str)
 
-    def __init__(self, function: Callable, args: tuple, kwargs: dict) -> None:
+    def __init__(self, function: Callable, args: tuple, kwargs: dict, with_progress: bool) -> None:
         super().__init__()
+        self.stop = threading.Event()
+        if with_progress:
+            kwargs = {**kwargs, "progress": self.progressed.emit, "cancel": self.stop.is_set}
         self.function, self.args, self.kwargs = function, args, kwargs
 
     def run(self) -> None:
@@ -51,31 +60,42 @@ class _JobThread(QThread):
 
 
 class FigureJobRunner(QObject):
-    """Runs one solver call at a time in a worker thread; a new call drops the one running."""
+    """Runs one solver call at a time in a worker thread; a new call cancels the one running."""
 
     result_ready = Signal(object)
     job_failed = Signal(str)
+    job_cancelled = Signal()
     busy_changed = Signal(bool)
+    progress_changed = Signal(float, str)
 
     def __init__(self, parent: QObject | None = None) -> None:
         super().__init__(parent)
         self._current: _JobThread | None = None  # the job whose outcome will be reported
-        self._running: _JobThread | None = None  # the thread still computing (perhaps a dropped job)
-        self._queued: _JobThread | None = None  # waits for a dropped job's thread to end
+        self._running: _JobThread | None = None  # the thread still computing (perhaps a cancelled job)
+        self._queued: _JobThread | None = None  # waits for a cancelled job's thread to end
 
     @property
     def is_busy(self) -> bool:
         return self._current is not None
 
     def start(self, function: Callable, *args, **kwargs) -> None:
-        """Run ``function(*args, **kwargs)``; the outcome of any job still running is dropped.
+        """Run ``function(*args, **kwargs)``; the job still running is cancelled and its outcome dropped.
 
-        At most one thread per runner computes at a time: while a dropped job's thread is still
-        running, the new job waits for it (the solver calls take no cancel hook).
+        The function takes no cancel hook: a cancelled call runs to its end unseen, and a new
+        job waits for it.
         """
+        self._start(function, args, kwargs, with_progress=False)
+
+    def start_with_progress(self, function: Callable, *args, **kwargs) -> None:
+        """Like :meth:`start`, for a solver call that takes ``progress`` and ``cancel`` hooks
+        (they are added here): it reports progress and stops soon after :meth:`cancel`."""
+        self._start(function, args, kwargs, with_progress=True)
+
+    def _start(self, function: Callable, args: tuple, kwargs: dict, with_progress: bool) -> None:
         self.cancel()
-        thread = _JobThread(function, args, kwargs)
+        thread = _JobThread(function, args, kwargs, with_progress)
         thread.finished_with.connect(self._on_thread_finished)
+        thread.progressed.connect(self._on_thread_progressed)
         thread.finished.connect(self._on_thread_ended)  # delivered on the GUI thread
         self._current = thread
         self.busy_changed.emit(True)
@@ -90,13 +110,17 @@ class FigureJobRunner(QObject):
         thread.start()
 
     def cancel(self) -> None:
-        """Drop the current job (its result or error will not be reported)."""
+        """Stop the current job (its result or error will not be reported; ``job_cancelled`` is)."""
         if self._queued is not None:
             self._queued.deleteLater()
             self._queued = None
+        if self._running is not None:
+            self._running.stop.set()
         if self._current is not None:
+            self._current.stop.set()
             self._current = None
             self.busy_changed.emit(False)
+            self.job_cancelled.emit()
 
     def _on_thread_ended(self) -> None:
         thread = self.sender()
@@ -107,15 +131,53 @@ class FigureJobRunner(QObject):
             if queued is not None:
                 self._launch(queued)
 
+    def _on_thread_progressed(self, fraction: float, message: str) -> None:
+        if self.sender() is self._current:
+            self.progress_changed.emit(fraction, message)
+
     def _on_thread_finished(self, result, error) -> None:
         if self.sender() is not self._current:
             return
         self._current = None
         self.busy_changed.emit(False)
-        if error is not None:
+        if isinstance(error, SolveCancelled):
+            self.job_cancelled.emit()
+        elif error is not None:
             self.job_failed.emit(error_text(error))
         else:
             self.result_ready.emit(result)
+
+
+class JobProgress(QWidget):
+    """A progress bar, the stage being computed and a Cancel button, shown while ``runner`` is busy."""
+
+    def __init__(self, runner: FigureJobRunner, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.runner = runner
+        layout = QHBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.bar = QProgressBar()
+        self.bar.setRange(0, 100)
+        self.bar.setMaximumWidth(160)
+        self.message = QLabel("")
+        self.cancel_button = QPushButton("Cancel")
+        self.cancel_button.clicked.connect(runner.cancel)
+        layout.addWidget(self.bar)
+        layout.addWidget(self.message, 1)
+        layout.addWidget(self.cancel_button)
+        runner.progress_changed.connect(self._on_progress_changed)
+        runner.busy_changed.connect(self._on_busy_changed)
+        self.setVisible(False)
+
+    def _on_progress_changed(self, fraction: float, message: str) -> None:
+        self.bar.setValue(int(round(100 * max(0.0, min(1.0, fraction)))))
+        self.message.setText(message)
+
+    def _on_busy_changed(self, busy: bool) -> None:
+        if busy:
+            self.bar.setValue(0)
+            self.message.setText("")
+        self.setVisible(busy)
 
 
 def _forget(thread: _JobThread) -> None:

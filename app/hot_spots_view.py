@@ -23,7 +23,7 @@ from solver.cli.command import HIGH_VOLTAGE_V  # potentials (V) from which the c
 from .air_conditions_box import AirConditionsBox
 from .corner_radius_view import CornerRadiusPart, field_unit
 from .equivalent_radius_view import EquivalentRadiusPart
-from .figure_jobs import FigureJobRunner
+from .figure_jobs import FigureJobRunner, JobProgress
 from .matrices_view import CopyableTable
 from .safety_views import ALTITUDE_KEY
 
@@ -64,6 +64,10 @@ class HotSpotsView(QWidget):
         self.status = QLabel("Not solved yet: press Solve (F5).")
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
+        self.progress = JobProgress(self.runner)  # progress and Cancel while the peaks are refined
+        layout.addWidget(self.progress)
+        self.runner.job_cancelled.connect(
+            lambda: None if self._stale else self._set_status("Hot-spot analysis cancelled; solve again to restart it."))
         self.caution_frame = QFrame()
         self.caution_frame.setObjectName("caution_frame")
         self.caution_frame.setStyleSheet("#caution_frame { border: 3px solid #b00000; background: #fde2e2; }")
@@ -165,7 +169,7 @@ class HotSpotsView(QWidget):
         self._corner_radius_m = corner_radius_m
         rounded = "" if corner_radius_m is None else " with sharp corners rounded"
         self._set_status(f"Refining the peak surface fields{rounded} to {100 * TARGET:g} %…")
-        self.runner.start(solver.analyse_hot_spots, self.results.model, TARGET, corner_radius_m)
+        self.runner.start_with_progress(solver.analyse_hot_spots, self.results.solution, TARGET, corner_radius_m)
 
     def _on_corner_radius_applied(self) -> None:
         if self.results is None:

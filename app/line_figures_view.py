@@ -16,7 +16,7 @@ from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
 import solver
 
-from .figure_jobs import FigureJobRunner
+from .figure_jobs import FigureJobRunner, JobProgress
 from .matrices_view import CopyableTable
 
 QUASI_TEM_NOTE = ("Quasi-TEM figures: they hold while the cross-section is small against the wavelength; "
@@ -62,6 +62,9 @@ class LineFiguresView(QWidget):
         self.status = QLabel("Not solved yet: press Solve (F5).")
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
+        self.progress = JobProgress(self.runner)
+        layout.addWidget(self.progress)
+        self.runner.job_cancelled.connect(self._on_job_cancelled)
         self.note = QLabel(QUASI_TEM_NOTE)
         self.note.setWordWrap(True)
         self.note.setStyleSheet("color: #444;")
@@ -129,8 +132,13 @@ class LineFiguresView(QWidget):
 
     def _start(self) -> None:
         self._pending = False
-        self._set_status("Computing the line figures (a second solve with every relative permittivity 1)…")
-        self.runner.start(solver.transmission_line_figures, self.results.model, estimate_error=True)
+        self._set_status("Computing the line figures from the solution (and, with dielectric regions, a "
+                         "second solve with every relative permittivity 1)…")
+        self.runner.start_with_progress(solver.transmission_line_figures, self.results.solution, estimate_error=True)
+
+    def _on_job_cancelled(self) -> None:
+        self._pending = True  # computed again when the tab is shown next
+        self._set_status("Line figures cancelled; they are computed again when this tab is shown.")
 
     def _on_job_failed(self, message: str) -> None:
         self._set_status(f"No line figures: {message}", "color: #7a0000; font-weight: bold;")

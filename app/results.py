@@ -102,9 +102,10 @@ def compute_results(
     lines = solver.trace_field_lines(solution, n_field_lines) if n_field_lines > 0 else ()
     report(0.9, "Equivalent radii")
     radii = {}
-    for conductor in model.conductors:
+    for k, conductor in enumerate(model.conductors):
+        report(0.9 + 0.1 * k / len(model.conductors), f"Equivalent radius of {conductor.name}")
         try:
-            radii[conductor.name] = solver.equivalent_radius_m(model, [conductor.name])
+            radii[conductor.name] = solver.equivalent_radius_m(solution, [conductor.name])
         except solver.SolverError as exc:  # shown as "n/a" with the reason logged
             logger.warning("equivalent radius of %s: %s", conductor.name, exc)
     report(1.0, "Done")

@@ -12,7 +12,7 @@ the surface charge density, conductor charges and capacitance matrices report, a
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
 
 import numpy as np
@@ -65,6 +65,8 @@ class Solution:
         charges when there is no return path) against a mesh at half the resolution; None when
         no estimate was made.
     coarse_mesh_panels : conductor panels of that coarser mesh.
+    coarse : the solution on that coarser mesh (None when no estimate was made); figures that
+        refine (hot spots) start from this pair instead of solving the model again.
     """
 
     model: Model
@@ -92,6 +94,7 @@ class Solution:
     n_unknowns: int
     estimated_relative_error: float | None = None
     coarse_mesh_panels: int | None = None
+    coarse: Solution | None = field(default=None, compare=False, repr=False)
 
     #: The permittivity the scaled strengths refer to (vacuum), F/m.
     permittivity_F_per_m = EPSILON_0_F_PER_M

@@ -169,7 +169,9 @@ def solve(
         solution.mesh.n_panels, solution.interfaces.n_panels, error,
     )
     report(1.0, "Done")
-    return dataclasses.replace(solution, estimated_relative_error=error, coarse_mesh_panels=coarse.mesh.n_panels)
+    return dataclasses.replace(
+        solution, estimated_relative_error=error, coarse_mesh_panels=coarse.mesh.n_panels, coarse=coarse
+    )
 
 
 def has_permittivity_contrast(model: Model) -> bool:

@@ -1,9 +1,9 @@
-"""Command-line part for hot spots and margins: options, a summary section and JSON keys.
+"""Command-line part for hot spots and margins: the figures, a summary section and JSON keys.
 
-:mod:`solver.cli` calls :func:`add_arguments` on its parser, :func:`configure` with the parsed
-arguments, and lists :func:`hot_spot_section` and :func:`hot_spot_json` among its sections.
-The analysis (:func:`solver.analyse_hot_spots`, :func:`solver.assess_margins`) runs once per
-solution and is shared by the summary and the JSON output.
+:func:`hot_spot_figures` computes, once per report, the refined peaks (starting from the
+solution's own meshes, :func:`solver.analyse_hot_spots`), the margins
+(:func:`solver.assess_margins`), bundles, the corner-radius sweep and the part-length check;
+:func:`hot_spot_section` and :func:`hot_spot_json` only read that value.
 
 JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 ``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
@@ -15,94 +15,75 @@ JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 
 from __future__ import annotations
 
-import argparse
-import math
+from dataclasses import dataclass
 
-from solver.figures.bundles import BundleComparison, compare_bundle
-from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.figures.end_effects import check_part_length
-from solver.errors import InvalidModelError
-from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
-from solver.hot_spots.margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
 from solver.bem.solution import Solution
-
-_options: dict = {}
-_memo: dict = {}
-
-
-def add_arguments(parser: argparse.ArgumentParser) -> None:
-    """Add the air, surface, corner-radius and error-target options to ``parser``."""
-    group = parser.add_argument_group("hot spots and margins")
-    group.add_argument("--altitude-m", type=float, help="site altitude above sea level, m (standard-atmosphere pressure)")
-    group.add_argument("--pressure-kPa", type=float, help="air pressure, kPa (instead of --altitude-m)")
-    group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
-    group.add_argument("--surface-factor", type=float, default=1.0,
-                       help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
-    group.add_argument("--corner-radius-m", type=float,
-                       help="round every sharp corner and strip edge to this radius, m, for the peak fields")
-    group.add_argument("--peak-target", type=float, default=0.01,
-                       help="relative error target of the peak fields (default 0.01)")
-    group.add_argument("--part-length-m", type=float,
-                       help="length of the real part, m: how far it is from the 2-D assumption")
-    group.add_argument("--radius-sweep", metavar="CONDUCTOR=R1,R2,...",
-                       help="peak field of CONDUCTOR with its corners rounded to each radius (m)")
+from solver.bem.solve import CancelCallback, ProgressCallback
+from solver.cli.caution import HIGH_VOLTAGE_V
+from solver.cli.formatting import format_optional, text_table
+from solver.cli.options import ReportOptions
+from solver.errors import InvalidModelError
+from solver.figures.bundles import BundleComparison, compare_bundle
+from solver.figures.end_effects import LengthCheck, check_part_length
+from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
+from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.margins import THIN_MARGIN, MarginReport, assess_margins
 
 
-def configure(args: argparse.Namespace) -> None:
-    """Take the options of one command-line run (call before the sections run)."""
-    _memo.clear()
-    temperature_K = REFERENCE_TEMPERATURE_K if getattr(args, "temperature_C", None) is None else args.temperature_C + 273.15
-    m = getattr(args, "surface_factor", 1.0)
-    if getattr(args, "pressure_kPa", None) is not None:
-        air = AirConditions.at_pressure(args.pressure_kPa * 1e3, temperature_K, surface_factor=m)
-    elif getattr(args, "altitude_m", None) is not None:
-        air = AirConditions.at_altitude(args.altitude_m, temperature_K, surface_factor=m)
-    elif temperature_K != REFERENCE_TEMPERATURE_K:
-        air = AirConditions.at_pressure(REFERENCE_PRESSURE_PA, temperature_K, surface_factor=m)
-    else:
-        air = AirConditions(surface_factor=m)
-    _options.update(air=air, corner_radius_m=getattr(args, "corner_radius_m", None),
-                    target=getattr(args, "peak_target", 0.01), part_length_m=getattr(args, "part_length_m", None),
-                    sweep=_parse_sweep(getattr(args, "radius_sweep", None)))
+@dataclass(frozen=True)
+class HotSpotFigures:
+    """Everything the hot-spot section and JSON keys show, computed once.
+
+    Attributes
+    ----------
+    report : refined peak fields.
+    margins : air-breakdown and corona-onset margins of those peaks.
+    bundles : equivalent radius of each group of fixed conductors at one potential.
+    radius_sweep : peak field against corner radius (None when not asked).
+    part_length : how far the real part is from the 2-D assumption (None when not asked).
+    """
+
+    report: HotSpotReport
+    margins: MarginReport
+    bundles: tuple[BundleComparison, ...]
+    radius_sweep: CornerRadiusSweep | None
+    part_length: LengthCheck | None
 
 
-def _parse_sweep(text: str | None) -> tuple[str, list[float]] | None:
-    if not text:
-        return None
-    name, sep, radii = text.rpartition("=")
-    try:
-        values = [float(r) for r in radii.split(",") if r.strip()]
-    except ValueError:
-        values = []
-    if not sep or not name or not values:
-        raise InvalidModelError(f"--radius-sweep '{text}': write CONDUCTOR=R1,R2,... with radii in metres.")
-    return name, values
-
-
-def radius_sweep(solution: Solution) -> CornerRadiusSweep | None:
+def radius_sweep(
+    solution: Solution, options: ReportOptions, cancel: CancelCallback | None = None
+) -> CornerRadiusSweep | None:
     """The corner-radius sweep asked for with --radius-sweep (None when not asked)."""
-    if _options.get("sweep") is None:
+    if options.radius_sweep is None:
         return None
-    cached = _memo.get("sweep")
-    if cached is None or cached[0] is not solution:
-        name, radii = _options["sweep"]
-        if name not in solution.model.conductor_names:
-            raise InvalidModelError(f"--radius-sweep: no conductor named '{name}'; the model has "
-                                    f"{', '.join(solution.model.conductor_names)}.")
-        cached = _memo["sweep"] = (solution, peak_field_vs_corner_radius(solution.model, name, radii,
-                                                                          _options.get("target", 0.01)))
-    return cached[1]
+    name, radii = options.radius_sweep
+    if name not in solution.model.conductor_names:
+        raise InvalidModelError(f"--radius-sweep: no conductor named '{name}'; the model has "
+                                f"{', '.join(solution.model.conductor_names)}.")
+    return peak_field_vs_corner_radius(solution, name, radii, options.peak_target, cancel=cancel)
 
 
-def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
-    """Hot spots and margins of the solution's model (computed once per solution)."""
-    cached = _memo.get("analysis")
-    if cached is None or cached[0] is not solution:
-        report = analyse_hot_spots(solution.model, _options.get("target", 0.01), _options.get("corner_radius_m"))
-        margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN,
-                                 report.air_region)
-        cached = _memo["analysis"] = (solution, report, margins)
-    return cached[1], cached[2]
+def analysis(
+    solution: Solution, options: ReportOptions, progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> tuple[HotSpotReport, MarginReport]:
+    """Hot spots (refined from the solution's meshes) and margins of the solution's model."""
+    report = analyse_hot_spots(solution, options.peak_target, options.corner_radius_m,
+                               progress=progress, cancel=cancel)
+    margins = assess_margins(report.solved_model, report.hot_spots, options.air, THIN_MARGIN,
+                             report.air_region)
+    return report, margins
+
+
+def hot_spot_figures(
+    solution: Solution, options: ReportOptions, progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> HotSpotFigures:
+    """Compute the :class:`HotSpotFigures` of ``solution`` for one run's ``options``."""
+    report, margins = analysis(solution, options, progress, cancel)
+    part_length = None if options.part_length_m is None else check_part_length(solution.model, options.part_length_m)
+    return HotSpotFigures(report, margins, bundle_comparisons(solution), radius_sweep(solution, options, cancel),
+                          part_length)
 
 
 def bundle_groups(solution: Solution) -> list[tuple[str, ...]]:
@@ -114,29 +95,18 @@ def bundle_groups(solution: Solution) -> list[tuple[str, ...]]:
     return [tuple(names) for names in groups.values() if len(names) >= 2]
 
 
-def bundle_comparisons(solution: Solution) -> list[BundleComparison]:
+def bundle_comparisons(solution: Solution) -> tuple[BundleComparison, ...]:
     """Equivalent radius of each group of :func:`bundle_groups`, with the bundle formula."""
-    cached = _memo.get("bundles")
-    if cached is None or cached[0] is not solution:
-        cached = _memo["bundles"] = (solution, [compare_bundle(solution.model, names) for names in bundle_groups(solution)])
-    return cached[1]
+    return tuple(compare_bundle(solution, names) for names in bundle_groups(solution))
 
 
-def _fmt(value: float | None, unit: str = "", digits: int = 3) -> str:
-    from solver.cli.command import format_engineering
-
-    if value is None:
-        return "-"
-    if not math.isfinite(value):
-        return "inf"
-    return format_engineering(value, unit, digits) if unit else f"{value:.{digits}g}"
+_fmt = format_optional
+_table = text_table
 
 
-def hot_spot_section(solution: Solution) -> list[str]:
+def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
     """Peak fields refined to the target, with error, enhancement and margins per conductor."""
-    from solver.cli.command import _table
-
-    report, margins = analysis(solution)
+    report, margins = figures.report, figures.margins
     model = solution.model
     rounded = "" if report.corner_radius_m is None else f", corners rounded to {report.corner_radius_m * 1e3:g} mm"
     rows = []
@@ -165,10 +135,8 @@ def hot_spot_section(solution: Solution) -> list[str]:
                          f"({spot.local_radius_of_curvature_m * 1e3:.3g} mm), an approximation.")
         if spot.singular or not spot.converged:
             lines.append(f"  {spot.conductor}: {spot.note}")
-    from solver.cli.command import HIGH_VOLTAGE_V
-
-    if _options.get("part_length_m") is not None:
-        lines.append("  Part length: " + check_part_length(model, _options["part_length_m"]).note)
+    if figures.part_length is not None:
+        lines.append("  Part length: " + figures.part_length.note)
 
     high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
     if report.air_region is not None:
@@ -181,7 +149,7 @@ def hot_spot_section(solution: Solution) -> list[str]:
         lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
                      f"{ar.where} at ({x:.4g}, {y:.4g}) {model.unit}; air margin {_fmt(margins.air_region_margin)}, "
                      f"{margins.air_region_status}.")
-    for b in bundle_comparisons(solution):
+    for b in figures.bundles:
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
                 f"{b.equivalent_radius_m / model.metres_per_unit:.5g} {model.unit}")
         if b.is_regular_bundle:
@@ -189,7 +157,7 @@ def hot_spot_section(solution: Solution) -> list[str]:
                      f"{b.formula_equivalent_radius_m / model.metres_per_unit:.5g} {model.unit} "
                      f"({100 * b.relative_difference:+.2g} %)")
         lines.append(text + ".")
-    sweep = radius_sweep(solution)
+    sweep = figures.radius_sweep
     if sweep is not None:
         lines += ["", *sweep.as_table().splitlines()]
         if sweep.fitted_exponent is not None:
@@ -200,9 +168,9 @@ def hot_spot_section(solution: Solution) -> list[str]:
     return lines
 
 
-def hot_spot_json(solution: Solution) -> dict:
+def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
     """JSON keys of the hot spots and margins (SI units; lists in conductor order)."""
-    report, margins = analysis(solution)
+    report, margins = figures.report, figures.margins
     margin_dict = margins.as_dict()
     per = margin_dict["conductors"]
     return {
@@ -222,8 +190,7 @@ def hot_spot_json(solution: Solution) -> dict:
         "high_voltage_caution": margin_dict["caution"],
         "hot_spots": report.as_dict(),
         "margins": margin_dict,
-        "corner_radius_sweep": None if radius_sweep(solution) is None else radius_sweep(solution).as_dict(),
-        "part_length_check": None if _options.get("part_length_m") is None
-        else vars(check_part_length(solution.model, _options["part_length_m"])),
-        "bundles": [vars(b) | {"conductors": list(b.conductors)} for b in bundle_comparisons(solution)],
+        "corner_radius_sweep": None if figures.radius_sweep is None else figures.radius_sweep.as_dict(),
+        "part_length_check": None if figures.part_length is None else vars(figures.part_length),
+        "bundles": [vars(b) | {"conductors": list(b.conductors)} for b in figures.bundles],
     }

@@ -1,9 +1,9 @@
 """Command-line part for dielectrics and transmission-line figures: summary sections and JSON keys.
 
-:mod:`solver.cli` lists :func:`dielectric_section`, :func:`transmission_line_section` and
-:func:`transmission_line_json` among its sections. The figures need the capacitance matrix in
-vacuum as well: for a homogeneous model it is C / eps_r of the background; with dielectric
-regions a second solve with every eps_r = 1 is made once per solution and shared.
+:func:`figures_for_solution` computes the figures once per report from the solution's own
+capacitance matrix (:func:`solver.figures.transmission_line.figures_from_solution`: the matrix
+in vacuum is C / eps_r of the background for a homogeneous model; with regions of other
+permittivity one solve in vacuum is made). The sections only read the figures.
 
 JSON keys: ``transmission_line`` (the fields of
 :class:`~solver.transmission_line.TransmissionLineFigures`, SI units, or None),
@@ -13,43 +13,29 @@ name, eps_r, peak field in V/m, its location in metres and where it sits).
 
 from __future__ import annotations
 
-from solver.bem.solve import has_permittivity_contrast
-from solver.mesh.panels import MeshSettings
 from solver.bem.solution import Solution
-from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, vacuum_model
+from solver.figures.transmission_line import (
+    TransmissionLineFigures,
+    figures_from_solution,
+)
 
-_memo: dict = {}
+NO_LINE_FIGURES = "No transmission-line figures: they need a return path and at least one fixed-potential conductor."
 
 
 def figures_for_solution(solution: Solution) -> TransmissionLineFigures | None:
     """Transmission-line figures of a solved model, or None without a return path or signal line."""
-    key = id(solution)
-    if key in _memo and _memo[key][0] is solution:
-        return _memo[key][1]
     model = solution.model
-    figures = None
-    if model.has_return_path and model.signal_names:
-        c = solution.capacitance_maxwell_F_per_m
-        if has_permittivity_contrast(model):
-            from solver.bem.solve import solve
-
-            settings = MeshSettings(solution.mesh.settings.level)
-            c0 = solve(vacuum_model(model), estimate_error=False, settings=settings).capacitance_maxwell_F_per_m
-        else:
-            c0 = c / model.background_eps_r
-        figures = figures_from_matrices(c, c0, model.signal_names, solution.estimated_relative_error)
-    _memo.clear()
-    _memo[key] = (solution, figures)
-    return figures
+    if not (model.has_return_path and model.signal_names):
+        return None
+    return figures_from_solution(solution)
 
 
 def _ohm(value: float) -> str:
     return f"{value:.4g} ohm"
 
 
-def transmission_line_section(solution: Solution) -> list[str]:
+def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
     """Quasi-TEM figures: Z0 and eps_eff, even/odd modes of a pair, or the modes of N lines."""
-    f = figures_for_solution(solution)
     if f is None:
         return []
     lines = ["Transmission-line figures (quasi-TEM, lossless; L from the same cross-section in vacuum)"]
@@ -106,12 +92,14 @@ def dielectric_section(solution: Solution) -> list[str]:
     return lines
 
 
-def transmission_line_json(solution: Solution) -> dict:
-    """JSON keys ``transmission_line``, ``transmission_line_note`` and ``dielectric_regions``."""
-    f = figures_for_solution(solution)
-    note = None if f is not None else (
-        "No transmission-line figures: they need a return path and at least one fixed-potential conductor."
-    )
+def transmission_line_json(solution: Solution, figures: TransmissionLineFigures | None = None) -> dict:
+    """JSON keys ``transmission_line``, ``transmission_line_note`` and ``dielectric_regions``.
+
+    ``figures`` are the solution's transmission-line figures when already computed (else they
+    are computed here).
+    """
+    f = figures if figures is not None else figures_for_solution(solution)
+    note = None if f is not None else NO_LINE_FIGURES
     peaks = solution.peak_region_fields
     regions = [
         {"name": p.region, "eps_r": p.eps_r, "peak_field_V_per_m": p.field_V_per_m,

@@ -14,14 +14,16 @@ limit: it includes the crowding of charge toward the outside of the bundle.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass
-from typing import Iterable
 
 import numpy as np
 
-from solver.figures.equilibrium import equivalent_radius_m
+from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
 from solver.errors import InvalidModelError
 from solver.model.model import Model
+from solver.figures.equilibrium import equivalent_radius_m
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings
 
 
@@ -95,8 +97,18 @@ def _regular_bundle(model: Model, names: list[str]) -> tuple[int, float, float] 
     return n, float(radii[0]), a
 
 
-def compare_bundle(model: Model, conductors: Iterable[str] | None = None) -> BundleComparison:
+def compare_bundle(
+    source: Solution | Model,
+    conductors: Iterable[str] | None = None,
+    *,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> BundleComparison:
     """Equivalent radius of the named conductors (default all) tied together, and the formula.
+
+    ``source`` is a solution (the radius is computed at its mesh resolution and at half of it)
+    or a model (at its mesh density and half of it). ``progress(fraction, message)`` is called
+    before each of the two solves and ``cancel()`` polled (SolveCancelled when it returns True).
 
     Examples
     --------
@@ -106,12 +118,17 @@ def compare_bundle(model: Model, conductors: Iterable[str] | None = None) -> Bun
     >>> abs(compare_bundle(pair).relative_difference) < 1e-3
     True
     """
+    model = source.model if isinstance(source, Solution) else source
     names = list(model.conductor_names if conductors is None else conductors)
     if not names:
         raise InvalidModelError("No conductors named for the equivalent radius; name at least one.")
-    level = DENSITY_LEVELS[model.mesh_density]
+    level = source.mesh.settings.level if isinstance(source, Solution) else DENSITY_LEVELS[model.mesh_density]
+    report = progress_reporter(progress, cancel)
+    report(0.0, "Equivalent radius")
     fine = equivalent_radius_m(model, names, MeshSettings(level))
+    report(0.7, "Equivalent radius on a mesh at half the resolution")
     coarse = equivalent_radius_m(model, names, MeshSettings(level / 2.0))
+    report(1.0, "Done")
     bundle = _regular_bundle(model, names)
     formula = None if bundle is None else bundle_equivalent_radius_formula_m(*bundle)
     return BundleComparison(

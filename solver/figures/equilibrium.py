@@ -10,15 +10,16 @@ The charge then spreads as the equilibrium distribution: uniform on a disc, the 
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass, replace
-from typing import Iterable
 
 import numpy as np
 import scipy.linalg
 
 from solver.bem.kernels import log_potential_integrals
-from solver.model.model import Model
+from solver.bem.solution import Solution
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
+from solver.model.model import Model
 
 
 @dataclass(frozen=True)
@@ -38,10 +39,22 @@ class EquilibriumCharge:
     equivalent_radius_m: float
 
 
+def _model_and_settings(source: Solution | Model, settings: MeshSettings | None) -> tuple[Model, MeshSettings]:
+    """The model, and the mesh settings: as given, else the solution's, else the model's density."""
+    if isinstance(source, Solution):
+        return source.model, settings or MeshSettings(source.mesh.settings.level)
+    return source, settings or MeshSettings.for_density(source.mesh_density)
+
+
 def equilibrium_charge(
-    model: Model, names: Iterable[str] | None = None, settings: MeshSettings | None = None
+    source: Solution | Model, names: Iterable[str] | None = None, settings: MeshSettings | None = None
 ) -> EquilibriumCharge:
-    """Equilibrium charge and equivalent radius of the named conductors (all by default)."""
+    """Equilibrium charge and equivalent radius of the named conductors (all by default).
+
+    ``source`` is a solution (its model, meshed at the solution's resolution) or a model
+    (meshed at its mesh density); ``settings`` overrides the resolution.
+    """
+    model, settings = _model_and_settings(source, settings)
     wanted = list(model.conductor_names if names is None else names)
     for name in wanted:
         model.conductor(name)  # raises a KeyError naming the known conductors
@@ -51,7 +64,7 @@ def equilibrium_charge(
         ground_plane=None,
         dielectrics=(),
     )
-    mesh = discretize_boundary(sub, settings or MeshSettings.for_density(model.mesh_density))
+    mesh = discretize_boundary(sub, settings)
     pts = np.vstack([mesh.starts, mesh.ends])
     ell = float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0))))
     starts, ends = mesh.starts / ell, mesh.ends / ell
@@ -67,12 +80,15 @@ def equilibrium_charge(
     return EquilibriumCharge(mesh, x[:n] / ell, float(ell * math.exp(-x[n])))
 
 
-def equivalent_radius_m(model: Model, names: Iterable[str] | None = None, settings: MeshSettings | None = None) -> float:
+def equivalent_radius_m(
+    source: Solution | Model, names: Iterable[str] | None = None, settings: MeshSettings | None = None
+) -> float:
     """Equivalent radius (logarithmic capacity) of conductors tied together, in isolation, metres.
 
     The named conductors (all by default) are taken alone — no other conductor, no ground
     plane — connected together and given a net charge Q with the potential at infinity 0.
     With the resulting potential V, cap = exp(-2 pi eps V / Q): a disc of radius r gives r,
     a segment of length l gives l / 4; a bundle behaves like one round wire of this radius.
+    ``source`` is a solution (meshed at its resolution) or a model (at its mesh density).
     """
-    return equilibrium_charge(model, names, settings).equivalent_radius_m
+    return equilibrium_charge(source, names, settings).equivalent_radius_m

@@ -14,6 +14,7 @@ All points are in metres; grids are row-major ``(ny, nx)``.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -21,9 +22,10 @@ import shapely
 from shapely.geometry import LineString, MultiLineString
 from shapely.ops import unary_union
 
-from solver.model.geometry import conductor_geometries
-from solver.mesh.panels import MeshSettings
 from solver.bem.solution import Solution
+from solver.mesh.panels import MeshSettings
+from solver.model.geometry import conductor_geometries
+from solver.model.model import Model
 
 #: Points evaluated per call of the field routines (bounds memory to about 50 MB).
 _CHUNK = 3000
@@ -56,7 +58,18 @@ class FieldLine:
 
 
 def _solid_and_strip_geometry(solution: Solution):
-    model = solution.model
+    """The conductors of the solution's model as one prepared solid and one strip geometry."""
+    return conductor_outline(solution.model)
+
+
+@functools.lru_cache(maxsize=8)
+def conductor_outline(model: Model):
+    """(solid, strip): the model's solid conductors (prepared for fast point tests) and its
+    strips, in metres; either None when absent.
+
+    Built once per model (Models are immutable values) and kept for the few most recent
+    models, so that evaluating a readout at the cursor does not rebuild the geometry.
+    """
     settings = MeshSettings.for_density(model.mesh_density)
     geoms = conductor_geometries(model, settings.arc_step_rad)
     solids, strips = [], []

@@ -77,14 +77,21 @@ def _capacitance(model: Model, settings: MeshSettings | None) -> np.ndarray:
     return solve(model, estimate_error=False, settings=settings).capacitance_maxwell_F_per_m
 
 
-def truncation_error(model: Model, factor: float = 2.0, settings: MeshSettings | None = None) -> float | None:
+def truncation_error(
+    model: Model,
+    factor: float = 2.0,
+    settings: MeshSettings | None = None,
+    capacitance_F_per_m: np.ndarray | None = None,
+) -> float | None:
     """Relative change of the capacitance matrix when the truncated layers are ``factor`` times wider.
 
-    None when the model has no truncated layer.
+    None when the model has no truncated layer. ``capacitance_F_per_m`` is the model's own
+    Maxwell matrix at ``settings`` when already solved (then only the widened model is solved).
     """
     if not truncated_layers(model):
         return None
-    a, b = _capacitance(model, settings), _capacitance(widened(model, factor), settings)
+    a = _capacitance(model, settings) if capacitance_F_per_m is None else np.asarray(capacitance_F_per_m)
+    b = _capacitance(widened(model, factor), settings)
     return float(np.abs(a - b).max() / np.abs(b).max())
 
 

@@ -17,8 +17,9 @@ same with every relative permittivity set to 1 (F/m, over the signal conductors)
     coupling coefficients: k_C,ij = -C_ij / sqrt(C_ii C_jj), k_L,ij = L_ij / sqrt(L_ii L_jj).
 
 These are the textbook quasi-TEM relations (e.g. C. R. Paul, Analysis of Multiconductor
-Transmission Lines, Wiley, 1994, ch. 3-5). :func:`transmission_line_figures` solves a model
-twice and returns the figures; :func:`figures_from_matrices` is the pure function.
+Transmission Lines, Wiley, 1994, ch. 3-5). :func:`figures_from_solution` takes a solved
+model (and solves it in vacuum only when a region's permittivity differs from the
+background's); :func:`figures_from_matrices` is the pure function.
 """
 
 from __future__ import annotations
@@ -28,8 +29,11 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback
 from solver.constants import SPEED_OF_LIGHT_M_PER_S
 from solver.errors import NoReferenceError
+from solver.mesh.panels import MeshSettings
 from solver.model.model import Model
 
 #: Relative mismatch of C11/C22 (and C0) below which a two-line model counts as a symmetric pair.
@@ -186,41 +190,91 @@ def vacuum_model(model: Model) -> Model:
     return replace(model, dielectrics=(), background_eps_r=1.0)
 
 
-def transmission_line_figures(
-    model: Model, *, estimate_error: bool = False, estimate_truncation: bool = False, settings=None
+def figures_from_solution(
+    solution: Solution,
+    *,
+    estimate_error: bool = False,
+    estimate_truncation: bool = False,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
 ) -> TransmissionLineFigures:
-    """Solve ``model`` with its dielectrics and in vacuum and return the transmission-line figures.
+    """Transmission-line figures of a solved model, reusing its capacitance matrix C.
 
-    ``estimate_error`` also solves at half the mesh resolution; ``estimate_truncation`` also
-    solves with the truncated layers twice as wide (see :mod:`solver.layers`).
+    C0 (every eps_r = 1) is C / eps_r of the background when no region's permittivity differs
+    from the background's; otherwise the cross-section is solved once more in vacuum at the
+    solution's mesh resolution (``estimate_error`` also at half of it).
+    ``estimate_truncation`` solves with the truncated layers twice as wide (see
+    :mod:`solver.layers`). The error of the figures is the larger of the two solves' estimates.
+    ``progress`` and ``cancel`` are passed to that solve (see :func:`solver.solve`).
 
     Raises NoReferenceError when the model has no return path or no signal conductor.
-
-    Examples
-    --------
-    >>> from solver import load_project
-    >>> f = transmission_line_figures(load_project("sample_geometries/microstrip_on_substrate.json"))
-    >>> round(f.characteristic_impedance_ohm)  # doctest: +SKIP
-    50
     """
-    from solver.bem.solve import solve
+    from solver.bem.solve import has_permittivity_contrast, progress_reporter, solve
 
+    model = solution.model
+    report = progress_reporter(progress, cancel)
     if not model.has_return_path or not model.signal_names:
         raise NoReferenceError(
             "No transmission-line figures: they need a return path (a reference conductor or a "
             "ground plane) and at least one conductor with a fixed potential."
         )
-    with_dielectrics = solve(model, estimate_error=estimate_error, settings=settings)
-    in_vacuum = solve(vacuum_model(model), estimate_error=estimate_error, settings=settings)
-    errors = [e for e in (with_dielectrics.estimated_relative_error, in_vacuum.estimated_relative_error) if e is not None]
-    figures = figures_from_matrices(
-        with_dielectrics.capacitance_maxwell_F_per_m,
-        in_vacuum.capacitance_maxwell_F_per_m,
-        model.signal_names,
-        max(errors) if errors else None,
-    )
+    c = solution.capacitance_maxwell_F_per_m
+    settings = MeshSettings(solution.mesh.settings.level)
+    errors = [solution.estimated_relative_error]
+    if has_permittivity_contrast(model):
+        in_vacuum = solve(vacuum_model(model), estimate_error=estimate_error, settings=settings,
+                          progress=lambda f, m: report(0.9 * f, f"In vacuum: {m}"), cancel=cancel)
+        c0 = in_vacuum.capacitance_maxwell_F_per_m
+        errors.append(in_vacuum.estimated_relative_error)
+    else:
+        c0 = c / model.background_eps_r
+    known = [e for e in errors if e is not None]
+    figures = figures_from_matrices(c, c0, model.signal_names, max(known) if known else None)
     if estimate_truncation:
         from solver.figures.layers import truncation_error
 
-        figures = replace(figures, truncation_relative_error=truncation_error(model, settings=settings))
+        report(0.9, "Truncation error of the layers")
+        figures = replace(
+            figures, truncation_relative_error=truncation_error(model, settings=settings, capacitance_F_per_m=c)
+        )
+    report(1.0, "Done")
     return figures
+
+
+def transmission_line_figures(
+    source: Solution | Model,
+    *,
+    estimate_error: bool = False,
+    estimate_truncation: bool = False,
+    settings: MeshSettings | None = None,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> TransmissionLineFigures:
+    """Transmission-line figures of a solution, or of a model solved here first.
+
+    A Solution is used as it is (see :func:`figures_from_solution`; ``settings`` is then
+    ignored). A Model is solved at ``settings`` (default: its mesh density), with the error
+    estimate when ``estimate_error`` is set.
+
+    Raises NoReferenceError when the model has no return path or no signal conductor.
+
+    Examples
+    --------
+    >>> from solver import load_project, solve
+    >>> f = transmission_line_figures(solve(load_project("sample_geometries/microstrip_on_substrate.json")))
+    >>> round(f.characteristic_impedance_ohm)  # doctest: +SKIP
+    50
+    """
+    from solver.bem.solve import solve
+
+    if isinstance(source, Solution):
+        solution = source
+    else:
+        if not source.has_return_path or not source.signal_names:
+            raise NoReferenceError(
+                "No transmission-line figures: they need a return path (a reference conductor or a "
+                "ground plane) and at least one conductor with a fixed potential."
+            )
+        solution = solve(source, estimate_error=estimate_error, settings=settings, cancel=cancel)
+    return figures_from_solution(solution, estimate_error=estimate_error, estimate_truncation=estimate_truncation,
+                                 progress=progress, cancel=cancel)

@@ -31,16 +31,20 @@ from __future__ import annotations
 
 import logging
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass, field
-from typing import Iterable
 
 import numpy as np
 
-from solver.hot_spots.air_region import AirRegionPeak, air_region_peak
-from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from solver.hot_spots.curvature import signed_radius_of_curvature_m
+from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve_mesh
 from solver.errors import InvalidModelError
-from solver.model.model import Model
+from solver.hot_spots.air_region import AirRegionPeak, air_region_peak
+from solver.hot_spots.corner_rounding import (
+    conductors_with_sharp_corners,
+    round_sharp_corners,
+)
+from solver.hot_spots.curvature import signed_radius_of_curvature_m
 from solver.hot_spots.peak_diagnostics import (
     GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
     corner_field_grows,
@@ -48,9 +52,8 @@ from solver.hot_spots.peak_diagnostics import (
     nearest_other_potential,
     richardson_estimate,
 )
-from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, discretize_boundary
-from solver.bem.solution import Solution
-from solver.bem.solve import solve
+from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, PanelMesh, discretize_boundary
+from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
 
@@ -188,24 +191,39 @@ class HotSpotReport:
         }
 
 
+def _solutions_at_levels(solution: Solution) -> dict[float, Solution]:
+    """The solutions a solve already made, by mesh resolution level (the solution and its coarse companion)."""
+    known = {solution.mesh.settings.level: solution}
+    if solution.coarse is not None:
+        known.setdefault(solution.coarse.mesh.settings.level, solution.coarse)
+    return known
+
+
 def analyse_hot_spots(
-    model: Model,
+    source: Solution | Model,
     target_relative_error: float = 0.01,
     corner_radius_m: float | None = None,
     conductors: Iterable[str] | None = None,
     max_panels: int = DEFAULT_MAX_PANELS,
     replace_radius: bool = False,
+    *,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
 ) -> HotSpotReport:
     """Peak surface field of each conductor, refined until its error estimate meets a target.
 
     Parameters
     ----------
-    model : Model
+    source : Solution or Model
+        A solution (from :func:`solver.solve`) to start from: its mesh and the coarser mesh of
+        its error estimate are the first two levels of the refinement, so they are not solved
+        again. A Model is solved from scratch at the levels its mesh density implies.
     target_relative_error : float
         Stop refining when every non-singular peak's Richardson estimate is at or below this.
     corner_radius_m : float, optional
         Round the sharp corners (and strip edges) of the analysed conductors to this radius,
-        metres, and solve the rounded model (see :func:`solver.round_sharp_corners`).
+        metres, and solve the rounded model (see :func:`solver.round_sharp_corners`); the
+        given solution is then of another model and is not reused.
     conductors : iterable of str, optional
         Conductors to analyse (default: all).
     max_panels : int
@@ -213,6 +231,11 @@ def analyse_hot_spots(
     replace_radius : bool
         With ``corner_radius_m``: a one-rectangle conductor gets exactly that radius even if
         it is drawn with a larger one (used by the corner-radius sweep).
+    progress : callable(fraction, message), optional
+        Called before each solve (the fraction is a rough guide: the number of levels is not
+        known in advance).
+    cancel : callable() -> bool, optional
+        Polled between and inside solves; when it returns True, SolveCancelled is raised.
 
     Returns
     -------
@@ -220,19 +243,23 @@ def analyse_hot_spots(
 
     Examples
     --------
-    >>> from solver import Model, Conductor, Rectangle, GroundPlane
+    >>> from solver import Model, Conductor, Rectangle, GroundPlane, solve
     >>> bar = Model(unit="mm", ground_plane=GroundPlane(0.0), conductors=(
     ...     Conductor("bar", (Rectangle((0, 30), 40, 10, 2.0),), potential_V=10e3),))
-    >>> spot = analyse_hot_spots(bar).for_conductor("bar")
+    >>> spot = analyse_hot_spots(solve(bar)).for_conductor("bar")
     >>> spot.estimated_relative_error < 0.01
     True
     """
     if not (0 < target_relative_error < 1):
         raise InvalidModelError(f"Target relative error is {target_relative_error}; give a number between 0 and 1.")
+    if isinstance(source, Solution):
+        model, base = source.model, source.mesh.settings.level
+    else:
+        model, base = source, DENSITY_LEVELS[source.mesh_density]
     names = list(model.conductor_names if conductors is None else conductors)
     for name in names:
         model.conductor(name)
-    base = DENSITY_LEVELS[model.mesh_density]
+    report = progress_reporter(progress, cancel)
     levels = [base / 2.0, base, 2.0 * base]
     solved_models: list[Model] = []
     solutions: list[Solution] = []
@@ -241,19 +268,40 @@ def analyse_hot_spots(
     if corner_radius_m is not None:
         sharp = set(conductors_with_sharp_corners(model))
         to_round = names if replace_radius else [n for n in names if n in sharp]
+    rounding = corner_radius_m is not None and bool(to_round)
+    known = _solutions_at_levels(source) if isinstance(source, Solution) and not rounding else {}
+
+    meshes: dict[float, PanelMesh] = {}  # meshed for the budget check, solved later
+    rounded: dict[float, Model] = {}
 
     def model_at(level: float) -> Model:
-        if corner_radius_m is None or not to_round:
+        if not rounding:
             return model
-        return round_sharp_corners(model, corner_radius_m, to_round, level=level, replace_radius=replace_radius)
+        if level not in rounded:
+            rounded[level] = round_sharp_corners(model, corner_radius_m, to_round, level=level,
+                                                 replace_radius=replace_radius)
+        return rounded[level]
+
+    def mesh_at(level: float) -> PanelMesh:
+        if level not in meshes:
+            meshes[level] = discretize_boundary(model_at(level), MeshSettings(level))
+        return meshes[level]
 
     def run(level: float) -> None:
         m = model_at(level)
         solved_models.append(m)
-        solutions.append(solve(m, estimate_error=False, settings=MeshSettings(level)))
+        if level in known:
+            solutions.append(known[level])
+            logger.info("hot spots: level %g, %d panels (already solved)", level, known[level].mesh.n_panels)
+            return
+        report(min(0.9, 0.2 * len(solutions)), f"Hot spots: solving at mesh level {level:g}")
+        solutions.append(solve_mesh(m, mesh_at(level), cancel))
         logger.info("hot spots: level %g, %d panels", level, solutions[-1].mesh.n_panels)
 
-    while levels[0] > 1.0 / 16.0 and discretize_boundary(model_at(levels[-1]), MeshSettings(levels[-1])).n_panels > max_panels:
+    def n_panels_at(level: float) -> int:
+        return known[level].mesh.n_panels if level in known else mesh_at(level).n_panels
+
+    while levels[0] > 1.0 / 16.0 and n_panels_at(levels[-1]) > max_panels:
         levels = [level / 2.0 for level in levels]  # the first three meshes must fit the budget too
     for level in levels:
         run(level)
@@ -275,6 +323,7 @@ def analyse_hot_spots(
             break
         levels.append(next_level)
         run(next_level)
+    report(1.0, "Hot spots: done")
 
     final = solutions[-1]
     neighbours = nearest_other_potential(solved_models[-1], final)
@@ -328,8 +377,5 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
 
 
 def _medium_eps_r(solution: Solution, panel: int) -> float:
-    """Relative permittivity next to a conductor panel (the dielectric solution knows it per panel)."""
-    per_panel = getattr(solution, "conductor_eps_r_plus", None)
-    if per_panel is not None and len(per_panel) == solution.mesh.n_panels:
-        return float(per_panel[panel])
-    return float(solution.model.background_eps_r)
+    """Relative permittivity next to a conductor panel (on its field side)."""
+    return float(solution.conductor_eps_r_plus[panel])

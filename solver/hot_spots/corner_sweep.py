@@ -10,11 +10,13 @@ beta the peak grows roughly like rho^(pi/beta - 1)).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
+from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback
 from solver.errors import InvalidGeometryError
 from solver.hot_spots.analysis import DEFAULT_MAX_PANELS, analyse_hot_spots
 from solver.model.model import Model
@@ -66,17 +68,21 @@ class CornerRadiusSweep:
 
 
 def peak_field_vs_corner_radius(
-    model: Model,
+    source: Solution | Model,
     conductor: str,
     radii_m: Sequence[float],
     target_relative_error: float = 0.01,
     max_panels: int = DEFAULT_MAX_PANELS,
+    *,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
 ) -> CornerRadiusSweep:
     """Peak surface field of ``conductor`` with its sharp corners rounded to each radius.
 
     Parameters
     ----------
-    model : Model
+    source : Solution or Model
+        The solved model (or the model); each radius gives a rounded copy that is solved anew.
     conductor : str
         The conductor to round and analyse (other conductors are left as drawn).
     radii_m : sequence of float
@@ -85,19 +91,28 @@ def peak_field_vs_corner_radius(
         Error target of each peak (see :func:`solver.analyse_hot_spots`).
     max_panels : int
         Panel budget of each refinement.
+    progress : callable(fraction, message), optional
+        Called as each radius starts and as its refinement advances.
+    cancel : callable() -> bool, optional
+        Polled throughout; when it returns True, SolveCancelled is raised.
 
     Returns
     -------
     CornerRadiusSweep
     """
+    model = source.model if isinstance(source, Solution) else source
     model.conductor(conductor)
     radii = np.sort(np.asarray(radii_m, dtype=float).ravel())
     if radii.size == 0 or not np.all(np.isfinite(radii)) or np.any(radii <= 0):
         raise InvalidGeometryError(f"Corner radii {list(radii_m)} m: give one or more positive radii.")
     peaks, errors, factors, places = [], [], [], []
-    for r in radii:
+    for i, r in enumerate(radii):
+        def radius_progress(fraction: float, message: str, i: int = i, r: float = float(r)) -> None:
+            if progress is not None:
+                progress((i + fraction) / radii.size, f"Corner radius {r * 1e3:g} mm: {message}")
+
         spot = analyse_hot_spots(model, target_relative_error, float(r), [conductor], max_panels,
-                                 replace_radius=True).hot_spots[0]
+                                 replace_radius=True, progress=radius_progress, cancel=cancel).hot_spots[0]
         peaks.append(spot.field_V_per_m)
         errors.append(spot.estimated_relative_error if spot.estimated_relative_error is not None else math.nan)
         factors.append(spot.enhancement_factor if spot.enhancement_factor is not None else math.nan)

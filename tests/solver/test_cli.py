@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import csv
+import dataclasses
 import json
 import math
 import re
@@ -11,10 +12,14 @@ import sys
 from pathlib import Path
 
 import pytest
+import scipy.linalg
 
-from solver import EPSILON_0_F_PER_M, Circle, Conductor, Model, Ring, save_project
-from solver.cli import command as cli
+from solver import EPSILON_0_F_PER_M, Circle, Conductor, Model, Ring, save_project, solve
 from solver.cli.command import format_engineering, main
+from solver.cli.json_output import JSON_PARTS, report_to_json
+from solver.cli.options import ReportOptions
+from solver.cli.report import build_report
+from solver.cli.text import TEXT_SECTIONS, summary_lines
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))
@@ -165,15 +170,43 @@ def test_unknown_option_exits_2(capsys):
     assert "invalid choice" in capsys.readouterr().err
 
 
-def test_sections_and_json_parts_can_be_extended(tmp_path, capsys, monkeypatch):
+def test_sections_and_json_parts_can_be_extended(tmp_path, capsys):
     path = tmp_path / "coax.json"
     save_project(small_coax(), path)
-    monkeypatch.setattr(cli, "SUMMARY_SECTIONS", [*cli.SUMMARY_SECTIONS, lambda s: ["Extra section", "  42"]])
-    monkeypatch.setattr(cli, "JSON_PARTS", [*cli.JSON_PARTS, lambda s: {"extra_figure_V": 42.0}])
+    seen = []
+
+    def extra_section(report):
+        seen.append(report)
+        return ["Extra section", f"  {report.solution.mesh.n_panels}"]
+
+    def extra_part(report):
+        seen.append(report)
+        return {"extra_panels": report.solution.mesh.n_panels}
+
+    assert main([str(path)], sections=(*TEXT_SECTIONS, extra_section)) == 0
+    out = capsys.readouterr().out
+    assert out.rstrip().endswith(f"Extra section\n  {seen[-1].solution.mesh.n_panels}")
+    assert main([str(path), "--json"], json_parts=(*JSON_PARTS, extra_part)) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["extra_panels"] == data["n_panels"] == seen[-1].solution.mesh.n_panels
+    # the defaults are immutable tuples: an extension for one run leaves the next run as it was
+    assert isinstance(TEXT_SECTIONS, tuple) and isinstance(JSON_PARTS, tuple)
     assert main([str(path)]) == 0
-    assert capsys.readouterr().out.rstrip().endswith("Extra section\n  42")
-    assert main([str(path), "--json"]) == 0
-    assert json.loads(capsys.readouterr().out)["extra_figure_V"] == 42.0
+    assert "Extra section" not in capsys.readouterr().out
+
+
+def test_report_is_computed_once_and_rendered_without_solving(monkeypatch):
+    report = build_report(solve(small_coax()), ReportOptions())
+    calls = []
+    monkeypatch.setattr(scipy.linalg, "lu_factor", lambda *a, **k: calls.append(a) or pytest.fail("solved again"))
+    monkeypatch.setattr(scipy.linalg, "solve", lambda *a, **k: calls.append(a) or pytest.fail("solved again"))
+    text = "\n".join(summary_lines(report))
+    data = report_to_json(report)
+    assert "Hot spots" in text and data["conductors"] == ["core", "tube"]
+    assert data["equivalent_radius_m"] == list(report.equivalent_radii_m)
+    assert not calls
+    with pytest.raises(dataclasses.FrozenInstanceError):
+        report.equivalent_radii_m = ()  # type: ignore[misc]
 
 
 def test_high_voltage_sample_carries_the_caution(capsys):

@@ -1,0 +1,92 @@
+"""The command line's options, as one frozen value built from the parsed arguments."""
+
+from __future__ import annotations
+
+import argparse
+from dataclasses import dataclass
+
+from solver.errors import InvalidModelError
+from solver.hot_spots.margins import (
+    REFERENCE_PRESSURE_PA,
+    REFERENCE_TEMPERATURE_K,
+    AirConditions,
+)
+
+
+@dataclass(frozen=True)
+class ReportOptions:
+    """What one run of the command line asks for beyond the plain solve.
+
+    Attributes
+    ----------
+    air : air conditions for the breakdown and corona-onset margins.
+    corner_radius_m : round every sharp corner and strip edge to this radius for the peak
+        fields, metres (None: as drawn).
+    peak_target : relative error target of the refined peak fields.
+    part_length_m : length of the real part, metres, for the 2-D check (None: not asked).
+    radius_sweep : (conductor, radii in metres) for the peak field against corner radius,
+        or None.
+    """
+
+    air: AirConditions = AirConditions()
+    corner_radius_m: float | None = None
+    peak_target: float = 0.01
+    part_length_m: float | None = None
+    radius_sweep: tuple[str, tuple[float, ...]] | None = None
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Add the air, surface, corner-radius and error-target options to ``parser``."""
+    group = parser.add_argument_group("hot spots and margins")
+    group.add_argument("--altitude-m", type=float, help="site altitude above sea level, m (standard-atmosphere pressure)")
+    group.add_argument("--pressure-kPa", type=float, help="air pressure, kPa (instead of --altitude-m)")
+    group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
+    group.add_argument("--surface-factor", type=float, default=1.0,
+                       help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
+    group.add_argument("--corner-radius-m", type=float,
+                       help="round every sharp corner and strip edge to this radius, m, for the peak fields")
+    group.add_argument("--peak-target", type=float, default=0.01,
+                       help="relative error target of the peak fields (default 0.01)")
+    group.add_argument("--part-length-m", type=float,
+                       help="length of the real part, m: how far it is from the 2-D assumption")
+    group.add_argument("--radius-sweep", metavar="CONDUCTOR=R1,R2,...",
+                       help="peak field of CONDUCTOR with its corners rounded to each radius (m)")
+
+
+def air_conditions(args: argparse.Namespace) -> AirConditions:
+    """Air conditions from --pressure-kPa or --altitude-m, --temperature-C and --surface-factor."""
+    temperature_C = getattr(args, "temperature_C", None)
+    temperature_K = REFERENCE_TEMPERATURE_K if temperature_C is None else temperature_C + 273.15
+    m = getattr(args, "surface_factor", 1.0)
+    if getattr(args, "pressure_kPa", None) is not None:
+        return AirConditions.at_pressure(args.pressure_kPa * 1e3, temperature_K, surface_factor=m)
+    if getattr(args, "altitude_m", None) is not None:
+        return AirConditions.at_altitude(args.altitude_m, temperature_K, surface_factor=m)
+    if temperature_K != REFERENCE_TEMPERATURE_K:
+        return AirConditions.at_pressure(REFERENCE_PRESSURE_PA, temperature_K, surface_factor=m)
+    return AirConditions(surface_factor=m)
+
+
+def parse_radius_sweep(text: str | None) -> tuple[str, tuple[float, ...]] | None:
+    """``"CONDUCTOR=R1,R2,..."`` as (conductor, radii in metres); None for no text."""
+    if not text:
+        return None
+    name, sep, radii = text.rpartition("=")
+    try:
+        values = tuple(float(r) for r in radii.split(",") if r.strip())
+    except ValueError:
+        values = ()
+    if not sep or not name or not values:
+        raise InvalidModelError(f"--radius-sweep '{text}': write CONDUCTOR=R1,R2,... with radii in metres.")
+    return name, values
+
+
+def options_from_args(args: argparse.Namespace) -> ReportOptions:
+    """The :class:`ReportOptions` of one command-line run (raises InvalidModelError on a bad sweep)."""
+    return ReportOptions(
+        air=air_conditions(args),
+        corner_radius_m=getattr(args, "corner_radius_m", None),
+        peak_target=getattr(args, "peak_target", 0.01),
+        part_length_m=getattr(args, "part_length_m", None),
+        radius_sweep=parse_radius_sweep(getattr(args, "radius_sweep", None)),
+    )

@@ -1,0 +1,90 @@
+"""The command line's result: one frozen :class:`Report`, computed once, printed by renderers.
+
+Solution -> :func:`build_report` -> Report -> text (:mod:`solver.cli.text`), JSON
+(:mod:`solver.cli.json_output`) or CSV (:mod:`solver.cli.csv_output`). Every figure in the
+report is computed from the one solution (hot spots refine from its meshes); the renderers
+compute nothing.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from solver.bem.solution import Solution
+from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
+from solver.cli.hot_spots import HotSpotFigures, hot_spot_figures
+from solver.cli.line_figures import figures_for_solution
+from solver.cli.options import ReportOptions
+from solver.figures.equilibrium import equivalent_radius_m
+from solver.figures.transmission_line import TransmissionLineFigures
+
+NO_RETURN_PATH = (
+    "No capacitance matrix: the model has neither a reference conductor nor a ground plane, and "
+    "there is no 2-D capacitance without a return path. Set one conductor's role to 'reference' "
+    "or add a ground plane."
+)
+NO_FIXED_CONDUCTOR = (
+    "No capacitance matrix: no conductor has a fixed potential, so the matrix has no rows. "
+    "Set at least one conductor's role to 'fixed'."
+)
+
+
+def capacitance_note(solution: Solution) -> str | None:
+    """Why the solution has no capacitance matrix, or None when it has one."""
+    if not solution.model.has_return_path:
+        return NO_RETURN_PATH
+    if not solution.signal_names:
+        return NO_FIXED_CONDUCTOR
+    return None
+
+
+@dataclass(frozen=True)
+class Report:
+    """Everything one run of the command line prints, in SI units.
+
+    Attributes
+    ----------
+    solution : the solved model (with its error estimate).
+    options : what the run asked for.
+    capacitance_note : why there is no capacitance matrix, or None.
+    equivalent_radii_m : equivalent radius (logarithmic capacity) of each conductor alone,
+        metres, model order.
+    hot_spots : refined peaks, margins, bundles, corner-radius sweep and part-length check.
+    line_figures : transmission-line figures, or None without a return path or signal line.
+    """
+
+    solution: Solution
+    options: ReportOptions
+    capacitance_note: str | None
+    equivalent_radii_m: tuple[float, ...]
+    hot_spots: HotSpotFigures
+    line_figures: TransmissionLineFigures | None
+
+
+def build_report(
+    solution: Solution,
+    options: ReportOptions | None = None,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> Report:
+    """Compute every figure of the command line's output from ``solution``, once.
+
+    Parameters
+    ----------
+    solution : Solution
+        From :func:`solver.solve` (with its error estimate, so that the hot spots start from
+        its two meshes).
+    options : ReportOptions, optional
+        Air conditions, corner radius, error target, part length, radius sweep.
+    progress, cancel : optional callbacks as for :func:`solver.solve`.
+    """
+    options = options or ReportOptions()
+    report = progress_reporter(progress, cancel)
+    report(0.0, "Equivalent radii")
+    radii = tuple(equivalent_radius_m(solution, [name]) for name in solution.conductor_names)
+    report(0.2, "Hot spots")
+    hot_spots = hot_spot_figures(solution, options, lambda f, m: report(0.2 + 0.7 * f, m), cancel)
+    report(0.9, "Transmission-line figures")
+    line_figures = figures_for_solution(solution)
+    report(1.0, "Done")
+    return Report(solution, options, capacitance_note(solution), radii, hot_spots, line_figures)

@@ -1,0 +1,156 @@
+"""The command line's printed summary: sections, each a function of the :class:`Report`.
+
+:data:`TEXT_SECTIONS` lists them in order; :func:`summary_lines` joins their lines with blank
+lines. To print more, pass your own tuple, e.g. ``summary_lines(report, (*TEXT_SECTIONS,
+my_section))`` with ``my_section(report) -> list[str]``.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+
+import numpy as np
+
+from solver.cli.caution import caution_section
+from solver.cli.formatting import format_engineering, length_in_unit, text_table
+from solver.cli.hot_spots import hot_spot_section
+from solver.cli.line_figures import dielectric_section, transmission_line_section
+from solver.cli.report import Report
+
+TextSection = Callable[[Report], list[str]]
+
+
+def header_section(report: Report) -> list[str]:
+    """Title, description, unit, medium and mesh size."""
+    solution = report.solution
+    m = solution.model
+    lines = [m.title or "(untitled model)"]
+    if m.description:
+        lines.append(m.description)
+    lines += [
+        "",
+        f"Unit of length: {m.unit}    background eps_r: {m.background_eps_r:g}    "
+        f"mesh: {m.mesh_density}, {solution.mesh.n_panels} panels",
+        f"Ground plane: y = {m.ground_plane.y:g} {m.unit}" if m.ground_plane is not None else "Ground plane: none",
+        "Figures are per metre of a long, uniform cross-section (2-D electrostatics).",
+    ]
+    return lines
+
+
+def conductors_section(report: Report) -> list[str]:
+    """Each conductor's role, potential and net charge per unit length."""
+    solution = report.solution
+    rows = [
+        [c.name, c.role, f"{v:.6g}", f"{q * 1e12:.6g}"]
+        for c, v, q in zip(solution.model.conductors, solution.conductor_potentials_V,
+                           solution.conductor_charges_C_per_m)
+    ]
+    return ["Conductors", *text_table(["name", "role", "potential (V)", "net charge (pC/m)"], rows)]
+
+
+def _matrix_lines(title: str, names: Sequence[str], matrix_F_per_m: np.ndarray) -> list[str]:
+    rows = [[name, *(f"{x * 1e12:.5g}" for x in row)] for name, row in zip(names, matrix_F_per_m)]
+    return [title, *text_table(["pF/m", *names], rows)]
+
+
+def capacitance_section(report: Report) -> list[str]:
+    """Maxwell and mutual capacitance matrices in pF/m, or why there are none."""
+    if report.capacitance_note is not None:
+        return [report.capacitance_note]
+    solution = report.solution
+    names = solution.signal_names
+    lines = _matrix_lines("Capacitance matrix, Maxwell form (pF/m)", names, solution.capacitance_maxwell_F_per_m)
+    lines.append("")
+    lines += _matrix_lines(
+        "Capacitance matrix, mutual form (pF/m): diagonal to the reference, off-diagonal between conductors",
+        names, solution.capacitance_mutual_F_per_m,
+    )
+    return lines
+
+
+def peak_field_section(report: Report) -> list[str]:
+    """Largest surface field of each conductor, where it sits, and a note at sharp corners."""
+    m = report.solution.model
+    rows, corner_exponents = [], {}
+    for p in report.solution.peak_surface_fields:
+        x, y = p.location_m
+        mark = " *" if p.at_sharp_corner else ""
+        rows.append([p.conductor, format_engineering(p.field_V_per_m, "V/m") + mark,
+                     f"({length_in_unit(m, x)}, {length_in_unit(m, y)}) {m.unit}"])
+        if p.at_sharp_corner:
+            corner_exponents.setdefault(p.corner_exponent, []).append(p.conductor)
+    notes = []
+    for exponent, names in corner_exponents.items():
+        law = "" if exponent is None else f" (charge density ~ r^{exponent:.2f})"
+        notes.append(
+            f"  * At a sharp corner or edge{law}: {', '.join(names)}. The 2-D field is singular there, so "
+            "this value grows as the mesh is refined; round the corner to get a finite figure."
+        )
+    return ["Peak surface field (operating point)", *text_table(["conductor", "|E| max", "at"], rows), *notes]
+
+
+def error_section(report: Report) -> list[str]:
+    """The estimated relative error from the solve on a mesh at half the resolution."""
+    solution = report.solution
+    err = solution.estimated_relative_error
+    if err is None:
+        return ["Estimated relative error: not estimated."]
+    what = "capacitance matrix" if solution.has_capacitance else "conductor charges"
+    coarse = f", against {solution.coarse_mesh_panels} panels" if solution.coarse_mesh_panels else ""
+    return [f"Estimated relative error of the {what}: {err:.2g} (change from a mesh at half the resolution{coarse})"]
+
+
+def equivalent_radius_section(report: Report) -> list[str]:
+    """Each conductor's equivalent radius, in the model's unit."""
+    m = report.solution.model
+    rows = [[name, f"{r / m.metres_per_unit:.5g} {m.unit}"]
+            for name, r in zip(report.solution.conductor_names, report.equivalent_radii_m)]
+    return ["Equivalent radius (logarithmic capacity) of each conductor alone",
+            *text_table(["conductor", "radius"], rows)]
+
+
+def hot_spots_section(report: Report) -> list[str]:
+    """The hot-spot section (see :func:`solver.cli.hot_spots.hot_spot_section`)."""
+    return hot_spot_section(report.solution, report.hot_spots)
+
+
+def dielectrics_section(report: Report) -> list[str]:
+    """The largest field in each dielectric region (see :mod:`solver.cli.line_figures`)."""
+    return dielectric_section(report.solution)
+
+
+def line_figures_section(report: Report) -> list[str]:
+    """The transmission-line figures (see :mod:`solver.cli.line_figures`)."""
+    return transmission_line_section(report.line_figures)
+
+
+def high_voltage_section(report: Report) -> list[str]:
+    """The high-voltage caution (see :mod:`solver.cli.caution`)."""
+    return caution_section(report.solution)
+
+
+#: The printed summary's sections, in order; each returns lines (an empty list to skip).
+TEXT_SECTIONS: tuple[TextSection, ...] = (
+    header_section,
+    conductors_section,
+    capacitance_section,
+    peak_field_section,
+    error_section,
+    equivalent_radius_section,
+    hot_spots_section,
+    dielectrics_section,
+    line_figures_section,
+    high_voltage_section,
+)
+
+
+def summary_lines(report: Report, sections: Sequence[TextSection] = TEXT_SECTIONS) -> list[str]:
+    """The printed summary: every section's lines, blank-line separated (empty sections skipped)."""
+    lines: list[str] = []
+    for section in sections:
+        part = section(report)
+        if part:
+            if lines:
+                lines.append("")
+            lines += part
+    return lines
