@@ -104,14 +104,15 @@ def _rectangle(outline: Outline) -> Rectangle | None:
         if len(arcs) != 4 or len(v) not in (4, 6, 8):
             return None
         geometry = [arc_of_bulge(v[k], v[(k + 1) % len(v)], b[k]) for k in arcs]
-        radius = geometry[0][1]
+        # a quarter arc between axis-aligned sides spans its radius along x and along y
+        radius = float(abs(v[(arcs[0] + 1) % len(v), 0] - v[arcs[0], 0]))
         if any(abs(abs(g[3]) - 0.5 * math.pi) > 1e-9 or abs(g[1] - radius) > tol for g in geometry):
             return None
         corners = {(round(float(np.sign(g[0][0] - 0.5 * (x0 + x1)))), round(float(np.sign(g[0][1] - 0.5 * (y0 + y1)))))
                    for g in geometry}
-        if len(corners) != 4:
+        inside = all(x0 < g[0][0] < x1 and y0 < g[0][1] < y1 for g in geometry)
+        if len(corners) != 4 or not inside:  # fillets bulge outward, with their centres inside
             return None
-        x0, x1, y0, y1 = x0, x1, y0, y1
     on_edge = (np.minimum(np.abs(v[:, 0] - x0), np.abs(v[:, 0] - x1)) <= tol) | (
         np.minimum(np.abs(v[:, 1] - y0), np.abs(v[:, 1] - y1)) <= tol)
     if not on_edge.all():
