@@ -100,7 +100,8 @@ from solver.figures.ac_lines import (
     field_ellipse,
     phasors_of,
 )
-from solver.io.dxf import LayerTarget, layer_map_for, parse_layer_target, read_dxf, write_dxf
+from solver.io.dxf import LayerTarget, parse_layer_target, read_dxf
+from solver.io.dxf_export import layer_map_for, write_dxf
 from solver.io.svg import read_svg
 from solver.studies import Normal, SearchResult, SpreadResult, StudyTable, Uniform, search, spread, sweep
 

@@ -21,8 +21,8 @@ choice; ICNIRP (2010) gives 5 kV/m (rms, unperturbed field) for the general publ
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Mapping
 
 import numpy as np
 

@@ -10,7 +10,7 @@ feed one part. The length unit comes from ``$INSUNITS`` (or the ``unit`` argumen
 How outlines become shapes (exact circles, rings and rounded rectangles; other arcs sampled at
 the solver's arc step) is told in :mod:`solver.io.outlines`.
 
-Write: :func:`write_dxf` puts each part on its own layer (circles as CIRCLE, rectangles and
+Write: :func:`solver.io.dxf_export.write_dxf` puts each part on its own layer (circles as CIRCLE, rectangles and
 polygons as LWPOLYLINE with bulged fillets, strips as open LWPOLYLINE) and tags every entity
 with its shape kind (application data "EDGEWISE"), so that reading it back with the returned
 layer map and the model as ``template`` gives the same model.
@@ -21,17 +21,21 @@ from __future__ import annotations
 import logging
 import math
 import os
-import re
 from collections import defaultdict
+from collections.abc import Mapping
 from dataclasses import dataclass, replace
-from typing import Mapping
 
 import numpy as np
 
 from solver.errors import InvalidGeometryError, ProjectFileError
-from solver.mesh.panels import MeshSettings
-from solver.model.model import Circle, Conductor, Dielectric, Model, Polygon, Rectangle, Ring, Strip
 from solver.io.outlines import Outline, shapes_from_outlines
+from solver.mesh.panels import MeshSettings
+from solver.model.model import (
+    Conductor,
+    Dielectric,
+    Model,
+    Strip,
+)
 
 logger = logging.getLogger(__name__)
 
@@ -92,7 +96,7 @@ def _hints(entity) -> tuple[str, tuple[float, ...]]:
             return "", ()
         tags = entity.get_xdata(APP_ID)
         return str(tags[0][1]), tuple(float(t[1]) for t in tags[1:] if t[0] == 1040)
-    except Exception:  # malformed application data is not ours to judge: read the geometry alone
+    except Exception:  # noqa: BLE001 - malformed application data: read the geometry alone
         return "", ()
 
 
@@ -315,84 +319,3 @@ def _assemble(parts, targets, template: Model | None, unit: str, density: str) -
     if template is not None:
         return replace(template.with_unit(unit), conductors=tuple(conductors), dielectrics=tuple(dielectrics))
     return Model(unit=unit, conductors=tuple(conductors), dielectrics=tuple(dielectrics), mesh_density=density)
-
-
-def layer_name(kind: str, name: str) -> str:
-    """A DXF-safe layer name for a part, e.g. ``conductor-L1``."""
-    return re.sub(r"[<>/\\\":;?*|=`,\s]", "_", f"{kind}-{name}")
-
-
-def layer_map_for(model: Model) -> dict[str, LayerTarget]:
-    """The layer map that reads back a drawing written by :func:`write_dxf` from ``model``."""
-    out = {layer_name("conductor", c.name): LayerTarget("conductor", c.name, c.role, c.potential_V,
-                                                        strips=any(isinstance(s, Strip) for s in c.shapes))
-           for c in model.conductors}
-    out.update({layer_name("dielectric", d.name): LayerTarget("dielectric", d.name, eps_r=d.eps_r)
-                for d in model.dielectrics})
-    return out
-
-
-def _rectangle_polyline(s: Rectangle) -> tuple[list, list]:
-    (cx, cy), hw, hh, r = s.center, 0.5 * s.width, 0.5 * s.height, s.corner_radius
-    x0, x1, y0, y1 = cx - hw, cx + hw, cy - hh, cy + hh
-    if r <= 0:
-        return [(x0, y0), (x1, y0), (x1, y1), (x0, y1)], [0.0] * 4
-    b = math.tan(math.pi / 8)
-    pts = [(x0 + r, y0), (x1 - r, y0), (x1, y0 + r), (x1, y1 - r), (x1 - r, y1), (x0 + r, y1), (x0, y1 - r), (x0, y0 + r)]
-    bulges = [0.0, b, 0.0, b, 0.0, b, 0.0, b]
-    keep_pts, keep_b = [], []
-    for k, p in enumerate(pts):  # a full-side fillet makes a straight piece of zero length
-        if bulges[k] == 0.0 and math.dist(p, pts[(k + 1) % 8]) == 0.0:
-            continue
-        keep_pts.append(p)
-        keep_b.append(bulges[k])
-    return keep_pts, keep_b
-
-
-def write_dxf(model: Model, path: str | os.PathLike) -> dict[str, LayerTarget]:
-    """Write the model's outlines to a DXF file and return the layer map that reads it back.
-
-    Examples
-    --------
-    >>> from solver import load_project
-    >>> m = load_project("sample_geometries/busbar_enclosure.json")
-    >>> layers = write_dxf(m, "/tmp/busbars.dxf")  # doctest: +SKIP
-    >>> read_dxf("/tmp/busbars.dxf", layers, template=m) == m  # doctest: +SKIP
-    True
-    """
-    import ezdxf
-
-    doc = ezdxf.new("R2010", units=UNIT_CODES[model.unit])
-    doc.appids.add(APP_ID)
-    msp = doc.modelspace()
-    parts = [("conductor", c.name, c.shapes) for c in model.conductors] + [
-        ("dielectric", d.name, d.shapes) for d in model.dielectrics]
-    for kind, name, shapes in parts:
-        layer = layer_name(kind, name)
-        doc.layers.add(layer)
-        attribs = {"layer": layer}
-        for s in shapes:
-            entities = []
-            if isinstance(s, Circle):
-                entities.append(msp.add_circle(s.center, s.radius, dxfattribs=attribs))
-            elif isinstance(s, Ring):
-                entities += [msp.add_circle(s.center, s.outer_radius, dxfattribs=attribs),
-                             msp.add_circle(s.center, s.inner_radius, dxfattribs=attribs)]
-            elif isinstance(s, Rectangle):
-                pts, bulges = _rectangle_polyline(s)
-                entities.append(msp.add_lwpolyline([(x, y, 0, 0, b) for (x, y), b in zip(pts, bulges)],
-                                                   format="xyseb", close=True, dxfattribs=attribs))
-            elif isinstance(s, Polygon):
-                for ring in (s.exterior, *s.holes):
-                    entities.append(msp.add_lwpolyline(ring, format="xy", close=True, dxfattribs=attribs))
-            elif isinstance(s, Strip):
-                entities.append(msp.add_lwpolyline(s.points, format="xy", close=False, dxfattribs=attribs))
-            exact = [(1040, float(v)) for v in (*s.center, s.width, s.height, s.corner_radius)] if isinstance(
-                s, Rectangle) else []
-            for e in entities:
-                e.set_xdata(APP_ID, [(1000, s.kind), *exact])
-    try:
-        doc.saveas(str(path))
-    except OSError as e:
-        raise ProjectFileError(f"{path}: cannot be written ({e.strerror or e}).") from None
-    return layer_map_for(model)

@@ -17,7 +17,7 @@ from __future__ import annotations
 import math
 import os
 from collections import defaultdict
-from typing import Mapping
+from collections.abc import Mapping
 
 import numpy as np
 
@@ -46,7 +46,7 @@ def _snapped(points: np.ndarray, extent: float) -> np.ndarray:
     return np.round(points, 9 - math.ceil(math.log10(extent))) + 0.0
 
 
-def _outlines_of(element, layer: str, to_user: "object", extent: float) -> list[Outline]:
+def _outlines_of(element, layer: str, to_user: object, extent: float) -> list[Outline]:
     import svgelements as se
 
     where = f"SVG {element.values.get('tag', type(element).__name__.lower())} '{element.id or '(no id)'}' in layer '{layer}'"

@@ -6,16 +6,50 @@
 """
 
 from solver.studies.engine import NOT_RUN, run_case, run_cases
-from solver.studies.figures import FIGURE_WORDS, FigureCache, FigureNameError, figure_function
-from solver.studies.paths import FieldPathError, get_value, model_with_values, with_values
+from solver.studies.figures import (
+    FIGURE_WORDS,
+    FigureCache,
+    FigureNameError,
+    figure_function,
+)
+from solver.studies.paths import (
+    FieldPathError,
+    get_value,
+    model_with_values,
+    with_values,
+)
 from solver.studies.search import GoalNotBracketedError, SearchResult, search
-from solver.studies.spread import Normal, SpreadResult, Uniform, parse_distribution, spread
+from solver.studies.spread import (
+    Normal,
+    SpreadResult,
+    Uniform,
+    parse_distribution,
+    spread,
+)
 from solver.studies.sweep import grid_cases, sweep
 from solver.studies.table import StudyTable
 
 __all__ = [
-    "NOT_RUN", "run_case", "run_cases", "FIGURE_WORDS", "FigureCache", "FigureNameError", "figure_function",
-    "FieldPathError", "get_value", "model_with_values", "with_values", "GoalNotBracketedError", "SearchResult",
-    "search", "Normal", "SpreadResult", "Uniform", "parse_distribution", "spread", "grid_cases", "sweep",
+    "FIGURE_WORDS",
+    "NOT_RUN",
+    "FieldPathError",
+    "FigureCache",
+    "FigureNameError",
+    "GoalNotBracketedError",
+    "Normal",
+    "SearchResult",
+    "SpreadResult",
     "StudyTable",
+    "Uniform",
+    "figure_function",
+    "get_value",
+    "grid_cases",
+    "model_with_values",
+    "parse_distribution",
+    "run_case",
+    "run_cases",
+    "search",
+    "spread",
+    "sweep",
+    "with_values",
 ]

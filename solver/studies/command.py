@@ -19,7 +19,7 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-from typing import Sequence
+from collections.abc import Sequence
 
 import numpy as np
 
@@ -118,7 +118,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     bar = ProgressBar()
     try:
         if args.command == "sweep":
-            vary = dict((path, parse_values(v)) for path, v in map(_split_assignment, args.vary))
+            vary = {path: parse_values(v) for path, v in map(_split_assignment, args.vary)}
             _emit(sweep(args.project, vary, args.figure, cluster=_cluster(args), progress=bar), args.out)
         elif args.command == "search":
             if len(args.vary) != 1 or len(args.figure) != 1:
@@ -129,7 +129,7 @@ def main(argv: Sequence[str] | None = None) -> int:
                               "figure_value": r.figure_value, "target": r.target,
                               "parameter_tolerance": r.parameter_tolerance, "solves": r.n_solves}, indent=1))
         else:
-            dists = dict((path, parse_distribution(v)) for path, v in map(_split_assignment, args.vary))
+            dists = {path: parse_distribution(v) for path, v in map(_split_assignment, args.vary)}
             r = spread(args.project, dists, args.figure, n_cases=args.cases, seed=args.seed,
                        percentiles=parse_values(args.percentiles), bins=args.bins, cluster=_cluster(args),
                        progress=bar)

@@ -22,7 +22,8 @@ from __future__ import annotations
 import logging
 import math
 import os
-from typing import Any, Mapping, Sequence
+from collections.abc import Mapping, Sequence
+from typing import Any
 
 from solver.errors import SolverError
 from solver.studies.engine import StudyCancel, StudyProgress, not_run_row, run_case
@@ -76,9 +77,8 @@ def run_on_dask(
                    for i, values in enumerate(cases)]
         index = {f.key: i for i, f in enumerate(futures)}
         rows: list[dict | None] = [None] * len(cases)
-        done = 0
         completed = as_completed(futures)
-        for future in completed:
+        for done, future in enumerate(completed, start=1):
             i = index[future.key]
             if future.status == "finished":
                 rows[i] = future.result()
@@ -87,7 +87,6 @@ def run_on_dask(
                 logger.warning("case %d (%s) failed on the cluster: %s", i, dict(cases[i]), error)
                 rows[i] = {"case": i, **{k: float(v) for k, v in cases[i].items()},
                            **{n: math.nan for n in figures}, "error": f"{type(error).__name__}: {error}"}
-            done += 1
             if progress is not None:
                 progress(done, len(cases))
             if cancel is not None and cancel():

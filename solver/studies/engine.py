@@ -12,13 +12,14 @@ from __future__ import annotations
 import logging
 import math
 import os
-from typing import Any, Callable, Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
+from typing import Any
 
 from solver.errors import SolveCancelled
 from solver.io.project_file import load_project, model_to_dict
 from solver.model.model import Model
 from solver.studies.figures import figure_function, split_figure
-from solver.studies.paths import model_with_values, get_value, split_parameter
+from solver.studies.paths import get_value, model_with_values, split_parameter
 from solver.studies.table import StudyTable
 
 logger = logging.getLogger(__name__)
@@ -79,7 +80,7 @@ def run_case(project: dict, values: Mapping[str, float], figures: Sequence[str],
         model = model_with_values(model_from_dict(project), values)
         row.update(figure_function(tuple(figures), estimate_error)(model))
         row["error"] = ""
-    except Exception as e:  # a batch goes on past any one bad case; the row records why
+    except Exception as e:  # noqa: BLE001 - a batch goes on past any one bad case; the row records why
         logger.warning("case %d (%s) failed: %s", case, dict(values), e)
         row.update({name: math.nan for name in figures})
         row["error"] = f"{type(e).__name__}: {e}"

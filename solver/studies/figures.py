@@ -27,8 +27,8 @@ solve with dielectrics.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from functools import cached_property
-from typing import Callable
 
 import numpy as np
 

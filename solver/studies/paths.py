@@ -20,7 +20,8 @@ Lengths are in the project's own ``unit``; potentials in volts.
 from __future__ import annotations
 
 import copy
-from typing import Any, Mapping
+from collections.abc import Mapping
+from typing import Any
 
 from solver.errors import SolverError
 from solver.io.project_file import model_from_dict, model_to_dict

@@ -11,8 +11,8 @@ from __future__ import annotations
 import logging
 import math
 import os
+from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Mapping
 
 import numpy as np
 import scipy.optimize
@@ -20,7 +20,14 @@ import scipy.optimize
 from solver.errors import SolverError
 from solver.io.project_file import model_to_dict
 from solver.model.model import Model
-from solver.studies.engine import StudyCancel, StudyProgress, as_model, check_parameters, raise_if_cancelled, run_case
+from solver.studies.engine import (
+    StudyCancel,
+    StudyProgress,
+    as_model,
+    check_parameters,
+    raise_if_cancelled,
+    run_case,
+)
 from solver.studies.figures import split_figure
 from solver.studies.table import StudyTable
 

@@ -11,15 +11,22 @@ each spread) run as one batch through :func:`solver.studies.engine.run_cases`.
 from __future__ import annotations
 
 import os
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any, Mapping, Sequence, Union
+from typing import Any
 
 import numpy as np
 
 from solver.errors import SolverError
 from solver.io.project_file import model_to_dict
 from solver.model.model import Model
-from solver.studies.engine import StudyCancel, StudyProgress, as_model, check_parameters, run_cases
+from solver.studies.engine import (
+    StudyCancel,
+    StudyProgress,
+    as_model,
+    check_parameters,
+    run_cases,
+)
 from solver.studies.paths import get_value, split_parameter
 from solver.studies.table import StudyTable
 
@@ -58,7 +65,7 @@ class Uniform:
         return float(self.half_width)
 
 
-Distribution = Union[Normal, Uniform]
+Distribution = Normal | Uniform
 
 
 def parse_distribution(text: str) -> Distribution:

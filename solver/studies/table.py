@@ -12,8 +12,9 @@ import csv
 import io
 import json
 import math
+from collections.abc import Iterator
 from dataclasses import dataclass, field
-from typing import Any, Iterator
+from typing import Any
 
 
 @dataclass(frozen=True)

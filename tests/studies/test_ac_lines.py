@@ -15,7 +15,12 @@ import numpy as np
 import pytest
 
 from solver import EPSILON_0_F_PER_M, InvalidModelError, load_project
-from solver.figures.ac_lines import ICNIRP_2010_PUBLIC_50HZ, ac_field_profile, field_ellipse, phasors_of
+from solver.figures.ac_lines import (
+    ICNIRP_2010_PUBLIC_50HZ,
+    ac_field_profile,
+    field_ellipse,
+    phasors_of,
+)
 
 
 def closed_form_field(model, volts, points):

@@ -6,8 +6,17 @@ import ezdxf
 import numpy as np
 import pytest
 
-from solver import Conductor, InvalidGeometryError, Model, ProjectFileError, Rectangle, load_project, solve
-from solver.io.dxf import layer_map_for, parse_layer_target, read_dxf, write_dxf
+from solver import (
+    Conductor,
+    InvalidGeometryError,
+    Model,
+    ProjectFileError,
+    Rectangle,
+    load_project,
+    solve,
+)
+from solver.io.dxf import parse_layer_target, read_dxf
+from solver.io.dxf_export import layer_map_for, write_dxf
 
 SAMPLES = "sample_geometries"
 BUSBAR_LAYERS = {"L1": "conductor:L1:9800", "L2": "conductor:L2:-4900",

@@ -11,8 +11,17 @@ import scipy.optimize
 
 from solver import Circle, Conductor, GroundPlane, Model, load_project
 from solver.studies import (
-    NOT_RUN, FieldPathError, FigureNameError, GoalNotBracketedError, Normal, get_value, model_with_values, run_cases,
-    search, spread, sweep,
+    NOT_RUN,
+    FieldPathError,
+    FigureNameError,
+    GoalNotBracketedError,
+    Normal,
+    get_value,
+    model_with_values,
+    run_cases,
+    search,
+    spread,
+    sweep,
 )
 
 MICROSTRIP = "sample_geometries/microstrip_on_substrate.json"

@@ -3,7 +3,13 @@
 import numpy as np
 import pytest
 
-from solver import InvalidGeometryError, ProjectFileError, Rectangle, load_project, solve
+from solver import (
+    InvalidGeometryError,
+    ProjectFileError,
+    Rectangle,
+    load_project,
+    solve,
+)
 from solver.io.svg import read_svg
 
 LAYERS = {"L1": "conductor:L1:9800", "L2": "conductor:L2:-4900", "ENCLOSURE": "conductor:enclosure:reference"}
