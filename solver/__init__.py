@@ -93,5 +93,25 @@ __all__ = [
     "truncated_layers", "truncation_error", "widen_until_converged",
 ]
 
+# ---- studies, drawings and AC lines (third-party readers are imported only when used) ----
+from solver.figures.ac_lines import (
+    ICNIRP_2010_PUBLIC_50HZ,
+    AcFieldProfile,
+    ExposureReference,
+    ac_field_profile,
+    field_ellipse,
+    phasors_of,
+)
+from solver.io.dxf import LayerTarget, parse_layer_target, read_dxf
+from solver.io.dxf_export import layer_map_for, write_dxf
+from solver.io.svg import read_svg
+from solver.studies import Normal, SearchResult, SpreadResult, StudyTable, Uniform, search, spread, sweep
+
+__all__ += [
+    "ICNIRP_2010_PUBLIC_50HZ", "AcFieldProfile", "ExposureReference", "ac_field_profile", "field_ellipse",
+    "phasors_of", "LayerTarget", "layer_map_for", "parse_layer_target", "read_dxf", "write_dxf", "read_svg",
+    "Normal", "SearchResult", "SpreadResult", "StudyTable", "Uniform", "search", "spread", "sweep",
+]
+
 #: Earlier name of :class:`Solution` for models with dielectric regions; one type serves all models now.
 DielectricSolution = Solution
