@@ -1,0 +1,29 @@
+"""Independent cross-checks of the equivalent radius (logarithmic capacity) of conductors.
+
+Three classical routes of plane potential theory lead to the same number as the solver's
+equilibrium charge: the Robin constant and Green's function with pole at infinity
+(:mod:`.robin`), Fekete points and the N-th diameter (:mod:`.fekete`), and the Chebyshev
+constant through the Fekete polynomial (:mod:`.chebyshev`). :func:`cross_check` puts them side
+by side with a plain verdict (:mod:`.report`).
+"""
+
+from solver.cross_check.chebyshev import fekete_polynomial_norm_root_m, log_abs_monic
+from solver.cross_check.extrapolate import Extrapolation, extrapolate_chebyshev, extrapolate_nth_diameter
+from solver.cross_check.fekete import FeketePoints, fekete_points, nth_diameter_m
+from solver.cross_check.outline import Outline, OutlinePiece, outline_of
+from solver.cross_check.report import DEFAULT_N_POINTS, CrossCheck, RouteEstimate, cross_check, cross_check_each
+from solver.cross_check.robin import (
+    charge_centre_m,
+    green_function,
+    green_function_on_grid,
+    robin_constant,
+    round_wire_distance_m,
+)
+
+__all__ = [
+    "CrossCheck", "RouteEstimate", "cross_check", "cross_check_each", "DEFAULT_N_POINTS",
+    "FeketePoints", "fekete_points", "nth_diameter_m", "Outline", "OutlinePiece", "outline_of",
+    "fekete_polynomial_norm_root_m", "log_abs_monic",
+    "Extrapolation", "extrapolate_nth_diameter", "extrapolate_chebyshev",
+    "robin_constant", "charge_centre_m", "green_function", "green_function_on_grid", "round_wire_distance_m",
+]
