@@ -8,10 +8,20 @@ by side with a plain verdict (:mod:`.report`).
 """
 
 from solver.cross_check.chebyshev import fekete_polynomial_norm_root_m, log_abs_monic
-from solver.cross_check.extrapolate import Extrapolation, extrapolate_chebyshev, extrapolate_nth_diameter
+from solver.cross_check.extrapolate import (
+    Extrapolation,
+    extrapolate_chebyshev,
+    extrapolate_nth_diameter,
+)
 from solver.cross_check.fekete import FeketePoints, fekete_points, nth_diameter_m
 from solver.cross_check.outline import Outline, OutlinePiece, outline_of
-from solver.cross_check.report import DEFAULT_N_POINTS, CrossCheck, RouteEstimate, cross_check, cross_check_each
+from solver.cross_check.report import (
+    DEFAULT_N_POINTS,
+    CrossCheck,
+    RouteEstimate,
+    cross_check,
+    cross_check_each,
+)
 from solver.cross_check.robin import (
     charge_centre_m,
     green_function,
@@ -21,9 +31,25 @@ from solver.cross_check.robin import (
 )
 
 __all__ = [
-    "CrossCheck", "RouteEstimate", "cross_check", "cross_check_each", "DEFAULT_N_POINTS",
-    "FeketePoints", "fekete_points", "nth_diameter_m", "Outline", "OutlinePiece", "outline_of",
-    "fekete_polynomial_norm_root_m", "log_abs_monic",
-    "Extrapolation", "extrapolate_nth_diameter", "extrapolate_chebyshev",
-    "robin_constant", "charge_centre_m", "green_function", "green_function_on_grid", "round_wire_distance_m",
+    "DEFAULT_N_POINTS",
+    "CrossCheck",
+    "Extrapolation",
+    "FeketePoints",
+    "Outline",
+    "OutlinePiece",
+    "RouteEstimate",
+    "charge_centre_m",
+    "cross_check",
+    "cross_check_each",
+    "extrapolate_chebyshev",
+    "extrapolate_nth_diameter",
+    "fekete_points",
+    "fekete_polynomial_norm_root_m",
+    "green_function",
+    "green_function_on_grid",
+    "log_abs_monic",
+    "nth_diameter_m",
+    "outline_of",
+    "robin_constant",
+    "round_wire_distance_m",
 ]

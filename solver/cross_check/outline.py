@@ -16,6 +16,7 @@ how many points it receives and where they start.
 
 from __future__ import annotations
 
+import itertools
 from dataclasses import dataclass
 from functools import cached_property
 
@@ -123,7 +124,7 @@ class Outline:
         for ring in sorted({p.ring for p in self.pieces}):
             idx = [k for k, p in enumerate(self.pieces) if p.ring == ring]
             closed_ring = not self.pieces[idx[-1]].pinned[1] and len(idx) > 2
-            links = list(zip(idx[:-1], idx[1:])) + ([(idx[-1], idx[0])] if closed_ring else [])
+            links = list(itertools.pairwise(idx)) + ([(idx[-1], idx[0])] if closed_ring else [])
             pairs += links + [(b, a) for a, b in links]
         return pairs
 

@@ -20,16 +20,24 @@ max(ROUTE_FLOOR, 3 x the fit's uncertainty) + 2 x the solver's estimated error.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, replace
-from typing import Iterable, Sequence
 
 import numpy as np
 
 from solver.cross_check.chebyshev import fekete_polynomial_norm_root_m
-from solver.cross_check.extrapolate import Extrapolation, extrapolate_chebyshev, extrapolate_nth_diameter
+from solver.cross_check.extrapolate import (
+    Extrapolation,
+    extrapolate_chebyshev,
+    extrapolate_nth_diameter,
+)
 from solver.cross_check.fekete import FeketePoints, fekete_points
 from solver.cross_check.outline import outline_of
-from solver.cross_check.robin import charge_centre_m, robin_constant, round_wire_distance_m
+from solver.cross_check.robin import (
+    charge_centre_m,
+    robin_constant,
+    round_wire_distance_m,
+)
 from solver.errors import InvalidModelError
 from solver.figures.equilibrium import equilibrium_charge
 from solver.mesh.panels import MeshSettings

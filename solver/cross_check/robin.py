@@ -19,7 +19,6 @@ large enough. :func:`round_wire_distance_m` finds how large.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 import shapely
