@@ -35,6 +35,7 @@ from solver.figures.equilibrium import equivalent_radius_m
 from solver.bem.solve import solve
 from solver.cli import hot_spots as hotspot_cli
 from solver.cli import line_figures as transmission_line_cli
+from solver.cli import cross_check as cross_check_cli
 
 Section = Callable[[Solution], list[str]]
 JsonPart = Callable[[Solution], dict]
@@ -312,6 +313,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument("--csv", metavar="FILE", help="write the capacitance matrices (pF/m) to FILE")
     parser.add_argument("--density", choices=MESH_DENSITIES, help="mesh density (default: as in the file)")
     hotspot_cli.add_arguments(parser)
+    cross_check_cli.add_arguments(parser)
     return parser
 
 
@@ -341,9 +343,10 @@ def main(argv: Sequence[str] | None = None) -> int:
                          + (NO_RETURN_PATH if not model.has_return_path else NO_FIXED_CONDUCTOR))
         solution = run_solve(model)
         if args.json:
-            print(json.dumps(result_to_json(solution), indent=2, allow_nan=False))
+            print(json.dumps({**result_to_json(solution), **cross_check_cli.cross_check_json(solution, args)},
+                             indent=2, allow_nan=False))
         else:
-            print("\n".join(summary_lines(solution)))
+            print("\n".join(summary_lines(solution) + ["", *cross_check_cli.cross_check_lines(solution, args)]).rstrip())
         if args.csv:
             write_capacitance_csv(solution, args.csv)
     except SolverError as e:

@@ -3,7 +3,7 @@
 Three classical routes of plane potential theory lead to the same number as the solver's
 equilibrium charge: the Robin constant and Green's function with pole at infinity
 (:mod:`.robin`), Fekete points and the N-th diameter (:mod:`.fekete`), and the Chebyshev
-constant through the Fekete polynomial (:mod:`.chebyshev`). :func:`cross_check` puts them side
+constant through the Fekete polynomial (:mod:`.chebyshev`). :func:`check_equivalent_radius` puts them side
 by side with a plain verdict (:mod:`.report`).
 """
 
@@ -19,8 +19,8 @@ from solver.cross_check.report import (
     DEFAULT_N_POINTS,
     CrossCheck,
     RouteEstimate,
-    cross_check,
-    cross_check_each,
+    check_each_equivalent_radius,
+    check_equivalent_radius,
 )
 from solver.cross_check.robin import (
     charge_centre_m,
@@ -39,8 +39,8 @@ __all__ = [
     "OutlinePiece",
     "RouteEstimate",
     "charge_centre_m",
-    "cross_check",
-    "cross_check_each",
+    "check_each_equivalent_radius",
+    "check_equivalent_radius",
     "extrapolate_chebyshev",
     "extrapolate_nth_diameter",
     "fekete_points",

@@ -143,7 +143,7 @@ def _route(route: str, title: str, n_points, values, extrapolation: Extrapolatio
                          extrapolation, extrapolation.limit_m / radius_m - 1.0, tolerance)
 
 
-def cross_check(
+def check_equivalent_radius(
     model: Model,
     names: Iterable[str] | None = None,
     n_points: Sequence[int] = DEFAULT_N_POINTS,
@@ -171,7 +171,7 @@ def cross_check(
     --------
     >>> from solver import Model, Conductor, Circle
     >>> disc = Model(unit="mm", conductors=(Conductor("wire", (Circle((0, 0), 2.0),)),))
-    >>> check = cross_check(disc, n_points=(8, 16, 32))
+    >>> check = check_equivalent_radius(disc, n_points=(8, 16, 32))
     >>> check.agrees, round(check.fekete.limit_m * 1e3, 4)
     (True, 2.0)
     """
@@ -211,9 +211,9 @@ def cross_check(
     )
 
 
-def cross_check_each(model: Model, n_points: Sequence[int] = DEFAULT_N_POINTS) -> list[CrossCheck]:
-    """:func:`cross_check` of every conductor alone, in model order."""
-    return [cross_check(model, [name], n_points) for name in model.conductor_names]
+def check_each_equivalent_radius(model: Model, n_points: Sequence[int] = DEFAULT_N_POINTS) -> list[CrossCheck]:
+    """:func:`check_equivalent_radius` of every conductor alone, in model order."""
+    return [check_equivalent_radius(model, [name], n_points) for name in model.conductor_names]
 
 
 def upper_bounds_hold(check: CrossCheck) -> bool:
