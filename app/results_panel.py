@@ -14,6 +14,7 @@ from .plots import BoundaryPlot, ProbePlot
 from .safety_views import CaveatsView, HighVoltageView
 from .line_figures_view import LineFiguresView
 from .hot_spots_view import HotSpotsView
+from .cross_check_view import CrossCheckView
 
 
 class ResultsPanel(QTabWidget):
@@ -27,6 +28,7 @@ class ResultsPanel(QTabWidget):
         self.caveats = self.add_section("Limits of 2-D", CaveatsView(document), scroll=True)
         self.line_figures = self.add_section("Line figures", LineFiguresView(), scroll=True)
         self.hot_spots = self.add_section("Hot spots", HotSpotsView(), scroll=True)
+        self.cross_check = self.add_section("Cross-check", CrossCheckView(), scroll=True)
 
     def add_section(self, title: str, widget, *, scroll: bool = False):
         """Add a tab; returns ``widget``."""

@@ -66,6 +66,7 @@ from solver.figures.end_effects import LengthCheck, check_part_length, end_field
 from solver.model.materials import MATERIALS, Material, dielectric_of, material, material_names
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
+from solver.cross_check import CrossCheck, check_each_equivalent_radius, check_equivalent_radius, green_function, robin_constant
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -91,6 +92,7 @@ __all__ = [
     "DielectricSolution", "RegionPeakField", "MATERIALS", "Material", "dielectric_of", "material", "material_names",
     "TransmissionLineFigures", "figures_from_matrices", "transmission_line_figures",
     "truncated_layers", "truncation_error", "widen_until_converged",
+    "CrossCheck", "check_equivalent_radius", "check_each_equivalent_radius", "green_function", "robin_constant",
 ]
 
 # ---- studies, drawings and AC lines (third-party readers are imported only when used) ----

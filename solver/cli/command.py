@@ -24,6 +24,7 @@ from collections.abc import Sequence
 from solver.bem.solution import Solution
 from solver.bem.solve import solve
 from solver.cli.caution import HIGH_VOLTAGE_V
+from solver.cli.cross_check import add_arguments as add_cross_check_arguments
 from solver.cli.csv_output import write_capacitance_csv
 from solver.cli.formatting import format_engineering
 from solver.cli.json_output import JSON_PARTS, JsonPart, report_to_json
@@ -48,6 +49,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument("--csv", metavar="FILE", help="write the capacitance matrices (pF/m) to FILE")
     parser.add_argument("--density", choices=MESH_DENSITIES, help="mesh density (default: as in the file)")
     add_arguments(parser)
+    add_cross_check_arguments(parser)
     return parser
 
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Sequence
 
+from solver.cli.cross_check import cross_check_json
 from solver.cli.hot_spots import hot_spot_json
 from solver.cli.line_figures import transmission_line_json
 from solver.cli.report import Report
@@ -81,9 +82,15 @@ def line_figures_json(report: Report) -> dict:
     return transmission_line_json(report.solution, report.line_figures)
 
 
+def cross_check_part(report: Report) -> dict:
+    """The ``cross_check`` key, when asked for (see :mod:`solver.cli.cross_check`)."""
+    return cross_check_json(report.cross_checks)
+
+
 #: The JSON result's parts; their dictionaries are merged in order.
 JSON_PARTS: tuple[JsonPart, ...] = (
     model_json, capacitance_json, operating_point_json, figures_json, hot_spots_json, line_figures_json,
+    cross_check_part,
 )
 
 

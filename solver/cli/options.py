@@ -33,6 +33,7 @@ class ReportOptions:
     peak_target: float = 0.01
     part_length_m: float | None = None
     radius_sweep: tuple[str, tuple[float, ...]] | None = None
+    cross_check_points: tuple[int, ...] | None = None
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -89,4 +90,5 @@ def options_from_args(args: argparse.Namespace) -> ReportOptions:
         peak_target=getattr(args, "peak_target", 0.01),
         part_length_m=getattr(args, "part_length_m", None),
         radius_sweep=parse_radius_sweep(getattr(args, "radius_sweep", None)),
+        cross_check_points=tuple(args.cross_check_points) if getattr(args, "cross_check", False) else None,
     )

@@ -16,6 +16,7 @@ from solver.cli.hot_spots import HotSpotFigures, hot_spot_figures
 from solver.cli.line_figures import figures_for_solution
 from solver.cli.options import ReportOptions
 from solver.figures.equilibrium import equivalent_radius_m
+from solver.cross_check.report import CrossCheck, check_each_equivalent_radius
 from solver.figures.transmission_line import TransmissionLineFigures
 
 NO_RETURN_PATH = (
@@ -51,6 +52,8 @@ class Report:
         metres, model order.
     hot_spots : refined peaks, margins, bundles, corner-radius sweep and part-length check.
     line_figures : transmission-line figures, or None without a return path or signal line.
+    cross_checks : each conductor's equivalent radius by independent routes (``--cross-check``),
+        or None when not asked for.
     """
 
     solution: Solution
@@ -59,6 +62,7 @@ class Report:
     equivalent_radii_m: tuple[float, ...]
     hot_spots: HotSpotFigures
     line_figures: TransmissionLineFigures | None
+    cross_checks: tuple[CrossCheck, ...] | None = None
 
 
 def build_report(
@@ -86,5 +90,9 @@ def build_report(
     hot_spots = hot_spot_figures(solution, options, lambda f, m: report(0.2 + 0.7 * f, m), cancel)
     report(0.9, "Transmission-line figures")
     line_figures = figures_for_solution(solution)
+    checks = None
+    if options.cross_check_points is not None:
+        report(0.95, "Cross-checking the equivalent radii")
+        checks = tuple(check_each_equivalent_radius(solution.model, options.cross_check_points))
     report(1.0, "Done")
-    return Report(solution, options, capacitance_note(solution), radii, hot_spots, line_figures)
+    return Report(solution, options, capacitance_note(solution), radii, hot_spots, line_figures, checks)

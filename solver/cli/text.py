@@ -12,6 +12,7 @@ from collections.abc import Callable, Sequence
 import numpy as np
 
 from solver.cli.caution import caution_section
+from solver.cli.cross_check import cross_check_lines
 from solver.cli.formatting import format_engineering, length_in_unit, text_table
 from solver.cli.hot_spots import hot_spot_section
 from solver.cli.line_figures import dielectric_section, transmission_line_section
@@ -129,6 +130,11 @@ def high_voltage_section(report: Report) -> list[str]:
     return caution_section(report.solution)
 
 
+def cross_check_section(report: Report) -> list[str]:
+    """Each equivalent radius by independent routes, when asked for (see :mod:`solver.cli.cross_check`)."""
+    return cross_check_lines(report.cross_checks)
+
+
 #: The printed summary's sections, in order; each returns lines (an empty list to skip).
 TEXT_SECTIONS: tuple[TextSection, ...] = (
     header_section,
@@ -140,6 +146,7 @@ TEXT_SECTIONS: tuple[TextSection, ...] = (
     hot_spots_section,
     dielectrics_section,
     line_figures_section,
+    cross_check_section,
     high_voltage_section,
 )
 
