@@ -65,6 +65,7 @@ from solver.figures.end_effects import LengthCheck, check_part_length, end_field
 from solver.model.materials import MATERIALS, Material, dielectric_of, material, material_names
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
+from solver.samples import sample_names, sample_path, samples_dir
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -89,6 +90,7 @@ __all__ = [
     "DielectricSolution", "RegionPeakField", "MATERIALS", "Material", "dielectric_of", "material", "material_names",
     "TransmissionLineFigures", "figures_from_matrices", "transmission_line_figures",
     "truncated_layers", "truncation_error", "widen_until_converged",
+    "sample_names", "sample_path", "samples_dir",
 ]
 
 #: Earlier name of :class:`Solution` for models with dielectric regions; one type serves all models now.
