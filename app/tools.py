@@ -11,8 +11,16 @@ from solver import Polygon, Strip
 
 from . import edits, shapes
 from .document import PartRef
-from .draw_tools import (CircleTool, DielectricTool, GroundPlaneTool, PolygonTool, ProbeTool, RectangleTool,
-                         StripTool, TubeTool)
+from .draw_tools import (
+    CircleTool,
+    DielectricTool,
+    GroundPlaneTool,
+    PolygonTool,
+    ProbeTool,
+    RectangleTool,
+    StripTool,
+    TubeTool,
+)
 from .tool_base import XY, Tool
 
 
