@@ -13,7 +13,3 @@ The Qt-free core (:mod:`app.document`, :mod:`app.edits`, :mod:`app.results`,
 :mod:`app.cautions`, :mod:`app.files`) holds the document and its edits; the Qt modules draw it
 and call :mod:`solver` for every number.
 """
-
-from . import refcount_guard as _refcount_guard
-
-_refcount_guard.top_up()

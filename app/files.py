@@ -12,11 +12,21 @@ import os
 from pathlib import Path
 
 from solver import Model, ProjectFileError, load_project, model_from_dict, model_to_dict, save_project
+from solver.samples import samples_dir
 
 logger = logging.getLogger(__name__)
 
-#: Where the sample models live (the repository's sample_geometries folder).
-SAMPLES_DIR = Path(__file__).resolve().parent.parent / "sample_geometries"
+
+def _find_samples() -> Path:
+    try:
+        return samples_dir()
+    except ProjectFileError as exc:  # an installation without its samples: the samples list stays empty
+        logger.warning("%s", exc)
+        return Path(__file__).resolve().parent.parent / "sample_geometries"
+
+
+#: Where the sample models live (the repository's sample_geometries folder, or the installed copy).
+SAMPLES_DIR = _find_samples()
 DEFAULT_SAMPLE = "coaxial_feeder.json"
 MAX_RECENT = 8
 

@@ -19,7 +19,7 @@ from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainW
 import solver
 from solver import Model
 
-from . import cautions, files, refcount_guard
+from . import cautions, files
 from .canvas import Canvas
 from .commands import Commands
 from .document import Document
@@ -90,8 +90,6 @@ class MainWindow(QMainWindow):
 
         self._solve_timer = QTimer(self, singleShot=True, interval=700, timeout=self.solve)
         self._recovery_timer = QTimer(self, singleShot=True, interval=1500, timeout=self._write_recovery)
-        self._guard_timer = QTimer(self, interval=500, timeout=refcount_guard.top_up)
-        self._guard_timer.start()
         self.resize(1500, 900)
         self.resizeDocks([results_dock], [640], Qt.Horizontal)
         if settings is not None and settings.value("window_geometry") is not None:

@@ -9,8 +9,16 @@ from __future__ import annotations
 
 from . import edits
 from .document import PartRef
-from .draw_tools import (CircleTool, DielectricTool, GroundPlaneTool, PolygonTool, ProbeTool, RectangleTool,
-                         StripTool, TubeTool)
+from .draw_tools import (
+    CircleTool,
+    DielectricTool,
+    GroundPlaneTool,
+    PolygonTool,
+    ProbeTool,
+    RectangleTool,
+    StripTool,
+    TubeTool,
+)
 from .tool_base import XY, Tool
 
 

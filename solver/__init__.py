@@ -67,6 +67,7 @@ from solver.model.materials import MATERIALS, Material, dielectric_of, material,
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 from solver.cross_check import CrossCheck, check_each_equivalent_radius, check_equivalent_radius, green_function, robin_constant
+from solver.samples import sample_names, sample_path, samples_dir
 
 __all__ = [
     "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
@@ -93,6 +94,7 @@ __all__ = [
     "TransmissionLineFigures", "figures_from_matrices", "transmission_line_figures",
     "truncated_layers", "truncation_error", "widen_until_converged",
     "CrossCheck", "check_equivalent_radius", "check_each_equivalent_radius", "green_function", "robin_constant",
+    "sample_names", "sample_path", "samples_dir",
 ]
 
 # ---- studies, drawings and AC lines (third-party readers are imported only when used) ----

@@ -11,7 +11,6 @@ from __future__ import annotations
 import argparse
 import math
 import time
-from pathlib import Path
 from typing import Callable
 
 import numpy as np
@@ -70,9 +69,9 @@ def _sample(file_name: str) -> Callable[[], BenchCase]:
 
     def make() -> BenchCase:
         from solver.io.project_file import load_project
+        from solver.samples import sample_path
 
-        path = Path(__file__).resolve().parents[2] / "sample_geometries" / file_name
-        return f"sample {file_name}", load_project(path), None
+        return f"sample {file_name}", load_project(sample_path(file_name)), None
 
     return make
 

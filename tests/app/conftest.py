@@ -8,16 +8,6 @@ import pytest  # noqa: E402
 
 
 @pytest.fixture(autouse=True)
-def refcounts_topped_up():
-    """See app/refcount_guard.py: PySide6 6.12 leaks references to None on Python 3.11."""
-    from app import refcount_guard
-
-    refcount_guard.top_up()
-    yield
-    refcount_guard.top_up()
-
-
-@pytest.fixture(autouse=True)
 def private_recovery(tmp_path, monkeypatch):
     """Keep recovery files of the tests away from the user's."""
     folder = tmp_path / "recovery"

@@ -1,9 +1,8 @@
 """The Qt-free document: one event per real edit, undo/redo round trips, selection checks."""
 
-from solver import Circle, Model, Rectangle
-
 from app import edits
 from app.document import Document, PartRef
+from solver import Circle, Model, Rectangle
 
 
 def _events(doc):

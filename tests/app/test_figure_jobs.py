@@ -2,10 +2,10 @@
 
 import time
 
-from solver import InvalidModelError
+from test_line_figures_view import wait_until
 
 from app.figure_jobs import FigureJobRunner, wait_for_all
-from test_line_figures_view import wait_until
+from solver import InvalidModelError
 
 
 def slow(value, delay_s):

@@ -8,9 +8,8 @@ import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import QMessageBox
 
-from solver import EPSILON_0_F_PER_M
-
 from app import files
+from solver import EPSILON_0_F_PER_M
 
 COAX = files.SAMPLES_DIR / "coaxial_feeder.json"
 

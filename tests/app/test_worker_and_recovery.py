@@ -4,9 +4,8 @@ from unittest import mock
 
 from PySide6.QtWidgets import QMessageBox
 
-from solver import Circle, Conductor, Model, Ring
-
 from app import edits, files
+from solver import Circle, Conductor, Model, Ring
 
 COAX = Model(unit="mm", mesh_density="coarse", conductors=(
     Conductor("inner", (Circle((0.0, 0.0), 1.0),), potential_V=1.0),

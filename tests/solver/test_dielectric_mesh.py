@@ -8,10 +8,10 @@ import pytest
 import shapely
 
 from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
-from solver.mesh.interfaces import discretize_interfaces
-from solver.model.geometry import conductor_geometries, shape_geometry
 from solver.mesh.interface_pieces import split_into_pieces
+from solver.mesh.interfaces import discretize_interfaces
 from solver.mesh.panels import MeshSettings, discretize_boundary
+from solver.model.geometry import conductor_geometries, shape_geometry
 
 
 def _ring_points(shape):
@@ -104,8 +104,8 @@ def test_no_panels_on_the_ground_plane_or_under_a_strip_and_grading_at_junctions
 
 
 def test_conductor_panels_crossing_a_region_boundary_are_split_and_graded():
-    from solver.mesh.interfaces import dielectric_geometries
     from solver import solve
+    from solver.mesh.interfaces import dielectric_geometries
     from solver.mesh.junctions import split_at_junctions
 
     model = Model(

@@ -87,6 +87,7 @@ def test_local_radius_of_curvature_on_arc_circle_and_straight_side():
     assert local_radius_of_curvature_m(mesh, nearest(30.0, 2.0)) == pytest.approx(2e-3, rel=1e-4)
 
 
+@pytest.mark.slow  # refines the peak field on fine meshes
 def test_coaxial_enhancement_factor_is_exact():
     # Inner surface field V / (a ln(b/a)); gap field V / (b - a).
     a, b = 2.0, 5.0

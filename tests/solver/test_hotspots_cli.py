@@ -95,6 +95,7 @@ def test_conductors_at_one_potential_are_compared_with_the_bundle_formula(tmp_pa
     assert "bundle formula (n r A^(n-1))^(1/n) with n = 2" in capsys.readouterr().out
 
 
+@pytest.mark.slow  # full command line with hot-spot refinement
 def test_part_length_option(capsys):
     data = _json(capsys, HV, "--part-length-m", "6")
     check = data["part_length_check"]
@@ -104,6 +105,7 @@ def test_part_length_option(capsys):
     assert _json(capsys, HV)["part_length_check"] is None
 
 
+@pytest.mark.slow  # full command line with hot-spot refinement
 def test_radius_sweep_option(capsys):
     data = _json(capsys, HV, "--radius-sweep", "electrode=0.05,0.02")
     sweep = data["corner_radius_sweep"]

@@ -4,9 +4,12 @@ import os
 import re
 from pathlib import Path
 
+import pytest
+
 ROOT = Path(__file__).resolve().parents[2]
 
 
+@pytest.mark.slow  # the example refines a peak field and assesses margins
 def test_docs_example_runs(capsys):
     code = re.search(r"```python\n(.*?)```", (ROOT / "docs" / "hot_spots.md").read_text(encoding="utf-8"), re.S).group(1)
     here = os.getcwd()

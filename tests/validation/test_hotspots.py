@@ -124,6 +124,7 @@ def test_wire_over_ground_peak_and_honest_error(a_mm, h_mm):  # method of images
     assert spot.enhancement_factor == pytest.approx(exact / (v / (h - a)), rel=1e-4)
 
 
+@pytest.mark.slow  # hot-spot refinement and a radius sweep on a sample
 def test_high_voltage_sample_peak_margins_and_sweep():
     model = load_project(SAMPLE)
     report = analyse_hot_spots(model, target_relative_error=0.01)
