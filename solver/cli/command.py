@@ -39,9 +39,6 @@ from solver.cli import line_figures as transmission_line_cli
 Section = Callable[[Solution], list[str]]
 JsonPart = Callable[[Solution], dict]
 
-#: Potential magnitude (V) from which the summary adds the high-voltage caution.
-HIGH_VOLTAGE_V = 1000.0
-
 NO_RETURN_PATH = (
     "No capacitance matrix: the model has neither a reference conductor nor a ground plane, and "
     "there is no 2-D capacitance without a return path. Set one conductor's role to 'reference' "
@@ -186,15 +183,8 @@ def equivalent_radius_section(solution: Solution) -> list[str]:
 
 
 def caution_section(solution: Solution) -> list[str]:
-    """The high-voltage caution, when any conductor is at 1 kV or more."""
-    if not np.any(np.abs(solution.conductor_potentials_V) >= HIGH_VOLTAGE_V):
-        return []
-    return [
-        "High voltage: compare peak fields with the strength of air (about 3 MV/m in a uniform field at sea "
-        "level, lower at altitude) with a generous margin. This tool does not determine clearances or creepage, "
-        "is no substitute for the applicable codes and standards or for review by a qualified engineer, and work "
-        "on energised equipment is for qualified persons only (see SAFETY.md).",
-    ]
+    """The model's high-voltage verdict and caution, from the one caution rule (solver.judge_peak)."""
+    return hotspot_cli.caution_lines(solution)
 
 
 #: Functions building the printed summary, in order; each returns lines (an empty list to skip).

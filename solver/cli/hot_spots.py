@@ -8,9 +8,11 @@ solution and is shared by the summary and the JSON output.
 JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 ``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
 ``air_breakdown_field_V_per_m``, ``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
-``corona_onset_margin``, ``margin_status``, ``relative_air_density``,
-``thin_margin_threshold``, ``high_voltage_caution`` and the details under ``hot_spots`` and
-``margins``.
+``corona_onset_margin``, ``margin_status``, ``margin_reason``, ``relative_air_density``,
+``thin_margin_threshold``, ``caution_status``, ``caution_headline``, ``high_voltage_caution``
+(the full caution, word for word, whenever the model is not low-voltage) and the details
+under ``hot_spots`` and ``margins``. Status, reason and caution come from
+:func:`solver.judge_peak`, the one caution rule.
 """
 
 from __future__ import annotations
@@ -23,7 +25,15 @@ from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corne
 from solver.figures.end_effects import check_part_length
 from solver.errors import InvalidModelError
 from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
-from solver.hot_spots.margins import REFERENCE_PRESSURE_PA, REFERENCE_TEMPERATURE_K, THIN_MARGIN, AirConditions, MarginReport, assess_margins
+from solver.hot_spots.margins import (
+    THIN_MARGIN,
+    AirConditions,
+    MarginReport,
+    air_breakdown_field_V_per_m,
+    air_conditions_of,
+    assess_margins,
+)
+from solver.hot_spots.verdict import solution_potential_difference_V
 from solver.bem.solution import Solution
 
 _options: dict = {}
@@ -36,7 +46,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     group.add_argument("--altitude-m", type=float, help="site altitude above sea level, m (standard-atmosphere pressure)")
     group.add_argument("--pressure-kPa", type=float, help="air pressure, kPa (instead of --altitude-m)")
     group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
-    group.add_argument("--surface-factor", type=float, default=1.0,
+    group.add_argument("--surface-factor", type=float,
                        help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
     group.add_argument("--corner-radius-m", type=float,
                        help="round every sharp corner and strip edge to this radius, m, for the peak fields")
@@ -49,21 +59,37 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 
 def configure(args: argparse.Namespace) -> None:
-    """Take the options of one command-line run (call before the sections run)."""
+    """Take the options of one command-line run (call before the sections run).
+
+    The air options override the project's own air conditions (``air_conditions`` in the
+    project file) field by field; without them the project's are used.
+    """
     _memo.clear()
-    temperature_K = REFERENCE_TEMPERATURE_K if getattr(args, "temperature_C", None) is None else args.temperature_C + 273.15
-    m = getattr(args, "surface_factor", 1.0)
+    override: dict = {}
+    if getattr(args, "altitude_m", None) is not None:
+        override["altitude_m"] = args.altitude_m
     if getattr(args, "pressure_kPa", None) is not None:
-        air = AirConditions.at_pressure(args.pressure_kPa * 1e3, temperature_K, surface_factor=m)
-    elif getattr(args, "altitude_m", None) is not None:
-        air = AirConditions.at_altitude(args.altitude_m, temperature_K, surface_factor=m)
-    elif temperature_K != REFERENCE_TEMPERATURE_K:
-        air = AirConditions.at_pressure(REFERENCE_PRESSURE_PA, temperature_K, surface_factor=m)
-    else:
-        air = AirConditions(surface_factor=m)
-    _options.update(air=air, corner_radius_m=getattr(args, "corner_radius_m", None),
+        override["pressure_kPa"] = args.pressure_kPa
+    if getattr(args, "temperature_C", None) is not None:
+        override["temperature_C"] = args.temperature_C
+    if getattr(args, "surface_factor", None) is not None:
+        override["surface_factor"] = args.surface_factor
+    if "altitude_m" in override and "pressure_kPa" in override:
+        raise InvalidModelError("Give --altitude-m or --pressure-kPa, not both.")
+    AirConditions.from_settings(override)  # check the options before any solve
+    _options.update(air_override=override, corner_radius_m=getattr(args, "corner_radius_m", None),
                     target=getattr(args, "peak_target", 0.01), part_length_m=getattr(args, "part_length_m", None),
                     sweep=_parse_sweep(getattr(args, "radius_sweep", None)))
+
+
+def air_for(model) -> AirConditions:
+    """The project's air conditions with the command-line air options applied over them."""
+    override = _options.get("air_override") or {}
+    settings = air_conditions_of(model).as_settings()
+    if {"altitude_m", "pressure_kPa"} & override.keys():
+        for key in ("altitude_m", "pressure_kPa", "relative_air_density"):
+            settings.pop(key, None)
+    return AirConditions.from_settings(settings | override)
 
 
 def _parse_sweep(text: str | None) -> tuple[str, list[float]] | None:
@@ -99,8 +125,8 @@ def analysis(solution: Solution) -> tuple[HotSpotReport, MarginReport]:
     cached = _memo.get("analysis")
     if cached is None or cached[0] is not solution:
         report = analyse_hot_spots(solution.model, _options.get("target", 0.01), _options.get("corner_radius_m"))
-        margins = assess_margins(report.solved_model, report.hot_spots, _options.get("air", AirConditions()), THIN_MARGIN,
-                                 report.air_region)
+        margins = assess_margins(report.solved_model, report.hot_spots, air_for(solution.model), THIN_MARGIN,
+                                 report.air_region, solution_potential_difference_V(solution))
         cached = _memo["analysis"] = (solution, report, margins)
     return cached[1], cached[2]
 
@@ -153,7 +179,7 @@ def hot_spot_section(solution: Solution) -> list[str]:
         *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
                  "corona margin", "status"], rows),
         f"  Air: {air.description}, relative density {air.relative_air_density:.3f}; breakdown "
-        f"{_fmt(margins.margins[0].air_breakdown_field_V_per_m if margins.margins else 3e6 * air.relative_air_density, 'V/m')} "
+        f"{_fmt(air_breakdown_field_V_per_m(air.relative_air_density), 'V/m')} "
         f"(3 MV/m x density, common practice); corona onset by Peek (1929, {air.peek_form.replace('_', ' ')}), "
         f"surface factor {air.surface_factor:g}.",
         f"  Enhancement = peak / (potential difference / gap) to the nearest conductor at another potential. "
@@ -165,12 +191,9 @@ def hot_spot_section(solution: Solution) -> list[str]:
                          f"({spot.local_radius_of_curvature_m * 1e3:.3g} mm), an approximation.")
         if spot.singular or not spot.converged:
             lines.append(f"  {spot.conductor}: {spot.note}")
-    from solver.cli.command import HIGH_VOLTAGE_V
-
     if _options.get("part_length_m") is not None:
         lines.append("  Part length: " + check_part_length(model, _options["part_length_m"]).note)
 
-    high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
     if report.air_region is not None:
         ar = report.air_region
         x, y = (v / model.metres_per_unit for v in ar.location_m)
@@ -194,10 +217,22 @@ def hot_spot_section(solution: Solution) -> list[str]:
         lines += ["", *sweep.as_table().splitlines()]
         if sweep.fitted_exponent is not None:
             lines.append(f"  Peak grows like radius^{sweep.fitted_exponent:.3f} over this range.")
-    thin = any(m.status in ("thin", "exceeded") for m in margins.margins) or margins.air_region_status in ("thin", "exceeded")
-    if thin or (margins.needs_caution and high_voltage):
-        lines += ["", margins.caution_text]
+    for m in margins.margins:
+        if m.status == "not assessed":
+            lines.append(f"  {m.conductor}: not assessed, {m.reason}.")
     return lines
+
+
+def caution_lines(solution: Solution) -> list[str]:
+    """The model's verdict (:func:`solver.judge_peak`, one rule) and its caution, word for word."""
+    _, margins = analysis(solution)
+    v = margins.verdict
+    if v is None:
+        return []
+    head = f"High-voltage verdict: {v.status}."
+    if v.caution.startswith(v.headline):
+        return [head, v.caution]
+    return [head, v.headline, *([v.caution] if v.caution else [])]
 
 
 def hot_spot_json(solution: Solution) -> dict:
@@ -219,6 +254,9 @@ def hot_spot_json(solution: Solution) -> dict:
         "air_region_margin": margin_dict["air_region_margin"],
         "relative_air_density": margins.air.relative_air_density,
         "thin_margin_threshold": margins.thin_margin,
+        "margin_reason": [m["reason"] for m in per],
+        "caution_status": margin_dict["status"],
+        "caution_headline": margin_dict["headline"],
         "high_voltage_caution": margin_dict["caution"],
         "hot_spots": report.as_dict(),
         "margins": margin_dict,
