@@ -71,6 +71,7 @@ from solver.hot_spots.verdict import (
     judge_peak,
     judge_solution,
     largest_potential_difference_V,
+    solution_potential_difference_V,
     summarise_verdicts,
 )
 from solver.model.materials import (
@@ -107,7 +108,7 @@ __all__ = [
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
     "air_conditions_of", "with_air_conditions",
     "LOW_VOLTAGE_THRESHOLD_V", "CautionVerdict", "PeakVerdict", "judge_peak", "judge_solution",
-    "largest_potential_difference_V", "summarise_verdicts",
+    "largest_potential_difference_V", "solution_potential_difference_V", "summarise_verdicts",
     "Medium", "background_is_air", "is_air_material", "region_is_air",
     "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",
     "LengthCheck", "check_part_length", "end_field_rise_estimate",

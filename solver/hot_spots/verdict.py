@@ -221,12 +221,14 @@ class CautionVerdict:
     ----------
     status : the most severe status (:data:`STATUSES` order; a low-voltage "not assessed"
         ranks below "ample").
+    reason : the reason of that verdict.
     headline : the headline of that verdict.
     caution : its full caution text (empty only for a low-voltage model).
     verdicts : every peak verdict, model order (the surrounding air last, when judged).
     """
 
     status: str
+    reason: str
     headline: str
     caution: str
     verdicts: tuple[PeakVerdict, ...]
@@ -234,8 +236,11 @@ class CautionVerdict:
     @property
     def alarming(self) -> bool:
         """True when a caution must catch the eye: a margin is thin or exceeded, or a
-        high-voltage peak could not be graded."""
-        return self.status in ("exceeded", "thin") or (self.status == "not assessed" and bool(self.caution))
+        high-voltage peak has no usable value (sharp corner, non-finite). A peak inside
+        insulation is not alarming by itself: the insulation's own rating decides."""
+        if self.status in ("exceeded", "thin"):
+            return True
+        return self.status == "not assessed" and bool(self.caution) and not self.reason.startswith(NOT_IN_AIR)
 
 
 def _severity(v: PeakVerdict) -> int:
@@ -249,7 +254,7 @@ def summarise_verdicts(verdicts: Sequence[PeakVerdict]) -> CautionVerdict | None
     if not verdicts:
         return None
     worst = min(verdicts, key=_severity)
-    return CautionVerdict(worst.status, worst.headline, worst.caution, tuple(verdicts))
+    return CautionVerdict(worst.status, worst.reason, worst.headline, worst.caution, tuple(verdicts))
 
 
 def judges_air_region(where: str) -> bool:
