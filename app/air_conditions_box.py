@@ -66,10 +66,12 @@ class AirConditionsBox(QGroupBox):
             widget.blockSignals(True)
         self.mode.setCurrentIndex(1 if "pressure_kPa" in settings else 0)
         self._on_mode_changed(self.mode.currentIndex())
-        self.altitude_edit.setText(f"{settings.get('altitude_m', 0):g}")
-        self.pressure_edit.setText(f"{settings.get('pressure_kPa', 101.325):g}")
-        self.temperature_edit.setText(f"{settings.get('temperature_C', 20):g}")
-        self.surface_edit.setText(f"{settings.get('surface_factor', 1):g}")
+        for edit, key in ((self.altitude_edit, "altitude_m"), (self.pressure_edit, "pressure_kPa"),
+                          (self.temperature_edit, "temperature_C"), (self.surface_edit, "surface_factor")):
+            if key in settings:  # otherwise the input keeps what it shows (the reference atmosphere at first)
+                edit.setText(f"{settings[key]:g}")
+        if "altitude_m" not in settings and "pressure_kPa" not in settings:
+            self.altitude_edit.setText("0")
         self.peek_form.setCurrentIndex(1 if settings.get("peek_form") == "coaxial" else 0)
         for widget in (self.mode, self.peek_form):
             widget.blockSignals(False)
