@@ -22,8 +22,11 @@ Thresholds and where they come from
   to 0.98 for a roughened or weathered one and about 0.83 to 0.87 for a stranded conductor.
 
 The margin of a conductor is threshold / peak field. A margin below :data:`THIN_MARGIN` (1.5,
-a choice of this program, not a standard) is "thin" and brings :data:`HIGH_VOLTAGE_CAUTION`;
-below 1 the threshold is "exceeded". Potentials must be crest values (AC rms x sqrt 2).
+a choice of this program, not a standard) is "thin"; below 1 the threshold is "exceeded".
+The status, its reason and the caution text come from one rule,
+:func:`solver.hot_spots.verdict.judge_peak`. The project's air conditions live in the project
+file (:func:`air_conditions_of`, :func:`with_air_conditions`). Potentials must be crest values
+(AC rms x sqrt 2).
 """
 
 from __future__ import annotations
