@@ -33,10 +33,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 from solver.errors import InvalidModelError
 from solver.model.model import Circle, Model, Ring
+
+if TYPE_CHECKING:  # pragma: no cover
+    from solver.hot_spots.verdict import CautionVerdict
 
 #: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
 AIR_DIELECTRIC_STRENGTH_V_PER_M = 3.0e6
@@ -197,7 +200,7 @@ class AirConditions:
         Keys: ``altitude_m`` or ``pressure_kPa`` or ``relative_air_density`` (at most one),
         ``temperature_C`` (default 20), ``surface_factor`` (default 1), ``peek_form``.
         """
-        kw = {"surface_factor": float(settings.get("surface_factor", 1.0)),
+        kw: dict[str, Any] = {"surface_factor": float(settings.get("surface_factor", 1.0)),
               "peek_form": str(settings.get("peek_form", "parallel_wires"))}
         given = [k for k in ("altitude_m", "pressure_kPa", "relative_air_density") if settings.get(k) is not None]
         if len(given) > 1:
@@ -298,7 +301,7 @@ class MarginReport:
     air_region_peak_field_V_per_m: float | None = None
     air_region_margin: float | None = None
     air_region_status: str | None = None
-    verdict: object = None
+    verdict: "CautionVerdict | None" = None
 
     @property
     def needs_caution(self) -> bool:

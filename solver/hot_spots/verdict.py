@@ -32,8 +32,8 @@ Whenever the model is not low-voltage (and the values are finite) the full
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
-from typing import Iterable, Sequence
 
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
@@ -46,6 +46,9 @@ from solver.model.materials import Medium
 #: Largest potential difference (V) below which no breakdown caution is given; a choice of
 #: this program, under the Paschen minimum of air (about 327 V, from memory).
 LOW_VOLTAGE_THRESHOLD_V = 300.0
+
+#: The standard reference atmosphere and a smooth surface (the default air conditions).
+REFERENCE_AIR = AirConditions()
 
 #: Statuses from the most to the least severe (the order a summary uses).
 STATUSES = ("exceeded", "thin", "not assessed", "ample")
@@ -133,7 +136,7 @@ def judge_peak(
     at_sharp_corner: bool,
     corona_onset_field_V_per_m: float | None = None,
     corona_radius_basis: str | None = None,
-    air: AirConditions = AirConditions(),
+    air: AirConditions = REFERENCE_AIR,
     thin_margin: float = THIN_MARGIN,
 ) -> PeakVerdict:
     """The status of one peak surface field, its reason and its caution text.
@@ -271,7 +274,7 @@ def solution_potential_difference_V(solution) -> float:
     return largest_potential_difference_V(solution.conductor_potentials_V, has_zero)
 
 
-def judge_solution(solution, air: AirConditions = AirConditions(), thin_margin: float = THIN_MARGIN) -> CautionVerdict | None:
+def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: float = THIN_MARGIN) -> CautionVerdict | None:
     """The verdict on the operating-point peaks of one solve (no refinement), by :func:`judge_peak`.
 
     One verdict per conductor (its largest surface field), plus the largest field in air
@@ -293,7 +296,10 @@ def judge_solution(solution, air: AirConditions = AirConditions(), thin_margin: 
     """
     from solver.hot_spots.air_region import largest_air_field, medium_next_to
     from solver.hot_spots.curvature import signed_radius_of_curvature_m
-    from solver.hot_spots.margins import corona_radius_m, peek_corona_onset_field_V_per_m
+    from solver.hot_spots.margins import (
+        corona_radius_m,
+        peek_corona_onset_field_V_per_m,
+    )
 
     model = solution.model
     dv = solution_potential_difference_V(solution)

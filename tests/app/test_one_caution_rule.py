@@ -15,10 +15,16 @@ from app_helpers import wait_for_solve
 from test_line_figures_view import wait_until
 
 import solver
-from solver import AirConditions, Circle, Conductor, GroundPlane, HIGH_VOLTAGE_CAUTION, Model
-from solver.cli.command import main
-
 from app.report import report_html
+from solver import (
+    HIGH_VOLTAGE_CAUTION,
+    AirConditions,
+    Circle,
+    Conductor,
+    GroundPlane,
+    Model,
+)
+from solver.cli.command import main
 
 WANTED_MARGIN = 1.25
 

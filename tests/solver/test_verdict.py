@@ -22,7 +22,13 @@ from solver import (
     judge_solution,
     solve,
 )
-from solver.model.materials import Medium, background_is_air, dielectric_of, medium_of_region, region_is_air
+from solver.model.materials import (
+    Medium,
+    background_is_air,
+    dielectric_of,
+    medium_of_region,
+    region_is_air,
+)
 
 AIR = Medium("background", None, 1.0, True)
 XLPE = Medium("jacket", "XLPE", 2.3, False)
