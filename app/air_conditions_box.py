@@ -1,9 +1,12 @@
-"""The "Air at the site" inputs of the Hot spots section: altitude, or pressure and temperature.
+"""The "Air at the site" inputs: altitude, or pressure and temperature, and Peek's surface factor.
 
+The project has one set of air conditions (saved in the project file, read by
+:func:`solver.air_conditions_of`); the High voltage and Hot spots tabs each show this box for
+it. :meth:`AirConditionsBox.show_project_air` fills the inputs from the project;
 :meth:`AirConditionsBox.conditions` turns the inputs into a :class:`solver.AirConditions` (as the
 command line's --altitude-m / --pressure-kPa / --temperature-C / --surface-factor do) and
-describes the air density and thresholds in words; ``applied`` fires when the user presses the
-button. No physics here.
+describes them in words; ``applied`` fires when the user presses the button (the owner then
+saves them in the project). No physics here.
 """
 
 from __future__ import annotations
@@ -52,10 +55,27 @@ class AirConditionsBox(QGroupBox):
         self.altitude_edit.setEnabled(index == 0)
         self.pressure_edit.setEnabled(index == 1)
 
-    def set_altitude(self, altitude_m: float) -> None:
-        """Show ``altitude_m`` (e.g. the site altitude saved with the drawing) when altitude is the mode."""
-        if self.mode.currentIndex() == 0:
-            self.altitude_edit.setText(f"{altitude_m:g}")
+    def show_project_air(self, model) -> None:
+        """Fill the inputs with the project's air conditions (as saved) and describe them."""
+        try:
+            settings = solver.air_conditions_of(model).as_settings()
+        except solver.SolverError as exc:
+            self.label.setText(f"The project's air conditions cannot be used: {exc}")
+            return
+        for widget in (self.mode, self.peek_form):
+            widget.blockSignals(True)
+        self.mode.setCurrentIndex(1 if "pressure_kPa" in settings else 0)
+        self._on_mode_changed(self.mode.currentIndex())
+        for edit, key in ((self.altitude_edit, "altitude_m"), (self.pressure_edit, "pressure_kPa"),
+                          (self.temperature_edit, "temperature_C"), (self.surface_edit, "surface_factor")):
+            if key in settings:  # otherwise the input keeps what it shows (the reference atmosphere at first)
+                edit.setText(f"{settings[key]:g}")
+        if "altitude_m" not in settings and "pressure_kPa" not in settings:
+            self.altitude_edit.setText("0")
+        self.peek_form.setCurrentIndex(1 if settings.get("peek_form") == "coaxial" else 0)
+        for widget in (self.mode, self.peek_form):
+            widget.blockSignals(False)
+        self.conditions()
 
     def _read(self) -> AirConditions:
         temperature_K = float(self.temperature_edit.text()) + KELVIN_AT_0_C
@@ -79,6 +99,6 @@ class AirConditionsBox(QGroupBox):
         self.label.setStyleSheet("")
         self.label.setText(
             f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Air breakdown "
-            f"{breakdown / 1e6:.3g} MV/m = 3 MV/m × δ (uniform field, common practice); corona onset of round "
+            f"{breakdown / 1e6:.3g} MV/m (uniform field, in proportion to δ, common practice); corona onset of round "
             f"conductors by Peek (1929), {self.peek_form.currentText()} form, surface factor {air.surface_factor:g}.")
         return air

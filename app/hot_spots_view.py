@@ -2,30 +2,33 @@
 
 When shown after a solve, :func:`solver.analyse_hot_spots` runs in the background (refining
 each conductor's peak field to 1 %); :func:`solver.assess_margins` turns the peaks into margins
-to air breakdown and Peek's corona onset for the air conditions typed in. Sharp corners are
-reported as singular with their exponent; a corner radius re-runs the analysis with the corners
-rounded. The standing statement is always visible; the full high-voltage caution shows in a
-coloured frame when a margin is below ``solver.THIN_MARGIN``. The corner-radius sweep and the
-equivalent radius are parts of this section. No physics here.
+to air breakdown and Peek's corona onset in the project's air conditions (one set per project,
+saved in the file, shared with the High voltage tab, the banner and the report). Each status,
+reason and caution is the solver's verdict (:func:`solver.judge_peak`, the one caution rule).
+Sharp corners are reported as singular with their exponent; a corner radius re-runs the
+analysis with the corners rounded. The standing statement is always visible; the verdict's
+caution shows in a coloured frame when a margin is thin or exceeded or a high-voltage peak
+could not be graded. The corner-radius sweep and the equivalent radius are parts of this
+section. No physics here.
 """
 
 from __future__ import annotations
 
 import math
 
+from PySide6.QtCore import Qt
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
 from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
-from solver.cli.command import HIGH_VOLTAGE_V  # potentials (V) from which the command line cautions too
 
+from . import cautions
 from .air_conditions_box import AirConditionsBox
 from .corner_radius_view import CornerRadiusPart, field_unit
 from .equivalent_radius_view import EquivalentRadiusPart
 from .figure_jobs import FigureJobRunner, JobProgress
 from .matrices_view import CopyableTable
-from .safety_views import ALTITUDE_KEY
 
 #: The standing part of the caution (no clearances; codes and qualified practice prevail).
 STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION[HIGH_VOLTAGE_CAUTION.index("This program does not determine"):]
@@ -40,15 +43,12 @@ def _margin(value: float | None) -> str:
     return "∞" if not math.isfinite(value) else f"{value:.3g}"
 
 
-def _names(names: list[str]) -> str:
-    return ", ".join(f"'{n}'" for n in names)
-
-
 class HotSpotsView(QWidget):
     """Per-conductor peak fields, margins, the caution, the radius sweep and the equivalent radius."""
 
-    def __init__(self, parent=None) -> None:
+    def __init__(self, document=None, parent=None) -> None:
         super().__init__(parent)
+        self.document = document
         self.results = None
         self.report: solver.HotSpotReport | None = None
         self.margins: solver.MarginReport | None = None
@@ -95,6 +95,9 @@ class HotSpotsView(QWidget):
         self.air_box = AirConditionsBox()
         self.air_box.applied.connect(self._on_air_applied)
         layout.addWidget(self.air_box)
+        if document is not None:
+            document.events.connect("model_changed", self._on_model_changed)
+            self.air_box.show_project_air(document.model)
         self.statement = QLabel(STANDING_STATEMENT)
         self.statement.setWordWrap(True)
         self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
@@ -130,9 +133,7 @@ class HotSpotsView(QWidget):
         self.caution_frame.setVisible(False)
         model = results.model
         self.corner_label.setText(f"corner radius ({model.unit})")
-        altitude = model.extras.get(ALTITUDE_KEY)
-        if altitude is not None:
-            self.air_box.set_altitude(altitude)
+        self.air_box.show_project_air(self._project_model())
         self.sweep_part.set_results(results)
         self.radius_part.set_results(results)
         self._corner_radius_m = None
@@ -186,11 +187,25 @@ class HotSpotsView(QWidget):
         self._start(radius * self.results.model.metres_per_unit)
 
     # ---- air ---------------------------------------------------------------------------------
+    def _project_model(self):
+        """The model whose project settings (air conditions) apply: the document's, else the solved one."""
+        if self.document is not None:
+            return self.document.model
+        return None if self.results is None else self.results.model
+
     def _on_air_applied(self) -> None:
-        if self.report is not None:
+        air = self.air_box.conditions()
+        if air is None:
+            return
+        if self.document is not None:
+            self.document.apply(solver.with_air_conditions(self.document.model, air), "Set air conditions")
+        elif self.report is not None:
             self._assess()
-        else:
-            self.air_box.conditions()
+
+    def _on_model_changed(self, model) -> None:
+        self.air_box.show_project_air(model)
+        if self.report is not None and not self._stale:
+            self._assess()
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:
@@ -215,7 +230,8 @@ class HotSpotsView(QWidget):
         if air is None or self.report is None:
             return
         r = self.report
-        self.margins = solver.assess_margins(r.solved_model, r.hot_spots, air, THIN_MARGIN, r.air_region)
+        self.margins = solver.assess_margins(r.solved_model, r.hot_spots, air, THIN_MARGIN, r.air_region,
+                                             solver.solution_potential_difference_V(r.solution))
         self._fill()
 
     def _fill(self) -> None:
@@ -250,7 +266,7 @@ class HotSpotsView(QWidget):
             ar = r.air_region
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
             rows.append(f"largest in air ({place}{', negligible' if ar.negligible else ''})")
-            breakdown = solver.air_breakdown_field_V_per_m(m.air.relative_air_density)
+            breakdown = m.margins[0].air_breakdown_field_V_per_m if m.margins else math.nan
             error = ar.estimated_relative_error
             cells.append([f"{ar.field_V_per_m / factor:.4g}", "—" if error is None else f"{100 * error:.2g}",
                           f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
@@ -270,36 +286,18 @@ class HotSpotsView(QWidget):
         self._show_caution()
 
     def _show_caution(self) -> None:
-        """Red frame when a margin is thin or exceeded; amber when a high-voltage peak has no margin."""
-        m = self.margins
-        low = [c for c in m.margins if c.status in ("thin", "exceeded")]
-        region_low = m.air_region_status in ("thin", "exceeded")
-        unassessed = [c for c in m.margins if c.status == "not assessed"]
-        high_voltage = max((abs(float(v)) for v in self.results.solution.conductor_potentials_V), default=0.0) \
-            >= HIGH_VOLTAGE_V
-        if low or region_low:
-            worst = min((v for c in low for v in (c.air_breakdown_margin, c.corona_onset_margin) if v is not None),
-                        default=m.air_region_margin)
-            names = ", ".join(f"'{c.conductor}'" for c in low) or "the surrounding air"
-            verb = "exceeded" if worst is not None and worst < 1 else f"thin (below {THIN_MARGIN:g})"
-            self._frame(f"CAUTION: margin {verb} on {names}; smallest margin {_margin(worst)}.", "#b00000", "#fde2e2")
-        elif unassessed and high_voltage:
-            spots = {spot.conductor: spot for spot in self.report.hot_spots}
-            at_corner = [c.conductor for c in unassessed if spots[c.conductor].singular]
-            in_insulation = [c.conductor for c in unassessed if not spots[c.conductor].singular]
-            parts = []
-            if at_corner:
-                parts.append(f"{_names(at_corner)}: the peak sits at a sharp corner, where the 2-D field has no "
-                             "finite value; give a corner radius above")
-            if in_insulation:
-                parts.append(f"{_names(in_insulation)}: the peak sits in insulation, where the air thresholds do "
-                             "not apply; judge it by the insulation's own rating")
-            self._frame("No margin for " + "; for ".join(parts) + ".", "#9a5b00", "#fff1dc")
-        else:
+        """The solver's verdict in a coloured frame when it must catch the eye."""
+        v = self.margins.verdict
+        if v is None or not v.alarming:
             self.caution_frame.setVisible(False)
+            return
+        colour, background = cautions.STATUS_COLOURS[v.status]
+        self.caution_text.setText(cautions.caution_body(v))
+        self._frame(v.headline, colour, background)
 
     def _frame(self, headline: str, colour: str, background: str) -> None:
         self.caution_frame.setStyleSheet(f"#caution_frame {{ border: 3px solid {colour}; background: {background}; }}")
         self.caution_headline.setStyleSheet(f"color: {colour}; font-weight: bold; font-size: 12pt;")
+        self.caution_headline.setTextFormat(Qt.PlainText)
         self.caution_headline.setText(headline)
         self.caution_frame.setVisible(True)

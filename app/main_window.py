@@ -229,17 +229,18 @@ class MainWindow(QMainWindow):
         self.banner.setVisible(True)
 
     def _update_banner(self) -> None:
-        caution = caution_for(self.results, self.document.model)
+        """The solver's verdict on the peak fields (one caution rule), shown when it must catch the eye."""
         self.results_panel.high_voltage.show_results(self.results)
         self._banner_is_error = False
-        if caution is None or caution.level == "none":
+        try:
+            verdict = caution_for(self.results, self.document.model)
+        except solver.SolverError:
+            verdict = None  # the High voltage tab says why (e.g. air conditions out of range)
+        if verdict is None or not verdict.alarming:
             self.banner.setVisible(False)
             return
-        colour = "#b00000" if caution.level == "exceeded" else "#8a5200"
-        background = "#ffe0e0" if caution.level == "exceeded" else "#fff1cc"
-        numbers = html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, "").strip())
-        self.banner.setText(f"<b>{html.escape(caution.headline)} {numbers}</b><br>"
-                            f"{html.escape(cautions.STANDING_STATEMENT)}")
+        colour, background = cautions.STATUS_COLOURS[verdict.status]
+        self.banner.setText(f"<b>{html.escape(verdict.headline)}</b><br>{html.escape(cautions.caution_body(verdict))}")
         self.banner.setStyleSheet(f"background: {background}; color: {colour}; padding: 6px; "
                                   f"border: 2px solid {colour};")
         self.banner.setVisible(True)

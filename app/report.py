@@ -9,6 +9,8 @@ from pathlib import Path
 from PySide6.QtCore import QMarginsF, QUrl
 from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
 
+import solver
+
 from . import cautions
 from .safety_views import PART_LENGTH_KEY, caution_for
 from .units import format_field, format_si
@@ -28,7 +30,8 @@ def _matrix_html(title: str, names, matrix) -> str:
 def report_html(results, document_name: str, image_name: str = "drawing", settings_model=None) -> str:
     """The report body as HTML (the drawing is the resource ``image_name``).
 
-    ``settings_model`` supplies the user's part length and air density (default: the solved model).
+    ``settings_model`` supplies the user's part length and the project's air conditions
+    (default: the solved model). The verdict and its words are the solver's (one caution rule).
     """
     sol, model = results.solution, results.model
     settings_model = settings_model or model
@@ -58,14 +61,24 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
                  f"{rows}</table>")
     err = sol.estimated_relative_error
     parts.append(f"<p><b>Estimated relative error:</b> {'n/a' if err is None else f'{err:.2g} (against a mesh at half the resolution)'}</p>")
-    caution = caution_for(results, settings_model)
-    if caution is not None:
-        colour = {"exceeded": "#b00000", "approaching": "#9a5b00", "none": "#1e6b30"}[caution.level]
-        parts.append(f"<p style='color:{colour}'><b>{html.escape(caution.headline)}</b> "
-                     f"{html.escape(caution.detail.replace(cautions.STANDING_STATEMENT, ''))}</p>")
+    try:
+        verdict = caution_for(results, settings_model)
+        air = solver.air_conditions_of(settings_model)
+    except solver.SolverError as exc:
+        verdict = None
+        parts.append(f"<p><b>No high-voltage verdict:</b> {html.escape(str(exc))}</p>")
+    if verdict is not None:
+        colour, _ = cautions.STATUS_COLOURS[verdict.status]
+        statuses = "; ".join(f"{v.where}: {v.status}" + ("" if v.margin is None else f", margin {v.margin:.3g}")
+                             for v in verdict.verdicts)
+        body = cautions.caution_body(verdict).replace(cautions.STANDING_STATEMENT, "").strip()
+        parts.append(f"<p style='color:{colour}'><b>High-voltage verdict: {html.escape(verdict.status)}. "
+                     f"{html.escape(verdict.headline)}</b> {html.escape(body)} ({html.escape(statuses)}; air: "
+                     f"{html.escape(air.description)}, relative density {air.relative_air_density:.3f}, surface "
+                     f"factor {air.surface_factor:g})</p>")
     length = settings_model.extras.get(PART_LENGTH_KEY)
     parts.append("<p><b>What 2-D cannot tell.</b> "
-                 + html.escape(cautions.length_caveat(length, model.largest_dimension(), model.unit)) + " "
+                 + html.escape(cautions.length_text(model, length)) + " "
                  + " ".join(html.escape(t) for t in cautions.TWO_D_LIMITS) + "</p>")
     parts.append(f"<p style='border:1px solid #8a6d00'><b>{html.escape(cautions.STANDING_STATEMENT)}</b></p>")
     return "<html><body style='font-size:7pt'>" + "".join(parts) + "</body></html>"

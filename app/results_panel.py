@@ -27,7 +27,7 @@ class ResultsPanel(QTabWidget):
         self.high_voltage = self.add_section("High voltage", HighVoltageView(document), scroll=True)
         self.caveats = self.add_section("Limits of 2-D", CaveatsView(document), scroll=True)
         self.line_figures = self.add_section("Line figures", LineFiguresView(), scroll=True)
-        self.hot_spots = self.add_section("Hot spots", HotSpotsView(), scroll=True)
+        self.hot_spots = self.add_section("Hot spots", HotSpotsView(document), scroll=True)
         self.cross_check = self.add_section("Cross-check", CrossCheckView(), scroll=True)
 
     def add_section(self, title: str, widget, *, scroll: bool = False):

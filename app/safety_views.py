@@ -1,54 +1,33 @@
 """The two reading-aid tabs: what a 2-D model cannot tell, and the high-voltage caution.
 
-The user's part length and air density are kept in the model's ``extras`` (saved with the
-file). The words come from :mod:`app.cautions`, the same text as SAFETY.md.
+The user's part length is kept in the model's ``extras`` and the air conditions in the
+project's ``air_conditions`` (both saved with the file). The verdict and its words are the
+solver's (:func:`solver.judge_solution`); no physics here.
 """
 
 from __future__ import annotations
 
-from PySide6.QtCore import Signal
+from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidget
 
-from solver import SolverError
+import solver
 
 from . import cautions, edits
+from .air_conditions_box import AirConditionsBox
 from .units import format_si
 
 PART_LENGTH_KEY = "part_length"
-AIR_DENSITY_KEY = "relative_air_density"
-ALTITUDE_KEY = "altitude_m"
 
 
-def medium_eps_r(solution, panel: int) -> float:
-    """Relative permittivity of the medium next to a conductor panel (as the solution reports it)."""
-    per_panel = getattr(solution, "conductor_eps_r_plus", None)
-    if per_panel is not None and len(per_panel) == solution.mesh.n_panels:
-        return float(per_panel[panel])
-    return float(solution.model.background_eps_r)
+def caution_for(results, model):
+    """The solver's verdict (:class:`solver.CautionVerdict`) on ``results`` in the project's air.
 
-
-def worst_peak(results, *, in_air: bool | None = None):
-    """The PeakField with the largest surface field (only those in air, or not, if asked), or None."""
-    peaks = results.solution.peak_surface_fields if results is not None else ()
-    if in_air is not None:
-        peaks = [p for p in peaks if (medium_eps_r(results.solution, p.panel_index) <= 1.001) == in_air]
-    return max(peaks, key=lambda p: p.field_V_per_m) if peaks else None
-
-
-def caution_for(results, model) -> cautions.Caution | None:
-    """The caution for the largest peak field in air of ``results`` at the model's air density.
-
-    When every peak sits in insulation, a note says that the strength of air does not apply.
+    ``model`` is the document's model, whose air conditions apply (they are project settings,
+    not part of the drawing). None before a solve.
     """
-    if worst_peak(results) is None:
+    if results is None:
         return None
-    peak = worst_peak(results, in_air=True)
-    if peak is None:
-        inner = worst_peak(results)
-        return cautions.insulation_note(inner.field_V_per_m, medium_eps_r(results.solution, inner.panel_index),
-                                        inner.conductor)
-    density = float(model.extras.get(AIR_DENSITY_KEY, 1.0) or 1.0)
-    return cautions.field_caution(peak.field_V_per_m, density, peak.at_sharp_corner, peak.conductor)
+    return solver.judge_solution(results.solution, solver.air_conditions_of(model))
 
 
 def _number(text: str) -> float | None:
@@ -94,7 +73,7 @@ class CaveatsView(QWidget):
         self.length_edit.blockSignals(True)
         self.length_edit.setText("" if length is None else f"{length:g}")
         self.length_edit.blockSignals(False)
-        self.verdict.setText(cautions.length_caveat(length, model.largest_dimension(), model.unit))
+        self.verdict.setText(cautions.length_text(model, length))
         self._show_totals()
 
     def show_results(self, results) -> None:
@@ -124,26 +103,21 @@ class CaveatsView(QWidget):
 
 
 class HighVoltageView(QWidget):
-    """Peak surface field against the breakdown strength of air, with the standing statement."""
-
-    air_density_changed = Signal(float)
+    """The model's verdict on its peak fields in the project's air, with the standing statement."""
 
     def __init__(self, document, parent=None) -> None:
         super().__init__(parent)
         self.document = document
         self.results = None
         layout = QVBoxLayout(self)
-        form = QFormLayout()
-        self.altitude_edit = QLineEdit()
-        self.altitude_edit.setPlaceholderText("e.g. 1500")
-        self.density_edit = QLineEdit()
-        form.addRow("site altitude above sea level (m), air at 20 °C", self.altitude_edit)
-        form.addRow("relative air density (1 = sea level, 20 °C)", self.density_edit)
-        layout.addLayout(form)
+        self.air_box = AirConditionsBox()
+        layout.addWidget(self.air_box)
         self.headline = QLabel()
         self.headline.setWordWrap(True)
+        self.headline.setTextFormat(Qt.PlainText)
         self.detail = QLabel()
         self.detail.setWordWrap(True)
+        self.detail.setTextFormat(Qt.PlainText)
         layout.addWidget(self.headline)
         layout.addWidget(self.detail)
         self.statement = QLabel(cautions.STANDING_STATEMENT)
@@ -151,17 +125,12 @@ class HighVoltageView(QWidget):
         self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
         layout.addWidget(self.statement)
         layout.addStretch(1)
-        self.altitude_edit.editingFinished.connect(self._on_altitude_edited)
-        self.density_edit.editingFinished.connect(self._on_density_edited)
+        self.air_box.applied.connect(self._on_air_applied)
         document.events.connect("model_changed", self._on_model_changed)
         self._on_model_changed(document.model)
 
     def _on_model_changed(self, model) -> None:
-        for edit, key, default in ((self.altitude_edit, ALTITUDE_KEY, None), (self.density_edit, AIR_DENSITY_KEY, 1.0)):
-            value = model.extras.get(key, default)
-            edit.blockSignals(True)
-            edit.setText("" if value is None else f"{value:.4g}")
-            edit.blockSignals(False)
+        self.air_box.show_project_air(model)
         self._refresh()
 
     def show_results(self, results) -> None:
@@ -169,35 +138,26 @@ class HighVoltageView(QWidget):
         self._refresh()
 
     def _refresh(self) -> None:
-        caution = caution_for(self.results, self.document.model)
-        if caution is None:
-            self.headline.setText("Solve to compare the peak surface field with the strength of air.")
+        try:
+            verdict = caution_for(self.results, self.document.model)
+        except solver.SolverError as exc:
+            self.headline.setText(f"No verdict: {exc}")
             self.detail.setText("")
             return
-        colour = {"exceeded": "#b00000", "approaching": "#9a5b00", "none": "#1e6b30"}[caution.level]
-        self.headline.setText(caution.headline)
+        if verdict is None:
+            self.headline.setText("Solve to compare the peak surface fields with the strength of air and corona onset.")
+            self.headline.setStyleSheet("")
+            self.detail.setText("")
+            return
+        colour, _ = cautions.STATUS_COLOURS[verdict.status]
+        self.headline.setText(verdict.headline)
         self.headline.setStyleSheet(f"color: {colour}; font-weight: bold; font-size: 13pt;")
-        self.detail.setText(caution.detail.replace(cautions.STANDING_STATEMENT, "").strip())
+        lines = [f"{v.where}: {v.status}" + (f", margin {v.margin:.3g} ({v.reason})" if v.margin is not None
+                                               else f" ({v.reason})") for v in verdict.verdicts]
+        body = cautions.caution_body(verdict).replace(cautions.STANDING_STATEMENT, "").strip()
+        self.detail.setText("\n".join(lines + ([body] if body else [])))
 
-    def _on_altitude_edited(self) -> None:
-        text = self.altitude_edit.text().strip()
-        altitude = _number(text) if text else None
-        if text and altitude is None:
-            self.detail.setText(f"Not applied: '{text}' is not a number of metres.")
-            return
-        model = edits.set_extra(self.document.model, ALTITUDE_KEY, altitude)
-        if altitude is not None:
-            try:
-                density = cautions.relative_air_density_at(altitude)
-            except SolverError as exc:
-                self.detail.setText(f"Not applied: {exc}")
-                return
-            model = edits.set_extra(model, AIR_DENSITY_KEY, round(density, 4))
-        self.document.apply(model, "Set site altitude")
-
-    def _on_density_edited(self) -> None:
-        value = _number(self.density_edit.text())
-        if value is None or not 0 < value <= 1.5:
-            self.detail.setText(f"Not applied: relative air density '{self.density_edit.text()}' must lie in (0, 1.5].")
-            return
-        self.document.apply(edits.set_extra(self.document.model, AIR_DENSITY_KEY, value), "Set air density")
+    def _on_air_applied(self) -> None:
+        air = self.air_box.conditions()
+        if air is not None:
+            self.document.apply(solver.with_air_conditions(self.document.model, air), "Set air conditions")

@@ -55,7 +55,9 @@ from solver.hot_spots.margins import (
     ConductorMargin,
     MarginReport,
     air_breakdown_field_V_per_m,
+    air_conditions_of,
     assess_margins,
+    with_air_conditions,
     peek_corona_onset_field_V_per_m,
     pressure_at_altitude_Pa,
     relative_air_density,
@@ -63,7 +65,27 @@ from solver.hot_spots.margins import (
 )
 from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
-from solver.model.materials import MATERIALS, Material, dielectric_of, material, material_names
+from solver.hot_spots.verdict import (
+    LOW_VOLTAGE_THRESHOLD_V,
+    CautionVerdict,
+    PeakVerdict,
+    judge_peak,
+    judge_solution,
+    largest_potential_difference_V,
+    solution_potential_difference_V,
+    summarise_verdicts,
+)
+from solver.model.materials import (
+    MATERIALS,
+    Material,
+    Medium,
+    background_is_air,
+    dielectric_of,
+    is_air_material,
+    material,
+    material_names,
+    region_is_air,
+)
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 from solver.cross_check import CrossCheck, check_each_equivalent_radius, check_equivalent_radius, green_function, robin_constant
@@ -88,6 +110,10 @@ __all__ = [
     "HIGH_VOLTAGE_CAUTION", "THIN_MARGIN", "AirConditions", "ConductorMargin", "MarginReport",
     "air_breakdown_field_V_per_m", "assess_margins", "peek_corona_onset_field_V_per_m",
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
+    "air_conditions_of", "with_air_conditions",
+    "LOW_VOLTAGE_THRESHOLD_V", "CautionVerdict", "PeakVerdict", "judge_peak", "judge_solution",
+    "largest_potential_difference_V", "solution_potential_difference_V", "summarise_verdicts",
+    "Medium", "background_is_air", "is_air_material", "region_is_air",
     "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",
     "LengthCheck", "check_part_length", "end_field_rise_estimate",
     "DielectricSolution", "RegionPeakField", "MATERIALS", "Material", "dielectric_of", "material", "material_names",

@@ -23,7 +23,6 @@ from collections.abc import Sequence
 
 from solver.bem.solution import Solution
 from solver.bem.solve import solve
-from solver.cli.caution import HIGH_VOLTAGE_V
 from solver.cli.cross_check import add_arguments as add_cross_check_arguments
 from solver.cli.csv_output import write_capacitance_csv
 from solver.cli.formatting import format_engineering
@@ -35,7 +34,7 @@ from solver.errors import SolverError
 from solver.io.project_file import load_project
 from solver.model.model import MESH_DENSITIES, Model
 
-__all__ = ["HIGH_VOLTAGE_V", "build_parser", "format_engineering", "main", "run_solve"]
+__all__ = ["build_parser", "format_engineering", "main", "run_solve"]
 
 
 def build_parser() -> argparse.ArgumentParser:

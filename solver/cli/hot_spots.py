@@ -8,9 +8,11 @@ solution's own meshes, :func:`solver.analyse_hot_spots`), the margins
 JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 ``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
 ``air_breakdown_field_V_per_m``, ``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
-``corona_onset_margin``, ``margin_status``, ``relative_air_density``,
-``thin_margin_threshold``, ``high_voltage_caution`` and the details under ``hot_spots`` and
-``margins``.
+``corona_onset_margin``, ``margin_status``, ``margin_reason``, ``relative_air_density``,
+``thin_margin_threshold``, ``caution_status``, ``caution_headline``, ``high_voltage_caution``
+(the full caution, word for word, whenever the model is not low-voltage) and the details
+under ``hot_spots`` and ``margins``. Status, reason and caution come from
+:func:`solver.judge_peak`, the one caution rule.
 """
 
 from __future__ import annotations
@@ -19,7 +21,6 @@ from dataclasses import dataclass
 
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback
-from solver.cli.caution import HIGH_VOLTAGE_V
 from solver.cli.formatting import format_optional, text_table
 from solver.cli.options import ReportOptions
 from solver.errors import InvalidModelError
@@ -27,7 +28,8 @@ from solver.figures.bundles import BundleComparison, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length
 from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.margins import THIN_MARGIN, MarginReport, assess_margins
+from solver.hot_spots.margins import THIN_MARGIN, MarginReport, air_breakdown_field_V_per_m, assess_margins
+from solver.hot_spots.verdict import solution_potential_difference_V
 
 
 @dataclass(frozen=True)
@@ -70,8 +72,8 @@ def analysis(
     """Hot spots (refined from the solution's meshes) and margins of the solution's model."""
     report = analyse_hot_spots(solution, options.peak_target, options.corner_radius_m,
                                progress=progress, cancel=cancel)
-    margins = assess_margins(report.solved_model, report.hot_spots, options.air, THIN_MARGIN,
-                             report.air_region)
+    margins = assess_margins(report.solved_model, report.hot_spots, options.air_for(solution.model),
+                             THIN_MARGIN, report.air_region, solution_potential_difference_V(solution))
     return report, margins
 
 
@@ -123,7 +125,7 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
                  "corona margin", "status"], rows),
         f"  Air: {air.description}, relative density {air.relative_air_density:.3f}; breakdown "
-        f"{_fmt(margins.margins[0].air_breakdown_field_V_per_m if margins.margins else 3e6 * air.relative_air_density, 'V/m')} "
+        f"{_fmt(air_breakdown_field_V_per_m(air.relative_air_density), 'V/m')} "
         f"(3 MV/m x density, common practice); corona onset by Peek (1929, {air.peek_form.replace('_', ' ')}), "
         f"surface factor {air.surface_factor:g}.",
         f"  Enhancement = peak / (potential difference / gap) to the nearest conductor at another potential. "
@@ -138,7 +140,6 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
     if figures.part_length is not None:
         lines.append("  Part length: " + figures.part_length.note)
 
-    high_voltage = bool(abs(solution.conductor_potentials_V).max() >= HIGH_VOLTAGE_V)
     if report.air_region is not None:
         ar = report.air_region
         x, y = (v / model.metres_per_unit for v in ar.location_m)
@@ -162,10 +163,21 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         lines += ["", *sweep.as_table().splitlines()]
         if sweep.fitted_exponent is not None:
             lines.append(f"  Peak grows like radius^{sweep.fitted_exponent:.3f} over this range.")
-    thin = any(m.status in ("thin", "exceeded") for m in margins.margins) or margins.air_region_status in ("thin", "exceeded")
-    if thin or (margins.needs_caution and high_voltage):
-        lines += ["", margins.caution_text]
+    for m in margins.margins:
+        if m.status == "not assessed":
+            lines.append(f"  {m.conductor}: not assessed, {m.reason}.")
     return lines
+
+
+def caution_lines(figures: HotSpotFigures) -> list[str]:
+    """The model's verdict (:func:`solver.judge_peak`, one rule) and its caution, word for word."""
+    v = figures.margins.verdict
+    if v is None:
+        return []
+    head = f"High-voltage verdict: {v.status}."
+    if v.caution.startswith(v.headline):
+        return [head, v.caution]
+    return [head, v.headline, *([v.caution] if v.caution else [])]
 
 
 def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
@@ -187,6 +199,9 @@ def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
         "air_region_margin": margin_dict["air_region_margin"],
         "relative_air_density": margins.air.relative_air_density,
         "thin_margin_threshold": margins.thin_margin,
+        "margin_reason": [m["reason"] for m in per],
+        "caution_status": margin_dict["status"],
+        "caution_headline": margin_dict["headline"],
         "high_voltage_caution": margin_dict["caution"],
         "hot_spots": report.as_dict(),
         "margins": margin_dict,

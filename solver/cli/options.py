@@ -6,11 +6,8 @@ import argparse
 from dataclasses import dataclass
 
 from solver.errors import InvalidModelError
-from solver.hot_spots.margins import (
-    REFERENCE_PRESSURE_PA,
-    REFERENCE_TEMPERATURE_K,
-    AirConditions,
-)
+from solver.hot_spots.margins import AirConditions, air_conditions_of
+from solver.model.model import Model
 
 
 @dataclass(frozen=True)
@@ -19,7 +16,9 @@ class ReportOptions:
 
     Attributes
     ----------
-    air : air conditions for the breakdown and corona-onset margins.
+    air_override : air settings given on the command line (project-file keys such as
+        ``altitude_m``, ``pressure_kPa``, ``temperature_C``, ``surface_factor``); they replace
+        the project's own air conditions field by field (see :meth:`air_for`).
     corner_radius_m : round every sharp corner and strip edge to this radius for the peak
         fields, metres (None: as drawn).
     peak_target : relative error target of the refined peak fields.
@@ -28,12 +27,21 @@ class ReportOptions:
         or None.
     """
 
-    air: AirConditions = AirConditions()
+    air_override: tuple[tuple[str, float], ...] = ()
     corner_radius_m: float | None = None
     peak_target: float = 0.01
     part_length_m: float | None = None
     radius_sweep: tuple[str, tuple[float, ...]] | None = None
     cross_check_points: tuple[int, ...] | None = None
+
+    def air_for(self, model: Model) -> AirConditions:
+        """The project's air conditions with this run's command-line air settings over them."""
+        override = dict(self.air_override)
+        settings = air_conditions_of(model).as_settings()
+        if {"altitude_m", "pressure_kPa"} & override.keys():
+            for key in ("altitude_m", "pressure_kPa", "relative_air_density"):
+                settings.pop(key, None)
+        return AirConditions.from_settings(settings | override)
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -42,7 +50,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     group.add_argument("--altitude-m", type=float, help="site altitude above sea level, m (standard-atmosphere pressure)")
     group.add_argument("--pressure-kPa", type=float, help="air pressure, kPa (instead of --altitude-m)")
     group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
-    group.add_argument("--surface-factor", type=float, default=1.0,
+    group.add_argument("--surface-factor", type=float,
                        help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
     group.add_argument("--corner-radius-m", type=float,
                        help="round every sharp corner and strip edge to this radius, m, for the peak fields")
@@ -54,18 +62,18 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
                        help="peak field of CONDUCTOR with its corners rounded to each radius (m)")
 
 
-def air_conditions(args: argparse.Namespace) -> AirConditions:
-    """Air conditions from --pressure-kPa or --altitude-m, --temperature-C and --surface-factor."""
-    temperature_C = getattr(args, "temperature_C", None)
-    temperature_K = REFERENCE_TEMPERATURE_K if temperature_C is None else temperature_C + 273.15
-    m = getattr(args, "surface_factor", 1.0)
-    if getattr(args, "pressure_kPa", None) is not None:
-        return AirConditions.at_pressure(args.pressure_kPa * 1e3, temperature_K, surface_factor=m)
-    if getattr(args, "altitude_m", None) is not None:
-        return AirConditions.at_altitude(args.altitude_m, temperature_K, surface_factor=m)
-    if temperature_K != REFERENCE_TEMPERATURE_K:
-        return AirConditions.at_pressure(REFERENCE_PRESSURE_PA, temperature_K, surface_factor=m)
-    return AirConditions(surface_factor=m)
+def air_override(args: argparse.Namespace) -> tuple[tuple[str, float], ...]:
+    """The air settings given with --altitude-m or --pressure-kPa, --temperature-C and
+    --surface-factor (checked here, before any solve)."""
+    override: dict[str, float] = {}
+    for option, key in (("altitude_m", "altitude_m"), ("pressure_kPa", "pressure_kPa"),
+                        ("temperature_C", "temperature_C"), ("surface_factor", "surface_factor")):
+        if getattr(args, option, None) is not None:
+            override[key] = float(getattr(args, option))
+    if "altitude_m" in override and "pressure_kPa" in override:
+        raise InvalidModelError("Give --altitude-m or --pressure-kPa, not both.")
+    AirConditions.from_settings(override)
+    return tuple(override.items())
 
 
 def parse_radius_sweep(text: str | None) -> tuple[str, tuple[float, ...]] | None:
@@ -85,7 +93,7 @@ def parse_radius_sweep(text: str | None) -> tuple[str, tuple[float, ...]] | None
 def options_from_args(args: argparse.Namespace) -> ReportOptions:
     """The :class:`ReportOptions` of one command-line run (raises InvalidModelError on a bad sweep)."""
     return ReportOptions(
-        air=air_conditions(args),
+        air_override=air_override(args),
         corner_radius_m=getattr(args, "corner_radius_m", None),
         peak_target=getattr(args, "peak_target", 0.01),
         part_length_m=getattr(args, "part_length_m", None),

@@ -11,10 +11,9 @@ from collections.abc import Callable, Sequence
 
 import numpy as np
 
-from solver.cli.caution import caution_section
 from solver.cli.cross_check import cross_check_lines
 from solver.cli.formatting import format_engineering, length_in_unit, text_table
-from solver.cli.hot_spots import hot_spot_section
+from solver.cli.hot_spots import caution_lines, hot_spot_section
 from solver.cli.line_figures import dielectric_section, transmission_line_section
 from solver.cli.report import Report
 
@@ -126,8 +125,8 @@ def line_figures_section(report: Report) -> list[str]:
 
 
 def high_voltage_section(report: Report) -> list[str]:
-    """The high-voltage caution (see :mod:`solver.cli.caution`)."""
-    return caution_section(report.solution)
+    """The model's high-voltage verdict and caution, from the one caution rule (:func:`solver.judge_peak`)."""
+    return caution_lines(report.hot_spots)
 
 
 def cross_check_section(report: Report) -> list[str]:

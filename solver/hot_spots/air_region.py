@@ -6,7 +6,10 @@ usually on the outer surface of the insulation. The dielectric solution knows th
 of every region (:attr:`DielectricSolution.peak_region_fields`); this module follows the
 background region's peak over the meshes of a refinement and gives it an error estimate the
 same way as the conductor peaks (:func:`solver.peak_diagnostics.richardson_estimate`).
-Only when the background is air (relative permittivity 1).
+Only when the background is air (decided by material, :func:`solver.model.materials.background_is_air`).
+
+:func:`medium_next_to` names the medium on the field side of a conductor panel -- the one
+place that says whether a peak sits in air.
 """
 
 from __future__ import annotations
@@ -16,9 +19,21 @@ from typing import Sequence
 
 from solver.hot_spots.peak_diagnostics import richardson_estimate
 from solver.bem.solution import Solution
+from solver.model.materials import BACKGROUND, Medium, background_is_air, medium_of_region
 
 #: Name of the background region in dielectric solutions.
-BACKGROUND_REGION = "background"
+BACKGROUND_REGION = BACKGROUND
+
+
+def medium_next_to(solution: Solution, panel: int) -> Medium:
+    """The medium on the field side of conductor panel ``panel`` of ``solution.mesh``.
+
+    The region comes from the solution (the side of the panel its normal points to); whether
+    it is air is decided by its material (:func:`solver.model.materials.region_is_air`).
+    """
+    regions = solution.conductor_region_plus
+    index = int(regions[panel]) if len(regions) == solution.mesh.n_panels else len(solution.model.dielectrics)
+    return medium_of_region(solution.model, index)
 
 
 @dataclass(frozen=True)
@@ -50,30 +65,38 @@ class AirRegionPeak:
 NEGLIGIBLE_FRACTION = 1e-4
 
 
-def _background_peak(solution: Solution):
-    for peak in getattr(solution, "peak_region_fields", ()):
-        if peak.region == BACKGROUND_REGION:
-            return peak
-    return None
+def air_region_names(model) -> set[str]:
+    """Names of the regions that are air: the background when its eps_r is air's, and every
+    dielectric region whose material is air."""
+    names = {BACKGROUND_REGION} if background_is_air(model) else set()
+    return names | {d.name for i, d in enumerate(model.dielectrics) if medium_of_region(model, i).is_air}
+
+
+def largest_air_field(solution: Solution):
+    """The largest of the region peaks that lie in air (None when no region is air)."""
+    names = air_region_names(solution.model)
+    peaks = [p for p in solution.peak_region_fields if p.region in names]
+    return max(peaks, key=lambda p: float(p.field_V_per_m)) if peaks else None
 
 
 def air_region_peak(solutions: Sequence[Solution]) -> AirRegionPeak | None:
     """Peak field in the background air over a refinement (coarsest first), or None.
 
     None when the model has no dielectric regions (the conductor peaks are then in air
-    already), when the background is not air, or with fewer than three solutions.
+    already), when no region is air (by material), or with fewer than three solutions.
+    The peak is the largest over every air region (the background and regions drawn as air).
     """
     if len(solutions) < 3:
         return None
     final = solutions[-1]
-    if not final.model.dielectrics or final.model.background_eps_r != 1.0:
+    if not final.model.dielectrics or not air_region_names(final.model):
         return None
-    peaks = [_background_peak(s) for s in solutions]
+    peaks = [largest_air_field(s) for s in solutions]
     if any(p is None for p in peaks):
         return None
     history = tuple(float(p.field_V_per_m) for p in peaks)
     last = peaks[-1]
-    largest = float(max((float(p.field_V_per_m) for p in getattr(final, "peak_region_fields", ())), default=0.0))
+    largest = float(max((float(p.field_V_per_m) for p in final.peak_region_fields), default=0.0))
     negligible = history[-1] < NEGLIGIBLE_FRACTION * largest
     error = None if (last.at_sharp_corner or negligible) else richardson_estimate(history)[0]
     return AirRegionPeak(history[-1], tuple(map(float, last.location_m)), last.where, bool(last.at_sharp_corner),

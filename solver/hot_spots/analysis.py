@@ -38,13 +38,11 @@ import numpy as np
 
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve_mesh
-from solver.errors import InvalidModelError
-from solver.hot_spots.air_region import AirRegionPeak, air_region_peak
-from solver.hot_spots.corner_rounding import (
-    conductors_with_sharp_corners,
-    round_sharp_corners,
-)
+from solver.hot_spots.air_region import AirRegionPeak, air_region_peak, medium_next_to
+from solver.model.materials import Medium
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.curvature import signed_radius_of_curvature_m
+from solver.errors import InvalidModelError
 from solver.hot_spots.peak_diagnostics import (
     GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
     corner_field_grows,
@@ -89,7 +87,8 @@ class HotSpot:
     local_radius_of_curvature_m : radius of curvature of the outline at the peak where it
         bulges into the field, metres (None on a straight run, on a hollow surface such as the
         inside of a tube, at a sharp corner or on a strip).
-    medium_eps_r : relative permittivity of the medium next to the peak (1 = air).
+    medium_eps_r : relative permittivity of the medium next to the peak.
+    medium : the medium next to the peak (region, material, and whether it is air).
     note : plain-words remark for the user.
     """
 
@@ -112,6 +111,7 @@ class HotSpot:
     note: str
     local_radius_of_curvature_m: float | None = None
     medium_eps_r: float = 1.0
+    medium: Medium | None = None
 
 
 @dataclass(frozen=True)
@@ -362,7 +362,8 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
         )
         return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), True, exponent, beta, None, None, None,
                        False, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
-                       tuple(map(float, history)), note)
+                       tuple(map(float, history)), note, medium_eps_r=medium_next_to(final, i).eps_r,
+                       medium=medium_next_to(final, i))
     error, extrapolated, order = richardson_estimate(history)
     converged = error <= target
     note = (
@@ -375,9 +376,5 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
     return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
                    converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
                    tuple(map(float, history)), note, curvature if 0 < curvature < math.inf else None,
-                   _medium_eps_r(final, i))
+                   medium_next_to(final, i).eps_r, medium_next_to(final, i))
 
-
-def _medium_eps_r(solution: Solution, panel: int) -> float:
-    """Relative permittivity next to a conductor panel (on its field side)."""
-    return float(solution.conductor_eps_r_plus[panel])

@@ -22,18 +22,24 @@ Thresholds and where they come from
   to 0.98 for a roughened or weathered one and about 0.83 to 0.87 for a stranded conductor.
 
 The margin of a conductor is threshold / peak field. A margin below :data:`THIN_MARGIN` (1.5,
-a choice of this program, not a standard) is "thin" and brings :data:`HIGH_VOLTAGE_CAUTION`;
-below 1 the threshold is "exceeded". Potentials must be crest values (AC rms x sqrt 2).
+a choice of this program, not a standard) is "thin"; below 1 the threshold is "exceeded".
+The status, its reason and the caution text come from one rule,
+:func:`solver.hot_spots.verdict.judge_peak`. The project's air conditions live in the project
+file (:func:`air_conditions_of`, :func:`with_air_conditions`). Potentials must be crest values
+(AC rms x sqrt 2).
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import Sequence
+from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING, Any, Sequence
 
 from solver.errors import InvalidModelError
 from solver.model.model import Model
+
+if TYPE_CHECKING:  # pragma: no cover
+    from solver.hot_spots.verdict import CautionVerdict
 
 #: Dielectric strength of air in a uniform field at the reference atmosphere, V/m (common practice).
 AIR_DIELECTRIC_STRENGTH_V_PER_M = 3.0e6
@@ -41,6 +47,8 @@ AIR_DIELECTRIC_STRENGTH_V_PER_M = 3.0e6
 REFERENCE_PRESSURE_PA = 101_325.0
 #: Reference temperature of the relative air density, K (20 degC).
 REFERENCE_TEMPERATURE_K = 293.15
+#: Kelvin at 0 degC.
+KELVIN_AT_0_C = 273.15
 #: Margins (threshold / peak) below this are reported as thin; a choice of this program.
 THIN_MARGIN = 1.5
 #: Peek's constants (A in kV/cm, B in cm^0.5) of E_c = A m delta (1 + B / sqrt(delta r)).
@@ -124,7 +132,7 @@ def peek_corona_onset_field_V_per_m(
 
 @dataclass(frozen=True)
 class AirConditions:
-    """The air around the conductors and the surface of round conductors.
+    """The air around the conductors and the surface of round conductors (one set per project).
 
     Attributes
     ----------
@@ -132,38 +140,131 @@ class AirConditions:
     surface_factor : Peek's m (1 smooth, ~0.95 weathered, ~0.85 stranded).
     peek_form : "parallel_wires" or "coaxial".
     description : where delta came from, in words.
+    altitude_m, pressure_Pa, temperature_K : what the user gave (None when not given); kept so
+        that the conditions can be saved with the project and shown again as typed.
     """
 
     relative_air_density: float = 1.0
     surface_factor: float = 1.0
     peek_form: str = "parallel_wires"
     description: str = "standard reference atmosphere (101.325 kPa, 20 degC)"
+    altitude_m: float | None = None
+    pressure_Pa: float | None = None
+    temperature_K: float | None = None
+
+    def __post_init__(self) -> None:
+        if not (math.isfinite(self.relative_air_density) and self.relative_air_density > 0):
+            raise InvalidModelError(f"Relative air density is {self.relative_air_density}; it must be positive.")
+        if not (math.isfinite(self.surface_factor) and 0 < self.surface_factor <= 1):
+            raise InvalidModelError(f"Surface factor is {self.surface_factor}; it lies between 0 and 1 (1 = smooth).")
+        if self.peek_form not in PEEK_FORMS:
+            raise InvalidModelError(f"Peek form '{self.peek_form}' is not known; use one of {', '.join(PEEK_FORMS)}.")
 
     @classmethod
     def at_altitude(cls, altitude_m: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
         """Air at ``altitude_m`` (standard-atmosphere pressure) and ``temperature_K``."""
         delta = relative_air_density_at_altitude(altitude_m, temperature_K)
         text = f"altitude {altitude_m:g} m, {temperature_K - 273.15:g} degC (standard-atmosphere pressure)"
-        return cls(delta, description=text, **kw)
+        return cls(delta, description=text, altitude_m=float(altitude_m), temperature_K=float(temperature_K), **kw)
 
     @classmethod
     def at_pressure(cls, pressure_Pa: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
         """Air at a measured pressure and temperature."""
         delta = relative_air_density(pressure_Pa, temperature_K)
-        return cls(delta, description=f"{pressure_Pa / 1e3:g} kPa, {temperature_K - 273.15:g} degC", **kw)
+        return cls(delta, description=f"{pressure_Pa / 1e3:g} kPa, {temperature_K - 273.15:g} degC",
+                   pressure_Pa=float(pressure_Pa), temperature_K=float(temperature_K), **kw)
+
+    def as_settings(self) -> dict:
+        """The project-file form (``air_conditions``, see docs/project_file.md): what the user gave.
+
+        >>> AirConditions.at_altitude(1500.0, surface_factor=0.9).as_settings()
+        {'altitude_m': 1500.0, 'temperature_C': 20.0, 'surface_factor': 0.9, 'peek_form': 'parallel_wires'}
+        """
+        out: dict = {}
+        if self.altitude_m is not None:
+            out["altitude_m"] = self.altitude_m
+        elif self.pressure_Pa is not None:
+            out["pressure_kPa"] = round(self.pressure_Pa / 1e3, 12)
+        elif self.relative_air_density != 1.0:
+            out["relative_air_density"] = self.relative_air_density
+        if self.temperature_K is not None:
+            out["temperature_C"] = round(self.temperature_K - KELVIN_AT_0_C, 12)
+        out["surface_factor"] = self.surface_factor
+        out["peek_form"] = self.peek_form
+        return out
+
+    @classmethod
+    def from_settings(cls, settings: dict) -> "AirConditions":
+        """Air conditions from their project-file form (the inverse of :meth:`as_settings`).
+
+        Keys: ``altitude_m`` or ``pressure_kPa`` or ``relative_air_density`` (at most one),
+        ``temperature_C`` (default 20), ``surface_factor`` (default 1), ``peek_form``.
+        """
+        kw: dict[str, Any] = {"surface_factor": float(settings.get("surface_factor", 1.0)),
+              "peek_form": str(settings.get("peek_form", "parallel_wires"))}
+        given = [k for k in ("altitude_m", "pressure_kPa", "relative_air_density") if settings.get(k) is not None]
+        if len(given) > 1:
+            raise InvalidModelError(f"Air conditions give both {given[0]} and {given[1]}; give one of them.")
+        t = settings.get("temperature_C")
+        temperature_K = REFERENCE_TEMPERATURE_K if t is None else float(t) + KELVIN_AT_0_C
+        if "altitude_m" in given:
+            return cls.at_altitude(float(settings["altitude_m"]), temperature_K, **kw)
+        if "pressure_kPa" in given or t is not None:
+            pressure = float(settings.get("pressure_kPa") or REFERENCE_PRESSURE_PA / 1e3) * 1e3
+            return cls.at_pressure(pressure, temperature_K, **kw)
+        if "relative_air_density" in given:
+            delta = float(settings["relative_air_density"])
+            return cls(delta, description=f"relative air density {delta:g} as given", **kw)
+        return cls(**kw)
+
+
+#: Key of the project's air conditions in ``Model.extras`` (the project file's ``air_conditions``).
+AIR_CONDITIONS_KEY = "air_conditions"
+#: Keys earlier versions of the desktop program kept in ``extras`` (read, never written).
+_LEGACY_ALTITUDE_KEY, _LEGACY_DENSITY_KEY = "altitude_m", "relative_air_density"
+
+
+def air_conditions_of(model: Model) -> AirConditions:
+    """The project's one set of air conditions (standard reference atmosphere when none is saved).
+
+    Reads ``model.extras["air_conditions"]`` (the project file's ``air_conditions``); files
+    written by earlier versions that kept only a site altitude or an air density in ``extras``
+    are read too.
+
+    Raises
+    ------
+    InvalidModelError
+        When the saved conditions are out of range (e.g. an altitude above 11 000 m).
+    """
+    extras = model.extras or {}
+    settings = extras.get(AIR_CONDITIONS_KEY)
+    if isinstance(settings, dict):
+        return AirConditions.from_settings(settings)
+    if extras.get(_LEGACY_ALTITUDE_KEY) is not None:
+        return AirConditions.at_altitude(float(extras[_LEGACY_ALTITUDE_KEY]))
+    if extras.get(_LEGACY_DENSITY_KEY) is not None:
+        return AirConditions.from_settings({"relative_air_density": float(extras[_LEGACY_DENSITY_KEY])})
+    return AirConditions()
+
+
+def with_air_conditions(model: Model, air: AirConditions) -> Model:
+    """A copy of ``model`` carrying ``air`` as its project air conditions (legacy keys dropped)."""
+    extras = {k: v for k, v in (model.extras or {}).items() if k not in (_LEGACY_ALTITUDE_KEY, _LEGACY_DENSITY_KEY)}
+    extras[AIR_CONDITIONS_KEY] = air.as_settings()
+    return replace(model, extras=extras)
 
 
 @dataclass(frozen=True)
 class ConductorMargin:
     """Margins of one conductor's peak surface field (all fields crest values, V/m).
 
-    ``*_margin`` = threshold / peak (None when the peak is not finite, at a sharp corner, or
-    when the peak is not in air).
+    ``*_margin`` = threshold / peak (None when the peak is not graded: not finite, at a sharp
+    corner, not in air, or in a low-voltage model).
     ``corona_radius_m`` is the radius put into Peek's formula: the conductor's own radius for a
     round conductor, else the local radius of curvature of the outline at the peak (an
     approximation, said in ``corona_radius_basis``); ``corona_*`` are None when there is
-    neither (peak on a straight run or at a corner). ``status`` is "ample", "thin"
-    (margin < thin threshold), "exceeded" (margin < 1) or "not assessed".
+    neither (peak on a straight run or at a corner). ``status``, ``reason``, ``headline`` and
+    ``caution`` are the verdict of :func:`solver.judge_peak` (the one caution rule).
     """
 
     conductor: str
@@ -177,15 +278,20 @@ class ConductorMargin:
     corona_onset_margin: float | None
     status: str
     caution: str
+    reason: str = ""
+    headline: str = ""
 
 
 @dataclass(frozen=True)
 class MarginReport:
-    """Margins of every analysed conductor, the air conditions and the caution text.
+    """Margins of every analysed conductor, the air conditions and the model's verdict.
 
     With insulated conductors in air, ``air_region_margin`` compares the largest field in the
     surrounding air (on the outer surface of the insulation, say) with air breakdown, and
-    ``air_region_status`` grades it like a conductor's; both are None otherwise.
+    ``air_region_status`` grades it like a conductor's; both are None otherwise (and when that
+    field lies on a bare conductor, whose own verdict covers it).
+    ``verdict`` is the model's :class:`solver.CautionVerdict`; ``caution_text`` its caution
+    (the full high-voltage caution whenever the model is not low-voltage).
     """
 
     margins: tuple[ConductorMargin, ...]
@@ -195,11 +301,12 @@ class MarginReport:
     air_region_peak_field_V_per_m: float | None = None
     air_region_margin: float | None = None
     air_region_status: str | None = None
+    verdict: "CautionVerdict | None" = None
 
     @property
     def needs_caution(self) -> bool:
-        """True when any margin is thin, exceeded or not assessed."""
-        return any(m.status != "ample" for m in self.margins) or self.air_region_status not in (None, "ample")
+        """True when any margin is thin or exceeded, or a high-voltage peak could not be graded."""
+        return bool(self.verdict is not None and self.verdict.alarming)
 
     def as_dict(self) -> dict:
         """JSON-ready summary with SI keys (infinite margins become None)."""
@@ -207,9 +314,11 @@ class MarginReport:
         def clean(v):
             return None if isinstance(v, float) and not math.isfinite(v) else v
 
+        v = self.verdict
         return {
             "relative_air_density": self.air.relative_air_density,
             "air_conditions": self.air.description,
+            "air_conditions_settings": self.air.as_settings(),
             "surface_factor": self.air.surface_factor,
             "peek_form": self.air.peek_form,
             "thin_margin_threshold": self.thin_margin,
@@ -217,7 +326,9 @@ class MarginReport:
             "air_region_peak_field_V_per_m": self.air_region_peak_field_V_per_m,
             "air_region_margin": clean(self.air_region_margin),
             "air_region_status": self.air_region_status,
-            "caution": self.caution_text if self.needs_caution else "",
+            "status": None if v is None else v.status,
+            "headline": None if v is None else v.headline,
+            "caution": self.caution_text,
         }
 
 
@@ -236,14 +347,36 @@ def round_radius_m(model: Model, conductor: str, location_m: tuple[float, float]
     return None if radius is None else radius * scale
 
 
+#: How a corona radius taken from the outline's curvature is described.
+LOCAL_RADIUS_BASIS = "local radius of curvature at the peak (approximation: Peek's formula is for round conductors)"
+
+
+def corona_radius_m(model: Model, conductor: str, location_m: tuple[float, float] | None,
+                    local_radius_of_curvature_m: float | None, at_sharp_corner: bool) -> tuple[float | None, str | None]:
+    """The radius for Peek's formula at a peak, metres, and where it came from (or (None, None)).
+
+    The conductor's own radius when it is one circle or ring, else the local radius of
+    curvature of the outline at the peak (not at a sharp corner).
+    """
+    radius = round_radius_m(model, conductor, location_m) if conductor in model.conductor_names else None
+    if radius is not None:
+        return radius, "round conductor"
+    if local_radius_of_curvature_m is not None and not at_sharp_corner:
+        return float(local_radius_of_curvature_m), LOCAL_RADIUS_BASIS
+    return None, None
+
+
 def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirConditions(),
-                   thin_margin: float = THIN_MARGIN, air_region=None) -> MarginReport:
-    """Margins to air breakdown and (round conductors) corona onset, per conductor.
+                   thin_margin: float = THIN_MARGIN, air_region=None,
+                   largest_potential_difference_V: float | None = None) -> MarginReport:
+    """Margins to air breakdown and (round conductors) corona onset, per conductor, with verdicts.
+
+    Each peak is judged by :func:`solver.judge_peak`, the one caution rule.
 
     Parameters
     ----------
     model : Model
-        The model the peaks belong to (for the radii of round conductors).
+        The model the peaks belong to (for the radii of round conductors and the media).
     hot_spots : sequence of HotSpot
         From :func:`solver.analyse_hot_spots` (``HotSpotReport.hot_spots``).
     air : AirConditions
@@ -252,49 +385,47 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
     air_region : AirRegionPeak, optional
         Largest field in the surrounding air of a model with insulation
         (``HotSpotReport.air_region``).
+    largest_potential_difference_V : float, optional
+        Largest potential difference in the model, V (default: from the model's fixed
+        potentials, the hot spots' potentials and 0 V for a ground plane or reference).
 
     Returns
     -------
     MarginReport
     """
-    breakdown = air_breakdown_field_V_per_m(air.relative_air_density)
-    out = []
+    from solver.hot_spots.verdict import judge_peak, judges_air_region, summarise_verdicts
+    from solver.hot_spots.verdict import largest_potential_difference_V as spread
+    from solver.model.materials import medium_of_region
+
+    if largest_potential_difference_V is None:
+        potentials = [c.potential_V for c in model.conductors if c.role == "fixed"]
+        potentials += [s.potential_V for s in hot_spots if getattr(s, "potential_V", None) is not None]
+        has_zero = model.ground_plane is not None or any(c.role == "reference" for c in model.conductors)
+        largest_potential_difference_V = spread(potentials, has_zero)
+    background = medium_of_region(model, len(model.dielectrics))
+    out, verdicts = [], []
     for spot in hot_spots:
         peak = float(spot.field_V_per_m)
-        radius = (round_radius_m(model, spot.conductor, getattr(spot, "location_m", None))
-                  if spot.conductor in model.conductor_names else None)
-        basis = None if radius is None else "round conductor"
-        local = getattr(spot, "local_radius_of_curvature_m", None)
-        if radius is None and local is not None and not spot.singular:
-            radius, basis = local, ("local radius of curvature at the peak (approximation: Peek's formula "
-                                    "is for round conductors)")
+        radius, basis = corona_radius_m(model, spot.conductor, getattr(spot, "location_m", None),
+                                        getattr(spot, "local_radius_of_curvature_m", None), spot.singular)
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
-        medium = float(getattr(spot, "medium_eps_r", 1.0))
-        if spot.singular or medium != 1.0:
-            m_air = m_cor = None
-            status = "not assessed"
-            reason = ("Sharp corner or free edge: the 2-D peak field is not finite, so no margin can be given. "
-                      "Give a corner radius. ") if spot.singular else (
-                f"The peak sits in a medium of relative permittivity {medium:g}, not air: the air-breakdown and "
-                "corona thresholds do not apply; judge the insulation by its material's own data. ")
-            caution = reason + HIGH_VOLTAGE_CAUTION
-        else:
-            m_air = breakdown / peak if peak > 0 else math.inf
-            m_cor = None if corona is None else (corona / peak if peak > 0 else math.inf)
-            worst = min(m for m in (m_air, m_cor) if m is not None)
-            status = "exceeded" if worst < 1 else "thin" if worst < thin_margin else "ample"
-            caution = "" if status == "ample" else (
-                f"Margin {worst:.2f} is below {thin_margin:g}. " + HIGH_VOLTAGE_CAUTION)
-        out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, breakdown, m_air,
-                                   radius, basis, corona, m_cor, status, caution))
+        medium = getattr(spot, "medium", None) or background
+        v = judge_peak(peak, where=f"'{spot.conductor}'", largest_potential_difference_V=largest_potential_difference_V,
+                       medium=medium, at_sharp_corner=bool(spot.singular), corona_onset_field_V_per_m=corona,
+                       corona_radius_basis=basis, air=air, thin_margin=thin_margin)
+        verdicts.append(v)
+        out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, v.air_breakdown_field_V_per_m,
+                                   v.air_breakdown_margin, radius, basis, corona, v.corona_onset_margin, v.status,
+                                   v.caution, v.reason, v.headline))
     region_peak = region_margin = region_status = None
-    if air_region is not None:
+    if air_region is not None and judges_air_region(air_region.where):
         region_peak = float(air_region.field_V_per_m)
-        if air_region.at_sharp_corner:
-            region_status = "not assessed"
-        else:
-            region_margin = breakdown / region_peak if region_peak > 0 else math.inf
-            region_status = "exceeded" if region_margin < 1 else "thin" if region_margin < thin_margin else "ample"
-    return MarginReport(tuple(out), air, float(thin_margin), HIGH_VOLTAGE_CAUTION, region_peak, region_margin,
-                        region_status)
+        v = judge_peak(region_peak, where="the surrounding air", largest_potential_difference_V=largest_potential_difference_V,
+                       medium=None, at_sharp_corner=bool(air_region.at_sharp_corner), air=air, thin_margin=thin_margin)
+        verdicts.append(v)
+        region_margin, region_status = v.air_breakdown_margin, v.status
+    verdict = summarise_verdicts(verdicts)
+    caution = "" if verdict is None else verdict.caution
+    return MarginReport(tuple(out), air, float(thin_margin), caution, region_peak, region_margin,
+                        region_status, verdict)

@@ -7,7 +7,8 @@ A project file is a JSON object::
      "ground_plane": {"y": 0.0},
      "conductors": [{"name": "inner", "role": "fixed", "potential_V": 1.0,
                      "shapes": [{"kind": "circle", "center": [0, 0], "radius": 1.0}]}],
-     "dielectrics": [], "extras": {}}
+     "dielectrics": [], "extras": {},
+     "air_conditions": {"altitude_m": 1500, "temperature_C": 20, "surface_factor": 0.9}}
 
 Lengths are in the file's ``unit``; potentials in volts, charges in coulombs per metre.
 ``docs/project_file.md`` describes every field and ``solver/project_schema.json`` is the JSON
@@ -27,7 +28,13 @@ from typing import Any
 
 from solver.errors import ProjectFileError
 from solver.model.model import Conductor, Model, Shape
-from solver.io.project_reading import PROJECT_FORMAT_NAME, PROJECT_FORMAT_VERSION, FieldProblem, read_model
+from solver.io.project_reading import (
+    AIR_CONDITIONS_KEY,
+    PROJECT_FORMAT_NAME,
+    PROJECT_FORMAT_VERSION,
+    FieldProblem,
+    read_model,
+)
 
 # ---- writing ---------------------------------------------------------------------------------
 def _shape_to_dict(shape: Shape) -> dict:
@@ -84,7 +91,11 @@ def model_to_dict(model: Model) -> dict:
             entry["material"] = d.material
         entry["shapes"] = [_shape_to_dict(s) for s in d.shapes]
         out["dielectrics"].append(entry)
-    out["extras"] = copy.deepcopy(dict(model.extras))
+    extras = copy.deepcopy(dict(model.extras))
+    air = extras.pop(AIR_CONDITIONS_KEY, None)
+    if air is not None:  # the project's one set of air conditions (solver.air_conditions_of)
+        out[AIR_CONDITIONS_KEY] = air
+    out["extras"] = extras
     return out
 
 

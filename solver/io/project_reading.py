@@ -34,8 +34,14 @@ PROJECT_FORMAT_NAME = "edgewise-project"
 
 _COLOR = re.compile(r"^#[0-9a-fA-F]{6}$")
 _TOP_KEYS = {"$schema", "format", "version", "unit", "title", "description", "background_eps_r",
-             "mesh_density", "ground_plane", "conductors", "dielectrics", "extras"}
+             "mesh_density", "ground_plane", "conductors", "dielectrics", "extras", "air_conditions"}
 _SHAPE_KEYS = {kind: (set(cls.required_fields), set(cls.optional_fields)) for kind, cls in SHAPE_KINDS.items()}
+#: Key under which the project's air conditions are kept in ``Model.extras``
+#: (:func:`solver.air_conditions_of` reads them).
+AIR_CONDITIONS_KEY = "air_conditions"
+#: Altitudes the standard-atmosphere pressure formula holds for, m (as solver.hot_spots.margins).
+ALTITUDE_RANGE_M = (-500.0, 11_000.0)
+_PEEK_FORMS = ("parallel_wires", "coaxial")
 _ROLE_KEYS = {"fixed": {"potential_V"}, "floating": {"charge_C_per_m"}, "reference": set()}
 
 
@@ -210,6 +216,41 @@ def _check_header(data: Any) -> None:
         raise FieldProblem("version", f"{version} is not a valid format version (versions start at 1)")
 
 
+def _air_conditions_from(value: Any, path: str) -> dict:
+    """The project's air conditions, checked field by field (see docs/project_file.md)."""
+    v = _object(value, path, set(), {"altitude_m", "pressure_kPa", "relative_air_density", "temperature_C",
+                                     "surface_factor", "peek_form"})
+    given = [k for k in ("altitude_m", "pressure_kPa", "relative_air_density") if k in v]
+    if len(given) > 1:
+        raise FieldProblem(f"{path}.{given[1]}", f"give one of altitude_m, pressure_kPa and relative_air_density, "
+                                                 f"not both {given[0]} and {given[1]}")
+    out: dict = {}
+    if "altitude_m" in v:
+        altitude = _number(v["altitude_m"], f"{path}.altitude_m")
+        low, high = ALTITUDE_RANGE_M
+        if not low <= altitude <= high:
+            raise FieldProblem(f"{path}.altitude_m", f"{altitude:g} m is outside {low:g} to {high:g} m, where the "
+                                                     "standard-atmosphere pressure formula holds; give pressure_kPa")
+        out["altitude_m"] = altitude
+    if "pressure_kPa" in v:
+        out["pressure_kPa"] = _number(v["pressure_kPa"], f"{path}.pressure_kPa", positive=True)
+    if "relative_air_density" in v:
+        out["relative_air_density"] = _number(v["relative_air_density"], f"{path}.relative_air_density", positive=True)
+    if "temperature_C" in v:
+        t = _number(v["temperature_C"], f"{path}.temperature_C")
+        if not t > -273.15:
+            raise FieldProblem(f"{path}.temperature_C", f"{t:g} degC is below absolute zero")
+        out["temperature_C"] = t
+    if "surface_factor" in v:
+        m = _number(v["surface_factor"], f"{path}.surface_factor", positive=True)
+        if m > 1:
+            raise FieldProblem(f"{path}.surface_factor", f"{m:g} is above 1 (1 = smooth, ~0.85 stranded)")
+        out["surface_factor"] = m
+    if "peek_form" in v:
+        out["peek_form"] = _string(v["peek_form"], f"{path}.peek_form", choices=_PEEK_FORMS)
+    return out
+
+
 def read_model(data: Any) -> Model:
     """The Model described by a project dictionary; raises FieldProblem on the first bad field."""
     _check_header(data)
@@ -221,6 +262,11 @@ def read_model(data: Any) -> Model:
     extras = v.get("extras", {})
     if not isinstance(extras, dict):
         raise FieldProblem("extras", f"expected an object, got {_show(extras)}")
+    extras = copy.deepcopy(extras)
+    if AIR_CONDITIONS_KEY in extras:  # kept there by a script: checked like the top-level field
+        extras[AIR_CONDITIONS_KEY] = _air_conditions_from(extras[AIR_CONDITIONS_KEY], f"extras.{AIR_CONDITIONS_KEY}")
+    if AIR_CONDITIONS_KEY in v:
+        extras[AIR_CONDITIONS_KEY] = _air_conditions_from(v[AIR_CONDITIONS_KEY], AIR_CONDITIONS_KEY)
     conductors = tuple(_conductor_from(c, f"conductors[{i}]") for i, c in enumerate(_list(v["conductors"], "conductors")))
     dielectrics = tuple(_dielectric_from(d, f"dielectrics[{i}]") for i, d in enumerate(_list(v.get("dielectrics", []), "dielectrics")))
     try:
@@ -233,7 +279,7 @@ def read_model(data: Any) -> Model:
             mesh_density=_string(v.get("mesh_density", "normal"), "mesh_density", choices=MESH_DENSITIES),
             title=_string(v.get("title", ""), "title"),
             description=_string(v.get("description", ""), "description"),
-            extras=copy.deepcopy(extras),
+            extras=extras,
         )
     except InvalidModelError as e:
         raise _model_error("conductors", e) from None

@@ -18,7 +18,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from solver.model.model import Dielectric, Shape
+from solver.model.model import Dielectric, Model, Shape
 
 FROM_MEMORY = "typical, from memory"
 
@@ -95,3 +95,78 @@ def dielectric_of(name: str, shapes: tuple[Shape, ...], material_name: str, eps_
     """A dielectric region of a library material; ``eps_r`` overrides the library value."""
     m = material(material_name)
     return Dielectric(name, tuple(shapes), m.eps_r if eps_r is None else float(eps_r), m.name)
+
+
+# ---- air: decided in one place, by material ----------------------------------------------------
+#: Names under which a region's material counts as air (lower case); "air" is the library entry.
+AIR_NAMES = frozenset({"air", "dry air", "atmospheric air"})
+
+
+def is_air_material(material_name: str | None) -> bool:
+    """True when ``material_name`` names air (the library's "air", case-insensitive).
+
+    >>> is_air_material("Air"), is_air_material("XLPE"), is_air_material(None)
+    (True, False, False)
+    """
+    return material_name is not None and material_name.strip().lower() in AIR_NAMES
+
+
+def has_air_permittivity(eps_r: float) -> bool:
+    """True when ``eps_r`` lies between vacuum's and the top of the library's range for air.
+
+    >>> has_air_permittivity(1.0), has_air_permittivity(1.0006), has_air_permittivity(2.3)
+    (True, True, False)
+    """
+    return material("vacuum").eps_r <= float(eps_r) <= material("air").eps_r_range[1]
+
+
+def region_is_air(region: Dielectric) -> bool:
+    """True when a dielectric region is air: its material is air (by name or from the library).
+
+    A region without a material counts as air when its own name is an air name. A region
+    whose material says air but whose eps_r was overridden outside air's range is not air.
+    """
+    named = region.material if region.material is not None else region.name
+    return is_air_material(named) and has_air_permittivity(region.eps_r)
+
+
+@dataclass(frozen=True)
+class Medium:
+    """The medium on the field side of a conductor surface.
+
+    Attributes
+    ----------
+    region : dielectric region name, or "background".
+    material : material name, when the region names one (None otherwise).
+    eps_r : relative permittivity.
+    is_air : decided by :func:`region_is_air` (a region) or :func:`has_air_permittivity`
+        (the background).
+    """
+
+    region: str
+    material: str | None
+    eps_r: float
+    is_air: bool
+
+    def describe(self) -> str:
+        """e.g. "'jacket' (XLPE, eps_r 2.3)" or "the background (eps_r 4)"."""
+        name = "the background" if self.region == BACKGROUND else f"'{self.region}'"
+        what = f"{self.material}, " if self.material else ""
+        return f"{name} ({what}eps_r {self.eps_r:g})"
+
+
+#: Name of the background (everything outside the dielectric regions).
+BACKGROUND = "background"
+
+
+def medium_of_region(model: Model, region_index: int) -> Medium:
+    """The :class:`Medium` of region ``region_index`` (``len(model.dielectrics)`` = the background)."""
+    if 0 <= region_index < len(model.dielectrics):
+        d = model.dielectrics[region_index]
+        return Medium(d.name, d.material, float(d.eps_r), region_is_air(d))
+    return Medium(BACKGROUND, None, float(model.background_eps_r), has_air_permittivity(model.background_eps_r))
+
+
+def background_is_air(model: Model) -> bool:
+    """True when the background (outside every region) is air: its eps_r is air's."""
+    return medium_of_region(model, len(model.dielectrics)).is_air

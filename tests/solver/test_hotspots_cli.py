@@ -32,17 +32,20 @@ def test_json_has_margins_and_peak_error_in_si_keys(capsys):
     assert data["corona_onset_margin"][0] == pytest.approx(data["corona_onset_field_V_per_m"][0]
                                                            / data["peak_field_V_per_m"][0])
     assert data["margins"]["surface_factor"] == 0.9
-    assert data["margin_status"] == ["ample"] and data["high_voltage_caution"] == ""
+    # ample, but a high-voltage model: the full caution, word for word (SAFETY.md)
+    assert data["margin_status"] == ["ample"] and data["high_voltage_caution"] == HIGH_VOLTAGE_CAUTION
+    assert data["caution_status"] == "ample"
     assert data["air_region_peak_field_V_per_m"] is None and data["air_region_margin"] is None  # no insulation
     detail = data["hot_spots"]["conductors"][0]
     assert detail["nearest_conductor"] == "ground plane" and detail["gap_m"] == pytest.approx(1.0)
 
 
 def test_summary_shows_thin_margin_with_the_caution(tmp_path, capsys):
-    # A sharp-cornered bar at 80 kV, 100 mm above earth, rounded to 5 mm on the command line:
-    # peak about 2.6 MV/m, air margin about 1.15.
+    # A sharp-cornered bar at 110 kV, 100 mm above earth, rounded to 5 mm on the command line:
+    # peak about 3.6 MV/m; Peek's onset for the 5 mm corner radius (about 4.3 MV/m) governs,
+    # corona margin about 1.2.
     bar = Model(unit="mm", ground_plane=GroundPlane(0.0), title="Bar", conductors=(
-        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=8e4),))
+        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=1.1e5),))
     path = tmp_path / "bar.json"
     save_project(bar, path)
     assert main([str(path), "--corner-radius-m", "0.005"]) == 0
@@ -54,7 +57,9 @@ def test_summary_shows_thin_margin_with_the_caution(tmp_path, capsys):
     assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in " ".join(out.split())
     data = _json(capsys, path, "--corner-radius-m", "0.005")
     assert data["hot_spots"]["corner_radius_m"] == 0.005 and not data["peak_field_singular"][0]
-    assert data["high_voltage_caution"] == HIGH_VOLTAGE_CAUTION
+    assert data["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION) and data["caution_status"] == "thin"
+    assert data["high_voltage_caution"].startswith(data["caution_headline"]) and "flashover" not in out
+    assert data["caution_headline"] in out and data["high_voltage_caution"] in " ".join(out.split())
 
 
 def test_sharp_corner_without_radius_is_not_assessed(tmp_path, capsys):

@@ -8,6 +8,7 @@ from pathlib import Path
 import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
+from solver.model.materials import Medium
 from solver.errors import InvalidModelError
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
@@ -30,6 +31,7 @@ class _Spot:  # the fields assess_margins reads from a HotSpot
     singular: bool = False
     estimated_relative_error: float | None = 1e-4
     local_radius_of_curvature_m: float | None = None
+    medium: Medium | None = None
 
 
 MODEL = Model(unit="mm", conductors=(
@@ -43,21 +45,38 @@ def test_round_radius_only_for_circles_and_rings():
     assert round_radius_m(MODEL, "bar") is None
 
 
-def test_status_follows_the_smaller_margin():
-    # 5 mm smooth wire: Peek's onset (about 4.3 MV/m) is above 3 MV/m, so air sets the status.
+def test_a_round_conductor_is_graded_by_its_corona_onset():
+    # 5 mm smooth wire: Peek's onset (about 4.3 MV/m) lies above 3 MV/m, and it is the onset --
+    # not the uniform-field strength -- that governs a round conductor (Peek 1929).
     onset = peek_corona_onset_field_V_per_m(5e-3)
     assert onset > 3e6
-    for peak, status in ((1.0e6, "ample"), (2.5e6, "thin"), (3.5e6, "exceeded")):
+    for peak, status in ((2.5e6, "ample"), (3.5e6, "thin"), (4.5e6, "exceeded")):
         m = assess_margins(MODEL, [_Spot("wire", peak)]).margins[0]
         assert m.status == status
         assert m.air_breakdown_margin == pytest.approx(3e6 / peak)
         assert m.corona_onset_margin == pytest.approx(onset / peak)
-        assert bool(m.caution) == (status != "ample")
+        assert m.caution.endswith(HIGH_VOLTAGE_CAUTION)  # 100 kV: the full caution always applies
+        assert ("expect corona or flashover" in m.caution.lower()) == (status == "exceeded")
+
+
+def test_air_margin_above_one_but_corona_margin_above_one_is_not_told_to_expect_flashover():
+    # 3.5 MV/m exceeds 3 MV/m, but the 5 mm wire's Peek onset is 4.3 MV/m: corona margin 1.23.
+    m = assess_margins(MODEL, [_Spot("wire", 3.5e6)]).margins[0]
+    assert m.air_breakdown_margin < 1 < m.corona_onset_margin
+    assert m.status == "thin" and "flashover" not in m.caution
+
+
+def test_a_conductor_without_corona_radius_is_graded_by_the_strength_of_air():
+    for peak, status in ((1.0e6, "ample"), (2.5e6, "thin"), (3.5e6, "exceeded")):
+        m = assess_margins(MODEL, [_Spot("bar", peak)]).margins[0]
+        assert m.corona_onset_margin is None and m.status == status
+        assert "uniform-field strength of air" in m.reason
 
 
 def test_singular_peak_is_not_assessed_and_cautioned():
     m = assess_margins(MODEL, [_Spot("bar", 9e9, singular=True)]).margins[0]
     assert m.status == "not assessed" and m.air_breakdown_margin is None and m.corona_onset_margin is None
+    assert m.reason.startswith("at a sharp corner: the 2-D peak is mesh-made")
     assert "corner radius" in m.caution and HIGH_VOLTAGE_CAUTION in m.caution
 
 
@@ -75,7 +94,8 @@ def test_zero_field_gives_an_infinite_margin_and_clean_json():
     text = json.dumps(report.as_dict(), allow_nan=False)
     data = json.loads(text)
     assert data["conductors"][0]["air_breakdown_margin"] is None
-    assert data["thin_margin_threshold"] == THIN_MARGIN and data["caution"] == HIGH_VOLTAGE_CAUTION
+    assert data["thin_margin_threshold"] == THIN_MARGIN and data["caution"].endswith(HIGH_VOLTAGE_CAUTION)
+    assert data["status"] == "exceeded" and data["caution"].startswith("CAUTION: the peak surface field on 'bar'")
     assert data["relative_air_density"] == pytest.approx(relative_air_density(95e3, 303.15))
 
 
@@ -104,13 +124,10 @@ def test_safety_file_repeats_the_caution_and_the_thresholds():
 
 
 def test_peak_in_a_dielectric_is_not_judged_against_air():
-    @dataclass(frozen=True)
-    class _InOil(_Spot):
-        medium_eps_r: float = 2.2
-
-    m = assess_margins(MODEL, [_InOil("wire", 1e6)]).margins[0]
+    oil = Medium("tank", "transformer oil", 2.2, False)
+    m = assess_margins(MODEL, [_Spot("wire", 1e6, medium=oil)]).margins[0]
     assert m.status == "not assessed" and m.air_breakdown_margin is None
-    assert "relative permittivity 2.2" in m.caution
+    assert m.reason.startswith("not in air: inside 'tank' (transformer oil, eps_r 2.2)")
 
 
 def test_inside_of_a_tube_has_no_corona_radius():

@@ -1,0 +1,322 @@
+"""The one caution rule: the status of a peak field, the reason and the caution text.
+
+Every place that shows a high-voltage verdict -- the desktop program's banner, its High
+voltage and Hot spots tabs, the PDF report, the command line's text and JSON -- asks
+:func:`judge_peak` (one peak) or :func:`summarise_verdicts` (a model) and shows their words.
+
+The rule, in order (the first that applies decides):
+
+1. **Non-finite value** (a peak or a potential that is NaN or infinite): "not assessed".
+2. **Low voltage**: the largest potential difference in the model is below
+   :data:`LOW_VOLTAGE_THRESHOLD_V` (300 V, a choice of this program). It sits under the
+   Paschen minimum of air, about 327 V (from memory; see the Paschen curve of air in
+   E. Kuffel, W. S. Zaengl & J. Kuffel, High Voltage Engineering Fundamentals, 2000): no gap
+   in air at ordinary density breaks down below it, whatever its length. "not assessed", and
+   no breakdown caution.
+3. **Sharp corner or free edge**: the 2-D peak has no finite value (it grows at every
+   refinement), so it is never graded: "not assessed", give a corner radius.
+4. **Not in air**: the peak sits in a region whose material is not air
+   (:func:`solver.model.materials.region_is_air`): the air thresholds do not apply.
+5. **Graded**: margin = threshold / peak. On a conductor with a corona-onset radius (round, or
+   a local radius of curvature) the threshold is Peek's corona-onset field (F. W. Peek,
+   Dielectric Phenomena in High-Voltage Engineering, 1929), which already contains the
+   uniform-field strength of air and the help of the field's decay away from a curved
+   surface; elsewhere it is the uniform-field strength of air, 3 MV/m x relative air density
+   (common practice). Below 1: "exceeded"; below :data:`THIN_MARGIN` (1.5, a choice of this
+   program): "thin"; else "ample". Only "exceeded" says "expect corona or flashover".
+
+Whenever the model is not low-voltage (and the values are finite) the full
+:data:`HIGH_VOLTAGE_CAUTION` is part of the caution text, whatever the status.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+
+from solver.hot_spots.margins import (
+    HIGH_VOLTAGE_CAUTION,
+    THIN_MARGIN,
+    AirConditions,
+    air_breakdown_field_V_per_m,
+)
+from solver.model.materials import Medium
+
+#: Largest potential difference (V) below which no breakdown caution is given; a choice of
+#: this program, under the Paschen minimum of air (about 327 V, from memory).
+LOW_VOLTAGE_THRESHOLD_V = 300.0
+
+#: The standard reference atmosphere and a smooth surface (the default air conditions).
+REFERENCE_AIR = AirConditions()
+
+#: Statuses from the most to the least severe (the order a summary uses).
+STATUSES = ("exceeded", "thin", "not assessed", "ample")
+
+#: The part of every reason that says why a peak was not graded (the first words).
+NON_FINITE, LOW_VOLTAGE, SHARP_CORNER, NOT_IN_AIR = "non-finite value", "low voltage", "at a sharp corner", "not in air"
+
+
+@dataclass(frozen=True)
+class PeakVerdict:
+    """The verdict on one peak field (all fields crest values, V/m).
+
+    Attributes
+    ----------
+    where : what the peak belongs to, as shown: "'<conductor>'" or "the surrounding air".
+    status : "ample", "thin", "exceeded" or "not assessed".
+    reason : why, in words (no figures, so every view shows the same words).
+    headline : one line for a banner or a frame.
+    caution : the full text to show (headline, advice and :data:`HIGH_VOLTAGE_CAUTION`);
+        empty only for a low-voltage model.
+    peak_field_V_per_m : the peak that was judged.
+    air_breakdown_field_V_per_m, air_breakdown_margin : uniform-field strength of air and
+        strength / peak (None when not graded).
+    corona_onset_field_V_per_m, corona_onset_margin : Peek's onset and onset / peak (None
+        without a corona radius or when not graded).
+    margin : the margin that set the status (None when not graded).
+    threshold : what ``margin`` compares with, in words (None when not graded).
+    """
+
+    where: str
+    status: str
+    reason: str
+    headline: str
+    caution: str
+    peak_field_V_per_m: float
+    air_breakdown_field_V_per_m: float
+    air_breakdown_margin: float | None = None
+    corona_onset_field_V_per_m: float | None = None
+    corona_onset_margin: float | None = None
+    margin: float | None = None
+    threshold: str | None = None
+
+    @property
+    def graded(self) -> bool:
+        """True when a margin was computed (status ample, thin or exceeded)."""
+        return self.margin is not None
+
+
+def largest_potential_difference_V(potentials_V: Iterable[float], has_zero_volt_return: bool) -> float:
+    """Largest |V_i - V_j| among ``potentials_V`` (and 0 V when a ground plane or reference exists), V.
+
+    NaN when any potential is not finite.
+
+    >>> largest_potential_difference_V([500.0, -500.0], False)
+    1000.0
+    >>> largest_potential_difference_V([10e3], True)
+    10000.0
+    """
+    values = [float(v) for v in potentials_V] + ([0.0] if has_zero_volt_return else [])
+    if not values:
+        return 0.0
+    if not all(math.isfinite(v) for v in values):
+        return math.nan
+    return max(values) - min(values)
+
+
+def _graded(where: str, peak: float, breakdown: float, corona: float | None, corona_basis: str | None,
+            thin_margin: float) -> tuple[str, str, float, float | None, float, str]:
+    m_air = breakdown / peak if peak > 0 else math.inf
+    m_cor = None if corona is None else (corona / peak if peak > 0 else math.inf)
+    if m_cor is not None:
+        margin, threshold = m_cor, f"corona onset (Peek 1929, {corona_basis or 'round conductor'})"
+    else:
+        margin, threshold = m_air, "the uniform-field strength of air"
+    status = "exceeded" if margin < 1 else "thin" if margin < thin_margin else "ample"
+    return status, f"graded against {threshold}", m_air, m_cor, margin, threshold
+
+
+def judge_peak(
+    peak_field_V_per_m: float,
+    *,
+    where: str,
+    largest_potential_difference_V: float,
+    medium: Medium | None,
+    at_sharp_corner: bool,
+    corona_onset_field_V_per_m: float | None = None,
+    corona_radius_basis: str | None = None,
+    air: AirConditions = REFERENCE_AIR,
+    thin_margin: float = THIN_MARGIN,
+) -> PeakVerdict:
+    """The status of one peak surface field, its reason and its caution text.
+
+    Parameters
+    ----------
+    peak_field_V_per_m : float
+        Largest |E| (crest), V/m.
+    where : str
+        What the peak belongs to, as shown ("'bar'" or "the surrounding air").
+    largest_potential_difference_V : float
+        Largest potential difference in the model, V (see :func:`largest_potential_difference_V`).
+    medium : Medium or None
+        The medium next to the peak (None: air, e.g. the surrounding air itself).
+    at_sharp_corner : bool
+        The peak sits at a sharp corner or free edge (its 2-D value is mesh-made).
+    corona_onset_field_V_per_m : float, optional
+        Peek's onset for the conductor's radius at the peak (None without one).
+    corona_radius_basis : str, optional
+        Where that radius came from ("round conductor", "local radius of curvature ...").
+    air : AirConditions
+        The project's air conditions.
+    thin_margin : float
+        Margins below this are "thin" (default 1.5, a choice of this program).
+
+    Returns
+    -------
+    PeakVerdict
+
+    Examples
+    --------
+    >>> v = judge_peak(2.4e6, where="'wire'", largest_potential_difference_V=50e3, medium=None,
+    ...                at_sharp_corner=False)
+    >>> v.status, round(v.margin, 3)
+    ('thin', 1.25)
+    >>> judge_peak(2.4e6, where="'trace'", largest_potential_difference_V=1.0, medium=None,
+    ...            at_sharp_corner=True).caution
+    ''
+    """
+    breakdown = air_breakdown_field_V_per_m(air.relative_air_density)
+    peak = float(peak_field_V_per_m)
+    dv = float(largest_potential_difference_V)
+    caution_applies = True
+    graded: tuple | None = None
+    if not (math.isfinite(peak) and math.isfinite(dv)):
+        reason = (f"{NON_FINITE}: the peak field or a potential is not a finite number, so no margin can be given; "
+                  "check the model (a floating conductor with a net charge and no return path has no defined "
+                  "potential in 2-D)")
+    elif dv < LOW_VOLTAGE_THRESHOLD_V:
+        caution_applies = False
+        reason = (f"{LOW_VOLTAGE}: below {LOW_VOLTAGE_THRESHOLD_V:g} V between any two conductors (a choice of "
+                  "this program, under the Paschen minimum of air of about 327 V), so no breakdown caution applies")
+    elif at_sharp_corner:
+        reason = (f"{SHARP_CORNER}: the 2-D peak is mesh-made (it grows with every refinement), so it is not "
+                  "graded; give a corner radius")
+    elif medium is not None and not medium.is_air:
+        reason = (f"{NOT_IN_AIR}: inside {medium.describe()}; the air-breakdown and corona thresholds do not "
+                  "apply; judge the insulation by its material's own rating, and mind air gaps and voids in "
+                  "series with it")
+    else:
+        graded = _graded(where, peak, breakdown, corona_onset_field_V_per_m, corona_radius_basis, thin_margin)
+    if graded is None:
+        status, headline = "not assessed", f"No margin for {where}: {reason}."
+        caution = f"{headline} {HIGH_VOLTAGE_CAUTION}" if caution_applies else ""
+        return PeakVerdict(where, status, reason, headline, caution, peak, breakdown)
+    status, reason, m_air, m_cor, margin, threshold = graded
+    if status == "exceeded":
+        headline = f"CAUTION: the peak surface field on {where} exceeds {threshold}."
+        caution = f"{headline} Expect corona or flashover in air at these potentials. {HIGH_VOLTAGE_CAUTION}"
+    elif status == "thin":
+        headline = f"CAUTION: thin margin on {where} to {threshold} (below {thin_margin:g})."
+        caution = f"{headline} Margins are small. {HIGH_VOLTAGE_CAUTION}"
+    else:
+        headline = f"Margin on {where} to {threshold} is ample ({thin_margin:g} or more)."
+        caution = HIGH_VOLTAGE_CAUTION
+    return PeakVerdict(where, status, reason, headline, caution, peak, breakdown, m_air,
+                       corona_onset_field_V_per_m if m_cor is not None else None, m_cor, margin, threshold)
+
+
+@dataclass(frozen=True)
+class CautionVerdict:
+    """The verdict on a whole model: its most severe peak verdict, and all of them.
+
+    Attributes
+    ----------
+    status : the most severe status (:data:`STATUSES` order; a low-voltage "not assessed"
+        ranks below "ample").
+    reason : the reason of that verdict.
+    headline : the headline of that verdict.
+    caution : its full caution text (empty only for a low-voltage model).
+    verdicts : every peak verdict, model order (the surrounding air last, when judged).
+    """
+
+    status: str
+    reason: str
+    headline: str
+    caution: str
+    verdicts: tuple[PeakVerdict, ...]
+
+    @property
+    def alarming(self) -> bool:
+        """True when a caution must catch the eye: a margin is thin or exceeded, or a
+        high-voltage peak has no usable value (sharp corner, non-finite). A peak inside
+        insulation is not alarming by itself: the insulation's own rating decides."""
+        if self.status in ("exceeded", "thin"):
+            return True
+        return self.status == "not assessed" and bool(self.caution) and not self.reason.startswith(NOT_IN_AIR)
+
+
+def _severity(v: PeakVerdict) -> int:
+    if v.status == "not assessed" and not v.caution:
+        return len(STATUSES)  # low voltage: below "ample"
+    return STATUSES.index(v.status)
+
+
+def summarise_verdicts(verdicts: Sequence[PeakVerdict]) -> CautionVerdict | None:
+    """The model's verdict: the most severe of ``verdicts`` (first in order on a tie), or None if empty."""
+    if not verdicts:
+        return None
+    worst = min(verdicts, key=_severity)
+    return CautionVerdict(worst.status, worst.reason, worst.headline, worst.caution, tuple(verdicts))
+
+
+def judges_air_region(where: str) -> bool:
+    """True when the largest field in air needs a verdict of its own: it lies on an interface
+    (the outer surface of insulation, say). On a bare conductor surface it is that conductor's
+    peak, already judged (with its corona onset) in the conductor's verdict."""
+    return where == "interface"
+
+
+def solution_potential_difference_V(solution) -> float:
+    """Largest potential difference of a solved model, V (conductors, and 0 V for a ground plane)."""
+    model = solution.model
+    has_zero = model.ground_plane is not None or any(c.role == "reference" for c in model.conductors)
+    return largest_potential_difference_V(solution.conductor_potentials_V, has_zero)
+
+
+def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: float = THIN_MARGIN) -> CautionVerdict | None:
+    """The verdict on the operating-point peaks of one solve (no refinement), by :func:`judge_peak`.
+
+    One verdict per conductor (its largest surface field), plus the largest field in air
+    around insulated conductors when the model has dielectric regions and some air, and that
+    field lies on an interface (:func:`judges_air_region`). The
+    refined figures of :func:`solver.analyse_hot_spots` judged by :func:`solver.assess_margins`
+    use the same rule and the same words.
+
+    Parameters
+    ----------
+    solution : Solution
+    air : AirConditions
+        The project's air conditions (:func:`solver.air_conditions_of`).
+    thin_margin : float
+
+    Returns
+    -------
+    CautionVerdict or None (no conductors)
+    """
+    from solver.hot_spots.air_region import largest_air_field, medium_next_to
+    from solver.hot_spots.curvature import signed_radius_of_curvature_m
+    from solver.hot_spots.margins import (
+        corona_radius_m,
+        peek_corona_onset_field_V_per_m,
+    )
+
+    model = solution.model
+    dv = solution_potential_difference_V(solution)
+    verdicts = []
+    for p in solution.peak_surface_fields:
+        curvature = signed_radius_of_curvature_m(solution.mesh, p.panel_index)
+        local = curvature if 0 < curvature < math.inf else None
+        radius, basis = corona_radius_m(model, p.conductor, p.location_m, local, p.at_sharp_corner)
+        corona = None if radius is None else peek_corona_onset_field_V_per_m(
+            radius, air.relative_air_density, air.surface_factor, air.peek_form)
+        verdicts.append(judge_peak(p.field_V_per_m, where=f"'{p.conductor}'", largest_potential_difference_V=dv,
+                                   medium=medium_next_to(solution, p.panel_index), at_sharp_corner=p.at_sharp_corner,
+                                   corona_onset_field_V_per_m=corona, corona_radius_basis=basis, air=air,
+                                   thin_margin=thin_margin))
+    in_air = largest_air_field(solution) if model.dielectrics else None
+    if in_air is not None and judges_air_region(in_air.where):
+        verdicts.append(judge_peak(in_air.field_V_per_m, where="the surrounding air", largest_potential_difference_V=dv,
+                                   medium=None, at_sharp_corner=in_air.at_sharp_corner, air=air,
+                                   thin_margin=thin_margin))
+    return summarise_verdicts(verdicts)
