@@ -19,6 +19,7 @@ import numpy as np
 import scipy.linalg
 
 from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
+from solver.bem.blas_threads import blas_threads_for
 from solver.bem.system import BoundarySystem, build_system
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
 from solver.constants import EPSILON_0_F_PER_M
@@ -49,7 +50,8 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
     model, mesh, interfaces, layout = system.model, system.mesh, system.interfaces, system.layout
     if cancel is not None and cancel():
         raise SolveCancelled("Solve cancelled.")
-    lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+    with blas_threads_for(layout.size):
+        lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
 
     roles = [c.role for c in model.conductors]
     n_cond = len(model.conductors)
@@ -63,7 +65,8 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
             charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
     for col, k in enumerate(signal, start=1):
         potentials[k, col] = 1.0
-    x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
+    with blas_threads_for(layout.size):
+        x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
 
     n = layout.n_panels
     total = x[:n]
