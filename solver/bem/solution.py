@@ -12,7 +12,7 @@ the surface charge density, conductor charges and capacitance matrices report, a
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import cached_property
 
 import numpy as np
@@ -20,6 +20,7 @@ import numpy as np
 from solver.bem.assembly import mirrored, single_layer_potential_matrix
 from solver.bem.capacitance import mutual_from_maxwell
 from solver.bem.kernels import log_potential_and_gradient_sums
+from solver.bem.superposition import UnitSolutions
 from solver.bem.peaks import PeakField, RegionPeakField, conductor_peaks, region_peaks
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import NoReferenceError
@@ -65,6 +66,8 @@ class Solution:
         charges when there is no return path) against a mesh at half the resolution; None when
         no estimate was made.
     coarse_mesh_panels : conductor panels of that coarser mesh.
+    unit_solutions : one solution per fixed conductor at 1 V and per floating conductor at unit
+        charge, for :meth:`with_potentials`; None when not kept.
     """
 
     model: Model
@@ -92,6 +95,7 @@ class Solution:
     n_unknowns: int
     estimated_relative_error: float | None = None
     coarse_mesh_panels: int | None = None
+    unit_solutions: UnitSolutions | None = None
 
     #: The permittivity the scaled strengths refer to (vacuum), F/m.
     permittivity_F_per_m = EPSILON_0_F_PER_M
@@ -188,6 +192,62 @@ class Solution:
     def capacitance_mutual_F_per_m(self) -> np.ndarray:
         """Mutual ("circuit") form of the capacitance matrix, F/m (see capacitance module)."""
         return mutual_from_maxwell(self.capacitance_maxwell_F_per_m)
+
+    # ---- operating point -----------------------------------------------------------------
+    def with_potentials(
+        self, potentials_V: dict[str, float], charges_C_per_m: dict[str, float] | None = None
+    ) -> "Solution":
+        """The solution at other conductor potentials (and floating charges), without a solve.
+
+        The operating point is superposed from the stored unit solutions (see
+        :mod:`solver.bem.superposition`), in microseconds; it equals a full solve at those
+        potentials to rounding (about 1e-12 relative). Capacitance matrices and the error
+        estimate are kept (they do not depend on the operating point).
+
+        Falls back to a full :func:`solver.solve` at the same mesh settings when superposition
+        is impossible: the solution kept no unit solutions, or the model has no return path
+        and carries an error estimate (that estimate is of the conductor charges, which change
+        with the potentials).
+
+        Parameters
+        ----------
+        potentials_V : {conductor name: volts}; only fixed conductors' potentials act
+            (reference conductors stay at 0 V, floating ones take what results).
+        charges_C_per_m : {floating conductor name: net free charge, C/m}, optional.
+
+        Returns
+        -------
+        Solution
+
+        Raises
+        ------
+        KeyError : a name is not a conductor of the model.
+
+        Examples
+        --------
+        >>> sol = solve(model)  # doctest: +SKIP
+        >>> sol.with_potentials({"L1": 12e3, "L2": -6e3}).conductor_charges_C_per_m  # doctest: +SKIP
+        """
+        model = self.model.with_potentials(potentials_V)
+        if charges_C_per_m:
+            model = model.with_conductors(tuple(
+                replace(c, charge_C_per_m=float(charges_C_per_m[c.name])) if c.name in charges_C_per_m else c
+                for c in model.conductors
+            ))
+            unknown = set(charges_C_per_m) - set(model.conductor_names)
+            if unknown:
+                raise KeyError(f"No conductor named '{sorted(unknown)[0]}'.")
+        units = self.unit_solutions
+        needs_solve = units is None or not units.matches(model) or (
+            self.estimated_relative_error is not None and not self.has_capacitance
+        )
+        if needs_solve:
+            from solver.bem.solve import solve
+
+            return solve(model, estimate_error=self.estimated_relative_error is not None,
+                         settings=self.mesh.settings)
+        assert units is not None
+        return replace(self, model=model, **units.superposed(model))
 
     # ---- fields ------------------------------------------------------------------------
     def _plane_scaled(self) -> float | None:
