@@ -243,3 +243,22 @@ def log_potential_and_gradient_sums(
         grad[rows, 0] = du @ qx_u + theta @ qx_v
         grad[rows, 1] = du @ qx_v - theta @ qx_u
     return phi, grad
+
+
+def log_potential_pairs(targets: np.ndarray, starts: np.ndarray, ends: np.ndarray) -> np.ndarray:
+    """G_k = integral of ln|x_k - t| over panel k, for p (target, panel) pairs (metres).
+
+    Parameters
+    ----------
+    targets, starts, ends : (p, 2) one target and one panel per pair.
+
+    Returns
+    -------
+    (p,) float array, equal to the matching entries of :func:`log_potential_integrals`.
+    """
+    targets, f = _targets(targets), _frame(starts, ends)
+    rx, ry = targets[:, 0] - f.cx, targets[:, 1] - f.cy
+    u = rx * f.tx + ry * f.ty
+    b = _Block(-f.half - u, f.half - u, rx * f.ty - ry * f.tx)
+    l1, l2 = _logs(b)
+    return _potential(b, l1, l2, _theta(b, f.length), f.length)

@@ -20,6 +20,7 @@ import scipy.linalg
 
 from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for
+from solver.bem.fast_solve import solve_if_large
 from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
@@ -122,7 +123,8 @@ def solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None = No
 
     Dielectric interfaces, if any, are meshed at the same settings as ``mesh``.
     """
-    return solve_system(build_system(model, mesh), cancel)
+    large = solve_if_large(model, mesh, cancel)  # fast path above the crossover; refuses what cannot fit
+    return large if large is not None else solve_system(build_system(model, mesh), cancel)
 
 
 def solve(
