@@ -262,3 +262,22 @@ def log_potential_pairs(targets: np.ndarray, starts: np.ndarray, ends: np.ndarra
     b = _Block(-f.half - u, f.half - u, rx * f.ty - ry * f.tx)
     l1, l2 = _logs(b)
     return _potential(b, l1, l2, _theta(b, f.length), f.length)
+
+
+def log_potential_and_gradient_pairs(
+    targets: np.ndarray, starts: np.ndarray, ends: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """G_k, dG_k/dx, dG_k/dy for p (target, panel) pairs; each (p,).
+
+    Equal to the matching entries of :func:`log_potential_integrals` and
+    :func:`log_gradient_components` (principal value on a panel's own line).
+    """
+    targets, f = _targets(targets), _frame(starts, ends)
+    rx, ry = targets[:, 0] - f.cx, targets[:, 1] - f.cy
+    u = rx * f.tx + ry * f.ty
+    b = _Block(-f.half - u, f.half - u, rx * f.ty - ry * f.tx)
+    l1, l2 = _logs(b)
+    theta = _theta(b, f.length)
+    g = _potential(b, l1, l2, theta, f.length)
+    du = 0.5 * (l1 - l2)
+    return g, du * f.tx + theta * f.ty, du * f.ty - theta * f.tx

@@ -19,7 +19,7 @@ import numpy as np
 
 from solver.bem.assembly import mirrored, single_layer_potential_matrix
 from solver.bem.capacitance import mutual_from_maxwell
-from solver.bem.kernels import log_potential_and_gradient_sums
+from solver.bem.fast_operator import potential_and_gradient_sums
 from solver.bem.superposition import UnitSolutions
 from solver.bem.peaks import PeakField, RegionPeakField, conductor_peaks, region_peaks
 from solver.constants import EPSILON_0_F_PER_M
@@ -279,17 +279,19 @@ class Solution:
         points in metres, from one pass over the panels (the same logarithms and angles).
 
         Equal to :meth:`potential_V` and :meth:`field_V_per_m` to rounding (about 1e-13
-        relative). Principal value on interfaces, as :meth:`field_V_per_m`.
+        relative); above ``fast_operator.FMM_EVALUATION_PAIRS`` (points x panels, e.g. a
+        512 x 512 map) the sums are done by the fast multipole method with exact near-field
+        terms, to about 1e-8 relative. Principal value on interfaces, as :meth:`field_V_per_m`.
         """
         ell = self.length_scale_m
         pts = np.asarray(points_m, dtype=float).reshape(-1, 2) / ell
         q = self._weighted()
-        g, grad = log_potential_and_gradient_sums(pts, self.source_starts, self.source_ends, q)
+        g, grad = potential_and_gradient_sums(pts, self.source_starts, self.source_ends, q)
         phi = -g
         e = grad
         plane = self._plane_scaled()
         if plane is not None:
-            g_img, grad_img = log_potential_and_gradient_sums(
+            g_img, grad_img = potential_and_gradient_sums(
                 mirrored(pts, plane), self.source_starts, self.source_ends, q
             )
             phi += g_img

@@ -124,3 +124,21 @@ def test_solution_potential_and_field_in_one_pass(plane):
     assert np.all(np.abs(e - e_ref / ell) <= RTOL * e_scale[:, None] / ell)
     assert np.array_equal(sol.field_V_per_m(pts), e)
     assert np.allclose(sol.potential_V(pts), phi, rtol=0, atol=RTOL * phi_scale.max())
+
+
+def test_large_evaluations_by_the_fmm_match_the_closed_forms(monkeypatch):
+    """Above the pair threshold the fused sums go through the FMM with exact near terms."""
+    from solver.bem import fast_operator
+
+    model = Model(unit="mm", conductors=(
+        Conductor("bar", (Rectangle((0.0, 0.0), 4.0, 2.0, 0.5),), potential_V=5.0),
+        Conductor("shield", (Ring((1.0, 0.0), 12.0, 13.0),), role="reference")))
+    sol = solve_mesh(model, discretize_boundary(model, MeshSettings(0.5)))
+    rng = np.random.default_rng(5)
+    pts = np.column_stack([rng.uniform(-9e-3, 9e-3, 300), rng.uniform(-9e-3, 9e-3, 300)])
+    pts = np.vstack([pts, sol.mesh.midpoints[::7] + 1e-6 * sol.mesh.normals[::7]])
+    exact = sol.potential_and_field(pts)
+    monkeypatch.setattr(fast_operator, "FMM_EVALUATION_PAIRS", 0)
+    fast = sol.potential_and_field(pts)
+    assert np.abs(fast[0] - exact[0]).max() <= 1e-8 * np.abs(exact[0]).max()
+    assert np.abs(fast[1] - exact[1]).max() <= 1e-8 * np.abs(exact[1]).max()
