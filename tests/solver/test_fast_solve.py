@@ -13,7 +13,7 @@ from solver.errors import SolverError
 from solver.mesh.panels import MeshSettings, discretize_boundary
 
 #: FMM precision (about 5e-10), Gauss-Legendre far field (< 1e-8 of each panel's part) and
-#: GMRES residual 1e-9: capacitance and charges agree with the dense LU to better than 1e-7.
+#: GMRES residual 1e-8: capacitance and charges agree with the dense LU to better than 1e-7.
 RTOL_CHARGE = 1e-7
 
 
@@ -27,7 +27,7 @@ def _rel(a, b) -> float:
 
 
 def test_small_bus_in_a_box_equals_the_dense_solve():
-    fast, dense = _both(hundred_conductor_bus(3, 2), 0.25)
+    fast, dense = _both(hundred_conductor_bus(2, 1), 0.25)
     assert _rel(fast.capacitance_maxwell_F_per_m, dense.capacitance_maxwell_F_per_m) < RTOL_CHARGE
     assert _rel(fast.conductor_charges_C_per_m, dense.conductor_charges_C_per_m) < RTOL_CHARGE
     pts = np.array([[0.0, 0.0], [0.01, 0.02], [-0.03, 0.0]])
