@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import contextlib
 import logging
-from typing import ContextManager
+from contextlib import AbstractContextManager
 
 logger = logging.getLogger(__name__)
 
@@ -24,7 +24,7 @@ except ImportError:  # pragma: no cover - threadpoolctl is a declared dependency
     threadpool_limits = None
 
 
-def blas_threads_for(n_unknowns: int) -> ContextManager[object]:
+def blas_threads_for(n_unknowns: int) -> AbstractContextManager[object]:
     """Context in which dense linear algebra on ``n_unknowns`` unknowns runs.
 
     One BLAS thread below :data:`SINGLE_THREAD_BELOW` unknowns, the default above.

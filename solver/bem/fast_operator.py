@@ -26,7 +26,9 @@ import scipy.sparse
 from scipy.spatial import cKDTree
 
 from solver.bem.kernels import (
-    log_potential_and_gradient_pairs, log_potential_and_gradient_sums, log_potential_pairs,
+    log_potential_and_gradient_pairs,
+    log_potential_and_gradient_sums,
+    log_potential_pairs,
 )
 from solver.errors import SolverError
 

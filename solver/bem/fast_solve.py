@@ -21,18 +21,27 @@ from __future__ import annotations
 
 import logging
 import os
-from typing import Callable
+from collections.abc import Callable
 
 import numpy as np
 import scipy.linalg
 import scipy.sparse.linalg
 
 from solver.bem.assembly import (
-    SourcePanels, SystemLayout, normal_derivative_matrix, right_hand_sides, single_layer_potential_matrix,
+    SourcePanels,
+    SystemLayout,
+    normal_derivative_matrix,
+    right_hand_sides,
+    single_layer_potential_matrix,
     source_panels,
 )
 from solver.bem.blas_threads import blas_threads_for
-from solver.bem.fast_operator import QUADRATURE_POINTS, FastSingleLayer, fmm_available, near_pair_estimate
+from solver.bem.fast_operator import (
+    QUADRATURE_POINTS,
+    FastSingleLayer,
+    fmm_available,
+    near_pair_estimate,
+)
 from solver.bem.solution import BACKGROUND_NAME, Solution
 from solver.bem.superposition import UnitSolutions, driver_columns, driver_weights
 from solver.errors import SolveCancelled, SolverError
@@ -199,7 +208,7 @@ class _CoarseSpace:
     conductor coupling of the total charges that block Jacobi leaves to GMRES.
     """
 
-    def __init__(self, mesh: PanelMesh, layout: SystemLayout, precond: "_Preconditioner",
+    def __init__(self, mesh: PanelMesh, layout: SystemLayout, precond: _Preconditioner,
                  matvec: Callable[[np.ndarray], np.ndarray], lengths: np.ndarray) -> None:
         nc, size = layout.n_conductor_panels, layout.size
         conductors = np.unique(mesh.conductor_index)
@@ -275,7 +284,9 @@ def solve_fast(model: Model, mesh: PanelMesh, cancel: Callable[[], bool] | None 
         return y
 
     a_op = scipy.sparse.linalg.LinearOperator((layout.size,) * 2, matvec=matvec, dtype=float)
+    logger.info("fast path: operator and %d preconditioner blocks ready", len(precond.blocks))
     coarse = _CoarseSpace(mesh, layout, precond, matvec, lengths) if COARSE_SPACE else None
+    logger.info("fast path: coarse space ready")
 
     def apply_preconditioner(r: np.ndarray) -> np.ndarray:
         out = precond.solve(np.ravel(r))
@@ -304,6 +315,7 @@ def solve_fast(model: Model, mesh: PanelMesh, cancel: Callable[[], bool] | None 
                 f"on {nc:,} panels; use a coarser mesh density or report the model."
             )
         iterations.append(count[0])
+        logger.debug("fast path: right-hand side %d of %d in %d iterations", col + 1, b.shape[1], count[0])
     logger.info("fast path: %d panels, %d right-hand sides, GMRES iterations %s", nc, b.shape[1], iterations)
 
     total = x[:nc]
@@ -329,6 +341,13 @@ def solve_fast(model: Model, mesh: PanelMesh, cancel: Callable[[], bool] | None 
 
 
 __all__ = [
-    "FAST_PATH_FROM_PANELS", "InsufficientMemoryError", "available_memory_bytes", "dense_memory_bytes",
-    "fast_memory_bytes", "fast_path_applies", "solve_fast", "solve_if_large", "driver_weights",
+    "FAST_PATH_FROM_PANELS",
+    "InsufficientMemoryError",
+    "available_memory_bytes",
+    "dense_memory_bytes",
+    "driver_weights",
+    "fast_memory_bytes",
+    "fast_path_applies",
+    "solve_fast",
+    "solve_if_large",
 ]

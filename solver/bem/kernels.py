@@ -26,8 +26,8 @@ fast multipole method would replace them behind the same signatures.
 
 from __future__ import annotations
 
+from collections.abc import Iterator
 from dataclasses import dataclass
-from typing import Iterator
 
 import numpy as np
 

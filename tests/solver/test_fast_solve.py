@@ -3,7 +3,16 @@
 import numpy as np
 import pytest
 
-from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Strip, solve_mesh
+from solver import (
+    Circle,
+    Conductor,
+    Dielectric,
+    GroundPlane,
+    Model,
+    Rectangle,
+    Strip,
+    solve_mesh,
+)
 from solver.bem import fast_solve
 from solver.bem.fast_solve import InsufficientMemoryError, solve_fast, solve_if_large
 from solver.bem.solve import solve_system

@@ -6,7 +6,17 @@ import numpy as np
 import pytest
 
 from solver import (
-    Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip, load_project, solve, solve_mesh,
+    Circle,
+    Conductor,
+    Dielectric,
+    GroundPlane,
+    Model,
+    Rectangle,
+    Ring,
+    Strip,
+    load_project,
+    solve,
+    solve_mesh,
 )
 from solver.mesh.panels import MeshSettings, discretize_boundary
 
