@@ -3,9 +3,11 @@
 :func:`solve_if_large` is called by :func:`solver.bem.solve.solve_mesh` before it assembles a
 dense system. It estimates the memory either path needs and
 
-* returns None (use the dense LU) for models below :data:`FAST_PATH_FROM_PANELS` panels whose
-  dense system fits in memory;
-* solves with :func:`solve_fast` above that size (conductors in a homogeneous medium, with or
+* returns None (use the dense LU) when the dense system fits in memory and the model is
+  below :data:`FAST_PATH_FROM_PANELS` panels or the measured cost model
+  (:func:`dense_seconds`, :func:`fast_seconds`) says the LU is quicker (with many
+  right-hand sides it usually is, up to the memory limit);
+* solves with :func:`solve_fast` otherwise (conductors in a homogeneous medium, with or
   without a ground plane): GMRES (Saad & Schultz, "GMRES: a generalized minimal residual
   algorithm for solving nonsymmetric linear systems", SIAM J. Sci. Stat. Comput. 7, 1986) on
   the operator of :mod:`solver.bem.fast_operator`, preconditioned by the exact dense block of
@@ -51,9 +53,16 @@ from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
 
-#: Models with at least this many conductor panels use the fast path when it applies (measured
-#: crossover on the 2-core development machine, see solver/bench/speed.py).
+#: Below this many conductor panels the dense LU is always used.
 FAST_PATH_FROM_PANELS = 6000
+
+#: Cost model of the two paths, measured on the 2-core development machine (one core, under
+#: load): a dense LU runs at about 5.5e9 flop/s (2,500 unknowns in 0.94 s); one application
+#: of the fast operator costs about 38 microseconds per panel (65,798 panels in 2.5 s); GMRES
+#: needs about 40 iterations per right-hand side on the bus case (40 and 63 measured).
+DENSE_FLOPS_PER_S = 5.5e9
+FAST_SECONDS_PER_PANEL = 38e-6
+FAST_ITERATIONS_PER_RHS = 40
 
 #: Largest dense diagonal block of the preconditioner, panels.
 BLOCK_PANELS = 2000
@@ -95,6 +104,17 @@ def available_memory_bytes() -> int | None:
 def dense_memory_bytes(n_unknowns: int, n_rhs: int) -> int:
     """Peak bytes of the dense path: the matrix, its LU copy, assembly temporaries, solutions."""
     return int(8 * (2.2 * n_unknowns**2 + 4 * n_unknowns * (n_rhs + 1)))
+
+
+def dense_seconds(n_unknowns: int) -> float:
+    """Estimated time of the dense LU (the factorisation dominates), seconds."""
+    return n_unknowns**3 / 3.0 / DENSE_FLOPS_PER_S
+
+
+def fast_seconds(n_panels: int, n_rhs: int, n_conductors: int) -> float:
+    """Estimated time of the fast path: GMRES iterations per right-hand side plus the coarse
+    space (one operator application per conductor), seconds."""
+    return n_panels * FAST_SECONDS_PER_PANEL * (n_rhs * FAST_ITERATIONS_PER_RHS + n_conductors)
 
 
 def _blocks(mesh: PanelMesh) -> list[np.ndarray]:
@@ -157,7 +177,7 @@ def solve_if_large(
     fast_ok = fast_path_applies(model)
     dense_need = dense_memory_bytes(n, n_rhs)
     dense_fits = budget is None or dense_need <= budget
-    if n < FAST_PATH_FROM_PANELS and dense_fits:
+    if dense_fits and (n < FAST_PATH_FROM_PANELS or dense_seconds(n) <= fast_seconds(n, n_rhs, len(model.conductors))):
         return None
     if not fast_ok:
         if dense_fits:

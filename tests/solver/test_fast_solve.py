@@ -69,6 +69,8 @@ def test_solve_mesh_switches_to_the_fast_path_above_the_crossover(monkeypatch):
     mesh = discretize_boundary(model, MeshSettings(0.25))
     assert solve_if_large(model, mesh) is None
     monkeypatch.setattr(fast_solve, "FAST_PATH_FROM_PANELS", mesh.n_panels)
+    assert solve_if_large(model, mesh) is None  # the dense LU is quicker here
+    monkeypatch.setattr(fast_solve, "DENSE_FLOPS_PER_S", 1.0)
     calls = []
     monkeypatch.setattr(fast_solve, "solve_fast", lambda *a: calls.append(a) or "fast")
     assert solve_mesh(model, mesh) == "fast" and len(calls) == 1
@@ -103,3 +105,6 @@ def test_memory_estimates_grow_with_the_model():
     assert fast_solve.fast_memory_bytes(large, False, 17) > 3 * fast_solve.fast_memory_bytes(small, False, 5)
     # The 100-conductor bus at the normal density: the dense matrix alone is ~35 GB.
     assert fast_solve.dense_memory_bytes(65_798, 101) > 8 * 65_798**2
+    # Many right-hand sides favour the LU; few favour the fast path at the same size.
+    assert fast_solve.dense_seconds(20_000) < fast_solve.fast_seconds(20_000, 101, 101)
+    assert fast_solve.dense_seconds(20_000) > fast_solve.fast_seconds(20_000, 2, 3)
