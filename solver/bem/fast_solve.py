@@ -12,7 +12,8 @@ dense system. It estimates the memory either path needs and
   algorithm for solving nonsymmetric linear systems", SIAM J. Sci. Stat. Comput. 7, 1986) on
   the operator of :mod:`solver.bem.fast_operator`, preconditioned by the exact dense block of
   each conductor (block Jacobi; large outlines split into runs of :data:`BLOCK_PANELS`
-  panels), factorised once and reused for every right-hand side;
+  panels) plus a two-level coarse correction with one unknown per conductor, both
+  factorised once and reused for every right-hand side;
 * raises :class:`InsufficientMemoryError` naming the cause when the chosen path would not fit.
 
 Right-hand sides: one per fixed conductor (1 V) and one per floating conductor (unit charge);
