@@ -19,6 +19,9 @@ import numpy as np
 import scipy.linalg
 
 from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
+from solver.bem.blas_threads import blas_threads_for
+from solver.bem.fast_solve import solve_if_large
+from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
 from solver.constants import EPSILON_0_F_PER_M
@@ -45,25 +48,28 @@ def progress_reporter(progress: ProgressCallback | None, cancel: CancelCallback 
 
 
 def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -> Solution:
-    """Factorise ``system`` once and solve the operating point and one column per signal conductor."""
+    """Factorise ``system`` once and solve the operating point and one unit solution per fixed
+    conductor (the capacitance columns) and per floating conductor (kept for
+    :meth:`Solution.with_potentials`)."""
     model, mesh, interfaces, layout = system.model, system.mesh, system.interfaces, system.layout
     if cancel is not None and cancel():
         raise SolveCancelled("Solve cancelled.")
-    lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+    with blas_threads_for(layout.size):
+        lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
 
-    roles = [c.role for c in model.conductors]
     n_cond = len(model.conductors)
-    signal = [k for k, r in enumerate(roles) if r == "fixed"]
-    potentials = np.zeros((n_cond, 1 + len(signal)))
+    fixed, floating, unit_potentials, unit_charges = driver_columns(model)
+    potentials = np.zeros((n_cond, 1))
     charges = np.zeros_like(potentials)
     for k, c in enumerate(model.conductors):
         if c.role == "fixed":
             potentials[k, 0] = c.potential_V
         elif c.role == "floating":
             charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
-    for col, k in enumerate(signal, start=1):
-        potentials[k, col] = 1.0
-    x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
+    potentials = np.hstack([potentials, unit_potentials])
+    charges = np.hstack([charges, unit_charges])
+    with blas_threads_for(layout.size):
+        x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
 
     n = layout.n_panels
     total = x[:n]
@@ -73,28 +79,34 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
         conductor_potentials[k] = x[n + f, 0]
     sources, ell = system.sources, system.length_scale_m
     strip = mesh.is_strip
-    normal_pv = np.zeros(mesh.n_panels)
+    normal_pv = np.zeros((mesh.n_panels, x.shape[1]))
     if strip.any():
         normal_pv[strip] = normal_derivative_matrix(
             mesh.midpoints[strip] / ell, mesh.normals[strip], sources, system.plane, np.flatnonzero(strip)
-        ) @ total[:, 0]
+        ) @ total
+    interface_pv = system.interface_rows @ total if interfaces.n_panels else np.zeros((0, x.shape[1]))
+    phi_inf = x[-1] if layout.has_phi_inf else np.zeros(x.shape[1])
+    units = UnitSolutions(
+        fixed, floating, total[:, 1:].copy(), free[:, 1:].copy(), phi_inf[1:].copy(),
+        x[n : n + len(floating), 1:].copy(), normal_pv[:, 1:].copy(), interface_pv[:, 1:].copy(),
+    )
     return Solution(
         model=model,
         mesh=mesh,
         interfaces=interfaces,
         length_scale_m=ell,
         strengths=free[:, 0].copy(),
-        capacitance_strengths=free[:, 1:].copy(),
+        capacitance_strengths=free[:, 1 : 1 + len(fixed)].copy(),
         total_strengths=total[:, 0].copy(),
-        phi_inf_V=float(x[-1, 0]) if layout.has_phi_inf else 0.0,
+        phi_inf_V=float(phi_inf[0]),
         conductor_potentials_V=conductor_potentials,
         source_starts=sources.starts,
         source_ends=sources.ends,
         source_weights=sources.weights,
         conductor_eps_r_plus=system.eps_r_plus,
         conductor_eps_r_minus=system.eps_r_minus,
-        conductor_normal_pv=normal_pv,
-        interface_normal_pv=system.interface_rows @ total[:, 0] if interfaces.n_panels else np.zeros(0),
+        conductor_normal_pv=normal_pv[:, 0].copy(),
+        interface_normal_pv=interface_pv[:, 0].copy(),
         region_names=tuple(d.name for d in model.dielectrics) + (BACKGROUND_NAME,),
         region_eps_r=system.region_eps_r,
         interface_region_plus=interfaces.region_plus,
@@ -102,6 +114,7 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
         conductor_region_plus=system.region_plus,
         conductor_region_minus=system.region_minus,
         n_unknowns=layout.size,
+        unit_solutions=units,
     )
 
 
@@ -110,7 +123,8 @@ def solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None = No
 
     Dielectric interfaces, if any, are meshed at the same settings as ``mesh``.
     """
-    return solve_system(build_system(model, mesh), cancel)
+    large = solve_if_large(model, mesh, cancel)  # fast path above the crossover; refuses what cannot fit
+    return large if large is not None else solve_system(build_system(model, mesh), cancel)
 
 
 def solve(

@@ -143,8 +143,8 @@ def evaluate_at_points(solution: Solution, points_m: np.ndarray) -> tuple[np.nda
     free = ~_blocked(solution, solid, pts)
     phi = np.full(len(pts), np.nan)
     e = np.full(len(pts), np.nan)
-    phi[free] = potential_at(solution, pts[free])
-    e[free] = np.hypot(*field_at(solution, pts[free]).T)
+    phi[free], field = solution.potential_and_field(pts[free])
+    e[free] = np.hypot(*field.T)
     return phi, e
 
 

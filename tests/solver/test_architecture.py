@@ -5,7 +5,7 @@ import pathlib
 import subprocess
 import sys
 
-ALLOWED_TOP_LEVEL = {"numpy", "scipy", "shapely", "solver"}
+ALLOWED_TOP_LEVEL = {"numpy", "scipy", "shapely", "solver", "threadpoolctl", "pyfmmlib"}
 SOLVER = pathlib.Path(__file__).resolve().parents[2] / "solver"
 
 
