@@ -126,6 +126,8 @@ def model_from_dict(data: Any, source: str = "<data>") -> Model:
         return read_model(data)
     except FieldProblem as e:
         raise ProjectFileError(f"{source}: {e}") from None
+    except RecursionError:
+        raise ProjectFileError(f"{source}: extras: nested too deeply to read; flatten it") from None
 
 
 def load_project(path: str | os.PathLike) -> Model:
@@ -143,7 +145,7 @@ def load_project(path: str | os.PathLike) -> Model:
     """
     source = str(path)
     try:
-        text = Path(path).read_text(encoding="utf-8")
+        text = Path(path).read_text(encoding="utf-8-sig")  # a byte-order mark is accepted
     except FileNotFoundError:
         raise ProjectFileError(f"{source}: file not found") from None
     except IsADirectoryError:
@@ -156,6 +158,8 @@ def load_project(path: str | os.PathLike) -> Model:
         data = json.loads(text, parse_constant=_reject_constant)
     except json.JSONDecodeError as e:
         raise ProjectFileError(f"{source}: not JSON (line {e.lineno}, column {e.colno}: {e.msg})") from None
+    except RecursionError:
+        raise ProjectFileError(f"{source}: not a project file: lists or objects nested too deeply to read") from None
     except ValueError as e:
         raise ProjectFileError(f"{source}: {e}") from None
     return model_from_dict(data, source)

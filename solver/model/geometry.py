@@ -21,6 +21,7 @@ from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
 from solver.model.model import Circle, Model, Polygon, Rectangle, Ring, Shape, Strip
+from solver.model.outline_checks import check_extent, cleaned_outline
 
 
 @dataclass(frozen=True)
@@ -104,6 +105,7 @@ def shape_geometry(shape: Shape, scale: float, arc_step_rad: float, where: str):
                     cleaned.append(p)
             pts = cleaned
         return ShapelyPolygon(pts)
+    shape = cleaned_outline(shape, where)
     if isinstance(shape, Polygon):
         if len(shape.exterior) < 3:
             raise InvalidGeometryError(f"{where}: a polygon needs at least 3 vertices, got {len(shape.exterior)}.")
@@ -157,6 +159,7 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
         solids, lines = [], []
         for i, shape in enumerate(conductor.shapes):
             g = shape_geometry(shape, scale, arc_step_rad, _describe(owner, i, shape))
+            check_extent(shapely.get_coordinates(g), _describe(owner, i, shape))
             (lines if isinstance(g, LineString) else solids).append(g)
         solid = unary_union(solids) if solids else None
         if lines:
