@@ -172,7 +172,8 @@ def _reject_constant(name: str) -> float:
 def save_project(model: Model, path: str | os.PathLike) -> None:
     """Write ``model`` to a project file atomically (temporary file, then ``os.replace``).
 
-    A crash or a full disk leaves any existing file at ``path`` untouched.
+    A crash or a full disk leaves any existing file at ``path`` untouched. When ``path`` is
+    a symbolic link, the file it points to is replaced and the link is kept.
 
     Raises
     ------
@@ -180,7 +181,7 @@ def save_project(model: Model, path: str | os.PathLike) -> None:
         When the model cannot be written (e.g. ``extras`` holds something not JSON, or the
         folder is not writable).
     """
-    target = Path(path)
+    target = Path(os.path.realpath(path))  # through a symbolic link: write the file it points to
     try:
         text = json.dumps(model_to_dict(model), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
     except (TypeError, ValueError) as e:
