@@ -174,7 +174,6 @@ class MainWindow(QMainWindow):
         except Exception as exc:  # any view failing on odd content must not end the program
             logger.exception("cannot show %s", path)
             self.document.restore(before)
-            self.canvas.fit_view()
             show_message(self, "critical", "Cannot open the file",
                          f"{path or 'The recovered drawing'}: cannot be shown ({type(exc).__name__}: {exc}). "
                          "The previous drawing is kept.")
