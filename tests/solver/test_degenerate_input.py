@@ -15,10 +15,29 @@ import pytest
 
 from solver import solve
 from solver.constants import EPSILON_0_F_PER_M
-from solver.errors import InvalidGeometryError, MeshTooLargeError, NetChargeError, SolverError
+from solver.errors import (
+    InvalidGeometryError,
+    MeshTooLargeError,
+    NetChargeError,
+    SolverError,
+)
 from solver.mesh.grading import graded_panel_count, graded_panels
-from solver.mesh.panels import MeshSettings, discretize_boundary, estimate_conductor_panels
-from solver.model.model import Circle, Conductor, Dielectric, GroundPlane, Model, Polygon, Rectangle, Ring, Strip
+from solver.mesh.panels import (
+    MeshSettings,
+    discretize_boundary,
+    estimate_conductor_panels,
+)
+from solver.model.model import (
+    Circle,
+    Conductor,
+    Dielectric,
+    GroundPlane,
+    Model,
+    Polygon,
+    Rectangle,
+    Ring,
+    Strip,
+)
 from solver.model.outline_checks import cleaned_polyline, cleaned_ring
 
 SQUARE = ((-1.0, -1.0), (1.0, -1.0), (1.0, 1.0), (-1.0, 1.0))
@@ -120,7 +139,7 @@ def test_graded_panel_count_matches_the_panels_made(args):
     ids=["tangent circles", "squares 1e-6 apart", "wire on the plane"],
 )
 def test_nearly_touching_parts_are_refused_before_meshing(model, culprit):
-    n, why = estimate_conductor_panels(model)
+    n, _ = estimate_conductor_panels(model)
     assert n > 1e6
     with pytest.raises(MeshTooLargeError, match=culprit):
         discretize_boundary(model)

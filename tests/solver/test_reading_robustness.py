@@ -66,7 +66,7 @@ def test_byte_order_mark_is_accepted(tmp_path):
 
 
 def test_memory_error_is_one_line_and_exit_2(tmp_path, capsys, monkeypatch):
-    import solver.cli.command as command
+    from solver.cli import command
 
     def out_of_memory(model):
         raise MemoryError
