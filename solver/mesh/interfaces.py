@@ -265,9 +265,16 @@ def discretize_interfaces(
             near = np.maximum(h_corner, settings.gap_fraction / INTERFACE_REFINEMENT * d_c)
             return np.minimum(np.minimum(h, near), h_max)
 
-        def bounded_size(piece: Piece, u: np.ndarray, size_fn=size_fn) -> np.ndarray:
-            # never more panels on one piece than the whole budget: the count below refuses it
-            return np.maximum(size_fn(piece, u), piece.length / budget_panels)
+        def bounded_size(piece: Piece, u: np.ndarray, size_fn=size_fn, line=line) -> np.ndarray:
+            # count the panels these sizes give (as piece_breaks will) and refuse before they are made
+            h = size_fn(piece, u)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                n_piece = float(np.sum(np.diff(u) / np.minimum(h[:-1], h[1:])))
+            if not n_made + n_piece <= budget_panels:
+                check_panel_budget(max(n_made + n_piece, budget_panels + 1.0),
+                                   _interface_culprit(model, geoms, conductor_geoms, line),
+                                   "conductor and interface panels")
+            return h
 
         for piece in pieces:
             u = piece_breaks(piece, bounded_size, settings.arc_step_rad)

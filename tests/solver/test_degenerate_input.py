@@ -245,3 +245,9 @@ def test_net_floating_charge_with_a_return_path_is_solved():
 def test_extreme_sizes_given_through_the_api_are_refused(radius):
     with pytest.raises(SolverError, match="Conductor 'a', shape 1 \\(circle\\)"):
         solve(Model(conductors=(Conductor("a", (Circle((0, 0), radius),)), GROUND)), estimate_error=False)
+
+
+def test_interface_mesh_over_budget_names_the_region_and_the_conductor(monkeypatch):
+    monkeypatch.setenv("EDGEWISE_MAX_SYSTEM_MB", "100")  # about 2,600 panels
+    with pytest.raises(MeshTooLargeError, match=r"boundary of dielectric 'ins', which runs 0\.006 mm from conductor 'w'"):
+        solve(_sleeve_model(1.006), estimate_error=False)
