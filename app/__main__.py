@@ -18,18 +18,18 @@ def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True)
 
     from . import files
     from .main_window import MainWindow
+    from .messages import ask
 
     window = MainWindow(settings)
     recovered = files.read_recovery() if ask_recovery else None
     if recovered is not None:
         model, original = recovered
-        answer = QMessageBox.question(
+        answer = ask(
             window, "Recover unsaved work?",
             "Edgewise closed last time with unsaved changes"
             + (f" to {original}" if original else "") + ". Recover them?",
             QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
-        if answer == QMessageBox.Yes:
-            window.load(model, original, modified=True)
+        if answer == QMessageBox.Yes and window.load_or_keep(model, original, modified=True):
             window.solve()
             return window
         files.discard_recovery()

@@ -16,6 +16,7 @@ from solver import Model, SolverError
 
 from . import edits, exports, files
 from .document import PartRef
+from .messages import show_message
 from .report import write_report_pdf
 from .tools import TOOLS
 
@@ -160,9 +161,10 @@ class Commands:
         try:
             model = files.open_model(Path(path))
         except SolverError as exc:
-            QMessageBox.critical(self.w, "Cannot open the file", str(exc))
+            show_message(self.w, "critical", "Cannot open the file", str(exc))
             return False
-        self.w.load(model, Path(path))
+        if not self.w.load_or_keep(model, Path(path)):
+            return False
         self._remember(Path(path))
         self.w.solve()
         return True
@@ -184,7 +186,7 @@ class Commands:
         try:
             files.save_model(self.doc.model, path)
         except (OSError, SolverError) as exc:
-            QMessageBox.critical(self.w, "Cannot save", f"{path}: {exc}")
+            show_message(self.w, "critical", "Cannot save", f"{path}: {exc}")
             return False
         self.doc.mark_saved(path)
         files.discard_recovery()

@@ -125,6 +125,20 @@ class Document:
         self.events.emit("model_changed", self.model)
         self.events.emit("modified_changed", self.is_modified)
 
+    def snapshot(self) -> tuple:
+        """Everything needed to :meth:`restore` this document as it is now (undo history too)."""
+        return (list(self._stack), self._index, self._saved_index, self._path, self._selection)
+
+    def restore(self, snapshot: tuple) -> None:
+        """Go back to a :meth:`snapshot` (after an open that could not be shown)."""
+        stack, self._index, self._saved_index, self._path, selection = snapshot
+        self._stack = list(stack)
+        self._selection = self._valid(selection)
+        self.events.emit("path_changed", self._path)
+        self.events.emit("selection_changed", self._selection)
+        self.events.emit("model_changed", self.model)
+        self.events.emit("modified_changed", self.is_modified)
+
     def mark_saved(self, path: Path) -> None:
         """Record that the current model was written to ``path``."""
         was_modified = self.is_modified

@@ -8,6 +8,7 @@ document and to the solve runner.
 from __future__ import annotations
 
 import html
+import logging
 import re
 from pathlib import Path
 
@@ -17,12 +18,13 @@ from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainW
                                QPushButton, QToolBar, QVBoxLayout, QWidget)
 
 import solver
-from solver import Model
+from solver import Model, SolverError
 
 from . import cautions, files
 from .canvas import Canvas
 from .commands import Commands
 from .document import Document
+from .messages import show_message
 from .overlays import SHADINGS
 from .parts_list import PartsList
 from .properties import PropertiesPanel
@@ -30,6 +32,8 @@ from .results_panel import ResultsPanel
 from .safety_views import caution_for
 from .units import format_field, format_potential
 from .worker import SolveRunner
+
+logger = logging.getLogger(__name__)
 
 #: Models with at most this many conductors re-solve by themselves after an edit.
 AUTO_SOLVE_MAX_CONDUCTORS = 8
@@ -89,7 +93,10 @@ class MainWindow(QMainWindow):
         self.results_panel.probe.export_requested.connect(self.commands.export_profile_csv)
 
         self._solve_timer = QTimer(self, singleShot=True, interval=700, timeout=self.solve)
-        self._recovery_timer = QTimer(self, singleShot=True, interval=1500, timeout=self._write_recovery)
+        self._recovery_timer = QTimer(self, singleShot=True, interval=int(files.RECOVERY_QUIET_S * 1000),
+                                      timeout=self._write_recovery)
+        self._recovery_schedule = files.RecoverySchedule()
+        self._recovery_failure_told = False
         self.resize(1500, 900)
         self.resizeDocks([results_dock], [640], Qt.Horizontal)
         if settings is not None and settings.value("window_geometry") is not None:
@@ -155,6 +162,21 @@ class MainWindow(QMainWindow):
         self.document.replace(model, path, modified=modified)
         self.canvas.fit_view()
 
+    def load_or_keep(self, model: Model, path: Path | None, *, modified: bool = False) -> bool:
+        """:meth:`load` ``model``; when the views cannot show it, put the previous document
+        back (with its undo history), say why in a dialog and return False."""
+        before = self.document.snapshot()
+        try:
+            self.load(model, path, modified=modified)
+            return True
+        except Exception as exc:  # any view failing on odd content must not end the program
+            logger.exception("cannot show %s", path)
+            self.document.restore(before)
+            show_message(self, "critical", "Cannot open the file",
+                         f"{path or 'The recovered drawing'}: cannot be shown ({type(exc).__name__}: {exc}). "
+                         "The previous drawing is kept.")
+            return False
+
     def _on_model_changed(self, model) -> None:
         self.canvas.clear_errors()
         self.readout.setText("")  # refreshed at the next mouse move, in the model's unit
@@ -165,7 +187,10 @@ class MainWindow(QMainWindow):
         self._set_stale(stale)
         if self.results is not None and not stale:
             self._update_banner()
-        self._recovery_timer.start()
+        if self._recovery_schedule.edited():
+            self._write_recovery()  # edits keep coming: do not wait for a quiet moment any longer
+        else:
+            self._recovery_timer.start()
         if self.auto_solve and model.conductors and len(model.conductors) <= AUTO_SOLVE_MAX_CONDUCTORS:
             if self.results is None or model != self.results.model:
                 self._solve_timer.start()
@@ -178,10 +203,20 @@ class MainWindow(QMainWindow):
 
     def _write_recovery(self) -> None:
         """Keep the recovery file in step: the unsaved model, or nothing once all is saved."""
-        if self.document.is_modified:
-            files.write_recovery(self.document.model, self.document.path)
-        else:
-            files.discard_recovery()
+        self._recovery_timer.stop()
+        self._recovery_schedule.written()
+        try:
+            if self.document.is_modified:
+                files.write_recovery(self.document.model, self.document.path)
+            else:
+                files.discard_recovery()
+        except (OSError, SolverError) as exc:
+            logger.warning("recovery file not written: %s", exc)
+            if not self._recovery_failure_told:  # tell once, not at every edit
+                self._recovery_failure_told = True
+                show_message(self, "warning", "Unsaved work is not being kept",
+                             f"Edgewise could not write its recovery file ({exc}). Unsaved changes will be "
+                             "lost if the program stops unexpectedly; save your work regularly.")
 
     # ---- solving ---------------------------------------------------------------------------
     def solve(self) -> None:

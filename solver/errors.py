@@ -32,3 +32,23 @@ class ProjectFileError(SolverError):
 
 class SolveCancelled(SolverError):
     """The caller asked the solve to stop (through its cancel callback)."""
+
+
+class MeshTooLargeError(SolverError):
+    """The mesh a model needs is larger than the memory budget allows, or cannot be graded.
+
+    Raised before anything large is built; the message names the gap or part responsible
+    and a way out (move parts apart, round less finely, choose a coarser mesh).
+    """
+
+
+class NetChargeError(InvalidModelError):
+    """Floating conductors carry a net charge and nothing can carry the opposite charge.
+
+    In 2-D the potential of a net line charge grows like log(r) and has no value at
+    infinity, so potentials (and everything computed from them) would be undefined.
+    """
+
+
+class NonFiniteResultError(SolverError):
+    """The solve produced a non-finite (infinite or NaN) value, or its system was singular."""

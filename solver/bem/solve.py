@@ -25,7 +25,7 @@ from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
 from solver.constants import EPSILON_0_F_PER_M
-from solver.errors import InvalidModelError, SolveCancelled
+from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
 from solver.model.model import Model
 
@@ -54,8 +54,19 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
     model, mesh, interfaces, layout = system.model, system.mesh, system.interfaces, system.layout
     if cancel is not None and cancel():
         raise SolveCancelled("Solve cancelled.")
-    with blas_threads_for(layout.size):
-        lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+    if not np.isfinite(system.matrix).all():
+        raise NonFiniteResultError(
+            f"The system matrix of {system.layout.size} unknowns holds non-finite entries (coincident "
+            "panels or coordinates out of range); check the drawing for repeated or overlapping outlines."
+        )
+    try:
+        with blas_threads_for(layout.size):
+            lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+    except MemoryError:
+        raise MeshTooLargeError(
+            f"Not enough memory to factorise the system of {system.layout.size} unknowns; "
+            "choose a coarser mesh or close other programs."
+        ) from None
 
     n_cond = len(model.conductors)
     fixed, floating, unit_potentials, unit_charges = driver_columns(model)
@@ -70,6 +81,7 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
     charges = np.hstack([charges, unit_charges])
     with blas_threads_for(layout.size):
         x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
+    _check_finite(x, model, layout)
 
     n = layout.n_panels
     total = x[:n]
@@ -115,6 +127,28 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
         conductor_region_minus=system.region_minus,
         n_unknowns=layout.size,
         unit_solutions=units,
+    )
+
+
+def _check_finite(x: np.ndarray, model: Model, layout) -> None:
+    """Raise NonFiniteResultError naming what became non-finite (never report such a figure)."""
+    if np.isfinite(x).all():
+        return
+    n = layout.n_panels
+    parts = []
+    if not np.isfinite(x[: layout.n_conductor_panels]).all():
+        parts.append("the surface charge on conductors")
+    if not np.isfinite(x[layout.n_conductor_panels : n]).all():
+        parts.append("the bound charge on dielectric interfaces")
+    for f, k in enumerate(layout.floating):
+        if not np.isfinite(x[n + f]).all():
+            parts.append(f"the potential of floating conductor '{model.conductors[k].name}'")
+    if layout.has_phi_inf and not np.isfinite(x[-1]).all():
+        parts.append("the potential at infinity")
+    raise NonFiniteResultError(
+        f"The solve gave non-finite values for {', '.join(parts)} (the system is singular for this "
+        "model); no figure is reported. Check for a conductor without a return path, parts that "
+        "touch, or sizes far apart, and try another mesh density."
     )
 
 

@@ -13,11 +13,18 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from solver.bem.assembly import SourcePanels, SystemLayout, assemble_system, free_charge_operator, source_panels
-from solver.errors import InvalidModelError
+from solver.bem.assembly import (
+    SourcePanels,
+    SystemLayout,
+    assemble_system,
+    free_charge_operator,
+    source_panels,
+)
+from solver.errors import InvalidModelError, MeshTooLargeError, NetChargeError
 from solver.mesh.interfaces import (
     InterfaceMesh,
     conductor_side_regions,
+    conductor_snap_distances_m,
     discretize_interfaces,
     region_permittivities,
 )
@@ -76,13 +83,52 @@ def _length_scale(mesh: PanelMesh, interfaces: InterfaceMesh) -> float:
     return float(np.hypot(*(pts.max(axis=0) - pts.min(axis=0)))) or 1.0
 
 
+def check_charge_balance(model: Model) -> None:
+    """Refuse floating conductors whose net charge nothing can balance.
+
+    Without a ground plane, a reference or a fixed conductor, the opposite charge has nowhere
+    to sit. In 2-D the potential of a net line charge q grows like -q ln(r) / (2 pi eps) and
+    has no value at infinity, so the floating potentials would be undefined (the system
+    either has no solution or returns round-off). A set of floating charges summing to zero
+    is fine: potentials are then taken relative to infinity.
+
+    Raises
+    ------
+    NetChargeError
+    """
+    if model.ground_plane is not None or any(c.role != "floating" for c in model.conductors):
+        return
+    charges = np.array([c.charge_C_per_m for c in model.conductors], dtype=float)
+    net = float(charges.sum())
+    if abs(net) <= 1e-9 * float(np.abs(charges).sum()):
+        return
+    names = ", ".join(f"'{c.name}'" for c in model.conductors)
+    raise NetChargeError(
+        f"Floating conductor(s) {names} carry a net charge of {net:.6g} C/m and nothing can carry "
+        "the opposite charge: in 2-D the potential of a net line charge relative to infinity is "
+        "undefined (it grows like the logarithm of distance). Add a reference conductor or a ground "
+        "plane, make one conductor fixed, or set charge_C_per_m so that the charges sum to zero."
+    )
+
+
 def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
-    """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system."""
+    """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system.
+
+    Raises
+    ------
+    NetChargeError
+        When floating conductors carry a net charge with no return path (see
+        :func:`check_charge_balance`).
+    MeshTooLargeError
+        When the interface mesh would not fit the memory budget, or memory runs out.
+    """
     if not model.conductors:
         raise InvalidModelError("The model has no conductors; draw at least one.")
+    check_charge_balance(model)
     settings = mesh.settings
     interfaces = InterfaceMesh.empty()
     dgeoms: list = []
+    cgeoms: list = []
     if model.dielectrics:
         cgeoms = conductor_geometries(model, settings.arc_step_rad)
         interfaces, dgeoms = discretize_interfaces(model, cgeoms, mesh, settings)
@@ -90,7 +136,7 @@ def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
         mesh = split_at_junctions(mesh, dgeoms)
     eps_regions = region_permittivities(model)
     if dgeoms:
-        reg_plus, reg_minus = conductor_side_regions(model, dgeoms, mesh)
+        reg_plus, reg_minus = conductor_side_regions(model, dgeoms, mesh, conductor_snap_distances_m(cgeoms))
     else:
         reg_plus = np.full(mesh.n_panels, len(model.dielectrics), dtype=int)
         reg_minus = np.where(mesh.is_strip, reg_plus, -1)
@@ -102,7 +148,19 @@ def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
     sources = source_panels(mesh, interfaces, ell)
     f_op = free_charge_operator(mesh, eps_plus, eps_minus, interfaces.n_panels, sources, ell, plane)
     roles = [c.role for c in model.conductors]
-    a, layout, d_int = assemble_system(mesh, interfaces, roles, f_op, sources, plane, ell)
+    try:
+        a, layout, d_int = assemble_system(mesh, interfaces, roles, f_op, sources, plane, ell)
+    except MemoryError:
+        raise MeshTooLargeError(
+            f"Not enough memory to assemble the system of {mesh.n_panels} conductor and "
+            f"{interfaces.n_panels} interface panels; choose a coarser mesh or close other programs."
+        ) from None
+    if layout.has_phi_inf and all(r == "floating" for r in roles):
+        # Only floating conductors, charges summing to zero (checked above): the neutrality
+        # row repeats the charge rows and leaves the potential level to round-off. Potentials
+        # are then taken relative to infinity: the row becomes phi_inf = 0.
+        a[-1, :] = 0.0
+        a[-1, -1] = 1.0
     return BoundarySystem(
         model, mesh, interfaces, ell, plane, sources, a, layout, f_op, d_int,
         eps_plus, eps_minus, reg_plus, reg_minus, tuple(float(e) for e in eps_regions),

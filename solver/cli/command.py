@@ -96,6 +96,11 @@ def main(
     except SolverError as e:
         text = str(e)
         return _fail(text if text.startswith(str(args.model)) else f"{args.model}: {text}")
+    except MemoryError:
+        return _fail(f"{args.model}: not enough memory for this model at this mesh density; "
+                     "choose a coarser mesh (--density coarse) or move nearly touching parts apart")
+    except RecursionError:
+        return _fail(f"{args.model}: the file is nested too deeply to read")
     except BrokenPipeError:  # output piped into a program that stopped reading (e.g. head)
         sys.stdout = open(os.devnull, "w")
         return 0

@@ -118,6 +118,8 @@ def model_from_dict(data: Any, source: str = "<data>") -> Model:
         return read_model(data)
     except FieldProblem as e:
         raise ProjectFileError(f"{source}: {e}") from None
+    except RecursionError:
+        raise ProjectFileError(f"{source}: extras: nested too deeply to read; flatten it") from None
 
 
 def load_project(path: str | os.PathLike) -> Model:
@@ -135,7 +137,7 @@ def load_project(path: str | os.PathLike) -> Model:
     """
     source = str(path)
     try:
-        text = Path(path).read_text(encoding="utf-8")
+        text = Path(path).read_text(encoding="utf-8-sig")  # a byte-order mark is accepted
     except FileNotFoundError:
         raise ProjectFileError(f"{source}: file not found") from None
     except IsADirectoryError:
@@ -148,6 +150,8 @@ def load_project(path: str | os.PathLike) -> Model:
         data = json.loads(text, parse_constant=_reject_constant)
     except json.JSONDecodeError as e:
         raise ProjectFileError(f"{source}: not JSON (line {e.lineno}, column {e.colno}: {e.msg})") from None
+    except RecursionError:
+        raise ProjectFileError(f"{source}: not a project file: lists or objects nested too deeply to read") from None
     except ValueError as e:
         raise ProjectFileError(f"{source}: {e}") from None
     return model_from_dict(data, source)
@@ -160,7 +164,8 @@ def _reject_constant(name: str) -> float:
 def save_project(model: Model, path: str | os.PathLike) -> None:
     """Write ``model`` to a project file atomically (temporary file, then ``os.replace``).
 
-    A crash or a full disk leaves any existing file at ``path`` untouched.
+    A crash or a full disk leaves any existing file at ``path`` untouched. When ``path`` is
+    a symbolic link, the file it points to is replaced and the link is kept.
 
     Raises
     ------
@@ -168,7 +173,7 @@ def save_project(model: Model, path: str | os.PathLike) -> None:
         When the model cannot be written (e.g. ``extras`` holds something not JSON, or the
         folder is not writable).
     """
-    target = Path(path)
+    target = Path(os.path.realpath(path))  # through a symbolic link: write the file it points to
     try:
         text = json.dumps(model_to_dict(model), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
     except (TypeError, ValueError) as e:

@@ -25,6 +25,7 @@ from solver.model.model import (
     Shape,
 )
 from solver.model.shapes import SHAPE_KINDS
+from solver.model.outline_checks import LARGEST_LENGTH_M, SMALLEST_LENGTH_M
 
 #: Version of the project format written by this program (files up to it can be read).
 PROJECT_FORMAT_VERSION = 1
@@ -74,7 +75,10 @@ def _object(value: Any, path: str, required: set[str], optional: set[str]) -> di
 def _number(value: Any, path: str, *, positive: bool = False, minimum: float | None = None) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise FieldProblem(path, f"expected a number, got {_show(value)}")
-    x = float(value)
+    try:
+        x = float(value)
+    except OverflowError:
+        raise FieldProblem(path, f"number with {len(str(abs(value)))} digits is too large") from None
     if not math.isfinite(x):
         raise FieldProblem(path, f"expected a finite number, got {value}")
     if positive and not x > 0:
@@ -102,18 +106,35 @@ def _list(value: Any, path: str, min_items: int = 0, what: str = "items") -> lis
     return value
 
 
-def _point_from(value: Any, path: str) -> tuple[float, float]:
+def _coordinate(value: Any, path: str, scale: float) -> float:
+    x = _number(value, path)
+    if abs(x) * scale > LARGEST_LENGTH_M:
+        raise FieldProblem(path, f"{value} is more than {LARGEST_LENGTH_M:g} m from the origin; check the number and the unit")
+    return x
+
+
+def _size(value: Any, path: str, scale: float) -> float:
+    """A positive length (radius, width...) within the range the mesher handles."""
+    x = _number(value, path, positive=True)
+    if x * scale > LARGEST_LENGTH_M:
+        raise FieldProblem(path, f"{value} is larger than {LARGEST_LENGTH_M:g} m; check the number and the unit")
+    if x * scale < SMALLEST_LENGTH_M:
+        raise FieldProblem(path, f"{value} is smaller than {SMALLEST_LENGTH_M:g} m; check the number and the unit")
+    return x
+
+
+def _point_from(value: Any, path: str, scale: float) -> tuple[float, float]:
     if not isinstance(value, list) or len(value) != 2:
         raise FieldProblem(path, f"expected a point [x, y], got {_show(value)}")
-    return (_number(value[0], f"{path}[0]"), _number(value[1], f"{path}[1]"))
+    return (_coordinate(value[0], f"{path}[0]", scale), _coordinate(value[1], f"{path}[1]", scale))
 
 
-def _points_from(value: Any, path: str, min_items: int) -> tuple[tuple[float, float], ...]:
+def _points_from(value: Any, path: str, min_items: int, scale: float) -> tuple[tuple[float, float], ...]:
     items = _list(value, path, min_items, "points")
-    return tuple(_point_from(p, f"{path}[{i}]") for i, p in enumerate(items))
+    return tuple(_point_from(p, f"{path}[{i}]", scale) for i, p in enumerate(items))
 
 
-def _shape_from(value: Any, path: str, allow_strip: bool) -> Shape:
+def _shape_from(value: Any, path: str, allow_strip: bool, scale: float) -> Shape:
     if not isinstance(value, dict):
         raise FieldProblem(path, f"expected a shape object, got {_show(value)}")
     if "kind" not in value:
@@ -124,28 +145,30 @@ def _shape_from(value: Any, path: str, allow_strip: bool) -> Shape:
     kind = _string(value["kind"], f"{path}.kind", choices=kinds)
     required, optional = _SHAPE_KEYS[kind]
     v = _object(value, path, required | {"kind"}, optional)
-    return SHAPE_KINDS[kind].from_dict(v, _ShapeFieldReader(v, path))
+    return SHAPE_KINDS[kind].from_dict(v, _ShapeFieldReader(v, path, scale))
 
 
 class _ShapeFieldReader:
     """Reads one shape's fields for :meth:`Shape.from_dict`, raising FieldProblem with the path."""
 
-    def __init__(self, data: dict, path: str) -> None:
-        self.data, self.path = data, path
+    def __init__(self, data: dict, path: str, scale: float) -> None:
+        self.data, self.path, self.scale = data, path, scale  # scale: metres per model unit
 
     def number(self, key: str, *, positive: bool = False, minimum: float | None = None) -> float:
+        if positive:  # a length: also refused when absurdly large or small in metres
+            return _size(self.data.get(key), f"{self.path}.{key}", self.scale)
         default = 0.0 if minimum is not None else None
         return _number(self.data.get(key, default), f"{self.path}.{key}", positive=positive, minimum=minimum)
 
     def point(self, key: str) -> tuple[float, float]:
-        return _point_from(self.data[key], f"{self.path}.{key}")
+        return _point_from(self.data[key], f"{self.path}.{key}", self.scale)
 
     def points(self, key: str, min_items: int) -> tuple[tuple[float, float], ...]:
-        return _points_from(self.data[key], f"{self.path}.{key}", min_items)
+        return _points_from(self.data[key], f"{self.path}.{key}", min_items, self.scale)
 
     def point_lists(self, key: str, min_items: int) -> tuple[tuple[tuple[float, float], ...], ...]:
         items = _list(self.data.get(key, []), f"{self.path}.{key}")
-        return tuple(_points_from(h, f"{self.path}.{key}[{i}]", min_items) for i, h in enumerate(items))
+        return tuple(_points_from(h, f"{self.path}.{key}[{i}]", min_items, self.scale) for i, h in enumerate(items))
 
     def problem(self, key: str, reason: str) -> Exception:
         return FieldProblem(f"{self.path}.{key}", reason)
@@ -155,7 +178,7 @@ def _model_error(path: str, error: InvalidModelError) -> FieldProblem:
     return FieldProblem(path, str(error).rstrip("."))
 
 
-def _conductor_from(value: Any, path: str) -> Conductor:
+def _conductor_from(value: Any, path: str, scale: float) -> Conductor:
     if not isinstance(value, dict):
         raise FieldProblem(path, f"expected a conductor object, got {_show(value)}")
     if "role" not in value:
@@ -175,7 +198,7 @@ def _conductor_from(value: Any, path: str) -> Conductor:
     try:
         return Conductor(
             name,
-            tuple(_shape_from(s, f"{path}.shapes[{i}]", True) for i, s in enumerate(shapes)),
+            tuple(_shape_from(s, f"{path}.shapes[{i}]", True, scale) for i, s in enumerate(shapes)),
             role=role,
             potential_V=_number(v.get("potential_V", 0.0), f"{path}.potential_V"),
             charge_C_per_m=_number(v.get("charge_C_per_m", 0.0), f"{path}.charge_C_per_m"),
@@ -185,14 +208,14 @@ def _conductor_from(value: Any, path: str) -> Conductor:
         raise _model_error(path, e) from None
 
 
-def _dielectric_from(value: Any, path: str) -> Dielectric:
+def _dielectric_from(value: Any, path: str, scale: float) -> Dielectric:
     v = _object(value, path, {"name", "eps_r", "shapes"}, {"material"})
     name = _string(v["name"], f"{path}.name", nonempty=True)
     eps_r = _number(v["eps_r"], f"{path}.eps_r", minimum=1.0)
     material = None if v.get("material") is None else _string(v["material"], f"{path}.material")
     shapes = _list(v["shapes"], f"{path}.shapes", 1, "shape")
     try:
-        return Dielectric(name, tuple(_shape_from(s, f"{path}.shapes[{i}]", False) for i, s in enumerate(shapes)),
+        return Dielectric(name, tuple(_shape_from(s, f"{path}.shapes[{i}]", False, scale) for i, s in enumerate(shapes)),
                           eps_r, material)
     except InvalidModelError as e:
         raise _model_error(path, e) from None
@@ -210,10 +233,10 @@ def _check_header(data: Any) -> None:
     if isinstance(version, bool) or not isinstance(version, int):
         raise FieldProblem("version", f"expected a whole number, got {_show(version)}")
     if version > PROJECT_FORMAT_VERSION:
-        raise FieldProblem("", f"version {version} is newer than this program understands ({PROJECT_FORMAT_VERSION}); "
+        raise FieldProblem("", f"version {_show(version)} is newer than this program understands ({PROJECT_FORMAT_VERSION}); "
                        "update Edgewise to open it")
     if version < 1:
-        raise FieldProblem("version", f"{version} is not a valid format version (versions start at 1)")
+        raise FieldProblem("version", f"{_show(version)} is not a valid format version (versions start at 1)")
 
 
 def _air_conditions_from(value: Any, path: str) -> dict:
@@ -256,9 +279,10 @@ def read_model(data: Any) -> Model:
     _check_header(data)
     v = _object(data, "", {"format", "version", "unit", "conductors"}, _TOP_KEYS)
     unit = _string(v["unit"], "unit", choices=tuple(LENGTH_UNITS))
+    scale = LENGTH_UNITS[unit]
     plane = v.get("ground_plane")
     if plane is not None:
-        plane = GroundPlane(_number(_object(plane, "ground_plane", {"y"}, set())["y"], "ground_plane.y"))
+        plane = GroundPlane(_coordinate(_object(plane, "ground_plane", {"y"}, set())["y"], "ground_plane.y", scale))
     extras = v.get("extras", {})
     if not isinstance(extras, dict):
         raise FieldProblem("extras", f"expected an object, got {_show(extras)}")
@@ -267,8 +291,8 @@ def read_model(data: Any) -> Model:
         extras[AIR_CONDITIONS_KEY] = _air_conditions_from(extras[AIR_CONDITIONS_KEY], f"extras.{AIR_CONDITIONS_KEY}")
     if AIR_CONDITIONS_KEY in v:
         extras[AIR_CONDITIONS_KEY] = _air_conditions_from(v[AIR_CONDITIONS_KEY], AIR_CONDITIONS_KEY)
-    conductors = tuple(_conductor_from(c, f"conductors[{i}]") for i, c in enumerate(_list(v["conductors"], "conductors")))
-    dielectrics = tuple(_dielectric_from(d, f"dielectrics[{i}]") for i, d in enumerate(_list(v.get("dielectrics", []), "dielectrics")))
+    conductors = tuple(_conductor_from(c, f"conductors[{i}]", scale) for i, c in enumerate(_list(v["conductors"], "conductors")))
+    dielectrics = tuple(_dielectric_from(d, f"dielectrics[{i}]", scale) for i, d in enumerate(_list(v.get("dielectrics", []), "dielectrics")))
     try:
         return Model(
             unit=unit,

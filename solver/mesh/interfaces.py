@@ -29,14 +29,33 @@ from shapely.ops import unary_union
 from solver.errors import InvalidGeometryError
 from solver.model.geometry import shape_geometry
 from solver.model.model import Model
+from solver.mesh.budget import check_panel_budget, max_panels
 from solver.mesh.interface_pieces import Piece, piece_breaks, split_into_pieces
 from solver.mesh.panels import MeshSettings, PanelMesh
-
+from solver.model.outline_checks import check_extent
 
 #: Interface panels are this many times shorter than conductor panels in the same place: the
 #: second-kind interface equation with constant bound charge per panel needs the finer mesh
 #: to match the conductors' accuracy (measured on straight and rounded dielectric boxes).
 INTERFACE_REFINEMENT = 2.0
+
+#: Meshing tolerance of a conductor as a fraction of its size 2 A / P (area A, perimeter P;
+#: the radius of a circle, the thickness of a thin bar). A dielectric boundary closer to the
+#: conductor than this counts as lying on it: a polygon drawn against a round conductor (a
+#: 32-gon or finer leaves a sliver under 0.5 % of the radius) then meets the conductor instead
+#: of bounding a hairline gap that no mesh of sensible size resolves.
+SLIVER_FRACTION = 5e-3
+
+
+def conductor_snap_distances_m(conductor_geoms: list) -> np.ndarray:
+    """Meshing tolerance of each conductor, metres (see :data:`SLIVER_FRACTION`).
+
+    At least 1e-9 of the model's size; strips (no area) get that floor only.
+    """
+    b = np.array([g.bounds for g in conductor_geoms]).reshape(-1, 4)
+    floor = 1e-9 * float(np.hypot(b[:, 2].max() - b[:, 0].min(), b[:, 3].max() - b[:, 1].min())) if len(b) else 0.0
+    sizes = np.array([2.0 * g.area / g.length if g.area > 0 else 0.0 for g in conductor_geoms])
+    return np.maximum(floor, SLIVER_FRACTION * sizes)
 
 
 def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
@@ -55,6 +74,7 @@ def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
             if not shape.is_solid:
                 raise InvalidGeometryError(f"{where}: a dielectric region needs an area; a strip has none.")
             parts.append(shape_geometry(shape, scale, arc_step_rad, where))
+            check_extent(shapely.get_coordinates(parts[-1]), where)
         geoms.append(unary_union(parts))
     if len(geoms) > 1:
         # snap neighbours onto each other so that boundaries meant to be shared (drawn
@@ -159,21 +179,29 @@ def permittivity_at(model: Model, geoms: list, points_m: np.ndarray) -> np.ndarr
     return region_permittivities(model)[region_index_at(model, geoms, points_m)]
 
 
-def conductor_side_regions(model: Model, geoms: list, mesh: PanelMesh) -> tuple[np.ndarray, np.ndarray]:
+def conductor_side_regions(
+    model: Model, geoms: list, mesh: PanelMesh, snap_m: np.ndarray | None = None
+) -> tuple[np.ndarray, np.ndarray]:
     """Region index on the field side ("+", along the normal) and the back side of each panel.
 
     The back side is only meaningful for strips; for closed conductors it is -1 (metal).
+    ``snap_m`` (per conductor, metres; :func:`conductor_snap_distances_m`) makes the probe
+    look past a sliver thinner than the conductor's meshing tolerance.
     """
     delta = 1e-3 * mesh.lengths[:, None]
+    if snap_m is not None and len(snap_m):
+        delta = np.maximum(delta, np.asarray(snap_m)[mesh.conductor_index][:, None])
     plus = region_index_at(model, geoms, mesh.midpoints + delta * mesh.normals)
     minus = region_index_at(model, geoms, mesh.midpoints - delta * mesh.normals)
     return plus, np.where(mesh.is_strip, minus, -1)
 
 
 def _interface_lines(model: Model, geoms: list, conductor_geoms: list, tol: float):
-    """Noded interface linework with conductor surfaces, strips and the ground plane removed."""
+    """Noded interface linework with conductor surfaces, strips and the ground plane removed
+    (with everything within a conductor's meshing tolerance of it)."""
     lines = unary_union([g.boundary for g in geoms])
-    blockers = [g.buffer(tol, quad_segs=2) for g in conductor_geoms]
+    snap = np.maximum(tol, conductor_snap_distances_m(conductor_geoms))
+    blockers = [g.buffer(d, quad_segs=8) for g, d in zip(conductor_geoms, snap)]
     if model.ground_plane is not None:
         y = model.ground_plane.y * model.metres_per_unit
         x0, y0, x1, y1 = lines.bounds
@@ -209,6 +237,8 @@ def discretize_interfaces(
     arcs = tuple(a for d in model.dielectrics for s in d.shapes for a in s.arcs_m(model.metres_per_unit))
 
     starts, ends, points, normals, arcl, cid, crad, outw = [], [], [], [], [], [], [], []
+    budget_panels = max_panels()
+    n_made = conductor_mesh.n_panels
     circles: list[tuple[np.ndarray, float]] = []
     for line in lines:
         coords = np.asarray(line.coords)
@@ -236,8 +266,23 @@ def discretize_interfaces(
             near = np.maximum(h_corner, settings.gap_fraction / INTERFACE_REFINEMENT * d_c)
             return np.minimum(np.minimum(h, near), h_max)
 
+        def bounded_size(piece: Piece, u: np.ndarray, size_fn=size_fn, line=line) -> np.ndarray:
+            # count the panels these sizes give (as piece_breaks will) and refuse before they are made
+            h = size_fn(piece, u)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                n_piece = float(np.sum(np.diff(u) / np.minimum(h[:-1], h[1:])))
+            if not n_made + n_piece <= budget_panels:
+                check_panel_budget(max(n_made + n_piece, budget_panels + 1.0),
+                                   _interface_culprit(model, geoms, conductor_geoms, line),
+                                   "conductor and interface panels")
+            return h
+
         for piece in pieces:
-            u = piece_breaks(piece, size_fn, settings.arc_step_rad)
+            u = piece_breaks(piece, bounded_size, settings.arc_step_rad)
+            n_made += len(u) - 1
+            if n_made > budget_panels:
+                check_panel_budget(n_made * 1.0, _interface_culprit(model, geoms, conductor_geoms, line),
+                                   "conductor and interface panels")
             if piece.centre is None:
                 seg = piece.at(u)
                 st, en = seg[:-1], seg[1:]
@@ -266,7 +311,9 @@ def discretize_interfaces(
     # probe each side a little beyond the polygonised outline that shapely holds for arcs
     radius = np.concatenate(crad)
     sag = np.where(np.isfinite(radius), radius * (1.0 - math.cos(settings.arc_step_rad)), 0.0)
-    delta = (1e-3 * lengths + 4.0 * sag)[:, None]
+    # and beyond the drawn polygon where a polygon with few sides was recognised as an arc
+    off_outline = shapely.distance(shapely.points(pt), unary_union([g.boundary for g in geoms]))
+    delta = (1e-3 * lengths + 4.0 * sag + 2.0 * off_outline)[:, None]
     eps = region_permittivities(model)
     r_plus = region_index_at(model, geoms, pt + delta * nr)
     r_minus = region_index_at(model, geoms, pt - delta * nr)
@@ -280,6 +327,21 @@ def discretize_interfaces(
         circle_outward=np.concatenate(outw)[keep],
     )
     return mesh, geoms
+
+
+def _interface_culprit(model: Model, geoms: list, conductor_geoms: list, line) -> str:
+    """Words naming the dielectric region whose boundary ``line`` is, and its nearest conductor."""
+    scale, unit = model.metres_per_unit, model.unit
+    middle = line.interpolate(0.5, normalized=True)
+    owners = [d.name for d, g in zip(model.dielectrics, geoms) if g.boundary.distance(middle) <= 1e-6 * line.length]
+    region = f"the boundary of dielectric '{owners[0]}'" if owners else "a dielectric boundary"
+    if not conductor_geoms:
+        return f"{region}; simplify it"
+    gaps = [float(shapely.distance(line, g)) for g in conductor_geoms]
+    k = int(np.argmin(gaps))
+    return (f"{region}, which runs {gaps[k] / scale:.3g} {unit} from conductor '{model.conductors[k].name}' "
+            f"over {line.length / scale:.3g} {unit}; draw the region so that it meets the conductor exactly "
+            "(or leave a clear gap)")
 
 
 def _circle_index(circles: list, centre: np.ndarray, radius: float) -> int:

@@ -17,6 +17,8 @@ from functools import cached_property
 
 import numpy as np
 
+from solver.mesh.budget import check_panel_budget
+from solver.mesh.grading import graded_panel_count, graded_panels
 from solver.model.geometry import BoundaryRing, boundary_rings, conductor_arcs, conductor_geometries
 from solver.model.model import Model
 
@@ -72,41 +74,6 @@ class MeshSettings:
     @classmethod
     def for_density(cls, density: str) -> "MeshSettings":
         return cls(DENSITY_LEVELS[density])
-
-
-def graded_panels(length: float, h_start: float, h_end: float, h_max: float, ratio: float) -> np.ndarray:
-    """Break points (ascending, 0 to ``length``) of panels graded from both ends.
-
-    Panels start at ``h_start`` and ``h_end`` at the two ends, grow by ``ratio`` per panel
-    and are at most ``h_max`` in between. Sizes are finally scaled to fit ``length`` exactly.
-    """
-    h_start, h_end = min(h_start, h_max), min(h_end, h_max)
-    left, right = [h_start], [h_end]
-    while left[-1] * ratio < h_max:
-        left.append(left[-1] * ratio)
-    while right[-1] * ratio < h_max:
-        right.append(right[-1] * ratio)
-    if sum(left) + sum(right) <= length:
-        n_mid = max(0, round((length - sum(left) - sum(right)) / h_max))
-        sizes = left + [h_max] * n_mid + right[::-1]
-    else:
-        # The two graded runs meet before reaching h_max: take the smaller next size each time.
-        left, right, total = [], [], 0.0
-        a, b = h_start, h_end
-        last = left
-        while total < length:
-            if a <= b:
-                left.append(a)
-                total, a, last = total + a, a * ratio, left
-            else:
-                right.append(b)
-                total, b, last = total + b, b * ratio, right
-        if total - length > 0.5 * last[-1] and len(left) + len(right) > 1:
-            last.pop()
-        sizes = left + right[::-1]
-    sizes_arr = np.asarray(sizes, dtype=float)
-    sizes_arr *= length / sizes_arr.sum()
-    return np.concatenate([[0.0], np.cumsum(sizes_arr)])
 
 
 def _vertex_angles(points: np.ndarray, closed: bool) -> tuple[np.ndarray, np.ndarray]:
@@ -215,8 +182,8 @@ class PanelMesh:
         return discretize_boundary(self.model, MeshSettings(self.settings.level * factor))
 
 
-def _conductor_h_max(model: Model, geoms: list, settings: MeshSettings) -> list[float]:
-    """Longest panel allowed on each conductor (metres)."""
+def _conductor_h_max(model: Model, geoms: list, settings: MeshSettings) -> tuple[list[float], list[str]]:
+    """Longest panel allowed on each conductor (metres), and what limits it, in words."""
     import shapely
 
     bounds = np.array([g.bounds for g in geoms])
@@ -225,16 +192,94 @@ def _conductor_h_max(model: Model, geoms: list, settings: MeshSettings) -> list[
         lo[1] = min(lo[1], model.ground_plane.y * model.metres_per_unit)
     size = float(np.hypot(*(hi - lo)))
     h_global = size / settings.divisions_per_size
-    out = []
+    scale, unit = model.metres_per_unit, model.unit
+    names = [c.name for c in model.conductors]
+    out, why = [], []
     for i, g in enumerate(geoms):
         h = min(h_global, g.length / settings.divisions_per_perimeter)
-        gaps = [shapely.distance(g, other) for j, other in enumerate(geoms) if j != i]
+        reason = f"conductor '{names[i]}' (its outline is long for the mesh density)"
+        for j, other in enumerate(geoms):
+            if j != i:
+                gap = float(shapely.distance(g, other))
+                if settings.gap_fraction * gap < h:
+                    h = settings.gap_fraction * gap
+                    reason = (f"the gap of {gap / scale:.3g} {unit} between conductors '{names[i]}' and "
+                              f"'{names[j]}'; move them apart (or merge them into one conductor)")
         if model.ground_plane is not None:
-            gaps.append(2.0 * (g.bounds[1] - model.ground_plane.y * model.metres_per_unit))
-        if gaps:
-            h = min(h, settings.gap_fraction * min(gaps))
+            height = g.bounds[1] - model.ground_plane.y * scale
+            if settings.gap_fraction * 2.0 * height < h:
+                h = settings.gap_fraction * 2.0 * height
+                reason = (f"the height of {height / scale:.3g} {unit} of conductor '{names[i]}' above the "
+                          "ground plane; raise it")
         out.append(h)
-    return out
+        why.append(reason)
+    return out, why
+
+
+@dataclass(frozen=True)
+class _RingPlan:
+    """Edges of one boundary ring and the panel sizes at their ends (before grading)."""
+
+    ring: BoundaryRing
+    turn: np.ndarray
+    beta: np.ndarray
+    is_corner: np.ndarray
+    edge_len: np.ndarray
+    h_start: np.ndarray
+    h_end: np.ndarray
+    h_max: float
+
+
+def _ring_plan(ring: BoundaryRing, h_max: float, settings: MeshSettings) -> _RingPlan:
+    h_corner = h_max * settings.corner_fraction
+    pts = ring.points
+    turn, beta = _vertex_angles(pts, ring.closed)
+    is_corner = np.abs(turn) > CORNER_TURN_RAD
+    if not ring.closed:
+        is_corner[0] = is_corner[-1] = True
+    n_edges = len(pts) if ring.closed else len(pts) - 1
+    edge_vec = np.roll(pts, -1, axis=0)[:n_edges] - pts[:n_edges] if ring.closed else np.diff(pts, axis=0)
+    edge_len = np.hypot(*edge_vec.T)
+    if ring.closed:
+        prev_len, next_len = np.roll(edge_len, 1), np.roll(edge_len, -1)
+    else:
+        prev_len = np.r_[h_corner, edge_len[:-1]]
+        next_len = np.r_[edge_len[1:], h_corner]
+    v_start = np.arange(n_edges)
+    v_end = (v_start + 1) % len(pts)
+    h_s = np.where(is_corner[v_start], h_corner, np.minimum(h_max, prev_len))
+    h_e = np.where(is_corner[v_end], h_corner, np.minimum(h_max, next_len))
+    return _RingPlan(ring, turn, beta, is_corner, edge_len, h_s, h_e, h_max)
+
+
+def estimate_conductor_panels(model: Model, settings: MeshSettings | None = None) -> tuple[float, str]:
+    """Upper bound on the conductor panels of ``model`` at ``settings``, without building them.
+
+    Returns the count and, in words, the gap or part that contributes most panels.
+    """
+    settings = settings or MeshSettings.for_density(model.mesh_density)
+    plans, why = _plans(model, settings)
+    return _count(plans, settings, why)
+
+
+def _plans(model: Model, settings: MeshSettings) -> tuple[list[_RingPlan], list[str]]:
+    geoms = conductor_geometries(model, settings.arc_step_rad)
+    h_max_by_conductor, why = _conductor_h_max(model, geoms, settings)
+    arcs = conductor_arcs(model)
+    plans = []
+    for k, g in enumerate(geoms):
+        for ring in boundary_rings(k, g, arcs[k]):
+            plans.append(_ring_plan(ring, h_max_by_conductor[k], settings))
+    return plans, why
+
+
+def _count(plans: list[_RingPlan], settings: MeshSettings, why: list[str]) -> tuple[float, str]:
+    by_conductor = np.zeros(len(why))
+    for p in plans:
+        n = graded_panel_count(p.edge_len, p.h_start, p.h_end, p.h_max, settings.growth_ratio)
+        by_conductor[p.ring.conductor_index] += float(np.sum(n))
+    worst = int(np.argmax(by_conductor)) if len(by_conductor) else 0
+    return float(by_conductor.sum()), why[worst] if why else ""
 
 
 def _signed_arc_radius(p: np.ndarray, q: np.ndarray, centre: np.ndarray, radius: float) -> float:
@@ -259,42 +304,32 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
     Returns
     -------
     PanelMesh
+
+    Raises
+    ------
+    MeshTooLargeError
+        When the panels (counted before any is made) would not fit the memory budget of
+        :mod:`solver.mesh.budget`; the message names the gap or part responsible.
     """
     settings = settings or MeshSettings.for_density(model.mesh_density)
-    geoms = conductor_geometries(model, settings.arc_step_rad)
-    h_max_by_conductor = _conductor_h_max(model, geoms, settings)
-    arcs = conductor_arcs(model)
-    rings: list[BoundaryRing] = []
-    for k, g in enumerate(geoms):
-        rings.extend(boundary_rings(k, g, arcs[k]))
+    plans, why = _plans(model, settings)
+    n_expected, responsible = _count(plans, settings, why)
+    check_panel_budget(n_expected, responsible, "conductor panels")
 
     starts, ends, cond, ring_idx, strip, arc, arc_r, arc_c = [], [], [], [], [], [], [], []
     corners, corner_cond, corner_beta = [], [], []
     travelled_by_conductor: dict[int, float] = {}
-    for r, ring in enumerate(rings):
-        h_max = h_max_by_conductor[ring.conductor_index]
-        h_corner = h_max * settings.corner_fraction
-        pts = ring.points
-        turn, beta = _vertex_angles(pts, ring.closed)
-        is_corner = np.abs(turn) > CORNER_TURN_RAD
-        if not ring.closed:
-            is_corner[0] = is_corner[-1] = True
+    for r, plan in enumerate(plans):
+        ring, h_max, is_corner = plan.ring, plan.h_max, plan.is_corner
+        pts, beta, edge_len = ring.points, plan.beta, plan.edge_len
         singular = is_corner & (beta > math.pi + CORNER_TURN_RAD)
         corners.extend(pts[singular])
         corner_cond.extend([ring.conductor_index] * int(singular.sum()))
         corner_beta.extend(beta[singular])
-
-        n_edges = len(pts) if ring.closed else len(pts) - 1
-        edge_vec = np.roll(pts, -1, axis=0)[:n_edges] - pts[:n_edges] if ring.closed else np.diff(pts, axis=0)
-        edge_len = np.hypot(*edge_vec.T)
         travelled = travelled_by_conductor.get(ring.conductor_index, 0.0)
-        for e in range(n_edges):
+        for e in range(len(edge_len)):
             p, q = pts[e], pts[(e + 1) % len(pts)]
-            v_start, v_end = e, (e + 1) % len(pts)
-            prev_len = edge_len[e - 1] if (ring.closed or e > 0) else h_corner
-            next_len = edge_len[(e + 1) % n_edges] if (ring.closed or e < n_edges - 1) else h_corner
-            h_s = h_corner if is_corner[v_start] else min(h_max, prev_len)
-            h_e = h_corner if is_corner[v_end] else min(h_max, next_len)
+            h_s, h_e = plan.h_start[e], plan.h_end[e]
             breaks = graded_panels(edge_len[e], h_s, h_e, h_max, settings.growth_ratio)
             t = breaks / edge_len[e]
             seg = p[None, :] + t[:, None] * (q - p)[None, :]

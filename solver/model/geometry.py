@@ -23,6 +23,7 @@ from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
 from solver.model.model import Model
+from solver.model.outline_checks import check_extent
 from solver.model.shapes import Arc, Shape
 
 
@@ -79,6 +80,7 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
         solids, lines = [], []
         for i, shape in enumerate(conductor.shapes):
             g = shape_geometry(shape, scale, arc_step_rad, _describe(owner, i, shape))
+            check_extent(shapely.get_coordinates(g), _describe(owner, i, shape))
             (solids if shape.is_solid else lines).append(g)
         solid = unary_union(solids) if solids else None
         if lines:

@@ -30,6 +30,7 @@ from shapely.geometry import LineString
 from shapely.geometry import Polygon as ShapelyPolygon
 
 from solver.errors import InvalidGeometryError, InvalidModelError
+from solver.model.outline_checks import check_holes, cleaned_polyline, cleaned_ring
 
 Point = tuple[float, float]
 
@@ -226,10 +227,19 @@ class Shape:
             When the shape is not valid (the message names ``where``, the field and a way out).
         """
         where = where or f"The {self.kind}"
-        self.check(where)
-        geom = self._build(scale, arc_step_rad)
-        self._check_built(geom, scale, where)
+        shape = self.cleaned(where)
+        shape.check(where)
+        geom = shape._build(scale, arc_step_rad)
+        shape._check_built(geom, scale, where)
         return geom
+
+    def cleaned(self, where: str) -> "Shape":
+        """This shape with repeated and collinear vertices dropped (see
+        :mod:`solver.model.outline_checks`); curves and rectangles come back as they are.
+
+        Raises InvalidGeometryError naming ``where`` and the vertex when too few are left.
+        """
+        return self
 
     def _check_built(self, geom, scale: float, where: str) -> None:
         """Checks that need the built geometry (self-intersection, zero area or length)."""
@@ -632,6 +642,13 @@ class Polygon(Shape):
     optional_fields = frozenset({"holes"})
     has_vertices = True
 
+    def cleaned(self, where: str) -> "Polygon":
+        exterior = cleaned_ring(self.exterior, f"{where}, outline")
+        holes = [cleaned_ring(h, f"{where}, hole {i + 1}") for i, h in enumerate(self.holes)]
+        check_holes(exterior, holes, where)
+        return replace(self, exterior=tuple(map(tuple, exterior.tolist())),
+                       holes=tuple(tuple(map(tuple, h.tolist())) for h in holes))
+
     def check(self, where: str) -> None:
         if len(self.exterior) < 3:
             raise InvalidGeometryError(f"{where}: a polygon needs at least 3 vertices, got {len(self.exterior)}.")
@@ -700,6 +717,9 @@ class Strip(Shape):
     required_fields = frozenset({"points"})
     is_solid = False
     has_vertices = True
+
+    def cleaned(self, where: str) -> "Strip":
+        return replace(self, points=tuple(map(tuple, cleaned_polyline(self.points, where).tolist())))
 
     def check(self, where: str) -> None:
         if len(self.points) < 2:

@@ -40,3 +40,24 @@ def window(qtbot, settings):
     w.close()
     w.deleteLater()
     qtbot.wait(1)
+
+
+class ShownMessages(list):
+    """Message boxes shown through QMessageBox.exec: (icon, title, text, text format) each."""
+
+    answer = None  # the button exec() returns (None: Ok)
+
+
+@pytest.fixture
+def shown_messages(monkeypatch):
+    """Record every modal message box instead of showing it; set ``.answer`` to reply."""
+    from PySide6.QtWidgets import QMessageBox
+
+    shown = ShownMessages()
+
+    def fake_exec(box):
+        shown.append((box.icon(), box.windowTitle(), box.text(), box.textFormat()))
+        return int((shown.answer or QMessageBox.Ok).value)
+
+    monkeypatch.setattr(QMessageBox, "exec", fake_exec)
+    return shown

@@ -26,27 +26,25 @@ def test_solving_the_coax_sample_puts_its_capacitance_in_the_table(window, qtbot
     assert window.windowTitle().startswith("coaxial_feeder.json")
 
 
-def test_a_corrupt_file_shows_an_error_and_changes_nothing(window, tmp_path):
+def test_a_corrupt_file_shows_an_error_and_changes_nothing(window, tmp_path, shown_messages):
     window.commands.open(COAX)
     before = window.document.model
     bad = tmp_path / "broken.json"
     bad.write_text('{"format": "edgewise-project", "version": 1, "conductors": [', encoding="utf-8")
-    with mock.patch.object(QMessageBox, "critical") as critical:
-        assert not window.commands.open(bad)
-    critical.assert_called_once()
-    assert "broken.json" in critical.call_args.args[2]
+    assert not window.commands.open(bad)
+    assert len(shown_messages) == 1
+    assert "broken.json" in shown_messages[0][2]
     assert window.document.model == before
     assert window.document.path == COAX
 
 
-def test_a_file_with_a_bad_field_names_it(window, tmp_path):
+def test_a_file_with_a_bad_field_names_it(window, tmp_path, shown_messages):
     data = json.loads(COAX.read_text())
     data["conductors"][0]["role"] = "sideways"
     bad = tmp_path / "bad_role.json"
     bad.write_text(json.dumps(data))
-    with mock.patch.object(QMessageBox, "critical") as critical:
-        assert not window.commands.open(bad)
-    assert "sideways" in critical.call_args.args[2] or "role" in critical.call_args.args[2]
+    assert not window.commands.open(bad)
+    assert "sideways" in shown_messages[0][2] or "role" in shown_messages[0][2]
     assert window.document.model.conductors == ()
 
 
@@ -87,8 +85,9 @@ def test_unsaved_work_is_written_to_the_recovery_file(window, qtbot):
     model, _ = edits.add_conductor(window.document.model, Circle((0, 0), 1))
     window.document.apply(model, "Draw")
     qtbot.waitUntil(lambda: files.recovery_path().is_file(), timeout=5000)
-    recovered, original = files.read_recovery()
+    recovered, original = files.read_recovery_file(files.recovery_path())
     assert recovered == model and original is None
+    assert files.read_recovery() is None  # a running instance's work is never offered
 
 
 def test_a_solver_error_is_shown_next_to_the_parts(window, qtbot):

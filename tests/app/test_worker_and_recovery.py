@@ -1,6 +1,5 @@
 """The solve worker (progress, cancel) and recovery of unsaved work on the next start."""
 
-from unittest import mock
 
 from PySide6.QtWidgets import QMessageBox
 
@@ -37,15 +36,19 @@ def test_worker_can_be_cancelled(qtbot):
     assert not runner.is_busy
 
 
-def test_recovery_is_offered_on_the_next_start(qtbot, settings, tmp_path):
+#: The recovery-file owner of an instance that is not running (no such process id).
+GONE = "999999999-0a0b0c0d"
+
+
+def test_recovery_is_offered_on_the_next_start(qtbot, settings, tmp_path, shown_messages):
     from app.__main__ import build_window
 
     model, _ = edits.add_conductor(Model(), Circle((0.0, 5.0), 2.0))
-    files.write_recovery(model, tmp_path / "work.json")
-    with mock.patch.object(QMessageBox, "question", return_value=QMessageBox.Yes) as asked:
-        window = build_window(None, settings)
+    files.write_recovery(model, tmp_path / "work.json", instance=GONE)
+    shown_messages.answer = QMessageBox.Yes
+    window = build_window(None, settings)
     try:
-        asked.assert_called_once()
+        assert [m[1] for m in shown_messages] == ["Recover unsaved work?"]
         assert window.document.model == model
         assert window.document.is_modified
         assert window.document.path == tmp_path / "work.json"
@@ -56,13 +59,13 @@ def test_recovery_is_offered_on_the_next_start(qtbot, settings, tmp_path):
         window.close()
 
 
-def test_declined_recovery_is_discarded_and_the_sample_opens(qtbot, settings, tmp_path):
+def test_declined_recovery_is_discarded_and_the_sample_opens(qtbot, settings, tmp_path, shown_messages):
     from app.__main__ import build_window
 
     model, _ = edits.add_conductor(Model(), Circle((0.0, 5.0), 2.0))
-    files.write_recovery(model, None)
-    with mock.patch.object(QMessageBox, "question", return_value=QMessageBox.No):
-        window = build_window(None, settings)
+    files.write_recovery(model, None, instance=GONE)
+    shown_messages.answer = QMessageBox.No
+    window = build_window(None, settings)
     try:
         assert files.read_recovery() is None
         assert window.document.path == files.SAMPLES_DIR / files.DEFAULT_SAMPLE
