@@ -348,6 +348,12 @@ class Shape:
         """A copy with every coordinate and length multiplied by ``factor`` (about the origin)."""
         return self._mapped(lambda p: (float(p[0] * factor), float(p[1] * factor)))
 
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        """Add this shape to a DXF model space ``msp`` (an ezdxf ``Modelspace``) on the layer in
+        ``attribs``; returns the entities made and extra exact numbers to keep with them (as DXF
+        extended-data pairs), so that a drawing written by Edgewise reads back exactly."""
+        raise NotImplementedError(f"{self.kind} has no CAD form")
+
     def describe(self, unit: str) -> str:
         """A one-line description, e.g. "rectangle 10 x 5 mm"."""
         raise NotImplementedError
@@ -415,6 +421,9 @@ class Circle(Shape):
         origin = f((0.0, 0.0))
         return Circle(moved, self.radius * math.dist(origin, f((1.0, 0.0))))
 
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        return [msp.add_circle(self.center, self.radius, dxfattribs=attribs)], []
+
     def describe(self, unit: str) -> str:
         return f"circle r = {self.radius:g} {unit}"
 
@@ -475,6 +484,10 @@ class Ring(Shape):
     def _mapped(self, f) -> "Ring":
         k = math.dist(f((0.0, 0.0)), f((1.0, 0.0)))
         return Ring(f(self.center), self.inner_radius * k, self.outer_radius * k)
+
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        return [msp.add_circle(self.center, self.outer_radius, dxfattribs=attribs),
+                msp.add_circle(self.center, self.inner_radius, dxfattribs=attribs)], []
 
     def describe(self, unit: str) -> str:
         return f"tube {self.inner_radius:g}/{self.outer_radius:g} {unit}"
@@ -596,6 +609,27 @@ class Rectangle(Shape):
         k = math.dist(f((0.0, 0.0)), f((1.0, 0.0)))
         return Rectangle(f(self.center), self.width * k, self.height * k, self.corner_radius * k)
 
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        (cx, cy), hw, hh, r = self.center, 0.5 * self.width, 0.5 * self.height, self.corner_radius
+        x0, x1, y0, y1 = cx - hw, cx + hw, cy - hh, cy + hh
+        if r <= 0:
+            pts, bulges = [(x0, y0), (x1, y0), (x1, y1), (x0, y1)], [0.0] * 4
+        else:  # quarter-circle fillets as bulges (tan of a quarter of the included angle)
+            b = math.tan(math.pi / 8)
+            corners = [(x0 + r, y0), (x1 - r, y0), (x1, y0 + r), (x1, y1 - r), (x1 - r, y1), (x0 + r, y1),
+                       (x0, y1 - r), (x0, y0 + r)]
+            pts, bulges = [], []
+            for k, p in enumerate(corners):  # a full-side fillet leaves a straight piece of zero length
+                bulge = b if k % 2 else 0.0
+                if bulge == 0.0 and math.dist(p, corners[(k + 1) % 8]) == 0.0:
+                    continue
+                pts.append(p)
+                bulges.append(bulge)
+        entity = msp.add_lwpolyline([(x, y, 0, 0, bl) for (x, y), bl in zip(pts, bulges)], format="xyseb",
+                                    close=True, dxfattribs=attribs)
+        exact = [(1040, float(v)) for v in (*self.center, self.width, self.height, self.corner_radius)]
+        return [entity], exact
+
     def describe(self, unit: str) -> str:
         rounded = f", corners r = {self.corner_radius:g}" if self.corner_radius > 0 else ""
         return f"rectangle {self.width:g} x {self.height:g} {unit}{rounded}"
@@ -692,6 +726,10 @@ class Polygon(Shape):
     def _mapped(self, f) -> "Polygon":
         return Polygon(tuple(map(f, self.exterior)), tuple(tuple(map(f, h)) for h in self.holes))
 
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        return [msp.add_lwpolyline(ring, format="xy", close=True, dxfattribs=attribs)
+                for ring in (self.exterior, *self.holes)], []
+
     def describe(self, unit: str) -> str:
         holes = f", {len(self.holes)} hole{'s' * (len(self.holes) != 1)}" if self.holes else ""
         return f"polygon, {len(self.exterior)} vertices{holes}"
@@ -759,6 +797,9 @@ class Strip(Shape):
 
     def _mapped(self, f) -> "Strip":
         return Strip(tuple(map(f, self.points)))
+
+    def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
+        return [msp.add_lwpolyline(self.points, format="xy", close=False, dxfattribs=attribs)], []
 
     def describe(self, unit: str) -> str:
         return f"strip, {len(self.points)} points"
