@@ -9,7 +9,7 @@ results on the right in tabs (Numbers, Charge along boundary, Probe line, High v
 of 2-D; further sections register with ``ResultsPanel.add_section``); caution and error strips
 above the drawing; cursor readout, solve progress and Cancel in the status bar.
 
-The Qt-free core (:mod:`app.document`, :mod:`app.edits`, :mod:`app.results`,
-:mod:`app.cautions`, :mod:`app.files`) holds the document and its edits; the Qt modules draw it
+The Qt-free core (:mod:`app.document`, :mod:`app.edits`, :mod:`app.jobs.results`,
+:mod:`app.cautions`, :mod:`app.files.project_files`) holds the document and its edits; the Qt modules draw it
 and call :mod:`solver` for every number.
 """

@@ -16,9 +16,9 @@ def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True)
     """Create the main window, offer recovery, open ``path`` (or the default sample) and solve."""
     from PySide6.QtWidgets import QMessageBox
 
-    from . import files
-    from .main_window import MainWindow
-    from .messages import ask
+    from app.files import project_files as files
+    from app.main_window import MainWindow
+    from app.messages import ask
 
     window = MainWindow(settings)
     recovered = files.read_recovery() if ask_recovery else None

@@ -14,11 +14,15 @@ from PySide6.QtWidgets import QFileDialog, QMessageBox, QToolBar
 
 from solver import Model, SolverError
 
-from . import edits, exports, files
-from .document import PartRef
-from .messages import show_message
-from .report import write_report_pdf
-from .tools import TOOLS
+from app import edits
+
+from app.files import exports
+
+from app.files import project_files as files
+from app.document import PartRef
+from app.messages import show_message
+from app.files.report import write_report_pdf
+from app.canvas.tools import TOOLS
 
 TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "tube": "U", "polygon": "P", "strip": "T",
              "ground plane": "G", "dielectric": "I", "probe line": "L"}

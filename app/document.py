@@ -18,7 +18,7 @@ from pathlib import Path
 
 from solver import Model
 
-from .events import Events
+from app.events import Events
 
 
 @dataclass(frozen=True)

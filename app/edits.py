@@ -10,7 +10,7 @@ from dataclasses import replace
 
 from solver import Conductor, GroundPlane, InvalidModelError, Model, Shape, dielectric_of
 
-from .document import PartRef
+from app.document import PartRef
 
 #: Colours given to new conductors in turn (our own palette).
 PALETTE = ("#c0392b", "#2471a3", "#1e8449", "#b9770e", "#7d3c98", "#117a65", "#a04000", "#5d6d7e")

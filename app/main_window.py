@@ -20,18 +20,20 @@ from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainW
 import solver
 from solver import Model, SolverError
 
-from . import cautions, files
-from .canvas import Canvas
-from .commands import Commands
-from .document import Document
-from .messages import show_message
-from .overlays import SHADINGS
-from .parts_list import PartsList
-from .properties import PropertiesPanel
-from .results_panel import ResultsPanel
-from .safety_views import caution_for
-from .units import format_field, format_potential
-from .worker import SolveRunner
+from app import cautions
+
+from app.files import project_files as files
+from app.canvas.canvas import Canvas
+from app.commands import Commands
+from app.document import Document
+from app.messages import show_message
+from app.canvas.overlays import SHADINGS
+from app.panels.parts_list import PartsList
+from app.panels.properties import PropertiesPanel
+from app.panels.results_panel import ResultsPanel
+from app.panels.safety_views import caution_for
+from app.units import format_field, format_potential
+from app.jobs.worker import SolveRunner
 
 logger = logging.getLogger(__name__)
 

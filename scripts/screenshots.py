@@ -135,7 +135,7 @@ def main() -> None:
     settle(app, w, 0.1)
     shoot(w, out, "08_limits_of_2d")
 
-    from app.report import report_preview
+    from app.files.report import report_preview
 
     report_preview(w.results, w.canvas.grab().toImage(), "busbar_enclosure.json",
                    settings_model=w.document.model).save(str(out / "08b_report_page.png"))

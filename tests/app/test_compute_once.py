@@ -12,7 +12,7 @@ import solver
 from solver import Circle, Conductor, Model, Ring, SolveCancelled
 from solver.figures import field_lines
 
-from app.figure_jobs import FigureJobRunner, JobProgress, wait_for_all
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress, wait_for_all
 from test_line_figures_view import results_of, wait_until
 
 
@@ -23,7 +23,7 @@ def coax() -> Model:
 
 
 def test_line_figures_tab_uses_the_window_solution(qtbot, monkeypatch):
-    from app.line_figures_view import LineFiguresView
+    from app.panels.line_figures_view import LineFiguresView
 
     results = results_of(coax())
     factorised = []

@@ -3,13 +3,13 @@
 import solver
 from solver import Circle, Conductor, Model, Rectangle
 
-from app.results import compute_results
+from app.jobs.results import compute_results
 
 from test_line_figures_view import wait_until
 
 
 def test_cross_check_table_and_points(qtbot, monkeypatch):
-    from app.cross_check_view import COLUMNS, CrossCheckView
+    from app.panels.cross_check_view import COLUMNS, CrossCheckView
 
     # fewer points than the default keep the test short; the routes are tested in tests/solver
     original = solver.check_each_equivalent_radius

@@ -9,7 +9,7 @@ import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtGui import QImage
 
-from app import files
+from app.files import project_files as files
 
 
 @pytest.fixture

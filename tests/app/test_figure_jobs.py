@@ -4,7 +4,7 @@ import time
 
 from test_line_figures_view import wait_until
 
-from app.figure_jobs import FigureJobRunner, wait_for_all
+from app.jobs.figure_jobs import FigureJobRunner, wait_for_all
 from solver import InvalidModelError
 
 

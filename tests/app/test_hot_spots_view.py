@@ -7,7 +7,7 @@ import io
 import solver
 from solver import Circle, Conductor, GroundPlane, HIGH_VOLTAGE_CAUTION, Model, Rectangle
 
-from app.results import compute_results
+from app.jobs.results import compute_results
 
 from test_line_figures_view import wait_until
 
@@ -15,7 +15,7 @@ HV_SAMPLE = "sample_geometries/hv_electrode_over_earth.json"
 
 
 def open_view(qtbot, model):
-    from app.hot_spots_view import HotSpotsView
+    from app.panels.hot_spots_view import HotSpotsView
 
     view = HotSpotsView()
     qtbot.addWidget(view)
@@ -127,7 +127,7 @@ def test_equivalent_radius_of_a_regular_bundle(qtbot):
 
 
 def test_stale_results_are_marked(qtbot):
-    from app.hot_spots_view import STALE_TEXT
+    from app.panels.hot_spots_view import STALE_TEXT
 
     view = open_view(qtbot, solver.load_project(HV_SAMPLE))
     view.mark_stale(True)
@@ -138,8 +138,8 @@ def test_stale_results_are_marked(qtbot):
 
 
 def test_window_runs_the_section_when_its_tab_is_shown_and_marks_it_stale(window, qtbot):
-    from app import files
-    from app.hot_spots_view import STALE_TEXT
+    from app.files import project_files as files
+    from app.panels.hot_spots_view import STALE_TEXT
     from app_helpers import wait_for_solve
 
     assert window.commands.open(files.SAMPLES_DIR / "hv_electrode_over_earth.json")

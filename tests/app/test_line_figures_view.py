@@ -12,7 +12,7 @@ from PySide6.QtCore import QEventLoop, QTimer
 import solver
 from solver import Conductor, GroundPlane, Model, Rectangle
 
-from app.results import compute_results
+from app.jobs.results import compute_results
 
 SAMPLE = "sample_geometries/microstrip_on_substrate.json"
 ETA0_OHM = 376.73  # free-space wave impedance
@@ -68,7 +68,7 @@ def shown_value(view, row_name: str) -> str:
 
 
 def test_microstrip_sample_shows_its_impedance(qtbot):
-    from app.line_figures_view import LineFiguresView
+    from app.panels.line_figures_view import LineFiguresView
 
     model = solver.load_project(SAMPLE)
     view = LineFiguresView()
@@ -89,7 +89,7 @@ def test_microstrip_sample_shows_its_impedance(qtbot):
 
 
 def test_stale_figures_are_marked_and_greyed(qtbot):
-    from app.line_figures_view import STALE_TEXT, LineFiguresView
+    from app.panels.line_figures_view import STALE_TEXT, LineFiguresView
 
     view = LineFiguresView()
     qtbot.addWidget(view)
@@ -103,7 +103,7 @@ def test_stale_figures_are_marked_and_greyed(qtbot):
 
 
 def test_no_return_path_says_so_plainly(qtbot):
-    from app.line_figures_view import NO_RETURN_PATH, LineFiguresView
+    from app.panels.line_figures_view import NO_RETURN_PATH, LineFiguresView
 
     floating = Model(unit="mm", mesh_density="coarse", conductors=(
         Conductor("a", (Rectangle((-2.0, 0.0), 1.0, 1.0),), potential_V=1.0),
@@ -117,7 +117,7 @@ def test_no_return_path_says_so_plainly(qtbot):
 
 
 def test_pair_shows_even_odd_modes_and_coupling(qtbot):
-    from app.line_figures_view import LineFiguresView
+    from app.panels.line_figures_view import LineFiguresView
 
     pair = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
         Conductor("p", (Rectangle((-1.0, 1.0), 1.0, 0.1),), potential_V=1.0),
@@ -135,7 +135,7 @@ def test_pair_shows_even_odd_modes_and_coupling(qtbot):
 
 
 def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):
-    from app import files
+    from app.files import project_files as files
     from app_helpers import wait_for_solve
 
     assert window.commands.open(files.SAMPLES_DIR / "microstrip_on_substrate.json")
@@ -148,7 +148,7 @@ def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):
 
 
 def test_a_new_solve_replaces_figures_still_being_computed(qtbot):
-    from app.line_figures_view import LineFiguresView
+    from app.panels.line_figures_view import LineFiguresView
 
     pair = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
         Conductor("p", (Rectangle((-1.0, 1.0), 1.0, 0.1),), potential_V=1.0),

@@ -43,7 +43,7 @@ def _offences(path: pathlib.Path) -> list[str]:
 
 
 def test_app_defines_no_physics_thresholds_or_permittivity_logic():
-    offences = [o for path in sorted(APP.glob("*.py")) for o in _offences(path)]
+    offences = [o for path in sorted(APP.rglob("*.py")) for o in _offences(path)]
     assert offences == []
 
 

@@ -15,7 +15,7 @@ from app_helpers import wait_for_solve
 from test_line_figures_view import wait_until
 
 import solver
-from app.report import report_html
+from app.files.report import report_html
 from solver import (
     HIGH_VOLTAGE_CAUTION,
     AirConditions,

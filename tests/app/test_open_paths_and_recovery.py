@@ -13,7 +13,9 @@ import pytest
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QMessageBox
 
-from app import edits, files
+from app import edits
+
+from app.files import project_files as files
 from solver import Circle, Conductor, Model
 
 COAX = files.SAMPLES_DIR / "coaxial_feeder.json"

@@ -8,7 +8,7 @@ import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import QMessageBox
 
-from app import files
+from app.files import project_files as files
 from solver import EPSILON_0_F_PER_M
 
 COAX = files.SAMPLES_DIR / "coaxial_feeder.json"

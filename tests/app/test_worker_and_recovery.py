@@ -3,7 +3,9 @@
 
 from PySide6.QtWidgets import QMessageBox
 
-from app import edits, files
+from app import edits
+
+from app.files import project_files as files
 from solver import Circle, Conductor, Model, Ring
 
 COAX = Model(unit="mm", mesh_density="coarse", conductors=(
@@ -13,7 +15,7 @@ COAX = Model(unit="mm", mesh_density="coarse", conductors=(
 
 
 def test_worker_reports_progress_and_a_result(qtbot):
-    from app.worker import SolveRunner
+    from app.jobs.worker import SolveRunner
 
     runner = SolveRunner(grid_points=12, n_field_lines=4)
     fractions = []
@@ -26,7 +28,7 @@ def test_worker_reports_progress_and_a_result(qtbot):
 
 
 def test_worker_can_be_cancelled(qtbot):
-    from app.worker import SolveRunner
+    from app.jobs.worker import SolveRunner
 
     runner = SolveRunner(grid_points=12, n_field_lines=4)
     with qtbot.waitSignal(runner.solve_cancelled, timeout=30000):

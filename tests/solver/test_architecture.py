@@ -23,7 +23,7 @@ def _imported_modules(path: pathlib.Path) -> set[str]:
 def test_solver_imports_only_stdlib_numpy_scipy_shapely():
     stdlib = set(sys.stdlib_module_names)
     offenders = {}
-    for path in sorted(SOLVER.glob("*.py")):
+    for path in sorted(SOLVER.rglob("*.py")):
         bad = {m for m in _imported_modules(path) if m not in stdlib and m not in ALLOWED_TOP_LEVEL}
         if bad:
             offenders[path.name] = sorted(bad)

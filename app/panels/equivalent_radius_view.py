@@ -12,7 +12,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QListWidget, QListWidgetItem,
 
 import solver
 
-from .figure_jobs import FigureJobRunner, JobProgress
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 
 
 def default_group(model) -> list[str]:

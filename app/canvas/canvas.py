@@ -1,7 +1,7 @@
 """The drawing area: the cross-section in model units, with grid, rulers, tools and overlays.
 
 The canvas redraws the parts from the document on ``model_changed`` and shows the selection
-on ``selection_changed``. Mouse gestures go to the current tool (see :mod:`app.tools`); the
+on ``selection_changed``. Mouse gestures go to the current tool (see :mod:`app.canvas.tools`); the
 middle or right button, the wheel and dragging empty space with the pick tool pan and zoom.
 """
 
@@ -16,11 +16,11 @@ from shapely.geometry import Point
 
 from solver import DRAWING_ARC_STEP_RAD
 
-from .document import PartRef
-from .drawing import cosmetic_pen, dielectric_item, shape_item
-from .error_marks import ErrorMarks
-from .overlays import Overlays
-from .tools import TOOLS, PickTool
+from app.document import PartRef
+from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item
+from app.canvas.error_marks import ErrorMarks
+from app.canvas.overlays import Overlays
+from app.canvas.tools import TOOLS, PickTool
 
 pg.setConfigOptions(imageAxisOrder="row-major", antialias=True)
 
@@ -85,7 +85,7 @@ class Canvas(pg.PlotWidget):
         self.plotItem.setLabel("left", f"y ({unit})")
 
     def fit_view(self) -> None:
-        from .results import view_box
+        from app.jobs.results import view_box
 
         x0, y0, x1, y1 = view_box(self.document.model, 0.2)
         self.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
@@ -159,7 +159,7 @@ class Canvas(pg.PlotWidget):
         if ref is None or ref.kind == "plane":
             self._handles.setData([], [])
             return
-        from .edits import shape_of
+        from app.edits import shape_of
 
         pts = np.asarray(shape_of(self.document.model, ref).handles())
         self._handles.setData(pts[:, 0], pts[:, 1])
@@ -205,7 +205,7 @@ class Canvas(pg.PlotWidget):
         ref = self.document.selection
         if ref is None or ref.kind == "plane":
             return None
-        from .edits import shape_of
+        from app.edits import shape_of
 
         pts = np.asarray(shape_of(self.document.model, ref).handles())
         d = np.hypot(pts[:, 0] - raw[0], pts[:, 1] - raw[1])
@@ -312,7 +312,7 @@ class Canvas(pg.PlotWidget):
         steps = {Qt.Key_Left: (-1, 0), Qt.Key_Right: (1, 0), Qt.Key_Up: (0, 1), Qt.Key_Down: (0, -1)}
         ref = self.document.selection
         if event.key() in steps and ref is not None:
-            from .edits import move_part
+            from app.edits import move_part
 
             s = self.snap_step() * (0.1 if event.modifiers() & Qt.ShiftModifier else 1.0)
             dx, dy = steps[event.key()]

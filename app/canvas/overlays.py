@@ -12,7 +12,7 @@ import pyqtgraph as pg
 from PySide6.QtCore import QPointF, QRectF
 from scipy import ndimage
 
-from .units import format_field, format_potential, si_scale
+from app.units import format_field, format_potential, si_scale
 
 #: Our own colour scales.
 POTENTIAL_MAP = pg.ColorMap([0.0, 0.5, 1.0], [(38, 84, 150), (240, 240, 232), (168, 50, 38)])

@@ -7,7 +7,7 @@ import textwrap
 import pyqtgraph as pg
 from PySide6.QtCore import QPointF, Qt
 
-from .drawing import cosmetic_pen, shape_item
+from app.canvas.drawing import cosmetic_pen, shape_item
 
 
 class ErrorMarks:

@@ -10,7 +10,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QLabel, QPushButt
 
 from solver import NoReferenceError
 
-from .units import format_field, format_si
+from app.units import format_field, format_si
 
 PF = 1e-12
 

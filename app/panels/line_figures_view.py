@@ -16,8 +16,8 @@ from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
 import solver
 
-from .figure_jobs import FigureJobRunner, JobProgress
-from .matrices_view import CopyableTable
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress
+from app.panels.matrices_view import CopyableTable
 
 QUASI_TEM_NOTE = ("Quasi-TEM figures: they hold while the cross-section is small against the wavelength; "
                   "skin effect, conductor and dielectric loss and dispersion are not modelled.")

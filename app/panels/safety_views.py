@@ -12,9 +12,11 @@ from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidg
 
 import solver
 
-from . import cautions, edits
-from .air_conditions_box import AirConditionsBox
-from .units import format_si
+from app import cautions
+
+from app import edits
+from app.panels.air_conditions_box import AirConditionsBox
+from app.units import format_si
 
 PART_LENGTH_KEY = "part_length"
 

@@ -11,9 +11,9 @@ from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDoc
 
 import solver
 
-from . import cautions
-from .safety_views import PART_LENGTH_KEY, caution_for
-from .units import format_field, format_si
+from app import cautions
+from app.panels.safety_views import PART_LENGTH_KEY, caution_for
+from app.units import format_field, format_si
 
 PF = 1e-12
 

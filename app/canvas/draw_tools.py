@@ -9,9 +9,9 @@ from PySide6.QtCore import Qt
 
 from solver import Circle, Polygon, Rectangle, Ring, Strip
 
-from . import edits
-from .document import PartRef
-from .tool_base import XY, Tool
+from app import edits
+from app.document import PartRef
+from app.canvas.tool_base import XY, Tool
 
 
 class _DragTool(Tool):

@@ -11,7 +11,7 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
-from .units import si_scale
+from app.units import si_scale
 
 
 def _plot(parent=None) -> pg.PlotWidget:

@@ -15,7 +15,7 @@ from PySide6.QtCore import QObject, QThread, Signal
 
 from solver import Model, SolveCancelled, SolverError
 
-from .results import compute_results
+from app.jobs.results import compute_results
 
 logger = logging.getLogger(__name__)
 

@@ -5,7 +5,7 @@ emits exactly one of ``result_ready(result)`` or ``job_failed(message)`` on the 
 the latest job it started. Solver calls that take ``progress`` and ``cancel`` hooks (hot spots,
 corner-radius sweep, equivalent radius, line figures) are started with
 :meth:`FigureJobRunner.start_with_progress`: they report ``progress_changed(fraction, message)``
-and stop soon after :meth:`FigureJobRunner.cancel` (like the main solve, :mod:`app.worker`).
+and stop soon after :meth:`FigureJobRunner.cancel` (like the main solve, :mod:`app.jobs.worker`).
 A cancelled job's outcome is never shown; a job started meanwhile waits for the cancelled
 thread to end, so one runner never has two threads computing at once. Errors are passed on as
 text (the solver's own message, or the type and text of an unexpected failure), never

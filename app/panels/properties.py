@@ -14,7 +14,7 @@ from PySide6.QtWidgets import (QColorDialog, QComboBox, QFormLayout, QGroupBox, 
 
 from solver import LENGTH_UNITS, MESH_DENSITIES, Shape, SolverError, material, material_names
 
-from . import edits
+from app import edits
 
 ROLE_LABELS = {"fixed": "fixed potential", "floating": "floating (net charge)", "reference": "reference (0 V)"}
 

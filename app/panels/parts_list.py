@@ -8,7 +8,7 @@ from __future__ import annotations
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import QTreeWidget, QTreeWidgetItem
 
-from .document import PartRef
+from app.document import PartRef
 
 ROLE_TEXT = {"fixed": "{v:g} V", "floating": "floating, {q:g} C/m", "reference": "reference, 0 V"}
 

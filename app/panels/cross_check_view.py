@@ -15,8 +15,8 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWi
 
 import solver
 
-from .figure_jobs import FigureJobRunner
-from .matrices_view import CopyableTable
+from app.jobs.figure_jobs import FigureJobRunner
+from app.panels.matrices_view import CopyableTable
 
 STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
 COLUMNS = ["solver radius", "Fekete limit", "Fekete diff (%)", "Chebyshev limit", "Chebyshev diff (%)",

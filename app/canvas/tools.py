@@ -1,5 +1,5 @@
 """Mouse tools of the drawing area: the pick-and-move tool here, the drawing tools in
-:mod:`app.draw_tools`, and :data:`TOOLS`, the list the canvas and the menus use.
+:mod:`app.canvas.draw_tools`, and :data:`TOOLS`, the list the canvas and the menus use.
 
 A tool receives positions in model units (already snapped where that makes sense) from the
 :class:`app.canvas.Canvas` and turns finished gestures into one edit of the document.
@@ -7,9 +7,9 @@ A tool receives positions in model units (already snapped where that makes sense
 
 from __future__ import annotations
 
-from . import edits
-from .document import PartRef
-from .draw_tools import (
+from app import edits
+from app.document import PartRef
+from app.canvas.draw_tools import (
     CircleTool,
     DielectricTool,
     GroundPlaneTool,
@@ -19,7 +19,7 @@ from .draw_tools import (
     StripTool,
     TubeTool,
 )
-from .tool_base import XY, Tool
+from app.canvas.tool_base import XY, Tool
 
 
 class PickTool(Tool):

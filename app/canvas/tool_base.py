@@ -1,10 +1,10 @@
-"""Base of the mouse tools of the drawing area (see :mod:`app.tools`)."""
+"""Base of the mouse tools of the drawing area (see :mod:`app.canvas.tools`)."""
 
 from __future__ import annotations
 
 from solver import SolverError
 
-from . import edits
+from app import edits
 
 XY = tuple[float, float]
 

@@ -19,8 +19,8 @@ from PySide6.QtWidgets import (QComboBox, QFileDialog, QHBoxLayout, QLabel, QLin
 import solver
 
 
-from .figure_jobs import FigureJobRunner, JobProgress
-from .matrices_view import CopyableTable
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress
+from app.panels.matrices_view import CopyableTable
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
 DEFAULT_RADIUS_FRACTIONS = (0.02, 0.05, 0.1, 0.2, 0.35)

@@ -1,0 +1,1 @@
+"""Background work: the solve worker, figure jobs with progress and cancel, computed results."""

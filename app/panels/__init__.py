@@ -1,0 +1,1 @@
+"""Side panels and result views: properties, parts list, matrices, plots, hot spots, line figures."""
