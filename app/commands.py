@@ -12,17 +12,14 @@ from PySide6.QtCore import Qt
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import QFileDialog, QMessageBox, QToolBar
 
-from solver import Model, SolverError
-
 from app import edits
-
-from app.files import exports
-
-from app.files import project_files as files
-from app.document import PartRef
-from app.messages import show_message
-from app.files.report import write_report_pdf
 from app.canvas.tools import TOOLS
+from app.document import PartRef
+from app.files import exports
+from app.files import project_files as files
+from app.files.report import write_report_pdf
+from app.messages import show_message
+from solver import Model, SolverError
 
 TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "tube": "U", "polygon": "P", "strip": "T",
              "ground plane": "G", "dielectric": "I", "probe line": "L"}

@@ -16,9 +16,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from solver import Model
-
 from app.events import Events
+from solver import Model
 
 
 @dataclass(frozen=True)

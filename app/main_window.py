@@ -14,26 +14,34 @@ from pathlib import Path
 
 import numpy as np
 from PySide6.QtCore import Qt, QTimer
-from PySide6.QtWidgets import (QCheckBox, QComboBox, QDockWidget, QLabel, QMainWindow, QProgressBar,
-                               QPushButton, QToolBar, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (
+    QCheckBox,
+    QComboBox,
+    QDockWidget,
+    QLabel,
+    QMainWindow,
+    QProgressBar,
+    QPushButton,
+    QToolBar,
+    QVBoxLayout,
+    QWidget,
+)
 
 import solver
-from solver import Model, SolverError
-
 from app import cautions
-
-from app.files import project_files as files
 from app.canvas.canvas import Canvas
+from app.canvas.overlays import SHADINGS
 from app.commands import Commands
 from app.document import Document
+from app.files import project_files as files
+from app.jobs.worker import SolveRunner
 from app.messages import show_message
-from app.canvas.overlays import SHADINGS
 from app.panels.parts_list import PartsList
 from app.panels.properties import PropertiesPanel
 from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.units import format_field, format_potential
-from app.jobs.worker import SolveRunner
+from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
 

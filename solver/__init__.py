@@ -12,8 +12,16 @@ Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, 
 """
 
 from solver.bem.capacitance import maxwell_matrix_problems, mutual_from_maxwell
+from solver.bem.solution import PeakField, RegionPeakField, Solution
+from solver.bem.solve import solve, solve_mesh
 from solver.constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
-from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
+from solver.cross_check import (
+    CrossCheck,
+    check_each_equivalent_radius,
+    check_equivalent_radius,
+    green_function,
+    robin_constant,
+)
 from solver.errors import (
     InvalidGeometryError,
     InvalidModelError,
@@ -21,6 +29,55 @@ from solver.errors import (
     ProjectFileError,
     SolveCancelled,
     SolverError,
+)
+from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
+from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
+from solver.figures.equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
+from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
+from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
+from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
+from solver.hot_spots.air_region import AirRegionPeak
+from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from solver.hot_spots.margins import (
+    HIGH_VOLTAGE_CAUTION,
+    THIN_MARGIN,
+    AirConditions,
+    ConductorMargin,
+    MarginReport,
+    air_breakdown_field_V_per_m,
+    air_conditions_of,
+    assess_margins,
+    peek_corona_onset_field_V_per_m,
+    pressure_at_altitude_Pa,
+    relative_air_density,
+    relative_air_density_at_altitude,
+    with_air_conditions,
+)
+from solver.hot_spots.verdict import (
+    LOW_VOLTAGE_THRESHOLD_V,
+    CautionVerdict,
+    PeakVerdict,
+    judge_peak,
+    judge_solution,
+    largest_potential_difference_V,
+    solution_potential_difference_V,
+    summarise_verdicts,
+)
+from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
+from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
+from solver.model.materials import (
+    MATERIALS,
+    Material,
+    Medium,
+    background_is_air,
+    dielectric_of,
+    is_air_material,
+    material,
+    material_names,
+    region_is_air,
 )
 from solver.model.model import (
     LENGTH_UNITS,
@@ -38,57 +95,6 @@ from solver.model.model import (
     Strip,
 )
 from solver.model.shapes import DRAWING_ARC_STEP_RAD, SHAPE_KINDS, Arc, MeshingHints
-from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
-from solver.bem.solution import PeakField, RegionPeakField, Solution
-from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
-from solver.figures.equilibrium import EquilibriumCharge, equilibrium_charge, equivalent_radius_m
-from solver.bem.solve import solve, solve_mesh
-from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
-from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
-from solver.hot_spots.air_region import AirRegionPeak
-from solver.hot_spots.margins import (
-    HIGH_VOLTAGE_CAUTION,
-    THIN_MARGIN,
-    AirConditions,
-    ConductorMargin,
-    MarginReport,
-    air_breakdown_field_V_per_m,
-    air_conditions_of,
-    assess_margins,
-    with_air_conditions,
-    peek_corona_onset_field_V_per_m,
-    pressure_at_altitude_Pa,
-    relative_air_density,
-    relative_air_density_at_altitude,
-)
-from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
-from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
-from solver.hot_spots.verdict import (
-    LOW_VOLTAGE_THRESHOLD_V,
-    CautionVerdict,
-    PeakVerdict,
-    judge_peak,
-    judge_solution,
-    largest_potential_difference_V,
-    solution_potential_difference_V,
-    summarise_verdicts,
-)
-from solver.model.materials import (
-    MATERIALS,
-    Material,
-    Medium,
-    background_is_air,
-    dielectric_of,
-    is_air_material,
-    material,
-    material_names,
-    region_is_air,
-)
-from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
-from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
-from solver.cross_check import CrossCheck, check_each_equivalent_radius, check_equivalent_radius, green_function, robin_constant
 from solver.samples import sample_names, sample_path, samples_dir
 
 __all__ = [

@@ -14,13 +14,12 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
 from shapely.geometry import Point
 
-from solver import DRAWING_ARC_STEP_RAD
-
-from app.document import PartRef
 from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item
 from app.canvas.error_marks import ErrorMarks
 from app.canvas.overlays import Overlays
 from app.canvas.tools import TOOLS, PickTool
+from app.document import PartRef
+from solver import DRAWING_ARC_STEP_RAD
 
 pg.setConfigOptions(imageAxisOrder="row-major", antialias=True)
 

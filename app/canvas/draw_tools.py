@@ -7,11 +7,10 @@ import math
 
 from PySide6.QtCore import Qt
 
-from solver import Circle, Polygon, Rectangle, Ring, Strip
-
 from app import edits
-from app.document import PartRef
 from app.canvas.tool_base import XY, Tool
+from app.document import PartRef
+from solver import Circle, Polygon, Rectangle, Ring, Strip
 
 
 class _DragTool(Tool):

@@ -2,9 +2,8 @@
 
 from __future__ import annotations
 
-from solver import SolverError
-
 from app import edits
+from solver import SolverError
 
 XY = tuple[float, float]
 

@@ -8,7 +8,6 @@ A tool receives positions in model units (already snapped where that makes sense
 from __future__ import annotations
 
 from app import edits
-from app.document import PartRef
 from app.canvas.draw_tools import (
     CircleTool,
     DielectricTool,
@@ -20,6 +19,7 @@ from app.canvas.draw_tools import (
     TubeTool,
 )
 from app.canvas.tool_base import XY, Tool
+from app.document import PartRef
 
 
 class PickTool(Tool):

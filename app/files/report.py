@@ -10,7 +10,6 @@ from PySide6.QtCore import QMarginsF, QUrl
 from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
 
 import solver
-
 from app import cautions
 from app.panels.safety_views import PART_LENGTH_KEY, caution_for
 from app.units import format_field, format_si

@@ -17,7 +17,7 @@ from __future__ import annotations
 import atexit
 import logging
 import threading
-from typing import Callable
+from collections.abc import Callable
 
 from PySide6.QtCore import QObject, QThread, Signal
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QPushButton, QWidget

@@ -7,14 +7,13 @@ grid around the model, the field lines and each conductor's equivalent radius.
 from __future__ import annotations
 
 import logging
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Callable
 
 import numpy as np
 
 import solver
 from solver import GridField, Model, Solution, SolveCancelled
-
 
 logger = logging.getLogger(__name__)
 

@@ -13,9 +13,8 @@ import threading
 
 from PySide6.QtCore import QObject, QThread, Signal
 
-from solver import Model, SolveCancelled, SolverError
-
 from app.jobs.results import compute_results
+from solver import Model, SolveCancelled, SolverError
 
 logger = logging.getLogger(__name__)
 

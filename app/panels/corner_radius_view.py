@@ -13,12 +13,9 @@ import math
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtWidgets import (QComboBox, QFileDialog, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout,
-                               QWidget)
+from PySide6.QtWidgets import QComboBox, QFileDialog, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
-
-
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
 

@@ -14,7 +14,6 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 import solver
-
 from app.jobs.figure_jobs import FigureJobRunner
 from app.panels.matrices_view import CopyableTable
 

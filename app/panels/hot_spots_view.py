@@ -21,14 +21,13 @@ from PySide6.QtGui import QColor
 from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
-from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
-
 from app import cautions
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
-from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
+from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
 
 #: The standing part of the caution (no clearances; codes and qualified practice prevail).
 STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION[HIGH_VOLTAGE_CAUTION.index("This program does not determine"):]

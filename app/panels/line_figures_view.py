@@ -15,7 +15,6 @@ import numpy as np
 from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
 import solver
-
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
 

@@ -5,12 +5,19 @@ from __future__ import annotations
 import numpy as np
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QGuiApplication, QKeySequence, QShortcut
-from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QLabel, QPushButton, QTableWidget,
-                               QTableWidgetItem, QVBoxLayout, QWidget)
-
-from solver import NoReferenceError
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QHBoxLayout,
+    QLabel,
+    QPushButton,
+    QTableWidget,
+    QTableWidgetItem,
+    QVBoxLayout,
+    QWidget,
+)
 
 from app.units import format_field, format_si
+from solver import NoReferenceError
 
 PF = 1e-12
 
@@ -111,7 +118,7 @@ class MatricesView(QWidget):
             self.maxwell.fill([], [], [])
             self.mutual.fill([], [], [])
             try:
-                sol.capacitance_maxwell_F_per_m
+                _ = sol.capacitance_maxwell_F_per_m  # raises NoReferenceError without a return path
                 reason = "No capacitance matrix."
             except NoReferenceError as exc:
                 reason = str(exc)

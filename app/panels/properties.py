@@ -9,12 +9,20 @@ from __future__ import annotations
 
 from PySide6.QtCore import Signal
 from PySide6.QtGui import QColor
-from PySide6.QtWidgets import (QColorDialog, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit,
-                               QPushButton, QVBoxLayout, QWidget)
-
-from solver import LENGTH_UNITS, MESH_DENSITIES, Shape, SolverError, material, material_names
+from PySide6.QtWidgets import (
+    QColorDialog,
+    QComboBox,
+    QFormLayout,
+    QGroupBox,
+    QLabel,
+    QLineEdit,
+    QPushButton,
+    QVBoxLayout,
+    QWidget,
+)
 
 from app import edits
+from solver import LENGTH_UNITS, MESH_DENSITIES, Shape, SolverError, material, material_names
 
 ROLE_LABELS = {"fixed": "fixed potential", "floating": "floating (net charge)", "reference": "reference (0 V)"}
 

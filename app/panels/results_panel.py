@@ -9,12 +9,12 @@ from __future__ import annotations
 
 from PySide6.QtWidgets import QScrollArea, QTabWidget
 
+from app.panels.cross_check_view import CrossCheckView
+from app.panels.hot_spots_view import HotSpotsView
+from app.panels.line_figures_view import LineFiguresView
 from app.panels.matrices_view import MatricesView
 from app.panels.plots import BoundaryPlot, ProbePlot
 from app.panels.safety_views import CaveatsView, HighVoltageView
-from app.panels.line_figures_view import LineFiguresView
-from app.panels.hot_spots_view import HotSpotsView
-from app.panels.cross_check_view import CrossCheckView
 
 
 class ResultsPanel(QTabWidget):

@@ -11,10 +11,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidget
 
 import solver
-
-from app import cautions
-
-from app import edits
+from app import cautions, edits
 from app.panels.air_conditions_box import AirConditionsBox
 from app.units import format_si
 

@@ -84,7 +84,7 @@ def conductor_peaks(model: Model, mesh: PanelMesh, surface_field_V_per_m: np.nda
 
 
 def region_peaks(
-    solution: "Solution", e_plus: np.ndarray, e_minus: np.ndarray, f_plus: np.ndarray, f_minus: np.ndarray
+    solution: Solution, e_plus: np.ndarray, e_minus: np.ndarray, f_plus: np.ndarray, f_minus: np.ndarray
 ) -> tuple[RegionPeakField, ...]:
     """Largest field per region from the field magnitudes on both sides of conductor panels
     (``e_plus``, ``e_minus``) and of interface panels (``f_plus``, ``f_minus``), V/m."""

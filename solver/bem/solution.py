@@ -20,8 +20,8 @@ import numpy as np
 from solver.bem.assembly import mirrored, single_layer_potential_matrix
 from solver.bem.capacitance import mutual_from_maxwell
 from solver.bem.fast_operator import potential_and_gradient_sums
-from solver.bem.superposition import UnitSolutions
 from solver.bem.peaks import PeakField, RegionPeakField, conductor_peaks, region_peaks
+from solver.bem.superposition import UnitSolutions
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import NoReferenceError
 from solver.mesh.interfaces import InterfaceMesh
@@ -199,7 +199,7 @@ class Solution:
     # ---- operating point -----------------------------------------------------------------
     def with_potentials(
         self, potentials_V: dict[str, float], charges_C_per_m: dict[str, float] | None = None
-    ) -> "Solution":
+    ) -> Solution:
         """The solution at other conductor potentials (and floating charges), without a solve.
 
         The operating point is superposed from the stored unit solutions (see

@@ -10,10 +10,10 @@ solve on a given conductor mesh.
 
 from __future__ import annotations
 
+import dataclasses
 import logging
 import math
-import dataclasses
-from typing import Callable
+from collections.abc import Callable
 
 import numpy as np
 import scipy.linalg
@@ -21,9 +21,9 @@ import scipy.linalg
 from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for
 from solver.bem.fast_solve import solve_if_large
+from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
 from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
-from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary

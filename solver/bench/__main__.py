@@ -11,16 +11,16 @@ from __future__ import annotations
 import argparse
 import math
 import time
-from typing import Callable
+from collections.abc import Callable
 
 import numpy as np
 from scipy.special import ellipk
 
-from solver.constants import EPSILON_0_F_PER_M
-from solver.model.model import Circle, Conductor, Model, Rectangle, Ring, Strip
-from solver.mesh.panels import MeshSettings, discretize_boundary
 from solver.bem.solve import solve_system
 from solver.bem.system import build_system
+from solver.constants import EPSILON_0_F_PER_M
+from solver.mesh.panels import MeshSettings, discretize_boundary
+from solver.model.model import Circle, Conductor, Model, Rectangle, Ring, Strip
 
 BenchCase = tuple[str, Model, float | None]
 

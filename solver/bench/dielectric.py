@@ -13,13 +13,12 @@ from __future__ import annotations
 import math
 import time
 
-
-from solver.constants import EPSILON_0_F_PER_M
-from solver.model.model import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
-from solver.mesh.panels import MeshSettings, discretize_boundary
 from solver.bem.solve import solve_system
 from solver.bem.system import build_system
+from solver.constants import EPSILON_0_F_PER_M
 from solver.figures.transmission_line import transmission_line_figures
+from solver.mesh.panels import MeshSettings, discretize_boundary
+from solver.model.model import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle, Ring, Strip
 
 
 def _microstrip() -> tuple[str, Model, float | None]:

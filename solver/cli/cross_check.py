@@ -12,7 +12,6 @@ and :func:`cross_check_json` render them.
 from __future__ import annotations
 
 import argparse
-
 from collections.abc import Sequence
 
 from solver.cross_check.report import (
@@ -25,7 +24,7 @@ def _point_counts(text: str) -> tuple[int, ...]:
     try:
         counts = tuple(sorted({int(v) for v in text.split(",") if v.strip()}))
     except ValueError:
-        raise argparse.ArgumentTypeError(f"numbers of points must be whole numbers separated by commas, got {text!r}")
+        raise argparse.ArgumentTypeError(f"numbers of points must be whole numbers separated by commas, got {text!r}") from None
     if len(counts) < 3 or counts[0] < 3:
         raise argparse.ArgumentTypeError(f"give at least three different numbers of points, each 3 or more, got {text!r}")
     return counts

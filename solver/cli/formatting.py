@@ -17,9 +17,8 @@ def format_engineering(value: float, unit: str, digits: int = 3) -> str:
         return f"{value} {unit}"
     if value == 0:
         return f"0 {unit}"
-    for factor, prefix in _PREFIXES:
-        if abs(value) >= factor * (1 - 0.5 * 10.0 ** (1 - digits)):
-            break
+    factor, prefix = next(((f, p) for f, p in _PREFIXES if abs(value) >= f * (1 - 0.5 * 10.0 ** (1 - digits))),
+                          _PREFIXES[-1])
     return f"{value / factor:.{digits}g} {prefix}{unit}"
 
 

@@ -15,8 +15,8 @@ from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
 from solver.cli.hot_spots import HotSpotFigures, hot_spot_figures
 from solver.cli.line_figures import figures_for_solution
 from solver.cli.options import ReportOptions
-from solver.figures.equilibrium import equivalent_radius_m
 from solver.cross_check.report import CrossCheck, check_each_equivalent_radius
+from solver.figures.equilibrium import equivalent_radius_m
 from solver.figures.transmission_line import TransmissionLineFigures
 
 NO_RETURN_PATH = (

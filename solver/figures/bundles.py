@@ -22,9 +22,9 @@ import numpy as np
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
 from solver.errors import InvalidModelError
-from solver.model.model import Model
 from solver.figures.equilibrium import equivalent_radius_m
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings
+from solver.model.model import Model
 
 
 def bundle_equivalent_radius_formula_m(n_subconductors: int, subconductor_radius_m: float, bundle_radius_m: float) -> float:

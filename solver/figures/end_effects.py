@@ -21,9 +21,9 @@ import math
 from dataclasses import dataclass
 
 from solver.errors import InvalidModelError
+from solver.mesh.panels import MeshSettings
 from solver.model.geometry import conductor_geometries
 from solver.model.model import Model
-from solver.mesh.panels import MeshSettings
 
 #: Length-to-size ratio above which end effects count as small (common practice).
 LONG_ENOUGH_RATIO = 10.0

@@ -19,8 +19,8 @@ from dataclasses import replace
 
 import numpy as np
 
-from solver.model.model import Model
 from solver.mesh.panels import MeshSettings
+from solver.model.model import Model
 
 #: Width, relative to the span of the signal and floating conductors, from which a
 #: rectangular dielectric region is treated as a truncated layer.

@@ -14,11 +14,11 @@ place that says whether a peak sits in air.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
-from solver.hot_spots.peak_diagnostics import richardson_estimate
 from solver.bem.solution import Solution
+from solver.hot_spots.peak_diagnostics import richardson_estimate
 from solver.model.materials import BACKGROUND, Medium, background_is_air, medium_of_region
 
 #: Name of the background region in dielectric solutions.

@@ -38,11 +38,10 @@ import numpy as np
 
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve_mesh
+from solver.errors import InvalidModelError
 from solver.hot_spots.air_region import AirRegionPeak, air_region_peak, medium_next_to
-from solver.model.materials import Medium
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.curvature import signed_radius_of_curvature_m
-from solver.errors import InvalidModelError
 from solver.hot_spots.peak_diagnostics import (
     GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
     corner_field_grows,
@@ -51,6 +50,7 @@ from solver.hot_spots.peak_diagnostics import (
     richardson_estimate,
 )
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, PanelMesh, discretize_boundary
+from solver.model.materials import Medium
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)

@@ -20,8 +20,8 @@ same angular step the mesher uses at the given resolution ``level`` so they refi
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import replace
-from typing import Iterable
 
 import shapely
 from shapely.geometry import MultiPolygon
@@ -29,8 +29,8 @@ from shapely.geometry import Polygon as ShapelyPolygon
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
-from solver.model.model import Conductor, Model, Polygon
 from solver.mesh.panels import MeshSettings, discretize_boundary
+from solver.model.model import Conductor, Model, Polygon
 
 
 def conductors_with_sharp_corners(model: Model) -> tuple[str, ...]:

@@ -32,8 +32,9 @@ file (:func:`air_conditions_of`, :func:`with_air_conditions`). Potentials must b
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
-from typing import TYPE_CHECKING, Any, Sequence
+from typing import TYPE_CHECKING, Any
 
 from solver.errors import InvalidModelError
 from solver.model.model import Model
@@ -161,14 +162,14 @@ class AirConditions:
             raise InvalidModelError(f"Peek form '{self.peek_form}' is not known; use one of {', '.join(PEEK_FORMS)}.")
 
     @classmethod
-    def at_altitude(cls, altitude_m: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
+    def at_altitude(cls, altitude_m: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> AirConditions:
         """Air at ``altitude_m`` (standard-atmosphere pressure) and ``temperature_K``."""
         delta = relative_air_density_at_altitude(altitude_m, temperature_K)
         text = f"altitude {altitude_m:g} m, {temperature_K - 273.15:g} degC (standard-atmosphere pressure)"
         return cls(delta, description=text, altitude_m=float(altitude_m), temperature_K=float(temperature_K), **kw)
 
     @classmethod
-    def at_pressure(cls, pressure_Pa: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> "AirConditions":
+    def at_pressure(cls, pressure_Pa: float, temperature_K: float = REFERENCE_TEMPERATURE_K, **kw) -> AirConditions:
         """Air at a measured pressure and temperature."""
         delta = relative_air_density(pressure_Pa, temperature_K)
         return cls(delta, description=f"{pressure_Pa / 1e3:g} kPa, {temperature_K - 273.15:g} degC",
@@ -194,7 +195,7 @@ class AirConditions:
         return out
 
     @classmethod
-    def from_settings(cls, settings: dict) -> "AirConditions":
+    def from_settings(cls, settings: dict) -> AirConditions:
         """Air conditions from their project-file form (the inverse of :meth:`as_settings`).
 
         Keys: ``altitude_m`` or ``pressure_kPa`` or ``relative_air_density`` (at most one),
@@ -301,7 +302,7 @@ class MarginReport:
     air_region_peak_field_V_per_m: float | None = None
     air_region_margin: float | None = None
     air_region_status: str | None = None
-    verdict: "CautionVerdict | None" = None
+    verdict: CautionVerdict | None = None
 
     @property
     def needs_caution(self) -> bool:

@@ -11,15 +11,15 @@
 from __future__ import annotations
 
 import math
-from typing import Sequence
+from collections.abc import Sequence
 
 import numpy as np
 import shapely
 
+from solver.bem.solution import Solution
+from solver.mesh.panels import MeshSettings
 from solver.model.geometry import conductor_geometries
 from solver.model.model import Model
-from solver.mesh.panels import MeshSettings
-from solver.bem.solution import Solution
 
 #: Name used for the ground plane as the "nearest conductor".
 GROUND_PLANE_NAME = "ground plane"

@@ -135,7 +135,9 @@ def _chain_edges(edges: list, tol: float, where: str) -> list[tuple[np.ndarray, 
                 else:
                     continue
                 remaining.pop(k)
-                verts.append(nxt[0]); bulges.append(nxt[2]); names.append(nxt[3])
+                verts.append(nxt[0])
+                bulges.append(nxt[2])
+                names.append(nxt[3])
                 end = nxt[1]
                 break
             else:

@@ -27,7 +27,6 @@ from pathlib import Path
 from typing import Any
 
 from solver.errors import ProjectFileError
-from solver.model.model import Conductor, Model, Shape
 from solver.io.project_reading import (
     AIR_CONDITIONS_KEY,
     PROJECT_FORMAT_NAME,
@@ -35,6 +34,8 @@ from solver.io.project_reading import (
     FieldProblem,
     read_model,
 )
+from solver.model.model import Conductor, Model, Shape
+
 
 # ---- writing ---------------------------------------------------------------------------------
 def _shape_to_dict(shape: Shape) -> dict:

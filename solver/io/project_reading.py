@@ -24,8 +24,8 @@ from solver.model.model import (
     Model,
     Shape,
 )
-from solver.model.shapes import SHAPE_KINDS
 from solver.model.outline_checks import LARGEST_LENGTH_M, SMALLEST_LENGTH_M
+from solver.model.shapes import SHAPE_KINDS
 
 #: Version of the project format written by this program (files up to it can be read).
 PROJECT_FORMAT_VERSION = 1

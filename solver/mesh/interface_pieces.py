@@ -18,6 +18,7 @@ from solver.mesh.panels import CORNER_TURN_RAD
 from solver.model.geometry import edge_arcs
 from solver.model.shapes import Arc
 
+
 @dataclass
 class Piece:
     """A straight edge or a circular arc run along one interface line."""

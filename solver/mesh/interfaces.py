@@ -27,11 +27,11 @@ from shapely.geometry import LineString, box
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
-from solver.model.geometry import shape_geometry
-from solver.model.model import Model
 from solver.mesh.budget import check_panel_budget, max_panels
 from solver.mesh.interface_pieces import Piece, piece_breaks, split_into_pieces
 from solver.mesh.panels import MeshSettings, PanelMesh
+from solver.model.geometry import shape_geometry
+from solver.model.model import Model
 from solver.model.outline_checks import check_extent
 
 #: Interface panels are this many times shorter than conductor panels in the same place: the
@@ -154,7 +154,7 @@ class InterfaceMesh:
         return (self.eps_r_plus - self.eps_r_minus) / (self.eps_r_plus + self.eps_r_minus)
 
     @classmethod
-    def empty(cls) -> "InterfaceMesh":
+    def empty(cls) -> InterfaceMesh:
         z2, z1 = np.zeros((0, 2)), np.zeros(0)
         zi = np.zeros(0, dtype=int)
         return cls(z2, z2, z2, z2, z1, z1, z1, zi, z1, zi, zi, z1)

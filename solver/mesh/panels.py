@@ -72,7 +72,7 @@ class MeshSettings:
         return 1.0 + 0.3 / self.level
 
     @classmethod
-    def for_density(cls, density: str) -> "MeshSettings":
+    def for_density(cls, density: str) -> MeshSettings:
         return cls(DENSITY_LEVELS[density])
 
 
@@ -175,7 +175,7 @@ class PanelMesh:
             out[mine] = d.min(axis=1)
         return out
 
-    def refined(self, factor: float = 2.0) -> "PanelMesh":
+    def refined(self, factor: float = 2.0) -> PanelMesh:
         """A mesh of the same model at ``factor`` times the resolution level."""
         if self.model is None:
             raise ValueError("This mesh was not built from a model and cannot be refined.")

@@ -198,7 +198,7 @@ class Model:
         return self.ground_plane is not None or any(c.role == "reference" for c in self.conductors)
 
     # ---- copies ----------------------------------------------------------------------------
-    def with_potentials(self, potentials_V: dict[str, float]) -> "Model":
+    def with_potentials(self, potentials_V: dict[str, float]) -> Model:
         """A copy with the named fixed conductors set to new potentials (volts)."""
         unknown = set(potentials_V) - set(self.conductor_names)
         if unknown:
@@ -211,33 +211,33 @@ class Model:
             ),
         )
 
-    def with_conductors(self, conductors: tuple[Conductor, ...]) -> "Model":
+    def with_conductors(self, conductors: tuple[Conductor, ...]) -> Model:
         """A copy with a new tuple of conductors."""
         return replace(self, conductors=tuple(conductors))
 
-    def with_mesh_density(self, density: str) -> "Model":
+    def with_mesh_density(self, density: str) -> Model:
         """A copy meshed at another density ("coarse", "normal" or "fine")."""
         return replace(self, mesh_density=density)
 
-    def with_unit(self, unit: str) -> "Model":
+    def with_unit(self, unit: str) -> Model:
         """A copy whose numbers are reinterpreted in ``unit`` (no conversion of the numbers)."""
         return replace(self, unit=unit)
 
-    def converted_to(self, unit: str) -> "Model":
+    def converted_to(self, unit: str) -> Model:
         """A copy of the same physical model expressed in another length unit."""
         if unit not in LENGTH_UNITS:
             raise InvalidModelError(f"Length unit '{unit}' is not known.")
         return self.scaled(LENGTH_UNITS[self.unit] / LENGTH_UNITS[unit]).with_unit(unit)
 
-    def scaled(self, factor: float) -> "Model":
+    def scaled(self, factor: float) -> Model:
         """A copy with every coordinate and length multiplied by ``factor``."""
         return self._mapped(lambda s: s.scaled(factor), lambda y: y * factor)
 
-    def translated(self, dx: float, dy: float) -> "Model":
+    def translated(self, dx: float, dy: float) -> Model:
         """A copy moved by (dx, dy) model units (the ground plane moves with it)."""
         return self._mapped(lambda s: s.translated(dx, dy), lambda y: y + dy)
 
-    def _mapped(self, shape_map, plane_y_map) -> "Model":
+    def _mapped(self, shape_map, plane_y_map) -> Model:
         plane = self.ground_plane
         if plane is not None:
             plane = GroundPlane(plane_y_map(plane.y))

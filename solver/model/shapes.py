@@ -38,7 +38,7 @@ Point = tuple[float, float]
 DRAWING_ARC_STEP_RAD = 2 * math.pi / 128
 
 #: Every shape kind by its ``kind`` name (filled in as the classes are defined).
-SHAPE_KINDS: dict[str, type["Shape"]] = {}
+SHAPE_KINDS: dict[str, type[Shape]] = {}
 
 
 @dataclass(frozen=True)
@@ -233,7 +233,7 @@ class Shape:
         shape._check_built(geom, scale, where)
         return geom
 
-    def cleaned(self, where: str) -> "Shape":
+    def cleaned(self, where: str) -> Shape:
         """This shape with repeated and collinear vertices dropped (see
         :mod:`solver.model.outline_checks`); curves and rectangles come back as they are.
 
@@ -273,11 +273,11 @@ class Shape:
         """(width, height, corner radius) when the shape is an axis-aligned rectangle, else None."""
         return None
 
-    def widened(self, factor: float) -> "Shape":
+    def widened(self, factor: float) -> Shape:
         """A copy ``factor`` times wider about its centre (only for :meth:`rectangle_size` shapes)."""
         raise InvalidModelError(f"A {self.kind} cannot be widened as a layer.")
 
-    def exactly_rounded(self, radius: float, replace_radius: bool = False) -> "Shape | None":
+    def exactly_rounded(self, radius: float, replace_radius: bool = False) -> Shape | None:
         """A copy with every convex corner rounded to ``radius`` (model units) where the kind
         can do it exactly, itself when it has no corner, or None (round it as geometry)."""
         return self if self.is_smooth else None
@@ -325,26 +325,26 @@ class Shape:
         """Draggable points of the shape, model units."""
         raise NotImplementedError
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Shape":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Shape:
         """A copy with handle ``index`` dragged to (x, y)."""
         raise NotImplementedError
 
-    def with_vertex_inserted(self, x: float, y: float) -> "Shape":
+    def with_vertex_inserted(self, x: float, y: float) -> Shape:
         """A copy with a vertex at (x, y) on the nearest edge (itself if it has no vertices)."""
         return self
 
-    def with_vertex_removed(self, index: int) -> "Shape":
+    def with_vertex_removed(self, index: int) -> Shape:
         """A copy without vertex ``index`` (itself when too few would be left)."""
         return self
 
-    def _mapped(self, f) -> "Shape":
+    def _mapped(self, f) -> Shape:
         raise NotImplementedError
 
-    def translated(self, dx: float, dy: float) -> "Shape":
+    def translated(self, dx: float, dy: float) -> Shape:
         """A copy moved by (dx, dy) model units."""
         return self._mapped(lambda p: (float(p[0] + dx), float(p[1] + dy)))
 
-    def scaled(self, factor: float) -> "Shape":
+    def scaled(self, factor: float) -> Shape:
         """A copy with every coordinate and length multiplied by ``factor`` (about the origin)."""
         return self._mapped(lambda p: (float(p[0] * factor), float(p[1] * factor)))
 
@@ -364,7 +364,7 @@ class Shape:
         raise NotImplementedError
 
     @classmethod
-    def from_dict(cls, data: dict, read: FieldReader | None = None) -> "Shape":
+    def from_dict(cls, data: dict, read: FieldReader | None = None) -> Shape:
         """The shape described by ``data`` (``kind`` selects the class), checked by ``read``."""
         kind = data.get("kind", cls.kind)
         target = SHAPE_KINDS.get(kind) if cls is Shape else cls
@@ -373,7 +373,7 @@ class Shape:
         return target._read(read or PlainFieldReader(data, f"The {kind}"))
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Shape":
+    def _read(cls, read: FieldReader) -> Shape:
         raise NotImplementedError
 
 @dataclass(frozen=True)
@@ -388,7 +388,7 @@ class Circle(Shape):
     is_smooth = True
 
     @classmethod
-    def from_centre_and_edge(cls, center: Point, edge: Point) -> "Circle":
+    def from_centre_and_edge(cls, center: Point, edge: Point) -> Circle:
         """The circle centred on ``center`` through ``edge``."""
         return cls(center, math.dist(center, edge))
 
@@ -413,10 +413,10 @@ class Circle(Shape):
     def handles(self) -> list[Point]:
         return [(self.center[0] + self.radius, self.center[1])]
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Circle":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Circle:
         return Circle(self.center, max(math.dist(self.center, (x, y)), 1e-9))
 
-    def _mapped(self, f) -> "Circle":
+    def _mapped(self, f) -> Circle:
         moved = f(self.center)
         origin = f((0.0, 0.0))
         return Circle(moved, self.radius * math.dist(origin, f((1.0, 0.0))))
@@ -431,7 +431,7 @@ class Circle(Shape):
         return {"kind": self.kind, "center": _pt(self.center), "radius": float(self.radius)}
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Circle":
+    def _read(cls, read: FieldReader) -> Circle:
         return cls(read.point("center"), read.number("radius", positive=True))
 
 
@@ -477,11 +477,11 @@ class Ring(Shape):
         cx, cy = self.center
         return [(cx + self.outer_radius, cy), (cx - self.inner_radius, cy)]
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Ring":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Ring:
         r = max(math.dist(self.center, (x, y)), 1e-9)
         return Ring(self.center, self.inner_radius, r) if index == 0 else Ring(self.center, r, self.outer_radius)
 
-    def _mapped(self, f) -> "Ring":
+    def _mapped(self, f) -> Ring:
         k = math.dist(f((0.0, 0.0)), f((1.0, 0.0)))
         return Ring(f(self.center), self.inner_radius * k, self.outer_radius * k)
 
@@ -497,7 +497,7 @@ class Ring(Shape):
                 "inner_radius": float(self.inner_radius), "outer_radius": float(self.outer_radius)}
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Ring":
+    def _read(cls, read: FieldReader) -> Ring:
         inner = read.number("inner_radius", positive=True)
         outer = read.number("outer_radius", positive=True)
         if not outer > inner:
@@ -523,7 +523,7 @@ class Rectangle(Shape):
     optional_fields = frozenset({"corner_radius"})
 
     @classmethod
-    def from_corners(cls, a: Point, b: Point) -> "Rectangle":
+    def from_corners(cls, a: Point, b: Point) -> Rectangle:
         """The rectangle spanned by two opposite corners."""
         return cls(((a[0] + b[0]) / 2, (a[1] + b[1]) / 2), abs(b[0] - a[0]), abs(b[1] - a[1]))
 
@@ -581,10 +581,10 @@ class Rectangle(Shape):
     def rectangle_size(self) -> tuple[float, float, float] | None:
         return self.width, self.height, self.corner_radius
 
-    def widened(self, factor: float) -> "Rectangle":
+    def widened(self, factor: float) -> Rectangle:
         return replace(self, width=self.width * factor)
 
-    def exactly_rounded(self, radius: float, replace_radius: bool = False) -> "Rectangle":
+    def exactly_rounded(self, radius: float, replace_radius: bool = False) -> Rectangle:
         """Corners rounded to ``radius`` (model units; at most half the smaller side); a larger
         radius already there is kept unless ``replace_radius``."""
         if radius > self._limit * (1 + 1e-12):
@@ -600,12 +600,12 @@ class Rectangle(Shape):
         hw, hh = self.width / 2, self.height / 2
         return [(cx - hw, cy - hh), (cx + hw, cy - hh), (cx + hw, cy + hh), (cx - hw, cy + hh)]
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Rectangle":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Rectangle:
         ox, oy = self.handles()[(index + 2) % 4]  # the opposite corner stays put
         w, h = abs(x - ox), abs(y - oy)
         return Rectangle(((x + ox) / 2, (y + oy) / 2), w, h, min(self.corner_radius, 0.5 * min(w, h)))
 
-    def _mapped(self, f) -> "Rectangle":
+    def _mapped(self, f) -> Rectangle:
         k = math.dist(f((0.0, 0.0)), f((1.0, 0.0)))
         return Rectangle(f(self.center), self.width * k, self.height * k, self.corner_radius * k)
 
@@ -639,7 +639,7 @@ class Rectangle(Shape):
                 "height": float(self.height), "corner_radius": float(self.corner_radius)}
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Rectangle":
+    def _read(cls, read: FieldReader) -> Rectangle:
         width = read.number("width", positive=True)
         height = read.number("height", positive=True)
         radius = read.number("corner_radius", minimum=0.0)
@@ -676,7 +676,7 @@ class Polygon(Shape):
     optional_fields = frozenset({"holes"})
     has_vertices = True
 
-    def cleaned(self, where: str) -> "Polygon":
+    def cleaned(self, where: str) -> Polygon:
         exterior = cleaned_ring(self.exterior, f"{where}, outline")
         holes = [cleaned_ring(h, f"{where}, hole {i + 1}") for i, h in enumerate(self.holes)]
         check_holes(exterior, holes, where)
@@ -710,20 +710,20 @@ class Polygon(Shape):
     def handles(self) -> list[Point]:
         return [(float(p[0]), float(p[1])) for p in self.exterior]
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Polygon":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Polygon:
         pts = list(self.exterior)
         pts[index] = (x, y)
         return Polygon(tuple(pts), self.holes)
 
-    def with_vertex_inserted(self, x: float, y: float) -> "Polygon":
+    def with_vertex_inserted(self, x: float, y: float) -> Polygon:
         return Polygon(tuple(_nearest_edge_insert(list(self.exterior), x, y, True)), self.holes)
 
-    def with_vertex_removed(self, index: int) -> "Polygon":
+    def with_vertex_removed(self, index: int) -> Polygon:
         if len(self.exterior) <= 3:
             return self
         return Polygon(self.exterior[:index] + self.exterior[index + 1:], self.holes)
 
-    def _mapped(self, f) -> "Polygon":
+    def _mapped(self, f) -> Polygon:
         return Polygon(tuple(map(f, self.exterior)), tuple(tuple(map(f, h)) for h in self.holes))
 
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
@@ -741,7 +741,7 @@ class Polygon(Shape):
         return out
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Polygon":
+    def _read(cls, read: FieldReader) -> Polygon:
         return cls(read.points("exterior", 3), read.point_lists("holes", 3))
 
 
@@ -756,7 +756,7 @@ class Strip(Shape):
     is_solid = False
     has_vertices = True
 
-    def cleaned(self, where: str) -> "Strip":
+    def cleaned(self, where: str) -> Strip:
         return replace(self, points=tuple(map(tuple, cleaned_polyline(self.points, where).tolist())))
 
     def check(self, where: str) -> None:
@@ -782,20 +782,20 @@ class Strip(Shape):
     def handles(self) -> list[Point]:
         return [(float(p[0]), float(p[1])) for p in self.points]
 
-    def with_handle_moved(self, index: int, x: float, y: float) -> "Strip":
+    def with_handle_moved(self, index: int, x: float, y: float) -> Strip:
         pts = list(self.points)
         pts[index] = (x, y)
         return Strip(tuple(pts))
 
-    def with_vertex_inserted(self, x: float, y: float) -> "Strip":
+    def with_vertex_inserted(self, x: float, y: float) -> Strip:
         return Strip(tuple(_nearest_edge_insert(list(self.points), x, y, False)))
 
-    def with_vertex_removed(self, index: int) -> "Strip":
+    def with_vertex_removed(self, index: int) -> Strip:
         if len(self.points) <= 2:
             return self
         return Strip(self.points[:index] + self.points[index + 1:])
 
-    def _mapped(self, f) -> "Strip":
+    def _mapped(self, f) -> Strip:
         return Strip(tuple(map(f, self.points)))
 
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
@@ -808,5 +808,5 @@ class Strip(Shape):
         return {"kind": self.kind, "points": [_pt(p) for p in self.points]}
 
     @classmethod
-    def _read(cls, read: FieldReader) -> "Strip":
+    def _read(cls, read: FieldReader) -> Strip:
         return cls(read.points("points", 2))

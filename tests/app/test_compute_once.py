@@ -7,13 +7,12 @@ import math
 import threading
 
 import scipy.linalg
+from test_line_figures_view import results_of, wait_until
 
 import solver
+from app.jobs.figure_jobs import FigureJobRunner, JobProgress, wait_for_all
 from solver import Circle, Conductor, Model, Ring, SolveCancelled
 from solver.figures import field_lines
-
-from app.jobs.figure_jobs import FigureJobRunner, JobProgress, wait_for_all
-from test_line_figures_view import results_of, wait_until
 
 
 def coax() -> Model:
@@ -99,13 +98,13 @@ def test_readouts_build_the_conductor_geometry_once_per_model(monkeypatch):
 
 
 def test_canvas_hit_test_reuses_outlines_until_the_model_changes(window, monkeypatch):
-    from app import shapes
+    from app.canvas import canvas as canvas_module
 
     canvas = window.canvas
     window.document.replace(coax(), None)
     built = []
-    original = shapes.geometry
-    monkeypatch.setattr(shapes, "geometry", lambda s: built.append(s) or original(s))
+    original = canvas_module._outline_or_none
+    monkeypatch.setattr(canvas_module, "_outline_or_none", lambda s: built.append(s) or original(s))
     hits = [canvas.part_at((x, 0.0)) for x in (0.0, 0.5, 3.7, 3.7)]
     assert len(built) == 2  # the core and the tube, once
     assert hits[0] == hits[1] and hits[0].kind == "conductor" and hits[0].index == 0

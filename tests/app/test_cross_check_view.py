@@ -1,11 +1,10 @@
 """The "Cross-check" section: button, background job, table and Fekete-point plot."""
 
-import solver
-from solver import Circle, Conductor, Model, Rectangle
-
-from app.jobs.results import compute_results
-
 from test_line_figures_view import wait_until
+
+import solver
+from app.jobs.results import compute_results
+from solver import Circle, Conductor, Model, Rectangle
 
 
 def test_cross_check_table_and_points(qtbot, monkeypatch):

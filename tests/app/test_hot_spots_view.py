@@ -1,15 +1,14 @@
 """The "Hot spots" section: refined peak fields, margins, the caution frame, the sweep and the radius."""
 
-import pytest
 import csv
 import io
 
-import solver
-from solver import Circle, Conductor, GroundPlane, HIGH_VOLTAGE_CAUTION, Model, Rectangle
-
-from app.jobs.results import compute_results
-
+import pytest
 from test_line_figures_view import wait_until
+
+import solver
+from app.jobs.results import compute_results
+from solver import HIGH_VOLTAGE_CAUTION, Circle, Conductor, GroundPlane, Model, Rectangle
 
 HV_SAMPLE = "sample_geometries/hv_electrode_over_earth.json"
 
@@ -138,9 +137,10 @@ def test_stale_results_are_marked(qtbot):
 
 
 def test_window_runs_the_section_when_its_tab_is_shown_and_marks_it_stale(window, qtbot):
+    from app_helpers import wait_for_solve
+
     from app.files import project_files as files
     from app.panels.hot_spots_view import STALE_TEXT
-    from app_helpers import wait_for_solve
 
     assert window.commands.open(files.SAMPLES_DIR / "hv_electrode_over_earth.json")
     wait_for_solve(qtbot, window)

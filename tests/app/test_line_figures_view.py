@@ -10,9 +10,8 @@ import re
 from PySide6.QtCore import QEventLoop, QTimer
 
 import solver
-from solver import Conductor, GroundPlane, Model, Rectangle
-
 from app.jobs.results import compute_results
+from solver import Conductor, GroundPlane, Model, Rectangle
 
 SAMPLE = "sample_geometries/microstrip_on_substrate.json"
 ETA0_OHM = 376.73  # free-space wave impedance
@@ -135,8 +134,9 @@ def test_pair_shows_even_odd_modes_and_coupling(qtbot):
 
 
 def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):
-    from app.files import project_files as files
     from app_helpers import wait_for_solve
+
+    from app.files import project_files as files
 
     assert window.commands.open(files.SAMPLES_DIR / "microstrip_on_substrate.json")
     wait_for_solve(qtbot, window)

@@ -5,10 +5,7 @@ import pytest
 from app_helpers import to_pixel, wait_for_solve
 from PySide6.QtTest import QTest
 
-from app import cautions
-
-from app import edits
-
+from app import cautions, edits
 from app.files import project_files as files
 
 

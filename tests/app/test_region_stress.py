@@ -11,8 +11,8 @@ import math
 
 import pytest
 
-from app.panels.matrices_view import MatricesView
 from app.jobs.results import compute_results
+from app.panels.matrices_view import MatricesView
 from solver import Circle, Conductor, Dielectric, Model, Ring
 
 

@@ -4,7 +4,6 @@
 from PySide6.QtWidgets import QMessageBox
 
 from app import edits
-
 from app.files import project_files as files
 from solver import Circle, Conductor, Model, Ring
 

@@ -7,13 +7,13 @@ import numpy as np
 import pytest
 
 from solver import Circle, Conductor, GroundPlane, MeshSettings, Model, Polygon, Rectangle, Ring, Strip
+from solver.errors import InvalidGeometryError, InvalidModelError
+from solver.hot_spots.analysis import GROUND_PLANE_NAME, analyse_hot_spots, richardson_estimate
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.corner_sweep import peak_field_vs_corner_radius
 from solver.hot_spots.curvature import local_radius_of_curvature_m
-from solver.errors import InvalidGeometryError, InvalidModelError
-from solver.model.geometry import shape_geometry
-from solver.hot_spots.analysis import GROUND_PLANE_NAME, analyse_hot_spots, richardson_estimate
 from solver.mesh.panels import discretize_boundary
+from solver.model.geometry import shape_geometry
 
 
 def test_richardson_recovers_limit_and_order_of_a_clean_sequence():

@@ -7,8 +7,13 @@ import pytest
 
 import solver.figures.end_effects
 from solver import Circle, Conductor, GroundPlane, Model, Rectangle
-from solver.figures.end_effects import LONG_ENOUGH_RATIO, check_part_length, cross_section_size_m, end_field_rise_estimate
 from solver.errors import InvalidModelError
+from solver.figures.end_effects import (
+    LONG_ENOUGH_RATIO,
+    check_part_length,
+    cross_section_size_m,
+    end_field_rise_estimate,
+)
 
 
 def test_docstring_examples():

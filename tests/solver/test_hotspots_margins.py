@@ -8,7 +8,6 @@ from pathlib import Path
 import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
-from solver.model.materials import Medium
 from solver.errors import InvalidModelError
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
@@ -20,6 +19,7 @@ from solver.hot_spots.margins import (
     relative_air_density,
     round_radius_m,
 )
+from solver.model.materials import Medium
 
 ROOT = Path(__file__).resolve().parents[2]
 

@@ -21,8 +21,8 @@ import pytest
 from scipy.optimize import minimize_scalar
 
 from solver import Circle, Conductor, GroundPlane, MeshSettings, Model, Polygon, Rectangle, Ring, Strip, solve
-from solver.hot_spots.corner_sweep import peak_field_vs_corner_radius
 from solver.hot_spots.analysis import analyse_hot_spots
+from solver.hot_spots.corner_sweep import peak_field_vs_corner_radius
 from solver.hot_spots.margins import assess_margins
 from solver.io.project_file import load_project
 
