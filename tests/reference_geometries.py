@@ -101,7 +101,7 @@ def wire_over_plane_surface_field_V_per_m(a_m: float, h_m: float, voltage_V: flo
 
 
 # ---- microstrip ------------------------------------------------------------------------------
-def microstrip(u: float, eps_r: float, *, h: float = 1.0, substrate_width: float | None = None) -> Model:
+def microstrip(u: float, eps_r: float, substrate_width: float | None = None, h: float = 1.0) -> Model:
     """A zero-thickness trace of width u h on a substrate of height ``h`` over a ground plane."""
     w = u * h
     width = substrate_width or max(20 * h, 8 * w)

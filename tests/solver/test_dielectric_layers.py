@@ -1,15 +1,11 @@
 """Truncated substrate layers: detection, truncation estimate, widening to a target."""
 
-import sys
-from pathlib import Path
 
 import pytest
+from reference_geometries import microstrip
 
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged, widened
 from solver.figures.transmission_line import transmission_line_figures
-
-sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "validation"))
-from test_dielectric_microstrip import microstrip  # noqa: E402
 
 
 def test_only_wide_rectangles_count_as_layers():

@@ -11,16 +11,12 @@ charge leaves a mismatch that must shrink when the mesh is refined. The solution
 two-sided interface fields must obey the same conditions.
 """
 
-import sys
-from pathlib import Path
 
 import numpy as np
+from reference_geometries import microstrip
 
 from solver import solve
 from solver.mesh.panels import MeshSettings
-
-sys.path.insert(0, str(Path(__file__).parent))
-from test_dielectric_microstrip import microstrip  # noqa: E402
 
 
 def _mismatch(sol, fraction):

@@ -21,31 +21,9 @@ truncation changes eps_eff by less than 1e-4 here (checked by doubling the width
 import math
 
 import pytest
+from reference_geometries import hammerstad_jensen, microstrip
 
-from solver import Conductor, Dielectric, GroundPlane, Model, Rectangle, Strip
 from solver.figures.transmission_line import transmission_line_figures
-
-ETA0 = 376.73
-
-
-def hammerstad_jensen(u, eps_r):
-    f = 6 + (2 * math.pi - 6) * math.exp(-((30.666 / u) ** 0.7528))
-    z01 = ETA0 / (2 * math.pi) * math.log(f / u + math.sqrt(1 + 4 / u**2))
-    a = 1 + math.log((u**4 + (u / 52) ** 2) / (u**4 + 0.432)) / 49 + math.log(1 + (u / 18.1) ** 3) / 18.7
-    b = 0.564 * ((eps_r - 0.9) / (eps_r + 3)) ** 0.053
-    eps_eff = (eps_r + 1) / 2 + (eps_r - 1) / 2 * (1 + 10 / u) ** (-a * b)
-    return z01 / math.sqrt(eps_eff), eps_eff
-
-
-def microstrip(u, eps_r, substrate_width=None, h=1.0):
-    w = u * h
-    width = substrate_width or max(20 * h, 8 * w)
-    return Model(
-        unit="mm",
-        ground_plane=GroundPlane(0.0),
-        conductors=(Conductor("trace", (Strip(((-w / 2, h), (w / 2, h))),), potential_V=1.0),),
-        dielectrics=(Dielectric("substrate", (Rectangle((0.0, h / 2), width, h),), eps_r),),
-    )
 
 
 @pytest.mark.parametrize(
