@@ -23,7 +23,7 @@ from functools import cached_property
 
 import numpy as np
 import shapely
-from shapely.geometry import LineString, box
+from shapely.geometry import LineString, MultiLineString, box
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
@@ -200,14 +200,22 @@ def _interface_lines(model: Model, geoms: list, conductor_geoms: list, tol: floa
     """Noded interface linework with conductor surfaces, strips and the ground plane removed
     (with everything within a conductor's meshing tolerance of it)."""
     lines = unary_union([g.boundary for g in geoms])
-    snap = np.maximum(tol, conductor_snap_distances_m(conductor_geoms))
-    blockers = [g.buffer(d, quad_segs=8) for g, d in zip(conductor_geoms, snap)]
+    blockers = [g.buffer(tol, quad_segs=2) for g in conductor_geoms]
     if model.ground_plane is not None:
         y = model.ground_plane.y * model.metres_per_unit
         x0, y0, x1, y1 = lines.bounds
         blockers.append(box(x0 - 1.0, y - abs(y1 - y0) - 1.0, x1 + 1.0, y + tol))
     if blockers:
         lines = lines.difference(unary_union(blockers))
+    snap = conductor_snap_distances_m(conductor_geoms)
+    if conductor_geoms and not lines.is_empty and snap.max() > tol:
+        # a boundary running along a conductor within its tolerance (a sliver) lies on it;
+        # short crossings near the points where a boundary meets a conductor stay
+        near = lines.intersection(unary_union([g.buffer(d, quad_segs=8) for g, d in zip(conductor_geoms, snap)]))
+        near = shapely.line_merge(near) if isinstance(near, MultiLineString) else near
+        along = [g for g in getattr(near, "geoms", [near]) if isinstance(g, LineString) and g.length > 4.0 * snap.max()]
+        if along:
+            lines = lines.difference(unary_union(along))
     merged = shapely.line_merge(lines) if not lines.is_empty else lines
     parts = [g for g in getattr(merged, "geoms", [merged]) if isinstance(g, LineString) and not g.is_empty]
     return [p for p in parts if p.length > 100 * tol]
