@@ -36,6 +36,7 @@ curved interfaces.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -176,7 +177,7 @@ def free_charge_operator(
 def assemble_system(
     mesh: PanelMesh,
     interfaces: InterfaceMesh,
-    roles: list[str],
+    roles: Sequence[str],
     free_charge_rows: np.ndarray,
     sources: SourcePanels,
     plane: float | None,

@@ -81,6 +81,7 @@ def run(levels: list[float]) -> None:
             print(f"{level:6.2f} {n:9d} {t_mesh:8.3f} {t_asm:11.3f} {t_solve:15.3f} {t_tl:11.3f} {label}")
         if exact is None:
             eps_eff = transmission_line_figures(model, settings=MeshSettings(levels[-1])).effective_permittivity
+            assert eps_eff is not None  # the microstrip has one signal conductor
             hj = _hammerstad_jensen_eps_eff(1.0, 4.4)
             print(f"  eps_eff {eps_eff:.5f} at the finest level; Hammerstad & Jensen (1980): {hj:.5f} "
                   f"({eps_eff / hj - 1:+.2e}; their stated accuracy is 0.2 %: "

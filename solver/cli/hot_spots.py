@@ -114,7 +114,11 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
     rows = []
     for spot, m in zip(report.hot_spots, margins.margins):
         x, y = (v / model.metres_per_unit for v in spot.location_m)
-        error = "singular" if spot.singular else f"{100 * spot.estimated_relative_error:.2g} %"
+        if spot.singular:
+            error = "singular"
+        else:
+            assert spot.estimated_relative_error is not None  # a peak that is not singular has an estimate
+            error = f"{100 * spot.estimated_relative_error:.2g} %"
         rows.append([spot.conductor, _fmt(spot.field_V_per_m, "V/m"), error, f"({x:.4g}, {y:.4g}) {model.unit}",
                      _fmt(spot.enhancement_factor), _fmt(m.air_breakdown_margin),
                      _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.status])
@@ -133,6 +137,8 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
     ]
     for spot, m in zip(report.hot_spots, margins.margins):
         if m.corona_radius_basis and m.corona_radius_basis != "round conductor":
+            # corona_radius_m gives any other basis only with the local radius of curvature
+            assert spot.local_radius_of_curvature_m is not None
             lines.append(f"  {spot.conductor}: corona onset uses the local radius of curvature at the peak "
                          f"({spot.local_radius_of_curvature_m * 1e3:.3g} mm), an approximation.")
         if spot.singular or not spot.converged:
@@ -145,8 +151,11 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         x, y = (v / model.metres_per_unit for v in ar.location_m)
         if ar.negligible:
             error = "negligible: zero to solver accuracy, as outside an earthed screen"
+        elif ar.at_sharp_corner:
+            error = "singular"
         else:
-            error = "singular" if ar.at_sharp_corner else f"error {100 * ar.estimated_relative_error:.2g} %"
+            assert ar.estimated_relative_error is not None  # air_region_peak estimates all but these two cases
+            error = f"error {100 * ar.estimated_relative_error:.2g} %"
         lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
                      f"{ar.where} at ({x:.4g}, {y:.4g}) {model.unit}; air margin {_fmt(margins.air_region_margin)}, "
                      f"{margins.air_region_status}.")
@@ -154,6 +163,8 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
                 f"{b.equivalent_radius_m / model.metres_per_unit:.5g} {model.unit}")
         if b.is_regular_bundle:
+            # compare_bundle gives the formula figures exactly for a regular bundle
+            assert b.formula_equivalent_radius_m is not None and b.relative_difference is not None
             text += (f"; bundle formula (n r A^(n-1))^(1/n) with n = {b.n_subconductors}: "
                      f"{b.formula_equivalent_radius_m / model.metres_per_unit:.5g} {model.unit} "
                      f"({100 * b.relative_difference:+.2g} %)")

@@ -40,6 +40,8 @@ def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
         return []
     lines = ["Transmission-line figures (quasi-TEM, lossless; L from the same cross-section in vacuum)"]
     if f.characteristic_impedance_ohm is not None:
+        # transmission_line_figures sets the one-conductor figures together
+        assert f.delay_s_per_m is not None and f.velocity_m_per_s is not None
         lines += [
             f"  characteristic impedance Z0: {_ohm(f.characteristic_impedance_ohm)}",
             f"  effective permittivity: {f.effective_permittivity:.5g}",
@@ -48,6 +50,9 @@ def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
         ]
         return lines
     if f.is_symmetric_pair:
+        # transmission_line_figures sets the pair figures together
+        assert f.even_mode_impedance_ohm is not None and f.odd_mode_impedance_ohm is not None
+        assert f.differential_impedance_ohm is not None and f.common_mode_impedance_ohm is not None
         lines += [
             f"  even mode: Z {_ohm(f.even_mode_impedance_ohm)}, eps_eff {f.even_mode_effective_permittivity:.5g}",
             f"  odd mode:  Z {_ohm(f.odd_mode_impedance_ohm)}, eps_eff {f.odd_mode_effective_permittivity:.5g}",

@@ -71,7 +71,8 @@ def capacitance_section(report: Report) -> list[str]:
 def peak_field_section(report: Report) -> list[str]:
     """Largest surface field of each conductor, where it sits, and a note at sharp corners."""
     m = report.solution.model
-    rows, corner_exponents = [], {}
+    rows: list[list[str]] = []
+    corner_exponents: dict[float | None, list[str]] = {}
     for p in report.solution.peak_surface_fields:
         x, y = p.location_m
         mark = " *" if p.at_sharp_corner else ""

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 import shapely
 from shapely.geometry import LineString, MultiLineString
+from shapely.geometry.base import BaseGeometry
 from shapely.ops import unary_union
 
 from solver.bem.solution import Solution
@@ -72,7 +73,8 @@ def conductor_outline(model: Model):
     """
     settings = MeshSettings.for_density(model.mesh_density)
     geoms = conductor_geometries(model, settings.arc_step_rad)
-    solids, strips = [], []
+    solids: list[BaseGeometry] = []
+    strips: list[BaseGeometry] = []
     for g in geoms:
         for part in getattr(g, "geoms", [g]):
             (strips if isinstance(part, (LineString, MultiLineString)) else solids).append(part)
@@ -217,7 +219,7 @@ def trace_field_lines(
     active = np.ones(len(pos), dtype=bool)
     ended = np.full(len(pos), "far", dtype=object)
 
-    def direction(p: np.ndarray, s: np.ndarray) -> np.ndarray:
+    def direction(p: np.ndarray, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         e = field_at(solution, p) * s[:, None]
         norm = np.hypot(*e.T)
         return e / np.where(norm > 0, norm, 1.0)[:, None], norm
@@ -246,9 +248,9 @@ def trace_field_lines(
         active[idx[stop]] = False
 
     lines = []
-    for i, path in enumerate(paths):
-        if sign[i] < 0 and ended[i] == "conductor":
+    for n, path in enumerate(paths):
+        if sign[n] < 0 and ended[n] == "conductor":
             continue  # drawn from the positive end already
         pts = np.asarray(path)
-        lines.append(FieldLine(pts[::-1].copy() if sign[i] < 0 else pts, int(start[i])))
+        lines.append(FieldLine(pts[::-1].copy() if sign[n] < 0 else pts, int(start[n])))
     return tuple(lines)

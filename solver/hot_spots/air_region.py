@@ -99,5 +99,6 @@ def air_region_peak(solutions: Sequence[Solution]) -> AirRegionPeak | None:
     largest = float(max((float(p.field_V_per_m) for p in final.peak_region_fields), default=0.0))
     negligible = history[-1] < NEGLIGIBLE_FRACTION * largest
     error = None if (last.at_sharp_corner or negligible) else richardson_estimate(history)[0]
-    return AirRegionPeak(history[-1], tuple(map(float, last.location_m)), last.where, bool(last.at_sharp_corner),
+    x, y = last.location_m
+    return AirRegionPeak(history[-1], (float(x), float(y)), last.where, bool(last.at_sharp_corner),
                          error, history, bool(negligible))

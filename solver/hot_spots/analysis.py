@@ -280,6 +280,7 @@ def analyse_hot_spots(
         if not rounding:
             return model
         if level not in rounded:
+            assert corner_radius_m is not None  # rounding is only on with a corner radius
             rounded[level] = round_sharp_corners(model, corner_radius_m, to_round, level=level,
                                                  replace_radius=replace_radius)
         return rounded[level]
@@ -349,18 +350,21 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
     idx = np.flatnonzero(mesh.conductor_index == k)
     i = int(idx[np.argmax(final.surface_field_V_per_m[idx])])
     peak = float(final.surface_field_V_per_m[i])
+    location = (float(mesh.midpoints[i, 0]), float(mesh.midpoints[i, 1]))
     name = final.model.conductors[k].name
     near_name, gap, dv = neighbour
     gap_field = None if gap is None else float(dv / gap)
     enhancement = None if not gap_field else float(peak / gap_field)
     if singular:
         exponent, beta = most_singular_corner(final, k)
+        # singular comes from corner_field_grows on this same solution, which needs a corner of k
+        assert exponent is not None and beta is not None
         note = (
             f"Sharp corner or free edge (field-region opening {math.degrees(beta):.0f} degrees): the charge "
             f"density goes like r^({exponent:.3f}) and the 2-D peak field has no finite value; this number "
             "grows with every refinement. Give a corner radius to get a peak you can use."
         )
-        return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), True, exponent, beta, None, None, None,
+        return HotSpot(name, peak, location, True, exponent, beta, None, None, None,
                        False, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
                        tuple(map(float, history)), note, medium_eps_r=medium_next_to(final, i).eps_r,
                        medium=medium_next_to(final, i))
@@ -373,7 +377,7 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
         "ran out; treat the value with care or simplify the model."
     )
     curvature = signed_radius_of_curvature_m(mesh, i)
-    return HotSpot(name, peak, tuple(map(float, mesh.midpoints[i])), False, None, None, error, extrapolated, order,
+    return HotSpot(name, peak, location, False, None, None, error, extrapolated, order,
                    converged, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
                    tuple(map(float, history)), note, curvature if 0 < curvature < math.inf else None,
                    medium_next_to(final, i).eps_r, medium_next_to(final, i))

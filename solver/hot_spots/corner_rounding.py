@@ -26,6 +26,7 @@ from dataclasses import replace
 import shapely
 from shapely.geometry import MultiPolygon
 from shapely.geometry import Polygon as ShapelyPolygon
+from shapely.geometry.base import BaseGeometry
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
@@ -75,7 +76,8 @@ def _rounded_conductor(conductor: Conductor, radius: float, level: float, replac
             return replace(conductor, shapes=(exact,))
     q = _quad_segs(level)
     step = MeshSettings(level).arc_step_rad
-    solids, lines = [], []
+    solids: list[BaseGeometry] = []
+    lines: list[BaseGeometry] = []
     for i, shape in enumerate(conductor.shapes):
         g = shape.geometry_m(1.0, step, f"{where}, shape {i + 1} ({shape.kind})")
         (solids if shape.is_solid else lines).append(g)

@@ -25,7 +25,7 @@ from solver.model.model import Model
 GROUND_PLANE_NAME = "ground plane"
 
 
-def richardson_estimate(values: Sequence[float]) -> tuple[float, float | None, float | None]:
+def richardson_estimate(values: Sequence[float] | np.ndarray) -> tuple[float, float | None, float | None]:
     """Relative error of the last of >= 3 values from successive level doublings.
 
     Returns ``(relative_error, extrapolated_value, observed_order)``; the last two are None

@@ -22,8 +22,9 @@ import logging
 import math
 import os
 from collections import defaultdict
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING, cast
 
 import numpy as np
 
@@ -36,6 +37,9 @@ from solver.model.model import (
     Model,
     Strip,
 )
+
+if TYPE_CHECKING:
+    from ezdxf.entities import LWPolyline
 
 logger = logging.getLogger(__name__)
 
@@ -81,7 +85,7 @@ def parse_layer_target(text: str) -> LayerTarget:
                 value = float(token)
             except ValueError:
                 raise ProjectFileError(f"Layer target '{text}': '{token}' is not a role, 'strip' or a number.") from None
-            target = replace(target, **({"potential_V": value} if kind == "conductor" else {"eps_r": value}))
+            target = replace(target, potential_V=value) if kind == "conductor" else replace(target, eps_r=value)
     return target
 
 
@@ -275,7 +279,7 @@ def read_dxf(path: str | os.PathLike, layers: Mapping[str, LayerTarget | str], *
                                "give the unit (unit='mm' or --unit mm).")
     msp = doc.modelspace()
     extent = max((float(np.ptp(np.array([[*v][:2] for v in e.vertices()]), axis=0).max())
-                  for e in msp.query("LWPOLYLINE") if len(e)), default=1.0)
+                  for e in cast("Iterable[LWPolyline]", msp.query("LWPOLYLINE")) if len(e)), default=1.0)
     tol = JOIN_TOLERANCE * max(extent, 1.0)
     strip_layers = {k for k, t in targets.items() if t.strips}
     unmapped = sorted({e.dxf.layer for e in msp if e.dxftype() in OUTLINE_TYPES} - set(targets))
@@ -301,7 +305,8 @@ def _scaled(shape, factor: float):
 
 
 def _assemble(parts, targets, template: Model | None, unit: str, density: str) -> Model:
-    conductors, dielectrics = [], []
+    conductors: list[Conductor] = []
+    dielectrics: list[Dielectric] = []
     keys = list(parts)
     if template is not None:
         order = [("conductor", c.name) for c in template.conductors] + [("dielectric", d.name) for d in template.dielectrics]
@@ -316,8 +321,8 @@ def _assemble(parts, targets, template: Model | None, unit: str, density: str) -
             conductors.append(replace(known, shapes=shapes) if known else
                               Conductor(name, shapes, t.role, t.potential_V if t.role == "fixed" else 0.0))
         else:
-            known = next((d for d in template.dielectrics if d.name == name), None) if template else None
-            dielectrics.append(replace(known, shapes=shapes) if known else Dielectric(name, shapes, t.eps_r))
+            known_d = next((d for d in template.dielectrics if d.name == name), None) if template else None
+            dielectrics.append(replace(known_d, shapes=shapes) if known_d else Dielectric(name, shapes, t.eps_r))
     if template is not None:
         return replace(template.with_unit(unit), conductors=tuple(conductors), dielectrics=tuple(dielectrics))
     return Model(unit=unit, conductors=tuple(conductors), dielectrics=tuple(dielectrics), mesh_density=density)

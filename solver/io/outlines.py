@@ -161,7 +161,8 @@ def shapes_from_outlines(outlines: list[Outline], arc_step_rad: float, owner: st
                     "separate them or merge them into one outline.")
 
     def depth(i: int) -> int:
-        return 0 if parent[i] is None else 1 + depth(parent[i])
+        up = parent[i]
+        return 0 if up is None else 1 + depth(up)
 
     shapes: list[Shape] = []
     for i in order:

@@ -11,7 +11,7 @@ import copy
 import json
 import math
 import re
-from typing import Any
+from typing import Any, cast
 
 from solver.errors import InvalidModelError
 from solver.model.model import (
@@ -22,6 +22,7 @@ from solver.model.model import (
     Dielectric,
     GroundPlane,
     Model,
+    Role,
     Shape,
 )
 from solver.model.outline_checks import LARGEST_LENGTH_M, SMALLEST_LENGTH_M
@@ -199,7 +200,7 @@ def _conductor_from(value: Any, path: str, scale: float) -> Conductor:
         return Conductor(
             name,
             tuple(_shape_from(s, f"{path}.shapes[{i}]", True, scale) for i, s in enumerate(shapes)),
-            role=role,
+            role=cast(Role, role),  # _string checked it against ROLES
             potential_V=_number(v.get("potential_V", 0.0), f"{path}.potential_V"),
             charge_C_per_m=_number(v.get("charge_C_per_m", 0.0), f"{path}.charge_C_per_m"),
             color=color,

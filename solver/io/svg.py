@@ -18,6 +18,7 @@ import math
 import os
 from collections import defaultdict
 from collections.abc import Mapping
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -26,6 +27,9 @@ from solver.io.dxf import LayerTarget, _assemble, parse_layer_target
 from solver.io.outlines import Outline, shapes_from_outlines
 from solver.mesh.panels import MeshSettings
 from solver.model.model import LENGTH_UNITS, Model
+
+if TYPE_CHECKING:
+    from svgelements import Matrix
 
 INKSCAPE_LABEL = "{http://www.inkscape.org/namespaces/inkscape}label"
 
@@ -46,7 +50,7 @@ def _snapped(points: np.ndarray, extent: float) -> np.ndarray:
     return np.round(points, 9 - math.ceil(math.log10(extent))) + 0.0
 
 
-def _outlines_of(element, layer: str, to_user: object, extent: float) -> list[Outline]:
+def _outlines_of(element, layer: str, to_user: Matrix, extent: float) -> list[Outline]:
     import svgelements as se
 
     where = f"SVG {element.values.get('tag', type(element).__name__.lower())} '{element.id or '(no id)'}' in layer '{layer}'"

@@ -79,8 +79,8 @@ def dielectric_geometries(model: Model, arc_step_rad: float) -> list:
     if len(geoms) > 1:
         # snap neighbours onto each other so that boundaries meant to be shared (drawn
         # separately, equal up to rounding) coincide exactly and become one interface
-        b = np.array([g.bounds for g in geoms])
-        tol = 1e-9 * float(np.hypot(b[:, 2].max() - b[:, 0].min(), b[:, 3].max() - b[:, 1].min()))
+        box = np.array([g.bounds for g in geoms])
+        tol = 1e-9 * float(np.hypot(box[:, 2].max() - box[:, 0].min(), box[:, 3].max() - box[:, 1].min()))
         for j in range(1, len(geoms)):
             for i in range(j):
                 if shapely.distance(geoms[i], geoms[j]) < tol:
@@ -297,8 +297,13 @@ def discretize_interfaces(
                 mid = 0.5 * (st + en)
                 t = (en - st) / np.hypot(*(en - st).T)[:, None]
                 nrm = np.column_stack([t[:, 1], -t[:, 0]])
-                starts.append(st), ends.append(en), points.append(mid), normals.append(nrm)
-                arcl.append(np.hypot(*(en - st).T)), cid.append(np.full(len(st), -1)), crad.append(np.full(len(st), np.nan))
+                starts.append(st)
+                ends.append(en)
+                points.append(mid)
+                normals.append(nrm)
+                arcl.append(np.hypot(*(en - st).T))
+                cid.append(np.full(len(st), -1))
+                crad.append(np.full(len(st), np.nan))
                 outw.append(np.zeros(len(st)))
                 continue
             seg = piece.at(u)
@@ -311,8 +316,13 @@ def discretize_interfaces(
             nrm = radial * outward[:, None]
             outw.append(outward)
             k = _circle_index(circles, piece.centre, piece.radius)
-            starts.append(st), ends.append(en), points.append(mid), normals.append(nrm)
-            arcl.append(np.diff(u)), cid.append(np.full(len(st), k)), crad.append(np.full(len(st), piece.radius))
+            starts.append(st)
+            ends.append(en)
+            points.append(mid)
+            normals.append(nrm)
+            arcl.append(np.diff(u))
+            cid.append(np.full(len(st), k))
+            crad.append(np.full(len(st), piece.radius))
 
     st, en, pt, nr = (np.concatenate(a) for a in (starts, ends, points, normals))
     lengths = np.concatenate(arcl)

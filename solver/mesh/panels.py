@@ -317,7 +317,9 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
     check_panel_budget(n_expected, responsible, "conductor panels")
 
     starts, ends, cond, ring_idx, strip, arc, arc_r, arc_c = [], [], [], [], [], [], [], []
-    corners, corner_cond, corner_beta = [], [], []
+    corners: list[np.ndarray] = []
+    corner_cond: list[int] = []
+    corner_beta: list[float] = []
     travelled_by_conductor: dict[int, float] = {}
     for r, plan in enumerate(plans):
         ring, h_max, is_corner = plan.ring, plan.h_max, plan.is_corner

@@ -19,6 +19,7 @@ import numpy as np
 import shapely
 from shapely.geometry import LineString, MultiLineString
 from shapely.geometry import Polygon as ShapelyPolygon
+from shapely.geometry.base import BaseGeometry
 from shapely.ops import unary_union
 
 from solver.errors import InvalidGeometryError
@@ -77,7 +78,8 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
     merged = []
     for conductor in model.conductors:
         owner = f"Conductor '{conductor.name}'"
-        solids, lines = [], []
+        solids: list[BaseGeometry] = []
+        lines: list[BaseGeometry] = []
         for i, shape in enumerate(conductor.shapes):
             g = shape_geometry(shape, scale, arc_step_rad, _describe(owner, i, shape))
             check_extent(shapely.get_coordinates(g), _describe(owner, i, shape))

@@ -36,6 +36,7 @@ LENGTH_UNITS: dict[str, float] = {
 
 #: Conductor roles: a fixed potential, floating with a given net charge, or the 0 V reference.
 ROLES = ("fixed", "floating", "reference")
+Role = Literal["fixed", "floating", "reference"]
 
 #: Mesh densities, coarsest first.
 MESH_DENSITIES = ("coarse", "normal", "fine")
@@ -64,7 +65,7 @@ class Conductor:
 
     name: str
     shapes: tuple[Shape, ...]
-    role: Literal["fixed", "floating", "reference"] = "fixed"
+    role: Role = "fixed"
     potential_V: float = 0.0
     charge_C_per_m: float = 0.0
     color: str | None = None

@@ -33,7 +33,7 @@ SMALLEST_LENGTH_M = 1e-10
 LARGEST_LENGTH_M = 1e5
 
 
-def _as_points(points: Sequence[Sequence[float]]) -> np.ndarray:
+def _as_points(points: Sequence[Sequence[float]] | np.ndarray) -> np.ndarray:
     return np.asarray(points, dtype=float).reshape(-1, 2)
 
 

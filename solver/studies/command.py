@@ -123,23 +123,23 @@ def main(argv: Sequence[str] | None = None) -> int:
         elif args.command == "search":
             if len(args.vary) != 1 or len(args.figure) != 1:
                 raise SolverError("search varies one --vary PATH to meet one --figure; give exactly one of each.")
-            r = search(args.project, args.vary[0], args.figure[0], args.target, tuple(args.between),
-                       scan=args.scan, method=args.method, progress=bar)
-            print(json.dumps({"parameter": r.parameter, "value": r.value, "figure": r.figure,
-                              "figure_value": r.figure_value, "target": r.target,
-                              "parameter_tolerance": r.parameter_tolerance, "solves": r.n_solves}, indent=1))
+            found = search(args.project, args.vary[0], args.figure[0], args.target, tuple(args.between),
+                           scan=args.scan, method=args.method, progress=bar)
+            print(json.dumps({"parameter": found.parameter, "value": found.value, "figure": found.figure,
+                              "figure_value": found.figure_value, "target": found.target,
+                              "parameter_tolerance": found.parameter_tolerance, "solves": found.n_solves}, indent=1))
         else:
             dists = {path: parse_distribution(v) for path, v in map(_split_assignment, args.vary)}
-            r = spread(args.project, dists, args.figure, n_cases=args.cases, seed=args.seed,
-                       percentiles=parse_values(args.percentiles), bins=args.bins, cluster=_cluster(args),
-                       progress=bar)
+            spread_of = spread(args.project, dists, args.figure, n_cases=args.cases, seed=args.seed,
+                               percentiles=parse_values(args.percentiles), bins=args.bins, cluster=_cluster(args),
+                               progress=bar)
             if args.out:
-                _emit(r.table, args.out)
-            print(json.dumps({"seed": r.seed, "cases": len(r.table), "failed": r.n_failed, "nominal": r.nominal,
-                              "percentiles": r.percentiles, "sensitivities": r.sensitivities,
-                              "contributions": r.contributions,
+                _emit(spread_of.table, args.out)
+            print(json.dumps({"seed": spread_of.seed, "cases": len(spread_of.table), "failed": spread_of.n_failed,
+                              "nominal": spread_of.nominal, "percentiles": spread_of.percentiles,
+                              "sensitivities": spread_of.sensitivities, "contributions": spread_of.contributions,
                               "histograms": {f: {"counts": c.tolist(), "edges": e.tolist()}
-                                             for f, (c, e) in r.histograms.items()}}, indent=1))
+                                             for f, (c, e) in spread_of.histograms.items()}}, indent=1))
     except SolverError as e:
         print(f"error: {e}", file=sys.stderr)
         return 2

@@ -173,7 +173,10 @@ def spread(
     table = run_cases(base, cases + extra, figures, cluster=cluster, progress=progress, cancel=cancel)
     mc_rows, fd_rows = table.rows[:n_cases], table.rows[n_cases:]
     ok = [r for r in mc_rows if not r["error"]]
-    pct, hist, sens, contrib = {}, {}, {}, {}
+    pct: dict[str, dict[float, float]] = {}
+    hist: dict[str, tuple[np.ndarray, np.ndarray]] = {}
+    sens: dict[str, dict[str, float]] = {}
+    contrib: dict[str, dict[str, float]] = {}
     for f in figures:
         values = np.array([r[f] for r in ok], dtype=float)
         values = values[np.isfinite(values)]

@@ -156,3 +156,22 @@ def test_spread_on_a_local_dask_cluster_is_reproducible_and_matches_the_serial_r
     assert a.sensitivities["C_F_per_m.w.w"]["conductors.w.shapes.0.radius"] == pytest.approx(slope, rel=1e-2)
     contributions = a.contributions["C_F_per_m.w.w"]
     assert max(contributions, key=contributions.get) == "conductors.w.shapes.0.radius"
+
+
+def test_spread_by_one_command_prints_the_spread_and_writes_the_table(tmp_path, capsys):
+    from solver import save_project
+    from solver.studies.command import main
+
+    project, table = tmp_path / "wire.json", tmp_path / "cases.csv"
+    save_project(wire_over_ground(), project)
+    code = main(["spread", str(project), "--vary", "conductors.w.shapes.0.radius=normal:0.05",
+                 "--figure", "C_F_per_m.w.w", "--cases", "6", "--seed", "3", "--bins", "4", "--out", str(table)])
+    assert code == 0, capsys.readouterr().err
+    printed = json.loads(capsys.readouterr().out)
+    assert printed["seed"] == 3 and printed["cases"] == 6 and printed["failed"] == 0
+    # nominal radius 1 mm, height 10 mm: the exact wire-over-ground capacitance (see wire_capacitance)
+    assert printed["nominal"]["C_F_per_m.w.w"] == pytest.approx(wire_capacitance(1.0, 10.0), rel=1e-3)
+    assert sum(printed["histograms"]["C_F_per_m.w.w"]["counts"]) == 6
+    assert list(printed["contributions"]["C_F_per_m.w.w"]) == ["conductors.w.shapes.0.radius"]
+    assert printed["sensitivities"]["C_F_per_m.w.w"]["conductors.w.shapes.0.radius"] > 0
+    assert len(table.read_text().splitlines()) == 7  # header and six cases
