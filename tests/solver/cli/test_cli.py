@@ -21,7 +21,7 @@ from solver.cli.options import ReportOptions
 from solver.cli.report import build_report
 from solver.cli.text import TEXT_SECTIONS, summary_lines
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))
 COAX = ROOT / "sample_geometries" / "coaxial_feeder.json"
 

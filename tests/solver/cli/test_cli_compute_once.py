@@ -13,7 +13,7 @@ import scipy.linalg
 from solver import analyse_hot_spots, load_project, solve
 from solver.cli.command import main
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 COAX = ROOT / "sample_geometries" / "coaxial_feeder.json"
 
 

@@ -20,7 +20,7 @@ from solver import (
 )
 from solver.mesh.panels import MeshSettings, discretize_boundary
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_geometries"
+SAMPLES = Path(__file__).resolve().parents[3] / "sample_geometries"
 #: Conductor charges, potentials and fields: both ways are exact for the discrete system, so
 #: they differ by rounding only.
 RTOL = 1e-12

@@ -285,7 +285,7 @@ def test_dict_input_is_not_modified():
 
 
 def test_example_in_the_reference_loads():
-    text = (Path(__file__).resolve().parents[2] / "docs" / "project_file.md").read_text(encoding="utf-8")
+    text = (Path(__file__).resolve().parents[3] / "docs" / "project_file.md").read_text(encoding="utf-8")
     block = text.split("```json\n", 1)[1].split("```", 1)[0]
     data = json.loads(block)
     jsonschema.validate(data, SCHEMA)

@@ -21,7 +21,7 @@ from solver.hot_spots.margins import (
 )
 from solver.model.materials import Medium
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 
 
 @dataclass(frozen=True)

@@ -12,7 +12,7 @@ import solver
 from solver import ProjectFileError, load_project, sample_names, sample_path, samples_dir
 from solver import samples as samples_module
 
-REPOSITORY_SAMPLES = Path(__file__).resolve().parents[2] / "sample_geometries"
+REPOSITORY_SAMPLES = Path(__file__).resolve().parents[3] / "sample_geometries"
 
 
 def test_every_sample_in_the_repository_is_found_and_opens():

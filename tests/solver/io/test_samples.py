@@ -13,7 +13,7 @@ import pytest
 import solver
 from solver import EPSILON_0_F_PER_M, load_project, maxwell_matrix_problems, model_to_dict, solve
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 SAMPLES = sorted((ROOT / "sample_geometries").glob("*.json"))
 SCHEMA = json.loads((Path(solver.__file__).parent / "io" / "project_schema.json").read_text(encoding="utf-8"))
 REQUIRED = {"coaxial_feeder", "twin_lead", "busbar_enclosure", "three_traces_over_ground", "hv_electrode_over_earth"}

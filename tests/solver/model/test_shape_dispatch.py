@@ -7,7 +7,7 @@ import pathlib
 
 import pytest
 
-ROOT = pathlib.Path(__file__).resolve().parents[2]
+ROOT = pathlib.Path(__file__).resolve().parents[3]
 SHAPE_CLASSES = {"Shape", "Circle", "Ring", "Rectangle", "Polygon", "Strip"}
 HOME = ROOT / "solver" / "model" / "shapes.py"
 #: Names under which a module may refer to our shape classes by attribute (``model.Circle``).

@@ -9,7 +9,7 @@ from solver import load_project, solve
 from solver.cli import command as cli
 from solver.cli.line_figures import transmission_line_json
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 
 
 def test_summary_has_impedance_and_layer_stress(capsys):

@@ -14,7 +14,7 @@ import pytest
 
 from solver import load_project, solve
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 REFERENCE = json.loads((Path(__file__).parent / "data" / "sample_figures_v0_1.json").read_text(encoding="utf-8"))
 
 
