@@ -90,5 +90,14 @@ def equivalent_radius_m(
     With the resulting potential V, cap = exp(-2 pi eps V / Q): a disc of radius r gives r,
     a segment of length l gives l / 4; a bundle behaves like one round wire of this radius.
     ``source`` is a solution (meshed at its resolution) or a model (at its mesh density).
+    A lone circle or ring needs no solve: its capacity is known in closed form
+    (:meth:`solver.model.shapes.Shape.exact_capacity`).
     """
+    model = source.model if isinstance(source, Solution) else source
+    wanted = list(model.conductor_names if names is None else names)
+    if len(wanted) == 1:
+        shapes = model.conductor(wanted[0]).shapes
+        exact = shapes[0].exact_capacity() if len(shapes) == 1 else None
+        if exact is not None:
+            return exact * model.metres_per_unit
     return equilibrium_charge(source, names, settings).equivalent_radius_m

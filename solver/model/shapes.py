@@ -348,6 +348,11 @@ class Shape:
         """A copy with every coordinate and length multiplied by ``factor`` (about the origin)."""
         return self._mapped(lambda p: (float(p[0] * factor), float(p[1] * factor)))
 
+    def exact_capacity(self) -> float | None:
+        """Logarithmic capacity (equivalent radius) of this shape alone, model units, where a
+        closed form is known; None otherwise (the solver then computes it)."""
+        return None
+
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
         """Add this shape to a DXF model space ``msp`` (an ezdxf ``Modelspace``) on the layer in
         ``attribs``; returns the entities made and extra exact numbers to keep with them (as DXF
@@ -421,6 +426,9 @@ class Circle(Shape):
         origin = f((0.0, 0.0))
         return Circle(moved, self.radius * math.dist(origin, f((1.0, 0.0))))
 
+    def exact_capacity(self) -> float | None:
+        return self.radius  # a disc of radius r has capacity r (Ransford 1995)
+
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
         return [msp.add_circle(self.center, self.radius, dxfattribs=attribs)], []
 
@@ -484,6 +492,10 @@ class Ring(Shape):
     def _mapped(self, f) -> Ring:
         k = math.dist(f((0.0, 0.0)), f((1.0, 0.0)))
         return Ring(f(self.center), self.inner_radius * k, self.outer_radius * k)
+
+    def exact_capacity(self) -> float | None:
+        # Capacity depends on the outer boundary only (Ransford 1995): the outer disc's radius.
+        return self.outer_radius
 
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
         return [msp.add_circle(self.center, self.outer_radius, dxfattribs=attribs),

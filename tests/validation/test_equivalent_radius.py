@@ -106,3 +106,15 @@ def test_irregular_group_has_no_formula_but_a_radius():
     # Larger than either part alone, smaller than the whole extent.
     assert equivalent_radius_m(pair, ["a"]) < c.equivalent_radius_m < 0.05
     assert c.estimated_relative_error < 1e-3
+
+
+def test_closed_form_capacities_agree_with_the_solver():
+    """A disc of radius r has capacity r, and an annulus the capacity of its outer disc
+    (Ransford, Potential Theory in the Complex Plane, 1995): the closed forms the equivalent
+    radius uses for a lone circle or ring agree with the boundary-element equilibrium."""
+    from solver import Circle, Conductor, Model, Ring, equilibrium_charge, equivalent_radius_m
+
+    for shape, exact in ((Circle((1.0, 2.0), 3.0), 3.0), (Ring((0.0, 0.0), 2.0, 5.0), 5.0)):
+        model = Model(unit="mm", conductors=(Conductor("c", (shape,)),))
+        assert equivalent_radius_m(model, ["c"]) == pytest.approx(exact * 1e-3, rel=1e-15)
+        assert equilibrium_charge(model, ["c"]).equivalent_radius_m == pytest.approx(exact * 1e-3, rel=1e-4)
