@@ -60,9 +60,15 @@ def nearest_other_potential(model: Model, solution: Solution) -> list[tuple[str 
         ]
         if plane_y is not None:
             candidates.append((GROUND_PLANE_NAME, float(g.bounds[1] - plane_y), abs(potentials[k])))
-        for name, gap, dv in candidates:
-            if dv > 1e-9 * vscale and gap > 0 and (best[1] is None or gap < best[1]):
-                best = (name, gap, dv)
+        usable = [(name, gap, dv) for name, gap, dv in candidates if dv > 1e-9 * vscale and gap > 0]
+        if usable:
+            # Gaps equal to within round-off (1e-9 of the smallest) are a tie, decided by the
+            # larger potential difference and then by name, never by round-off: the choice must
+            # not change when the drawing is scaled or moved.
+            smallest = min(gap for _, gap, _ in usable)
+            tied = [c for c in usable if c[1] <= smallest * (1.0 + 1e-9)]
+            name, _, dv = min(tied, key=lambda c: (-c[2], str(c[0])))
+            best = (name, smallest, dv)
         out.append(best)
     return out
 

@@ -2,6 +2,7 @@
 
 import json
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -14,6 +15,8 @@ from solver.hot_spots.corner_sweep import peak_field_vs_corner_radius
 from solver.hot_spots.curvature import local_radius_of_curvature_m
 from solver.mesh.panels import discretize_boundary
 from solver.model.geometry import shape_geometry
+
+ROOT = Path(__file__).resolve().parents[3]
 
 
 def test_richardson_recovers_limit_and_order_of_a_clean_sequence():
@@ -171,3 +174,21 @@ def test_curvature_sign_tells_a_wire_from_the_inside_of_a_tube():
     assert signed_radius_of_curvature_m(mesh, i_wire) == pytest.approx(1e-3, rel=1e-4)
     assert signed_radius_of_curvature_m(mesh, i_hollow) == pytest.approx(-3e-3, rel=1e-4)
     assert signed_radius_of_curvature_m(mesh, i_outer) == pytest.approx(4e-3, rel=1e-4)
+
+
+def test_nearest_conductor_ties_do_not_depend_on_the_unit():
+    """Equal gaps are a tie decided by the larger potential difference, not by round-off: the
+    busbar sample names the same neighbour and gap drawn in millimetres and scaled to nanometres."""
+    from solver import load_project, solve
+    from solver.hot_spots.peak_diagnostics import nearest_other_potential
+
+    model = load_project(ROOT / "sample_geometries" / "busbar_enclosure.json").with_mesh_density("coarse")
+    in_mm = nearest_other_potential(model, solve(model, estimate_error=False))
+    # the same drawing 1e6 times smaller (written in um), and 1e3 times larger and moved: with a
+    # strict "<" between equal gaps both picked the enclosure instead of L2 / L1
+    for factor, unit, shift in ((1e-6, "um", 0.0), (1e3, "mm", 1.234e3)):
+        scaled = model.scaled(factor).translated(shift, -shift).converted_to(unit)
+        found = nearest_other_potential(scaled, solve(scaled, estimate_error=False))
+        assert [n for n, _, _ in found] == [n for n, _, _ in in_mm] == ["L2", "L1", "L1"]
+        for (_, gap, dv), (_, gap_mm, dv_mm) in zip(found, in_mm):
+            assert gap == pytest.approx(gap_mm * factor, rel=1e-6) and dv == pytest.approx(dv_mm, rel=1e-6)
