@@ -4,15 +4,37 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import Protocol
 
 import numpy as np
 
+from solver.mesh.interfaces import InterfaceMesh
 from solver.mesh.panels import PanelMesh
 from solver.model.model import Model
 
-if TYPE_CHECKING:  # pragma: no cover
-    from solver.bem.solution import Solution
+
+class RegionSides(Protocol):
+    """What :func:`region_peaks` reads: the meshes and the region on each side of every panel
+    (a :class:`~solver.bem.solution.Solution` has all of it; no import of it is needed here)."""
+
+    @property
+    def model(self) -> Model: ...
+    @property
+    def mesh(self) -> PanelMesh: ...
+    @property
+    def interfaces(self) -> InterfaceMesh: ...
+    @property
+    def region_names(self) -> tuple[str, ...]: ...
+    @property
+    def region_eps_r(self) -> tuple[float, ...]: ...
+    @property
+    def conductor_region_plus(self) -> np.ndarray: ...
+    @property
+    def conductor_region_minus(self) -> np.ndarray: ...
+    @property
+    def interface_region_plus(self) -> np.ndarray: ...
+    @property
+    def interface_region_minus(self) -> np.ndarray: ...
 
 
 @dataclass(frozen=True)
@@ -84,7 +106,7 @@ def conductor_peaks(model: Model, mesh: PanelMesh, surface_field_V_per_m: np.nda
 
 
 def region_peaks(
-    solution: Solution, e_plus: np.ndarray, e_minus: np.ndarray, f_plus: np.ndarray, f_minus: np.ndarray
+    solution: RegionSides, e_plus: np.ndarray, e_minus: np.ndarray, f_plus: np.ndarray, f_minus: np.ndarray
 ) -> tuple[RegionPeakField, ...]:
     """Largest field per region from the field magnitudes on both sides of conductor panels
     (``e_plus``, ``e_minus``) and of interface panels (``f_plus``, ``f_minus``), V/m."""
