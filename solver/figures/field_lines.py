@@ -130,9 +130,13 @@ def evaluate_on_grid(solution: Solution, x_m: np.ndarray, y_m: np.ndarray) -> Gr
     """
     x_m, y_m = np.asarray(x_m, float), np.asarray(y_m, float)
     xx, yy = np.meshgrid(x_m, y_m)
-    phi, e = evaluate_at_points(solution, np.column_stack([xx.ravel(), yy.ravel()]))
-    shape = (len(y_m), len(x_m))
-    return GridField(x_m, y_m, phi.reshape(shape), e.reshape(shape))
+    solid, _ = _solid_and_strip_geometry(solution)
+    blocked = _blocked(solution, solid, np.column_stack([xx.ravel(), yy.ravel()])).reshape(xx.shape)
+    phi, field = solution.potential_and_field_on_grid(x_m, y_m)
+    e = np.hypot(field[..., 0], field[..., 1])
+    phi[blocked] = np.nan
+    e[blocked] = np.nan
+    return GridField(x_m, y_m, phi, e)
 
 
 def evaluate_at_points(solution: Solution, points_m: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
