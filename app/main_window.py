@@ -40,7 +40,7 @@ from app.panels.parts_list import PartsList
 from app.panels.properties import PropertiesPanel
 from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
-from app.units import format_field, format_potential
+from app.units import format_field, format_potential, format_si
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -56,6 +56,7 @@ class MainWindow(QMainWindow):
         self.document = Document()
         self.results = None
         self._probe_ends = None
+        self._dragged_model: Model | None = None
         self.auto_solve = True
         self.runner = SolveRunner(self, grid_points=grid_points, n_field_lines=n_field_lines)
 
@@ -91,6 +92,7 @@ class MainWindow(QMainWindow):
         self.document.events.connect("path_changed", lambda _: self._update_title())
         self.runner.progress_changed.connect(self._on_progress_changed)
         self.runner.solution_ready.connect(self._on_solution_ready)
+        self.runner.first_results_ready.connect(self._on_solution_ready)
         self.runner.solve_failed.connect(self._on_solve_failed)
         self.runner.solve_cancelled.connect(self._on_solve_cancelled)
         self.runner.busy_changed.connect(self._on_busy_changed)
@@ -98,6 +100,8 @@ class MainWindow(QMainWindow):
         self.canvas.probe_drawn.connect(self._on_probe_drawn)
         self.canvas.problem_reported.connect(lambda m: self.statusBar().showMessage(m, 6000))
         self.canvas.tool_changed.connect(self._on_tool_changed)
+        self.canvas.part_dragged.connect(self._on_part_dragged)
+        self.canvas.drag_finished.connect(self._on_drag_finished)
         self.canvas.boundary_point_picked.connect(self.results_panel.boundary.mark_panel)
         self.results_panel.boundary.panel_picked.connect(self._on_boundary_panel_picked)
         self.results_panel.probe.export_requested.connect(self.commands.export_profile_csv)
@@ -151,7 +155,10 @@ class MainWindow(QMainWindow):
         self.cancel_button = QPushButton("Cancel solve")
         self.cancel_button.setVisible(False)
         self.cancel_button.clicked.connect(self.runner.cancel)
+        self.live_figures = QLabel("")
+        self.live_figures.setObjectName("live_figures")
         status.addPermanentWidget(self.readout, 1)
+        status.addPermanentWidget(self.live_figures)
         status.addPermanentWidget(self.progress)
         status.addPermanentWidget(self.cancel_button)
 
@@ -237,6 +244,25 @@ class MainWindow(QMainWindow):
             return
         self.runner.start(model)
 
+    def _can_auto_solve(self, model: Model) -> bool:
+        return self.auto_solve and bool(model.conductors) and len(model.conductors) <= AUTO_SOLVE_MAX_CONDUCTORS
+
+    def _on_part_dragged(self, model: Model) -> None:
+        """Live editing: solve the dragged drawing (first stage only) while the mouse moves. The
+        runner keeps one solve running and the latest drag position pending, so the rate
+        follows what the machine can do."""
+        if self._can_auto_solve(model):
+            self._dragged_model = model
+            self.runner.start(model, live=True)
+
+    def _on_drag_finished(self) -> None:
+        """The drawing the mouse left is always solved in full, at once."""
+        self._dragged_model = None
+        if self._can_auto_solve(self.document.model) and (
+            self.results is None or self.results.model != self.document.model or not self.results.complete
+        ):
+            self.solve()
+
     def _on_busy_changed(self, busy: bool) -> None:
         self.progress.setVisible(busy)
         self.cancel_button.setVisible(busy)
@@ -253,11 +279,18 @@ class MainWindow(QMainWindow):
         self.canvas.clear_errors()
         self.canvas.overlays.set_results(results)
         self.results_panel.show_results(results)
-        self._set_stale(not (results.model == self.document.model))
+        live = results.model == self._dragged_model
+        self._set_stale(not (live or results.model == self.document.model))
         self._update_banner()
         if self._probe_ends is not None:
             self._show_probe_profile(*self._probe_ends)  # the profile follows the new solution
-        self.statusBar().showMessage("Solved.", 4000)
+        self.live_figures.setText(live_figures_text(results.solution))
+        if live:
+            self.statusBar().showMessage("Live solve while dragging; release to finish the figures.", 2000)
+        elif results.complete:
+            self.statusBar().showMessage("Solved.", 4000)
+        else:
+            self.statusBar().showMessage("Solved; finishing the error estimate, field lines and radii.", 4000)
 
     def _on_solve_failed(self, message: str) -> None:
         names = re.findall(r"'([^']+)'", message)
@@ -342,3 +375,19 @@ class MainWindow(QMainWindow):
             self.settings.setValue("window_geometry", self.saveGeometry())
             self.settings.setValue("window_state", self.saveState())
         event.accept()
+
+
+def live_figures_text(solution) -> str:
+    """The two figures a drag watches: the first signal conductor's capacitance per unit length
+    (Maxwell diagonal) and the peak surface field with its conductor (marked when it sits at a
+    sharp corner, where the value depends on the mesh)."""
+    parts = []
+    if solution.has_capacitance:
+        name = solution.signal_names[0]
+        parts.append(f"C'({name}) {format_si(float(solution.capacitance_maxwell_F_per_m[0, 0]), 'F/m', 5)}")
+    peaks = [p for p in solution.peak_surface_fields if np.isfinite(p.field_V_per_m)]
+    if peaks:
+        top = max(peaks, key=lambda p: p.field_V_per_m)
+        corner = " at a sharp corner" if top.at_sharp_corner else ""
+        parts.append(f"peak |E| {format_field(top.field_V_per_m)} on {top.conductor}{corner}")
+    return "   ".join(parts)

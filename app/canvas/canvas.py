@@ -42,6 +42,11 @@ class Canvas(pg.PlotWidget):
     boundary_point_picked = Signal(int)
     problem_reported = Signal(str)
     tool_changed = Signal(str)
+    #: While the mouse drags a part or a handle: the drawing as it would be on release
+    #: (not yet an edit of the document), for live solving.
+    part_dragged = Signal(object)
+    #: The mouse released a drag (the edit, if any, has been applied).
+    drag_finished = Signal()
 
     def __init__(self, document, parent=None) -> None:
         super().__init__(parent, background="w")

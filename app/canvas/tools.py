@@ -34,6 +34,7 @@ class PickTool(Tool):
         self._start: XY | None = None
         self._handle: int | None = None
         self._ref: PartRef | None = None
+        self._last_dragged: XY | None = None
 
     def press(self, pos, raw) -> bool:
         ref = self.doc.selection
@@ -63,6 +64,9 @@ class PickTool(Tool):
             self.canvas.show_preview(None, plane_y=model.ground_plane.y)
         else:
             self.canvas.show_preview(edits.shape_of(model, self._ref))
+        if pos != self._last_dragged:  # a snapped position repeats while the mouse moves
+            self._last_dragged = pos
+            self.canvas.part_dragged.emit(model)
 
     def release(self, pos, raw) -> None:
         if self._ref is None:
@@ -73,6 +77,8 @@ class PickTool(Tool):
         if pos != self._start:
             self.doc.apply(model, description)
             self.doc.select(ref)
+        self._last_dragged = None
+        self.canvas.drag_finished.emit()
 
     def double_click(self, pos, raw) -> bool:
         """On a selected polygon or strip: a vertex is removed, a point on an edge becomes a vertex."""

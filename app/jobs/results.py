@@ -1,12 +1,19 @@
-"""Everything the program shows after a solve, computed in one go off the GUI thread (Qt-free).
+"""Everything the program shows after a solve, computed off the GUI thread in two stages (Qt-free).
 
-:func:`compute_results` calls the solver for the solution, the potential and field maps on a
-grid around the model, the field lines and each conductor's equivalent radius.
+:func:`compute_first` asks the solver for the solution and the potential and field maps on a
+grid around the model: enough to draw. :func:`compute_rest` then adds the error estimate, the
+field lines and each conductor's equivalent radius. :func:`compute_results` runs both.
+Every stage polls ``cancel`` and raises SolveCancelled.
+
+Equivalent radii depend on one conductor's outline alone (taken in isolation), so they are
+kept per conductor geometry (:class:`RadiusCache`): an edit of one conductor recomputes only
+that conductor's radius.
 """
 
 from __future__ import annotations
 
 import logging
+from collections import OrderedDict
 from collections.abc import Callable
 from dataclasses import dataclass, field
 
@@ -29,6 +36,8 @@ class Results:
     grid : potential and |E| maps (metres, volts, V/m) or None.
     field_lines : tuple of solver.FieldLine (metres).
     equivalent_radius_m : conductor name -> equivalent radius, metres.
+    complete : False for the first stage (solution and maps; no error estimate, field lines
+        or radii yet).
     """
 
     model: Model
@@ -36,6 +45,7 @@ class Results:
     grid: GridField | None
     field_lines: tuple = ()
     equivalent_radius_m: dict = field(default_factory=dict)
+    complete: bool = True
 
 
 def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, float]:
@@ -70,6 +80,100 @@ def grid_axes(model: Model, n_long: int = 120) -> tuple[np.ndarray, np.ndarray]:
     return np.linspace(x0, x1, nx) * scale, np.linspace(y0, y1, ny) * scale
 
 
+class RadiusCache:
+    """Equivalent radii by conductor geometry (outline, length unit, mesh settings), the
+    ``size`` most recent kept. Thread-safe for one writer (the solve thread)."""
+
+    def __init__(self, size: int = 64) -> None:
+        self.size = size
+        self._values: OrderedDict = OrderedDict()
+        self.computed = 0  # radii computed (not found), for tests
+
+    @staticmethod
+    def key(solution: Solution, name: str) -> tuple:
+        model = solution.model
+        return (model.conductor(name).shapes, model.metres_per_unit, solution.mesh.settings)
+
+    def radius_m(self, solution: Solution, name: str) -> float:
+        key = self.key(solution, name)
+        if key in self._values:
+            self._values.move_to_end(key)
+            return self._values[key]
+        value = solver.equivalent_radius_m(solution, [name])
+        self.computed += 1
+        self._values[key] = value
+        while len(self._values) > self.size:
+            self._values.popitem(last=False)
+        return value
+
+
+#: The cache the desktop program's solves share.
+RADII = RadiusCache()
+
+
+def _reporter(progress, cancel, start: float, span: float) -> Callable[[float, str], None]:
+    def report(fraction: float, message: str) -> None:
+        if progress is not None:
+            progress(start + span * fraction, message)
+        if cancel is not None and cancel():
+            raise SolveCancelled("Solve cancelled.")
+
+    return report
+
+
+def compute_first(
+    model: Model,
+    progress: Callable[[float, str], None] | None = None,
+    cancel: Callable[[], bool] | None = None,
+    *,
+    grid_points: int = 120,
+) -> Results:
+    """The solution (no error estimate) and the maps: what the window draws first.
+
+    Raises the solver's errors (SolverError subclasses) unchanged; SolveCancelled on cancel.
+    """
+    report = _reporter(progress, cancel, 0.0, 1.0)
+    solution = solver.solve(
+        model, estimate_error=False, progress=lambda f, m: report(0.6 * f, m), cancel=cancel,
+    )
+    report(0.6, "Computing the potential and field maps")
+    grid = None
+    if grid_points > 0:
+        x_m, y_m = grid_axes(model, grid_points)
+        grid = solver.evaluate_on_grid(solution, x_m, y_m)
+    report(1.0, "Solution and maps ready")
+    return Results(model, solution, grid, complete=False)
+
+
+def compute_rest(
+    first: Results,
+    progress: Callable[[float, str], None] | None = None,
+    cancel: Callable[[], bool] | None = None,
+    *,
+    n_field_lines: int = 48,
+    radii: RadiusCache | None = None,
+) -> Results:
+    """``first`` completed with the error estimate, the field lines and the equivalent radii."""
+    report = _reporter(progress, cancel, 0.0, 1.0)
+    solution = solver.with_error_estimate(
+        first.solution, progress=lambda f, m: report(0.5 * f, m), cancel=cancel
+    )
+    report(0.5, "Tracing field lines")
+    lines = solver.trace_field_lines(solution, n_field_lines, cancel=cancel) if n_field_lines > 0 else ()
+    report(0.8, "Equivalent radii")
+    cache = RADII if radii is None else radii
+    found = {}
+    conductors = first.model.conductors
+    for k, conductor in enumerate(conductors):
+        report(0.8 + 0.2 * k / len(conductors), f"Equivalent radius of {conductor.name}")
+        try:
+            found[conductor.name] = cache.radius_m(solution, conductor.name)
+        except solver.SolverError as exc:  # shown as "n/a" with the reason logged
+            logger.warning("equivalent radius of %s: %s", conductor.name, exc)
+    report(1.0, "Done")
+    return Results(first.model, solution, first.grid, lines, found, complete=True)
+
+
 def compute_results(
     model: Model,
     progress: Callable[[float, str], None] | None = None,
@@ -78,34 +182,9 @@ def compute_results(
     grid_points: int = 120,
     n_field_lines: int = 48,
 ) -> Results:
-    """Solve ``model`` and compute every figure the program draws.
+    """Solve ``model`` and compute every figure the program draws (both stages).
 
     Raises the solver's errors (SolverError subclasses) unchanged; SolveCancelled on cancel.
     """
-    def report(fraction: float, message: str) -> None:
-        if progress is not None:
-            progress(fraction, message)
-        if cancel is not None and cancel():
-            raise SolveCancelled("Solve cancelled.")
-
-    solution = solver.solve(
-        model, estimate_error=True,
-        progress=lambda f, m: report(0.5 * f, m), cancel=cancel,
-    )
-    report(0.5, "Computing the potential and field maps")
-    grid = None
-    if grid_points > 0:
-        x_m, y_m = grid_axes(model, grid_points)
-        grid = solver.evaluate_on_grid(solution, x_m, y_m)
-    report(0.8, "Tracing field lines")
-    lines = solver.trace_field_lines(solution, n_field_lines) if n_field_lines > 0 else ()
-    report(0.9, "Equivalent radii")
-    radii = {}
-    for k, conductor in enumerate(model.conductors):
-        report(0.9 + 0.1 * k / len(model.conductors), f"Equivalent radius of {conductor.name}")
-        try:
-            radii[conductor.name] = solver.equivalent_radius_m(solution, [conductor.name])
-        except solver.SolverError as exc:  # shown as "n/a" with the reason logged
-            logger.warning("equivalent radius of %s: %s", conductor.name, exc)
-    report(1.0, "Done")
-    return Results(model, solution, grid, lines, radii)
+    first = compute_first(model, _reporter(progress, None, 0.0, 0.5), cancel, grid_points=grid_points)
+    return compute_rest(first, _reporter(progress, None, 0.5, 0.5), cancel, n_field_lines=n_field_lines)

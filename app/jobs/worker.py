@@ -1,9 +1,16 @@
-"""Solving off the GUI thread: a QThread per solve, with progress, cancel and errors.
+"""Solving off the GUI thread: at most one running and one pending solve, in stages, cancellable.
 
-:class:`SolveRunner` starts :func:`app.results.compute_results` in a worker thread and emits
-``progress_changed(fraction, message)``, then exactly one of ``solution_ready(results)``,
-``solve_failed(message)`` or ``solve_cancelled()`` on the GUI thread. A new solve cancels the
-one still running; only the latest solve's outcome is reported.
+:class:`SolveRunner` runs a solve in a worker thread in two stages
+(:func:`app.jobs.results.compute_first`, then :func:`app.jobs.results.compute_rest`) and
+emits ``progress_changed(fraction, message)``, ``first_results_ready(results)`` as soon as the
+solution and maps can be drawn, then exactly one of ``solution_ready(results)``,
+``solve_failed(message)`` or ``solve_cancelled()`` on the GUI thread.
+
+Concurrency: one solver thread at a time. A solve requested while one runs asks the running
+one to stop and waits as the *pending* solve; a newer request replaces the pending one (only
+the latest drawing is worth solving). When the running thread ends, the pending solve starts.
+Only the latest request's outcome is reported. A *live* solve (while the mouse drags a part)
+stops after the first stage: it draws the solution and maps and skips the figures.
 """
 
 from __future__ import annotations
@@ -13,7 +20,7 @@ import threading
 
 from PySide6.QtCore import QObject, QThread, Signal
 
-from app.jobs.results import compute_results
+from app.jobs.results import compute_first, compute_rest
 from solver import Model, SolveCancelled, SolverError
 
 logger = logging.getLogger(__name__)
@@ -21,18 +28,29 @@ logger = logging.getLogger(__name__)
 
 class _SolveThread(QThread):
     progressed = Signal(float, str)
+    first_ready = Signal(object)
     finished_with = Signal(object, object)  # (results or None, error or None)
 
-    def __init__(self, model: Model, options: dict) -> None:
+    def __init__(self, model: Model, options: dict, live: bool) -> None:
         super().__init__()
         self.model = model
         self.options = options
+        self.live = live
         self.stop = threading.Event()
 
     def run(self) -> None:
         try:
-            results = compute_results(
-                self.model, lambda f, m: self.progressed.emit(f, m), self.stop.is_set, **self.options
+            first = compute_first(
+                self.model, lambda f, m: self.progressed.emit(0.5 * f, m), self.stop.is_set,
+                grid_points=self.options.get("grid_points", 120),
+            )
+            if self.live:
+                self.finished_with.emit(first, None)
+                return
+            self.first_ready.emit(first)
+            results = compute_rest(
+                first, lambda f, m: self.progressed.emit(0.5 + 0.5 * f, m), self.stop.is_set,
+                n_field_lines=self.options.get("n_field_lines", 48),
             )
             self.finished_with.emit(results, None)
         except SolverError as exc:
@@ -43,9 +61,10 @@ class _SolveThread(QThread):
 
 
 class SolveRunner(QObject):
-    """Runs solves one at a time in worker threads."""
+    """Runs solves in a worker thread: one running, at most one pending."""
 
     progress_changed = Signal(float, str)
+    first_results_ready = Signal(object)
     solution_ready = Signal(object)
     solve_failed = Signal(str)
     solve_cancelled = Signal()
@@ -54,49 +73,69 @@ class SolveRunner(QObject):
     def __init__(self, parent: QObject | None = None, **options) -> None:
         super().__init__(parent)
         self.options = options
-        self._current: _SolveThread | None = None
-        self._old: list[_SolveThread] = []
+        self._running: _SolveThread | None = None  # the thread computing (perhaps told to stop)
+        self._pending: tuple[Model, bool] | None = None  # (model, live) waiting for it to end
+        self._wanted: bool = False  # a requested solve has not reported yet
+        self.threads_started = 0
 
     @property
     def is_busy(self) -> bool:
-        return self._current is not None
+        return self._wanted
 
-    def start(self, model: Model) -> None:
-        """Solve ``model``; a solve still running is cancelled and its outcome dropped."""
-        self.cancel()
-        thread = _SolveThread(model, self.options)
+    @property
+    def is_running(self) -> bool:
+        """True while a solver thread is computing (perhaps one told to stop)."""
+        return self._running is not None
+
+    def start(self, model: Model, *, live: bool = False) -> None:
+        """Solve ``model`` (only the first stage when ``live``). A solve still running is asked
+        to stop and this one waits for it; a solve already waiting is replaced."""
+        if not self._wanted:
+            self.busy_changed.emit(True)
+        self._wanted = True
+        if self._running is None:
+            self._launch(model, live)
+        else:
+            self._running.stop.set()
+            self._pending = (model, live)
+
+    def _launch(self, model: Model, live: bool) -> None:
+        thread = _SolveThread(model, self.options, live)
         thread.progressed.connect(self._on_thread_progressed)
+        thread.first_ready.connect(self._on_first_ready)
         thread.finished_with.connect(self._on_thread_finished)
-        thread.finished.connect(lambda t=thread: self._forget(t))
-        self._current = thread
-        self._old.append(thread)
-        self.busy_changed.emit(True)
+        thread.finished.connect(self._on_thread_ended)
+        self._running = thread
+        self.threads_started += 1
         thread.start()
 
     def cancel(self) -> None:
-        """Ask the running solve to stop (it reports ``solve_cancelled``)."""
-        if self._current is not None:
-            self._current.stop.set()
+        """Stop the running solve and drop the pending one (``solve_cancelled`` is reported)."""
+        self._pending = None
+        if self._running is not None:
+            self._running.stop.set()
 
     def wait(self, timeout_ms: int = 30000) -> None:
-        """Block until every worker thread has ended (for closing and for tests)."""
-        for thread in list(self._old):
+        """Block until the worker thread has ended (for closing and for tests); a pending solve
+        is dropped."""
+        self._pending = None
+        thread = self._running
+        if thread is not None:
             thread.wait(timeout_ms)
 
-    def _forget(self, thread: _SolveThread) -> None:
-        if thread in self._old:
-            self._old.remove(thread)
-        thread.deleteLater()
-
     def _on_thread_progressed(self, fraction: float, message: str) -> None:
-        if self.sender() is self._current:
+        if self.sender() is self._running and self._pending is None:
             self.progress_changed.emit(fraction, message)
+
+    def _on_first_ready(self, results) -> None:
+        if self.sender() is self._running and self._pending is None:
+            self.first_results_ready.emit(results)
 
     def _on_thread_finished(self, results, error) -> None:
         thread = self.sender()
-        if thread is not self._current:
-            return
-        self._current = None
+        if thread is not self._running or self._pending is not None:
+            return  # superseded: the pending solve reports instead
+        self._wanted = False
         self.busy_changed.emit(False)
         if isinstance(error, SolveCancelled):
             self.solve_cancelled.emit()
@@ -105,3 +144,12 @@ class SolveRunner(QObject):
                                    else f"Unexpected error in the solver: {type(error).__name__}: {error}")
         else:
             self.solution_ready.emit(results)
+
+    def _on_thread_ended(self) -> None:
+        thread = self.sender()
+        if thread is self._running:
+            self._running = None
+            pending, self._pending = self._pending, None
+            if pending is not None:
+                self._launch(*pending)
+        thread.deleteLater()

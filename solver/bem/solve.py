@@ -209,7 +209,25 @@ def solve(
     if not estimate_error:
         report(1.0, "Done")
         return solution
-    report(0.7, "Estimating the error on a coarser mesh")
+    return with_error_estimate(solution, settings, lambda f, m: report(0.7 + 0.3 * f, m), cancel)
+
+
+def with_error_estimate(
+    solution: Solution,
+    settings: MeshSettings | None = None,
+    progress: ProgressCallback | None = None,
+    cancel: CancelCallback | None = None,
+) -> Solution:
+    """``solution`` with its error estimate: the model solved again on a mesh at half the
+    resolution, and the relative change of the capacitance matrix recorded (see :func:`solve`).
+
+    Lets a program show a solution at once and finish the estimate afterwards; the result
+    equals ``solve(model, estimate_error=True)`` at the same settings.
+    """
+    model = solution.model
+    settings = settings or solution.mesh.settings
+    report = progress_reporter(progress, cancel)
+    report(0.0, "Estimating the error on a coarser mesh")
     coarse = solve_mesh(model, discretize_boundary(model, MeshSettings(settings.level / 2.0)), cancel)
     error = relative_change(solution, coarse)
     logger.info(
@@ -228,4 +246,4 @@ def has_permittivity_contrast(model: Model) -> bool:
     return any(d.eps_r != model.background_eps_r for d in model.dielectrics)
 
 
-__all__ = ["solve", "solve_mesh", "solve_system", "progress_reporter", "has_permittivity_contrast"]
+__all__ = ["solve", "solve_mesh", "with_error_estimate", "solve_system", "progress_reporter", "has_permittivity_contrast"]

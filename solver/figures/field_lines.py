@@ -15,6 +15,7 @@ All points are in metres; grids are row-major ``(ny, nx)``.
 from __future__ import annotations
 
 import functools
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -24,6 +25,7 @@ from shapely.geometry.base import BaseGeometry
 from shapely.ops import unary_union
 
 from solver.bem.solution import Solution
+from solver.errors import SolveCancelled
 from solver.mesh.panels import MeshSettings
 from solver.model.geometry import conductor_geometries
 from solver.model.model import Model
@@ -193,6 +195,7 @@ def trace_field_lines(
     *,
     max_steps: int = 500,
     far_factor: float = 3.0,
+    cancel: Callable[[], bool] | None = None,
 ) -> tuple[FieldLine, ...]:
     """Field lines from equal charge steps along the conductors.
 
@@ -206,6 +209,8 @@ def trace_field_lines(
         Steps per line at most; the step is 1/150 of the model's size.
     far_factor : float
         A line stops when it is farther than ``far_factor`` model sizes from the centre.
+    cancel : callable() -> bool, optional
+        Polled at every step; when it returns True, SolveCancelled is raised.
 
     Returns
     -------
@@ -229,6 +234,8 @@ def trace_field_lines(
         return e / np.where(norm > 0, norm, 1.0)[:, None], norm
 
     for _ in range(max_steps):
+        if cancel is not None and cancel():
+            raise SolveCancelled("Tracing field lines cancelled.")
         idx = np.flatnonzero(active)
         if len(idx) == 0:
             break
