@@ -40,6 +40,7 @@ from app.panels.parts_list import PartsList
 from app.panels.properties import PropertiesPanel
 from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
+from app.panels.wheel_steps import WheelSteps
 from app.units import format_field, format_potential, format_si
 from solver import Model, SolverError
 
@@ -101,6 +102,8 @@ class MainWindow(QMainWindow):
         self.canvas.problem_reported.connect(lambda m: self.statusBar().showMessage(m, 6000))
         self.canvas.tool_changed.connect(self._on_tool_changed)
         self.canvas.part_dragged.connect(self._on_part_dragged)
+        self.wheel_steps = WheelSteps(self.properties)
+        self.wheel_steps.stepped.connect(lambda _: self._on_drag_finished())
         self.canvas.drag_finished.connect(self._on_drag_finished)
         self.canvas.boundary_point_picked.connect(self.results_panel.boundary.mark_panel)
         self.results_panel.boundary.panel_picked.connect(self._on_boundary_panel_picked)
@@ -256,7 +259,7 @@ class MainWindow(QMainWindow):
             self.runner.start(model, live=True)
 
     def _on_drag_finished(self) -> None:
-        """The drawing the mouse left is always solved in full, at once."""
+        """The drawing the mouse left (or a wheel step on a field) is solved in full, at once."""
         self._dragged_model = None
         if self._can_auto_solve(self.document.model) and (
             self.results is None or self.results.model != self.document.model or not self.results.complete

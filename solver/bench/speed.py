@@ -3,7 +3,11 @@
 
 * the busbar sample (sample_geometries/busbar_enclosure.json, normal density): a full solve,
   a potential-only re-solve (:meth:`Solution.with_potentials`), a geometry edit re-solved
-  (L1 moved 1 mm), and the 512 x 512 potential-and-field map;
+  (L1 moved 1 mm), the 512 x 512 potential-and-field map (grid sums, :mod:`solver.bem.grid_sums`,
+  and the point-by-point sums it replaced, for the ratio), and the solver's part of
+  click-to-drawn in the desktop program: the edited model solved without the error estimate
+  plus its 120 x 120 map (what the window draws first), then the figures that follow (error
+  estimate, field lines, equivalent radii);
 * the bus of :func:`solver.bench.bus.hundred_conductor_bus` through the fast path (time and
   peak memory of a separate process, so the figure is that solve's own), and a smaller bus of
   the same kind through both the fast path and the dense LU for the ratio; for the full bus
@@ -24,10 +28,11 @@ from pathlib import Path
 import numpy as np
 
 from solver.bem.fast_solve import dense_memory_bytes, fast_memory_bytes, solve_fast
-from solver.bem.solve import solve, solve_system
+from solver.bem.solve import solve, solve_system, with_error_estimate
 from solver.bem.system import build_system
 from solver.bench.bus import hundred_conductor_bus
-from solver.figures.field_lines import evaluate_on_grid
+from solver.figures.equilibrium import equivalent_radius_m
+from solver.figures.field_lines import evaluate_on_grid, trace_field_lines
 from solver.io.project_file import load_project
 from solver.mesh.panels import MeshSettings, discretize_boundary
 from solver.model.model import Rectangle
@@ -61,12 +66,44 @@ def interactive() -> None:
     t0 = time.perf_counter()
     grid = evaluate_on_grid(sol, x, y)
     t_map = time.perf_counter() - t0
+    xx, yy = np.meshgrid(x, y)
+    t0 = time.perf_counter()
+    sol.potential_and_field(np.column_stack([xx.ravel(), yy.ravel()]))
+    t_map_points = time.perf_counter() - t0
+    t_first, t_rest = _click_to_drawn(moved)
     print(f"\nbusbar sample, normal density ({sol.mesh.n_panels} panels, {sol.n_unknowns} unknowns)")
     print(f"  full solve (no error estimate)      {t_solve:9.3f} s")
     print(f"  potential-only re-solve             {t_pot * 1e3:9.3f} ms  (goal < 10 ms)")
     print(f"  geometry edit re-solved (L1 +1 mm)  {t_edit:9.3f} s   (goal < 0.1 s)")
     print(f"  512 x 512 potential and field map   {t_map:9.3f} s   (goal < 0.3 s; "
           f"{np.isfinite(grid.potential_V).sum()} points outside metal)")
+    print(f"    same nodes point by point         {t_map_points:9.3f} s   (FMM above a size; ratio "
+          f"{t_map_points / t_map:.1f})")
+    print(f"  click-to-drawn, solver part         {t_first:9.3f} s   (goal < 0.3 s: edited model solved, "
+          "120 x 120 map)")
+    print(f"  figures after the drawing           {t_rest:9.3f} s   (error estimate, field lines, "
+          "equivalent radii)")
+
+
+def _click_to_drawn(model) -> tuple[float, float]:
+    """Seconds for what the desktop program draws first after an edit (solve without the error
+    estimate, then the potential and field map on about 120 x 120 nodes over the model with a
+    35 % margin, as the window does), and for the figures it finishes after."""
+    t0 = time.perf_counter()
+    sol = solve(model, estimate_error=False)
+    x0, y0, x1, y1 = model.bounds()
+    pad = 0.35 * max(x1 - x0, y1 - y0)
+    side = max(x1 - x0, y1 - y0) + 2 * pad
+    cx, cy = 0.5 * (x0 + x1), 0.5 * (y0 + y1)
+    axis = np.linspace(-0.5 * side, 0.5 * side, 120) * model.metres_per_unit
+    evaluate_on_grid(sol, cx * model.metres_per_unit + axis, cy * model.metres_per_unit + axis)
+    t_first = time.perf_counter() - t0
+    t0 = time.perf_counter()
+    sol = with_error_estimate(sol)
+    trace_field_lines(sol, 48)
+    for name in model.conductor_names:
+        equivalent_radius_m(sol, [name])
+    return t_first, time.perf_counter() - t0
 
 
 def _bus_child(size: int, level: float, dense: bool) -> None:

@@ -180,3 +180,40 @@ def test_dragging_a_conductor_updates_the_capacitance_while_the_mouse_moves(wind
     assert centre[0] == pytest.approx(4 * step)
     assert window.live_figures.text() == live_figures_text(solver.solve(window.document.model))
     assert not window.stale_label.isVisible()
+
+
+@pytest.mark.parametrize("text, notches, coarse, expected", [
+    ("12.5", 1, False, "12.6"), ("12.5", -3, False, "12.2"), ("60", 2, False, "62"), ("60", 1, True, "70"),
+    ("0.05", -1, False, "0.04"), ("-0.1", 1, False, "0.0"), ("150 kV", 1, False, "151 kV"),
+    ("3.", 1, False, "4"), ("1, 2", 1, False, None), ("1e-3", 1, False, None), ("abc", 1, False, None),
+])
+def test_wheel_steps_the_last_typed_digit(text, notches, coarse, expected):
+    from app.panels.wheel_steps import stepped_text
+
+    assert stepped_text(text, notches, coarse) == expected
+
+
+def test_wheel_over_a_dimension_field_edits_and_solves_at_once(window, qtbot):
+    from PySide6.QtCore import QPoint, QPointF
+    from PySide6.QtGui import QWheelEvent
+    from PySide6.QtWidgets import QApplication
+
+    from app.document import PartRef
+
+    window.auto_solve = True
+    window.load(_coax(1.0), None)
+    window.document.select(PartRef("conductor", 0, 0))
+    qtbot.wait(10)
+    field = window.properties.fields["radius"]
+    assert field.text() == "1"
+    before = solver.solve(window.document.model, estimate_error=False).capacitance_maxwell_F_per_m[0, 0]
+    pos = QPointF(field.width() / 2, field.height() / 2)
+    event = QWheelEvent(pos, QPointF(field.mapToGlobal(pos.toPoint())), QPoint(0, 0), QPoint(0, 120),
+                        Qt.NoButton, Qt.NoModifier, Qt.NoScrollPhase, False)
+    QApplication.sendEvent(field, event)
+    assert window.document.model.conductors[0].shapes[0].radius == 2.0
+    assert window.runner.is_busy  # solving at once, not after the quiet time of typed edits
+    qtbot.waitUntil(lambda: window.results is not None and window.results.complete, timeout=60000)
+    assert window.results.model == window.document.model
+    after = window.results.solution.capacitance_maxwell_F_per_m[0, 0]
+    assert after > before
