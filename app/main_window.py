@@ -282,7 +282,7 @@ class MainWindow(QMainWindow):
         self.canvas.clear_errors()
         self.canvas.overlays.set_results(results)
         self.results_panel.show_results(results)
-        live = results.model == self._dragged_model
+        live = self._dragged_model is not None and not results.complete  # a recent drag position
         self._set_stale(not (live or results.model == self.document.model))
         self._update_banner()
         if self._probe_ends is not None:

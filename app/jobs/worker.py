@@ -10,7 +10,9 @@ Concurrency: one solver thread at a time. A solve requested while one runs asks 
 one to stop and waits as the *pending* solve; a newer request replaces the pending one (only
 the latest drawing is worth solving). When the running thread ends, the pending solve starts.
 Only the latest request's outcome is reported. A *live* solve (while the mouse drags a part)
-stops after the first stage: it draws the solution and maps and skips the figures.
+stops after the first stage: it draws the solution and maps and skips the figures. A live
+solve is not stopped by a newer live request: it finishes and is drawn while the newer one
+waits, so the drawing keeps up with the mouse at the rate the machine can solve.
 """
 
 from __future__ import annotations
@@ -96,7 +98,8 @@ class SolveRunner(QObject):
         if self._running is None:
             self._launch(model, live)
         else:
-            self._running.stop.set()
+            if not (live and self._running.live):
+                self._running.stop.set()
             self._pending = (model, live)
 
     def _launch(self, model: Model, live: bool) -> None:
@@ -133,8 +136,12 @@ class SolveRunner(QObject):
 
     def _on_thread_finished(self, results, error) -> None:
         thread = self.sender()
-        if thread is not self._running or self._pending is not None:
-            return  # superseded: the pending solve reports instead
+        if thread is not self._running:
+            return
+        if self._pending is not None:
+            if thread.live and error is None:
+                self.solution_ready.emit(results)  # a recent drag position: draw it meanwhile
+            return  # otherwise superseded: the pending solve reports instead
         self._wanted = False
         self.busy_changed.emit(False)
         if isinstance(error, SolveCancelled):

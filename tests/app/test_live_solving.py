@@ -64,6 +64,25 @@ def test_rapid_edits_never_run_two_solver_threads_and_the_last_edit_is_solved(qt
     assert ready[0].complete
 
 
+def test_live_solves_finish_and_are_drawn_while_newer_drag_positions_wait(qtbot, monkeypatch):
+    counter = _Concurrency(results_module.compute_first)
+    monkeypatch.setattr(worker, "compute_first", counter)
+    runner = worker.SolveRunner(grid_points=12, n_field_lines=4)
+    ready = []
+    runner.solution_ready.connect(ready.append)
+    drags = [_coax(0.8 + 0.05 * k) for k in range(8)]
+    for model in drags:
+        runner.start(model, live=True)
+        qtbot.wait(15)
+    qtbot.waitUntil(lambda: not runner.is_busy, timeout=60000)
+    runner.wait()
+    assert counter.most == 1
+    assert counter.models[0] == drags[0] and counter.models[-1] == drags[-1]
+    assert runner.threads_started < len(drags)  # positions passed over while a solve ran
+    assert [r.model for r in ready] == counter.models  # every live solve started was drawn
+    assert not any(r.complete for r in ready)  # live solves stop after the first stage
+
+
 def test_first_stage_is_reported_before_the_figures(qtbot):
     runner = worker.SolveRunner(grid_points=12, n_field_lines=4)
     order = []
