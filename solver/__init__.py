@@ -12,6 +12,7 @@ Model -> PanelMesh -> Solution -> figures (capacitance matrices, fields, peaks, 
 """
 
 from solver.bem.capacitance import maxwell_matrix_problems, mutual_from_maxwell
+from solver.bem.geometry_update import GeometryEditSolver
 from solver.bem.solution import PeakField, RegionPeakField, Solution
 from solver.bem.solve import solve, solve_mesh, with_error_estimate
 from solver.constants import EPSILON_0_F_PER_M, MU_0_H_PER_M, SPEED_OF_LIGHT_M_PER_S
@@ -102,7 +103,7 @@ __all__ = [
     "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
     "SHAPE_KINDS", "Arc", "MeshingHints", "DRAWING_ARC_STEP_RAD",
     "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
-    "PeakField", "Solution", "solve", "solve_mesh", "with_error_estimate",
+    "PeakField", "Solution", "solve", "solve_mesh", "with_error_estimate", "GeometryEditSolver",
     "EquilibriumCharge", "equilibrium_charge", "equivalent_radius_m",
     "mutual_from_maxwell", "maxwell_matrix_problems",
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",

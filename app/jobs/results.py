@@ -127,15 +127,24 @@ def compute_first(
     cancel: Callable[[], bool] | None = None,
     *,
     grid_points: int = 120,
+    edits: solver.GeometryEditSolver | None = None,
 ) -> Results:
     """The solution (no error estimate) and the maps: what the window draws first.
+
+    With ``edits`` (one per sequence of solves, used by one thread at a time) a model that
+    differs from the previous one by a few conductors' geometry reuses the factorised block of
+    the others (:class:`solver.GeometryEditSolver`), as while dragging a part.
 
     Raises the solver's errors (SolverError subclasses) unchanged; SolveCancelled on cancel.
     """
     report = _reporter(progress, cancel, 0.0, 1.0)
-    solution = solver.solve(
-        model, estimate_error=False, progress=lambda f, m: report(0.6 * f, m), cancel=cancel,
-    )
+    if edits is None:
+        solution = solver.solve(
+            model, estimate_error=False, progress=lambda f, m: report(0.6 * f, m), cancel=cancel,
+        )
+    else:
+        report(0.0, "Solving (reusing the parts that did not change)")
+        solution = edits.solve(model, cancel=cancel)
     report(0.6, "Computing the potential and field maps")
     grid = None
     if grid_points > 0:

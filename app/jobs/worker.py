@@ -23,7 +23,7 @@ import threading
 from PySide6.QtCore import QObject, QThread, Signal
 
 from app.jobs.results import compute_first, compute_rest
-from solver import Model, SolveCancelled, SolverError
+from solver import GeometryEditSolver, Model, SolveCancelled, SolverError
 
 logger = logging.getLogger(__name__)
 
@@ -33,8 +33,9 @@ class _SolveThread(QThread):
     first_ready = Signal(object)
     finished_with = Signal(object, object)  # (results or None, error or None)
 
-    def __init__(self, model: Model, options: dict, live: bool) -> None:
+    def __init__(self, model: Model, options: dict, live: bool, edits: GeometryEditSolver) -> None:
         super().__init__()
+        self.edits = edits
         self.model = model
         self.options = options
         self.live = live
@@ -44,7 +45,7 @@ class _SolveThread(QThread):
         try:
             first = compute_first(
                 self.model, lambda f, m: self.progressed.emit(0.5 * f, m), self.stop.is_set,
-                grid_points=self.options.get("grid_points", 120),
+                grid_points=self.options.get("grid_points", 120), edits=self.edits,
             )
             if self.live:
                 self.finished_with.emit(first, None)
@@ -79,6 +80,8 @@ class SolveRunner(QObject):
         self._pending: tuple[Model, bool] | None = None  # (model, live) waiting for it to end
         self._wanted: bool = False  # a requested solve has not reported yet
         self.threads_started = 0
+        #: Kept across solves (one thread at a time uses it): a drag re-solves only what moved.
+        self.edits = GeometryEditSolver()
 
     @property
     def is_busy(self) -> bool:
@@ -103,7 +106,7 @@ class SolveRunner(QObject):
             self._pending = (model, live)
 
     def _launch(self, model: Model, live: bool) -> None:
-        thread = _SolveThread(model, self.options, live)
+        thread = _SolveThread(model, self.options, live, self.edits)
         thread.progressed.connect(self._on_thread_progressed)
         thread.first_ready.connect(self._on_first_ready)
         thread.finished_with.connect(self._on_thread_finished)

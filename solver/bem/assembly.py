@@ -36,7 +36,7 @@ curved interfaces.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -182,12 +182,15 @@ def assemble_system(
     sources: SourcePanels,
     plane: float | None,
     ell: float,
+    panel_block: Callable[[np.ndarray, np.ndarray, np.ndarray, float | None], np.ndarray] | None = None,
 ) -> tuple[np.ndarray, SystemLayout, np.ndarray]:
     """System matrix, its layout and the interface D rows (n_interface x n_panels).
 
     ``free_charge_rows`` (n_conductor_panels x n_panels) maps total strengths to free
     strengths on conductor panels (see :func:`free_charge_operator`); ``plane`` is the
-    ground-plane height divided by ``ell`` (metres), or None.
+    ground-plane height divided by ``ell`` (metres), or None. ``panel_block`` replaces
+    :func:`single_layer_potential_matrix` for the conductor rows (same arguments and values;
+    :mod:`solver.bem.geometry_update` passes one that reuses blocks of an earlier matrix).
     """
     nc, ni = mesh.n_panels, interfaces.n_panels
     floating = tuple(k for k, role in enumerate(roles) if role == "floating")
@@ -195,7 +198,7 @@ def assemble_system(
     n = layout.n_panels
     a = np.zeros((layout.size, layout.size))
     mids = mesh.midpoints / ell
-    a[:nc, :n] = single_layer_potential_matrix(mids, sources.starts, sources.ends, plane)
+    a[:nc, :n] = (panel_block or single_layer_potential_matrix)(mids, sources.starts, sources.ends, plane)
     if ni:
         a[:nc, :n] *= sources.weights[None, :]
     d_int = interface_rows(interfaces, sources, nc, ell, plane) if ni else np.zeros((0, n))

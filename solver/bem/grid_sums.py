@@ -135,11 +135,11 @@ def _window_operator(hx: float, hy: float):
     expansion outside the core minus the lattice value of the spread charges everywhere.
     """
     (wx, wy), (cx, cy) = _half_widths(hx, hy, WINDOW), _half_widths(hx, hy, _CORE)
-    ti, tj = np.meshgrid(np.arange(-wx, wx + 2), np.arange(-wy, wy + 2))  # (rows j, cols i)
-    ti, tj = ti.ravel(), tj.ravel()
+    ti_grid, tj_grid = np.meshgrid(np.arange(-wx, wx + 2), np.arange(-wy, wy + 2))  # (rows j, cols i)
+    ti, tj = ti_grid.ravel(), tj_grid.ravel()
     pn = np.arange(_PATCH_LO, _PATCH_HI + 1)
-    pi, pj = np.meshgrid(pn, pn)
-    pi, pj = pi.ravel(), pj.ravel()
+    pi_grid, pj_grid = np.meshgrid(pn, pn)
+    pi, pj = pi_grid.ravel(), pj_grid.ravel()
     dx = (ti[None, :] - pi[:, None]) * hx
     dy = (tj[None, :] - pj[:, None]) * hy
     r2 = dx * dx + dy * dy

@@ -47,10 +47,16 @@ def progress_reporter(progress: ProgressCallback | None, cancel: CancelCallback 
     return report
 
 
-def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -> Solution:
+def solve_system(
+    system: BoundarySystem,
+    cancel: CancelCallback | None = None,
+    linear_solve: Callable[[np.ndarray], np.ndarray] | None = None,
+) -> Solution:
     """Factorise ``system`` once and solve the operating point and one unit solution per fixed
     conductor (the capacitance columns) and per floating conductor (kept for
-    :meth:`Solution.with_potentials`)."""
+    :meth:`Solution.with_potentials`). ``linear_solve(rhs)``, when given, solves
+    ``system.matrix @ x = rhs`` instead of a fresh LU factorisation (see
+    :mod:`solver.bem.geometry_update`)."""
     model, mesh, interfaces, layout = system.model, system.mesh, system.interfaces, system.layout
     if cancel is not None and cancel():
         raise SolveCancelled("Solve cancelled.")
@@ -60,8 +66,9 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
             "panels or coordinates out of range); check the drawing for repeated or overlapping outlines."
         )
     try:
-        with blas_threads_for(layout.size):
-            lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
+        if linear_solve is None:
+            with blas_threads_for(layout.size):
+                lu = scipy.linalg.lu_factor(system.matrix, check_finite=False)
     except MemoryError:
         raise MeshTooLargeError(
             f"Not enough memory to factorise the system of {system.layout.size} unknowns; "
@@ -79,8 +86,12 @@ def solve_system(system: BoundarySystem, cancel: CancelCallback | None = None) -
             charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
     potentials = np.hstack([potentials, unit_potentials])
     charges = np.hstack([charges, unit_charges])
-    with blas_threads_for(layout.size):
-        x = scipy.linalg.lu_solve(lu, right_hand_sides(mesh, layout, potentials, charges), check_finite=False)
+    rhs = right_hand_sides(mesh, layout, potentials, charges)
+    if linear_solve is not None:
+        x = linear_solve(rhs)
+    else:
+        with blas_threads_for(layout.size):
+            x = scipy.linalg.lu_solve(lu, rhs, check_finite=False)
     _check_finite(x, model, layout)
 
     n = layout.n_panels

@@ -111,8 +111,9 @@ def check_charge_balance(model: Model) -> None:
     )
 
 
-def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
-    """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system.
+def build_system(model: Model, mesh: PanelMesh, panel_block=None) -> BoundarySystem:
+    """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system
+    (``panel_block``: see :func:`solver.bem.assembly.assemble_system`).
 
     Raises
     ------
@@ -149,7 +150,7 @@ def build_system(model: Model, mesh: PanelMesh) -> BoundarySystem:
     f_op = free_charge_operator(mesh, eps_plus, eps_minus, interfaces.n_panels, sources, ell, plane)
     roles = [c.role for c in model.conductors]
     try:
-        a, layout, d_int = assemble_system(mesh, interfaces, roles, f_op, sources, plane, ell)
+        a, layout, d_int = assemble_system(mesh, interfaces, roles, f_op, sources, plane, ell, panel_block)
     except MemoryError:
         raise MeshTooLargeError(
             f"Not enough memory to assemble the system of {mesh.n_panels} conductor and "
