@@ -168,6 +168,7 @@ def solve(
     settings: MeshSettings | None = None,
     progress: ProgressCallback | None = None,
     cancel: CancelCallback | None = None,
+    tolerance: float | None = None,
 ) -> Solution:
     """Solve a model of conductors, in a homogeneous medium or in dielectric regions.
 
@@ -185,6 +186,14 @@ def solve(
         Called as the work advances (fraction from 0 to 1).
     cancel : callable() -> bool, optional
         Polled between stages; when it returns True the solve raises SolveCancelled.
+    tolerance : float, optional
+        Requested relative accuracy of the capacitance matrix. The high-order solver
+        (:mod:`solver.bem.high_order`: exact curves, Gauss-Legendre panels, adaptive
+        refinement) is used and the solution's ``estimated_relative_error`` is at most this.
+        Models with dielectric regions of another permittivity are declined by that solver;
+        the low-order solver is then refined (mesh level doubled) until its estimate meets
+        the tolerance, and the solution is a plain :class:`Solution`. Raises
+        MeshTooLargeError when the panel budget runs out first.
 
     Returns
     -------
@@ -199,6 +208,8 @@ def solve(
     """
     if not model.conductors:
         raise InvalidModelError("The model has no conductors; draw at least one.")
+    if tolerance is not None:
+        return _solve_to_tolerance(model, tolerance, progress, cancel)
     settings = settings or MeshSettings.for_density(model.mesh_density)
     report = progress_reporter(progress, cancel)
 
@@ -220,6 +231,34 @@ def solve(
     return dataclasses.replace(
         solution, estimated_relative_error=error, coarse_mesh_panels=coarse.mesh.n_panels, coarse=coarse
     )
+
+
+def _solve_to_tolerance(
+    model: Model, tolerance: float, progress: ProgressCallback | None, cancel: CancelCallback | None
+) -> Solution:
+    """The high-order adaptive solve, or the low-order one refined for models it declines."""
+    from solver.bem.high_order.adaptive import solve_to_tolerance
+    from solver.bem.high_order.nystrom import HighOrderUnsupported
+
+    try:
+        return solve_to_tolerance(model, tolerance, progress, cancel)
+    except HighOrderUnsupported as declined:
+        logger.warning("%s", declined)
+    level = MeshSettings.for_density(model.mesh_density).level
+    while True:
+        solution = solve(model, settings=MeshSettings(level), progress=progress, cancel=cancel)
+        error = solution.estimated_relative_error
+        if error is not None and error <= tolerance:
+            return solution
+        level *= 2.0
+        try:
+            discretize_boundary(model, MeshSettings(level))  # counts the panels; refuses past the budget
+        except MeshTooLargeError as e:
+            raise MeshTooLargeError(
+                f"The tolerance {tolerance:.2g} is not reached by the low-order solver (used because the model "
+                f"has dielectric regions of another permittivity) within the memory budget: the last estimate "
+                f"was {error:.2g}. {e}"
+            ) from None
 
 
 def has_permittivity_contrast(model: Model) -> bool:

@@ -18,6 +18,7 @@ J. Comput. Phys. 227, 2008).
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import cached_property
 
@@ -29,7 +30,7 @@ from solver.mesh.curved_pieces import Piece
 #: Nodes per panel.
 DEFAULT_ORDER = 16
 
-#: A junction whose field region opens by more than pi plus this is graded toward (radians).
+#: A junction whose field region's opening differs from pi by more than this is graded toward (radians).
 GRADED_OPENING_RAD = 1e-6
 
 
@@ -183,16 +184,31 @@ class CurvedPanels:
                             self.order)
 
     # ---- refinement ------------------------------------------------------------------------
+    @cached_property
+    def touches_corner(self) -> tuple[np.ndarray, np.ndarray]:
+        """(P,) bool each: the panel starts / ends at a sharp corner or strip end."""
+        graded_start = np.array([_graded(p.opening_start_rad) for p in self.pieces], dtype=bool)
+        graded_end = np.array([_graded(p.opening_end_rad) for p in self.pieces], dtype=bool)
+        return (graded_start[self.piece_index] & (self.s0 == 0.0),
+                graded_end[self.piece_index] & (self.s1 == 1.0))
+
     def split(self, flags: np.ndarray) -> CurvedPanels:
-        """A copy with every flagged panel halved (in its piece's parameter)."""
+        """A copy with every flagged panel split in two: halved, or at a quarter of its length
+        from a sharp corner it touches (so that grading toward the corner goes on by 4)."""
         flags = np.asarray(flags, dtype=bool)
-        mid = 0.5 * (self.s0 + self.s1)
-        s0 = np.concatenate([self.s0[~flags], self.s0[flags], mid[flags]])
-        s1 = np.concatenate([self.s1[~flags], mid[flags], self.s1[flags]])
+        at_start, at_end = self.touches_corner
+        fraction = np.where(at_start & ~at_end, 0.25, np.where(at_end & ~at_start, 0.75, 0.5))
+        cut = self.s0 + fraction * (self.s1 - self.s0)
+        s0 = np.concatenate([self.s0[~flags], self.s0[flags], cut[flags]])
+        s1 = np.concatenate([self.s1[~flags], cut[flags], self.s1[flags]])
         piece = np.concatenate([self.piece_index[~flags], self.piece_index[flags], self.piece_index[flags]])
         order = np.lexsort((s0, piece))
         return CurvedPanels(self.pieces, piece[order], s0[order], s1[order], self.order)
 
+
+def _graded(beta: float | None) -> bool:
+    """True at a corner (convex or re-entrant) or strip end: the density is not smooth there."""
+    return beta is not None and abs(beta - math.pi) > GRADED_OPENING_RAD
 
 
 def _graded_breaks(n_uniform: int, grade_start: int, grade_end: int, ratio: float) -> np.ndarray:
@@ -210,13 +226,14 @@ def curved_panels(
     pieces: list[Piece],
     panel_size_m: np.ndarray,
     max_sweep_rad: float,
-    corner_levels: int,
+    corner_levels: int | Callable[[float], int],
     grading_ratio: float = 4.0,
     order: int = DEFAULT_ORDER,
 ) -> CurvedPanels:
-    """Divide every piece into panels of at most ``panel_size_m[conductor]`` metres and
+    """Divide every piece into panels of at most ``panel_size_m[piece]`` metres and
     ``max_sweep_rad`` of arc, graded toward sharp corners and strip ends by ``corner_levels``
-    panels, each ``grading_ratio`` times smaller than the one before.
+    panels (a number, or a function of the corner's opening angle), each ``grading_ratio``
+    times smaller than the one before.
 
     Raises
     ------
@@ -225,17 +242,20 @@ def curved_panels(
     """
     idx, s0s, s1s = [], [], []
     for k, p in enumerate(pieces):
-        h = float(panel_size_m[p.conductor_index])
+        h = float(panel_size_m[k])
         n = max(1, math.ceil(p.length_m / h - 1e-9))
         if p.kind == "arc":
             n = max(n, math.ceil(abs(p.sweep_rad) / max_sweep_rad - 1e-9))
-        graded = [beta is not None and beta > math.pi + GRADED_OPENING_RAD
-                  for beta in (p.opening_start_rad, p.opening_end_rad)]
-        smooth_joint = [beta is not None and abs(beta - math.pi) <= GRADED_OPENING_RAD
-                        for beta in (p.opening_start_rad, p.opening_end_rad)]
-        # Tangent-continuous joints (an arc meeting a straight edge) are slightly graded too:
-        # the curvature jumps there and the density is less smooth.
-        levels = [corner_levels if g else (2 if j else 0) for g, j in zip(graded, smooth_joint)]
+        levels = []
+        for beta in (p.opening_start_rad, p.opening_end_rad):
+            if beta is not None and _graded(beta):
+                levels.append(corner_levels(beta) if callable(corner_levels) else corner_levels)
+            elif beta is not None and abs(beta - math.pi) <= GRADED_OPENING_RAD:
+                # Tangent-continuous joints (an arc meeting a straight edge) are graded a
+                # little: the curvature jumps there and the density is less smooth.
+                levels.append(2)
+            else:
+                levels.append(0)
         breaks = _graded_breaks(n, levels[0], levels[1], grading_ratio)
         idx.append(np.full(len(breaks) - 1, k))
         s0s.append(breaks[:-1])

@@ -88,7 +88,7 @@ def test_the_preimage_maps_back_and_the_ellipse_parameter_is_one_on_the_panel():
 
 def _capacitance_error(model, exact, size_m, order):
     pieces = boundary_pieces(model)
-    panels = curved_panels(pieces, np.full(len(model.conductors), size_m), math.pi / 4, 0, order=order)
+    panels = curved_panels(pieces, np.full(len(pieces), size_m), math.pi / 4, 0, order=order)
     solve = NodalSolve(model, panels)
     return abs(solve.capacitance_maxwell_F_per_m()[0, 0] / exact - 1.0), solve.n_unknowns
 
