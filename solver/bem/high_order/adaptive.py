@@ -214,8 +214,8 @@ def equivalent_radius_to_tolerance(model: Model, names: list[str], tolerance: fl
     for _ in range(MAX_ROUNDS):
         finer = check_mesh(panels)
         _check_budget(finer, tolerance, None if math.isinf(estimate) else estimate, sub)
-        cap, f = _capacity(panels)
-        cap_fine, _ = _capacity(finer)
+        cap, f = logarithmic_capacity(panels)
+        cap_fine, _ = logarithmic_capacity(finer)
         estimate = max(abs(cap - cap_fine) / cap_fine, ROUND_OFF_FLOOR)
         if estimate <= tolerance:
             return cap, estimate, panels.n_nodes + 1
@@ -228,7 +228,9 @@ def equivalent_radius_to_tolerance(model: Model, names: list[str], tolerance: fl
     )
 
 
-def _capacity(panels: CurvedPanels) -> tuple[float, np.ndarray]:
+def logarithmic_capacity(panels: CurvedPanels) -> tuple[float, np.ndarray]:
+    """Logarithmic capacity (metres) of the outlines of ``panels`` taken together, and the
+    equilibrium strengths at the nodes (scaled: they sum to 1 with the scaled weights)."""
     ell = length_scale_m(panels)
     scaled = panels.scaled(1.0 / ell)
     n = scaled.n_nodes
@@ -252,4 +254,4 @@ def _tails(panels: CurvedPanels, density: np.ndarray, tolerance: float) -> np.nd
     return tail / np.abs(f * w[None, :]).sum() > tolerance
 
 
-__all__ = ["solve_to_tolerance", "equivalent_radius_to_tolerance", "initial_panels", "check_mesh"]
+__all__ = ["solve_to_tolerance", "equivalent_radius_to_tolerance", "initial_panels", "check_mesh", "logarithmic_capacity"]

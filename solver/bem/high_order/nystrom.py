@@ -167,8 +167,7 @@ class NodalSolve:
         return out
 
     def unit_solutions(self, normal_pv: np.ndarray) -> UnitSolutions:
-        n_fixed = len(self.fixed)
-        del n_fixed
+        """The driver columns as :class:`UnitSolutions` (free = eps_r x total strengths)."""
         return UnitSolutions(
             self.fixed, self.floating, self.total[:, 1:].copy(), self.eps_b * self.total[:, 1:],
             self.phi_inf[1:].copy(), self.floating_potentials[:, 1:].copy(), normal_pv[:, 1:].copy(),

@@ -36,9 +36,6 @@ class HighOrderSolution(Solution):
     tolerance: float | None = None
     stage_seconds: tuple[tuple[str, float], ...] = ()
 
-    def _node_strengths(self) -> np.ndarray:
-        return np.asarray(self.total_strengths, dtype=float)
-
     def potential_and_field(self, points_m: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Potential (V, (m,)) and field (V/m, (m, 2)) at (m, 2) points in metres, with product
         integration near the outline (accurate up to the surface; principal value on it)."""
@@ -46,7 +43,7 @@ class HighOrderSolution(Solution):
         ell = self.length_scale_m
         pts = np.asarray(points_m, dtype=float).reshape(-1, 2) / ell
         scaled = self.panels.scaled(1.0 / ell)
-        phi, e = potential_and_field(pts, scaled, self._node_strengths()[:, None], self._plane_scaled())
+        phi, e = potential_and_field(pts, scaled, np.asarray(self.total_strengths, dtype=float)[:, None], self._plane_scaled())
         return phi[:, 0] + self.phi_inf_V, e[:, :, 0] / ell
 
     def potential_V(self, points_m: np.ndarray) -> np.ndarray:
