@@ -13,7 +13,6 @@ import math
 
 import numpy as np
 import pytest
-
 from reference_geometries import (
     equilateral_triangle,
     equilateral_triangle_capacity,
@@ -22,6 +21,7 @@ from reference_geometries import (
     square_capacity,
     two_wire,
 )
+
 from solver import Conductor, GroundPlane, Model, Strip, solve
 from solver.bem.high_order.adaptive import equivalent_radius_to_tolerance, logarithmic_capacity
 from solver.mesh.curved_panels import curved_panels
