@@ -26,7 +26,8 @@ from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
-from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
+from solver.mesh.budget import max_panels
+from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, estimate_conductor_panels
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
@@ -245,20 +246,35 @@ def _solve_to_tolerance(
     except HighOrderUnsupported as declined:
         logger.warning("%s", declined)
     level = MeshSettings.for_density(model.mesh_density).level
+    previous: float | None = None
     while True:
         solution = solve(model, settings=MeshSettings(level), progress=progress, cancel=cancel)
         error = solution.estimated_relative_error
         if error is not None and error <= tolerance:
             return solution
-        level *= 2.0
-        try:
-            discretize_boundary(model, MeshSettings(level))  # counts the panels; refuses past the budget
-        except MeshTooLargeError as e:
+        assert error is not None  # solve() estimates by default
+        # The low-order error falls by a steady factor per doubling of the level: jump to the
+        # level that factor predicts, and refuse at once when that mesh would not fit.
+        doublings = 1
+        if previous is not None and 0 < error < previous:
+            doublings = max(1, math.ceil(math.log(error / tolerance) / math.log(previous / error)))
+        elif previous is not None:
             raise MeshTooLargeError(
                 f"The tolerance {tolerance:.2g} is not reached by the low-order solver (used because the model "
-                f"has dielectric regions of another permittivity) within the memory budget: the last estimate "
-                f"was {error:.2g}. {e}"
-            ) from None
+                f"has dielectric regions of another permittivity): its estimate did not fall when the mesh "
+                f"was refined ({previous:.2g}, then {error:.2g}). Ask for a looser tolerance."
+            )
+        next_level = level * 2.0**doublings
+        count, responsible = estimate_conductor_panels(model, MeshSettings(next_level))
+        if count > max_panels():
+            raise MeshTooLargeError(
+                f"The tolerance {tolerance:.2g} is not reached by the low-order solver (used because the model "
+                f"has dielectric regions of another permittivity) within the memory budget: the estimate is "
+                f"{error:.2g} with {solution.n_unknowns} unknowns and would need about {count:.3g} panels "
+                f"(the budget allows about {max_panels()}; most of them for {responsible}). Ask for a looser "
+                "tolerance."
+            )
+        previous, level = error, next_level
 
 
 def has_permittivity_contrast(model: Model) -> bool:
