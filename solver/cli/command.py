@@ -89,7 +89,8 @@ def main(
         if args.csv and not (model.has_return_path and model.signal_names):
             return _fail(f"{args.model}: cannot write {args.csv}: "
                          + (NO_RETURN_PATH if not model.has_return_path else NO_FIXED_CONDUCTOR))
-        report = build_report(run_solve(model, options.tolerance), options)
+        solution = run_solve(model) if options.tolerance is None else run_solve(model, options.tolerance)
+        report = build_report(solution, options)
         if args.json:
             print(json.dumps(report_to_json(report, json_parts), indent=2, allow_nan=False))
         else:

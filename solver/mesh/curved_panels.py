@@ -30,6 +30,9 @@ from solver.mesh.curved_pieces import Piece
 #: Nodes per panel.
 DEFAULT_ORDER = 16
 
+#: Panels graded toward a tangent-continuous joint (an arc meeting a straight edge).
+SMOOTH_JOINT_LEVELS = 1
+
 #: A junction whose field region's opening differs from pi by more than this is graded toward (radians).
 GRADED_OPENING_RAD = 1e-6
 
@@ -253,7 +256,7 @@ def curved_panels(
             elif beta is not None and abs(beta - math.pi) <= GRADED_OPENING_RAD:
                 # Tangent-continuous joints (an arc meeting a straight edge) are graded a
                 # little: the curvature jumps there and the density is less smooth.
-                levels.append(2)
+                levels.append(SMOOTH_JOINT_LEVELS)
             else:
                 levels.append(0)
         breaks = _graded_breaks(n, levels[0], levels[1], grading_ratio)
