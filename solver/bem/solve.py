@@ -26,7 +26,8 @@ from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
-from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
+from solver.mesh.budget import max_panels
+from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, estimate_conductor_panels
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
@@ -179,6 +180,7 @@ def solve(
     settings: MeshSettings | None = None,
     progress: ProgressCallback | None = None,
     cancel: CancelCallback | None = None,
+    tolerance: float | None = None,
 ) -> Solution:
     """Solve a model of conductors, in a homogeneous medium or in dielectric regions.
 
@@ -196,6 +198,14 @@ def solve(
         Called as the work advances (fraction from 0 to 1).
     cancel : callable() -> bool, optional
         Polled between stages; when it returns True the solve raises SolveCancelled.
+    tolerance : float, optional
+        Requested relative accuracy of the capacitance matrix. The high-order solver
+        (:mod:`solver.bem.high_order`: exact curves, Gauss-Legendre panels, adaptive
+        refinement) is used and the solution's ``estimated_relative_error`` is at most this.
+        Models with dielectric regions of another permittivity are declined by that solver;
+        the low-order solver is then refined (mesh level doubled) until its estimate meets
+        the tolerance, and the solution is a plain :class:`Solution`. Raises
+        MeshTooLargeError when the panel budget runs out first.
 
     Returns
     -------
@@ -210,6 +220,8 @@ def solve(
     """
     if not model.conductors:
         raise InvalidModelError("The model has no conductors; draw at least one.")
+    if tolerance is not None:
+        return _solve_to_tolerance(model, tolerance, progress, cancel)
     settings = settings or MeshSettings.for_density(model.mesh_density)
     report = progress_reporter(progress, cancel)
 
@@ -249,6 +261,49 @@ def with_error_estimate(
     return dataclasses.replace(
         solution, estimated_relative_error=error, coarse_mesh_panels=coarse.mesh.n_panels, coarse=coarse
     )
+
+
+def _solve_to_tolerance(
+    model: Model, tolerance: float, progress: ProgressCallback | None, cancel: CancelCallback | None
+) -> Solution:
+    """The high-order adaptive solve, or the low-order one refined for models it declines."""
+    from solver.bem.high_order.adaptive import solve_to_tolerance
+    from solver.bem.high_order.nystrom import HighOrderUnsupported
+
+    try:
+        return solve_to_tolerance(model, tolerance, progress, cancel)
+    except HighOrderUnsupported as declined:
+        logger.warning("%s", declined)
+    level = MeshSettings.for_density(model.mesh_density).level
+    previous: float | None = None
+    while True:
+        solution = solve(model, settings=MeshSettings(level), progress=progress, cancel=cancel)
+        error = solution.estimated_relative_error
+        if error is not None and error <= tolerance:
+            return solution
+        assert error is not None  # solve() estimates by default
+        # The low-order error falls by a steady factor per doubling of the level: jump to the
+        # level that factor predicts, and refuse at once when that mesh would not fit.
+        doublings = 1
+        if previous is not None and 0 < error < previous:
+            doublings = max(1, math.ceil(math.log(error / tolerance) / math.log(previous / error)))
+        elif previous is not None:
+            raise MeshTooLargeError(
+                f"The tolerance {tolerance:.2g} is not reached by the low-order solver (used because the model "
+                f"has dielectric regions of another permittivity): its estimate did not fall when the mesh "
+                f"was refined ({previous:.2g}, then {error:.2g}). Ask for a looser tolerance."
+            )
+        next_level = level * 2.0**doublings
+        count, responsible = estimate_conductor_panels(model, MeshSettings(next_level))
+        if count > max_panels():
+            raise MeshTooLargeError(
+                f"The tolerance {tolerance:.2g} is not reached by the low-order solver (used because the model "
+                f"has dielectric regions of another permittivity) within the memory budget: the estimate is "
+                f"{error:.2g} with {solution.n_unknowns} unknowns and would need about {count:.3g} panels "
+                f"(the budget allows about {max_panels()}; most of them for {responsible}). Ask for a looser "
+                "tolerance."
+            )
+        previous, level = error, next_level
 
 
 def has_permittivity_contrast(model: Model) -> bool:

@@ -111,6 +111,7 @@ def run(levels: list[float]) -> None:
     from solver.bench import dielectric as bench_dielectric
 
     bench_dielectric.run(levels)
+    __import__("solver.bench.accuracy", fromlist=["run"]).run()
     __import__("solver.bench.speed", fromlist=["run"]).run()
 
 

@@ -52,9 +52,12 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-def run_solve(model: Model) -> Solution:
+def run_solve(model: Model, tolerance: float | None = None) -> Solution:
     """The solve the command line runs: the operating point, the capacitance matrix and the
-    error estimate (whose coarser mesh the hot spots reuse)."""
+    error estimate (whose coarser mesh the hot spots reuse); with ``tolerance``, the
+    high-order adaptive solve (see :func:`solver.solve`)."""
+    if tolerance is not None:
+        return solve(model, tolerance=tolerance)
     return solve(model, estimate_error=True)
 
 
@@ -86,7 +89,8 @@ def main(
         if args.csv and not (model.has_return_path and model.signal_names):
             return _fail(f"{args.model}: cannot write {args.csv}: "
                          + (NO_RETURN_PATH if not model.has_return_path else NO_FIXED_CONDUCTOR))
-        report = build_report(run_solve(model), options)
+        solution = run_solve(model) if options.tolerance is None else run_solve(model, options.tolerance)
+        report = build_report(solution, options)
         if args.json:
             print(json.dumps(report_to_json(report, json_parts), indent=2, allow_nan=False))
         else:

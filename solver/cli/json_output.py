@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Sequence
 
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.cli.cross_check import cross_check_json
 from solver.cli.hot_spots import hot_spot_json
 from solver.cli.line_figures import transmission_line_json
@@ -64,11 +65,15 @@ def operating_point_json(report: Report) -> dict:
 
 
 def figures_json(report: Report) -> dict:
-    """Equivalent radii and the error estimate of the solve."""
+    """Equivalent radii, the error estimate, the size of the linear system (``unknowns``),
+    which solver ran and its time per stage, seconds (high-order solves only)."""
     return {
         "equivalent_radius_m": list(report.equivalent_radii_m),
         "estimated_relative_error": report.solution.estimated_relative_error,
         "coarse_mesh_panels": report.solution.coarse_mesh_panels,
+        "unknowns": report.solution.n_unknowns,
+        "solver": "high-order" if isinstance(report.solution, HighOrderSolution) else "low-order",
+        "stage_seconds": dict(getattr(report.solution, "stage_seconds", ())),
     }
 
 

@@ -25,6 +25,8 @@ class ReportOptions:
     part_length_m : length of the real part, metres, for the 2-D check (None: not asked).
     radius_sweep : (conductor, radii in metres) for the peak field against corner radius,
         or None.
+    tolerance : requested relative accuracy of the capacitance matrix and equivalent radii
+        (``--tolerance``; the high-order adaptive solver), or None for the mesh density.
     """
 
     air_override: tuple[tuple[str, float], ...] = ()
@@ -33,6 +35,7 @@ class ReportOptions:
     part_length_m: float | None = None
     radius_sweep: tuple[str, tuple[float, ...]] | None = None
     cross_check_points: tuple[int, ...] | None = None
+    tolerance: float | None = None
 
     def air_for(self, model: Model) -> AirConditions:
         """The project's air conditions with this run's command-line air settings over them."""
@@ -60,6 +63,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
                        help="length of the real part, m: how far it is from the 2-D assumption")
     group.add_argument("--radius-sweep", metavar="CONDUCTOR=R1,R2,...",
                        help="peak field of CONDUCTOR with its corners rounded to each radius (m)")
+    accuracy = parser.add_argument_group("accuracy")
+    accuracy.add_argument("--tolerance", type=float, metavar="REL",
+                          help="solve with the high-order solver, refining until the estimated relative "
+                               "error of the capacitance matrix is at most REL (e.g. 1e-10)")
 
 
 def air_override(args: argparse.Namespace) -> tuple[tuple[str, float], ...]:
@@ -99,4 +106,14 @@ def options_from_args(args: argparse.Namespace) -> ReportOptions:
         part_length_m=getattr(args, "part_length_m", None),
         radius_sweep=parse_radius_sweep(getattr(args, "radius_sweep", None)),
         cross_check_points=tuple(args.cross_check_points) if getattr(args, "cross_check", False) else None,
+        tolerance=checked_tolerance(getattr(args, "tolerance", None)),
     )
+
+
+def checked_tolerance(value: float | None) -> float | None:
+    """``--tolerance`` checked: a relative error between 1e-15 and 1 (None when not given)."""
+    if value is None:
+        return None
+    if not (1e-15 <= value < 1.0):
+        raise InvalidModelError(f"--tolerance {value:g}: give a relative error between 1e-15 and 1, e.g. 1e-10.")
+    return float(value)

@@ -10,8 +10,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from solver.bem.high_order.adaptive import equivalent_radius_to_tolerance
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
-from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter
+from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve
 from solver.cli.hot_spots import HotSpotFigures, hot_spot_figures
 from solver.cli.line_figures import figures_for_solution
 from solver.cli.options import ReportOptions
@@ -37,6 +39,15 @@ def capacitance_note(solution: Solution) -> str | None:
     if not solution.signal_names:
         return NO_FIXED_CONDUCTOR
     return None
+
+
+def _equivalent_radii(solution: Solution) -> tuple[float, ...]:
+    """Each conductor's equivalent radius; to the solution's tolerance after a high-order solve."""
+    tolerance = solution.tolerance if isinstance(solution, HighOrderSolution) else None
+    if tolerance is None:
+        return tuple(equivalent_radius_m(solution, [name]) for name in solution.conductor_names)
+    return tuple(equivalent_radius_to_tolerance(solution.model, [name], tolerance)[0]
+                 for name in solution.conductor_names)
 
 
 @dataclass(frozen=True)
@@ -85,9 +96,12 @@ def build_report(
     options = options or ReportOptions()
     report = progress_reporter(progress, cancel)
     report(0.0, "Equivalent radii")
-    radii = tuple(equivalent_radius_m(solution, [name]) for name in solution.conductor_names)
+    radii = _equivalent_radii(solution)
     report(0.2, "Hot spots")
-    hot_spots = hot_spot_figures(solution, options, lambda f, m: report(0.2 + 0.7 * f, m), cancel)
+    # Hot spots refine on the low-order meshes, level by level; a high-order solution is not one
+    # of those levels, so they start from a low-order solve of the same model.
+    hot_source = solve(solution.model) if isinstance(solution, HighOrderSolution) else solution
+    hot_spots = hot_spot_figures(hot_source, options, lambda f, m: report(0.2 + 0.7 * f, m), cancel)
     report(0.9, "Transmission-line figures")
     line_figures = figures_for_solution(solution)
     checks = None

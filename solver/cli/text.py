@@ -97,6 +97,14 @@ def error_section(report: Report) -> list[str]:
     if err is None:
         return ["Estimated relative error: not estimated."]
     what = "capacitance matrix" if solution.has_capacitance else "conductor charges"
+    tolerance = report.options.tolerance
+    if tolerance is not None and getattr(solution, "tolerance", None) is not None:
+        return [f"Estimated relative error of the {what}: {err:.2g} (high-order solver, {solution.n_unknowns} "
+                f"unknowns; change against a check mesh with every panel split; tolerance {tolerance:.2g})"]
+    if tolerance is not None:
+        return [f"Estimated relative error of the {what}: {err:.2g} (tolerance {tolerance:.2g})",
+                "  The high-order solver declined this model (dielectric regions of another permittivity); "
+                f"the low-order solver was refined to the tolerance ({solution.n_unknowns} unknowns)."]
     coarse = f", against {solution.coarse_mesh_panels} panels" if solution.coarse_mesh_panels else ""
     return [f"Estimated relative error of the {what}: {err:.2g} (change from a mesh at half the resolution{coarse})"]
 
