@@ -14,6 +14,7 @@ from pathlib import Path
 
 import numpy as np
 from PySide6.QtCore import Qt, QTimer
+from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QCheckBox,
     QComboBox,
@@ -83,6 +84,7 @@ class MainWindow(QMainWindow):
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
         self._build_status_bar()
         self.commands = Commands(self)
+        self._add_study_menus()
         self.addToolBarBreak(Qt.TopToolBarArea)
         self._build_view_bar()
 
@@ -158,6 +160,47 @@ class MainWindow(QMainWindow):
     def _update_title(self) -> None:
         name = self.document.path.name if self.document.path else "untitled"
         self.setWindowTitle(f"{name}{' *' if self.document.is_modified else ''} — Edgewise")
+
+    def _add_study_menus(self) -> None:
+        """File > Import drawing..., Solve > Sweep and goal search... (dialogs in their own modules)."""
+        menus = {a.text(): a.menu() for a in self.menuBar().actions() if a.menu() is not None}
+        self.import_action = QAction("Import drawing (DXF, SVG)…", self)
+        self.import_action.triggered.connect(lambda: self.import_drawing())
+        export = next(a for a in menus["&File"].actions() if a.text() == "&Export")
+        menus["&File"].insertAction(export, self.import_action)
+        self.sweep_action = QAction("Sweep and goal search…", self)
+        self.sweep_action.setShortcut("Ctrl+Shift+W")
+        self.sweep_action.triggered.connect(lambda: self.open_sweep_dialog())
+        menus["&Solve"].addAction(self.sweep_action)
+
+    def open_sweep_dialog(self):
+        """Show the sweep dialog for the drawing as it is now (returns it)."""
+        from app.panels.sweep_dialog import SweepDialog
+
+        if not self.document.model.conductors:
+            self.statusBar().showMessage("Nothing to sweep: draw a conductor first.", 6000)
+            return None
+        dialog = SweepDialog(self.document, self)
+        dialog.setAttribute(Qt.WA_DeleteOnClose)
+        dialog.show()
+        return dialog
+
+    def import_drawing(self, path: Path | None = None):
+        """Show the layer-mapping dialog for a drawing (asks for the file without ``path``)."""
+        from app.files.import_dialog import ImportDrawingDialog, ask_drawing_path
+
+        path = path or ask_drawing_path(self)
+        if path is None:
+            return None
+        dialog = ImportDrawingDialog(self.document, Path(path), self)
+        if dialog.census_error:
+            show_message(self, "critical", "Cannot read the drawing", dialog.census_error)
+            dialog.deleteLater()
+            return None
+        dialog.setAttribute(Qt.WA_DeleteOnClose)
+        dialog.accepted.connect(self.canvas.fit_view)
+        dialog.show()
+        return dialog
 
     # ---- document --------------------------------------------------------------------------
     def load(self, model: Model, path: Path | None, *, modified: bool = False) -> None:
