@@ -172,6 +172,38 @@ class MainWindow(QMainWindow):
         self.sweep_action.setShortcut("Ctrl+Shift+W")
         self.sweep_action.triggered.connect(lambda: self.open_sweep_dialog())
         menus["&Solve"].addAction(self.sweep_action)
+        self.green_menu = menus["&View"].addMenu("Green's function (pole at infinity)")
+        self.green_menu.aboutToShow.connect(self._fill_green_menu)
+        from app.canvas.green_overlay import GreenOverlay
+
+        self.green_overlay = GreenOverlay(self.canvas.plotItem, self)
+        self.green_overlay.shown.connect(self._on_green_shown)
+        self.green_overlay.failed.connect(lambda m: self.statusBar().showMessage(f"Green's function: {m}", 8000))
+        self.document.events.connect("model_changed", lambda _: self.green_overlay.clear())
+
+    def _fill_green_menu(self) -> None:
+        self.green_menu.clear()
+        names = self.document.model.conductor_names
+        for name in names:
+            self.green_menu.addAction(name, lambda n=name: self.show_green_function([n]))
+        if len(names) > 1:
+            self.green_menu.addAction("all conductors tied together", lambda: self.show_green_function(list(names)))
+        self.green_menu.addSeparator()
+        self.green_menu.addAction("Hide", self.green_overlay.clear)
+
+    def show_green_function(self, names: list[str]) -> None:
+        """Overlay the Green's function with pole at infinity of ``names`` (tied together)."""
+        self.statusBar().showMessage(f"Computing the Green's function of {', '.join(names)}...", 4000)
+        self.green_overlay.show_for(self.document.model, names)
+
+    def _on_green_shown(self, m) -> None:
+        (x0, x1), (y0, y1) = self.green_overlay.view_range()
+        self.canvas.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
+        unit = self.document.model.unit
+        self.statusBar().showMessage(
+            f"Green's function of {' + '.join(m.names)}: equivalent radius {m.equivalent_radius:.5g} {unit}, "
+            f"Robin constant {m.robin_constant:.5g} (lengths in {unit}); round wire within 1 % beyond "
+            f"{m.round_wire_distance:.4g} {unit} from the charge centre.", 20000)
 
     def open_sweep_dialog(self):
         """Show the sweep dialog for the drawing as it is now (returns it)."""
@@ -380,6 +412,7 @@ class MainWindow(QMainWindow):
             return
         self.runner.cancel()
         self.runner.wait()
+        self.green_overlay.runner.wait()
         files.discard_recovery()
         if self.settings is not None:
             self.settings.setValue("window_geometry", self.saveGeometry())
