@@ -67,6 +67,23 @@ def _shape_fields(prefix: str, owner: str, shapes: list[dict], unit: str) -> lis
     return out
 
 
+def _shared_fields(fields: list[FieldChoice]) -> list[FieldChoice]:
+    """One parameter for a dimension that two or more conductors share with the same value (e.g.
+    the corner radius of both bars), its paths joined by ``+`` so that they move together."""
+    groups: dict[tuple[str, float], list[FieldChoice]] = {}
+    for f in fields:
+        parts = f.path.split(".")
+        if parts[0] == "conductors" and parts[-1] in _LENGTH_FIELDS:
+            groups.setdefault((parts[-1], f.value), []).append(f)
+    out = []
+    for (key, value), same in groups.items():
+        owners = list(dict.fromkeys(f.path.split(".")[1] for f in same))
+        if len(owners) > 1:
+            out.append(FieldChoice("+".join(f.path for f in same), f"{' + '.join(owners)}: {_LENGTH_FIELDS[key]}",
+                                   value, same[0].unit))
+    return out
+
+
 def sweepable_fields(model: Model) -> list[FieldChoice]:
     """The numbers of ``model`` a sweep or goal search can vary, part by part.
 
@@ -88,6 +105,7 @@ def sweepable_fields(model: Model) -> list[FieldChoice]:
         prefix = f"dielectrics.{d['name']}"
         out.append(FieldChoice(f"{prefix}.eps_r", f"{d['name']}: relative permittivity", float(d["eps_r"]), ""))
         out.extend(_shape_fields(prefix, d["name"], d.get("shapes", []), unit))
+    out.extend(_shared_fields(out))
     out.append(FieldChoice("background_eps_r", "background: relative permittivity", float(model.background_eps_r), ""))
     if model.ground_plane is not None:
         out.append(FieldChoice("ground_plane.y", "ground plane: height y", float(model.ground_plane.y), unit))

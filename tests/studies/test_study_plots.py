@@ -103,3 +103,18 @@ def test_the_studies_command_writes_the_plot(tmp_path, monkeypatch, capsys):
     assert [x for x, _, _, _ in points] == [0.5, 0.8]
     assert [y for _, y, _, _ in points] == pytest.approx(values, rel=1e-12)
     assert "project unit: mm" in out.read_text(encoding="utf-8")
+
+
+def test_the_spread_command_plots_its_histograms(tmp_path, monkeypatch, capsys):
+    import json
+
+    monkeypatch.chdir(ROOT)
+    out = tmp_path / "spread.svg"
+    code = main(["spread", "sample_geometries/twin_lead.json", "--vary", "conductors.go.shapes.0.radius=uniform:0.05",
+                 "--figure", "C_F_per_m.go.go", "--cases", "6", "--bins", "3", "--plot", str(out)])
+    assert code == 0
+    printed = json.loads(capsys.readouterr().out)
+    root = ET.fromstring(out.read_text(encoding="utf-8"))
+    bars = [r for r in root.iter(f"{SVG}rect") if r.get("data-count") is not None]
+    assert [int(b.get("data-count")) for b in bars] == printed["histograms"]["C_F_per_m.go.go"]["counts"]
+    assert sum(int(b.get("data-count")) for b in bars) == 6
