@@ -152,8 +152,11 @@ class SweepDialog(QDialog):
         self.export_button.clicked.connect(lambda: self.export_csv())
         self.caution = QLabel()
         self.caution.setWordWrap(True)
+        self.caution.setTextFormat(Qt.RichText)
         self.caution.setStyleSheet("color: #5a3a00; background: #fdf3dc; padding: 4px;")
+        self.caution.linkActivated.connect(lambda _: self._set_caution_text(full=not self._caution_full))
         self.caution.setVisible(False)
+        self._caution_full = False
         right = QSplitter(Qt.Vertical)
         right.addWidget(self.plot)
         lower = QWidget()
@@ -255,8 +258,8 @@ class SweepDialog(QDialog):
             self.goal_result.setText(
                 f"<b>{html.escape(f.label)} = {result.value:.6g} {html.escape(f.unit)}</b> gives "
                 f"{html.escape(result.figure)} = {result.figure_value / scale:.6g} {html.escape(unit)} "
-                f"(target {result.target / scale:.6g}; {result.n_solves} solves, the value to within "
-                f"{result.parameter_tolerance:.2g} {html.escape(f.unit)}).")
+                f"(target {result.target / scale:.6g}; {result.n_solves} solves; root finder's tolerance "
+                f"{result.parameter_tolerance:.2g} {html.escape(f.unit)}, the figure's own error comes on top).")
             self.apply_button.setEnabled(True)
             self.plot.show_study(self.table, self._x_label(), result)
             self._show_caution([result.figure])
@@ -275,8 +278,7 @@ class SweepDialog(QDialog):
         self._show_caution(result.figures)
 
     def _on_failed(self, message: str) -> None:
-        self.status.setText(message)
-        self.goal_result.setText(message)
+        (self.goal_result if self._searching else self.status).setText(message)
 
     def _show_caution(self, figures) -> None:
         """The standing high-voltage caution beside peak fields and margins of a high-voltage model
@@ -288,8 +290,17 @@ class SweepDialog(QDialog):
         difference = largest_potential_difference_V(potentials, model.has_return_path)
         hv = difference >= solver.LOW_VOLTAGE_THRESHOLD_V and any(
             f.split(".")[0] in HIGH_VOLTAGE_FIGURES for f in figures)
-        self.caution.setText(solver.HIGH_VOLTAGE_CAUTION)
+        self._set_caution_text(full=False)
         self.caution.setVisible(hv)
+
+    def _set_caution_text(self, full: bool) -> None:
+        """One line (the caution's first two sentences) with "details", or the whole caution."""
+        self._caution_full = full
+        text = solver.HIGH_VOLTAGE_CAUTION
+        shown = text if full else ". ".join(text.split(". ")[:3]) + "."
+        link = "less" if full else "details"
+        self.caution.setText(f"\u26a0 {html.escape(shown)} <a href='toggle'>{link}</a>")
+        self.caution.setToolTip(text)
 
     # ---- results ---------------------------------------------------------------------------
     def apply_found(self) -> bool:

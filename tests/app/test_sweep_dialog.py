@@ -3,7 +3,9 @@ cancel, and the value found put into the drawing (undoable)."""
 
 from __future__ import annotations
 
+import html
 import math
+import re
 
 import numpy as np
 import pytest
@@ -123,4 +125,20 @@ def test_margins_of_a_high_voltage_model_carry_the_caution(window, qtbot):
     d.set_figures(["peak_field_V_per_m.wire"])
     with qtbot.waitSignal(d.runner.finished, timeout=60000):
         d.run_sweep()
-    assert d.caution.text() == HIGH_VOLTAGE_CAUTION and not d.caution.isHidden()
+    assert not d.caution.isHidden() and d.caution.toolTip() == HIGH_VOLTAGE_CAUTION
+    assert "Caution - high voltage." in d.caution.text() and "details" in d.caution.text()
+    d.caution.linkActivated.emit("toggle")
+    assert html.unescape(re.sub("<[^>]+>", "", d.caution.text())) == f"\u26a0 {HIGH_VOLTAGE_CAUTION} less"
+
+
+def test_a_target_out_of_reach_is_said_in_the_search_box(dialog, qtbot):
+    dialog.select_field(WIRE_R)
+    dialog.start_edit.setText("0.5")
+    dialog.stop_edit.setText("1.5")
+    dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
+    dialog.goal_target.setText("1e-9")  # 1000 pF/m: far above any wire of this size
+    status_before = dialog.status.text()
+    with qtbot.waitSignal(dialog.runner.failed, timeout=60000):
+        assert dialog.run_search()
+    assert "does not cross 1e-09" in dialog.goal_result.text()
+    assert dialog.status.text() == status_before and not dialog.apply_button.isEnabled()
