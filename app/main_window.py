@@ -412,7 +412,12 @@ class MainWindow(QMainWindow):
             return
         self.runner.cancel()
         self.runner.wait()
+        self.green_overlay.clear()
         self.green_overlay.runner.wait()
+        from app.panels.sweep_dialog import SweepDialog
+
+        for dialog in self.findChildren(SweepDialog):
+            dialog.close()  # stops its study
         files.discard_recovery()
         if self.settings is not None:
             self.settings.setValue("window_geometry", self.saveGeometry())

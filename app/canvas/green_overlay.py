@@ -117,17 +117,41 @@ class GreenOverlay(QObject):
         self.map: GreenMap | None = None
         self.items: list = []
         self.runner = StudyRunner(self)
-        self.runner.finished.connect(self.draw)
-        self.runner.failed.connect(self.failed)
+        self.runner.finished.connect(self._on_computed)
+        self.runner.failed.connect(self._on_failed)
+        self._wanted = 0  # the request whose map may be drawn; older results are dropped
+        self._pending: tuple[int, Model, tuple[str, ...]] | None = None
 
     def show_for(self, model: Model, names: Sequence[str]) -> None:
-        """Compute the map of ``names`` (tied together) and draw it when ready."""
+        """Compute the map of ``names`` (tied together) and draw it when ready; a request made
+        while another is computing replaces it."""
         self.clear()
-        self.runner.cancel()
-        self.runner.wait()
-        self.runner.start(lambda progress, cancel: green_map(model, tuple(names)))
+        self._pending = (self._wanted, model, tuple(names))
+        if not self.runner.is_busy:
+            self._start_pending()
+
+    def _start_pending(self) -> None:
+        if self._pending is None:
+            return
+        token, model, names = self._pending
+        self._pending = None
+        self.runner.start(lambda progress, cancel: (token, green_map(model, names)))
+
+    def _on_computed(self, result) -> None:
+        token, m = result
+        if token == self._wanted:
+            self.draw(m)
+        self._start_pending()
+
+    def _on_failed(self, message: str) -> None:
+        if self._pending is None:
+            self.failed.emit(message)
+        self._start_pending()
 
     def clear(self) -> None:
+        """Remove the overlay; a map still being computed will not be drawn."""
+        self._wanted += 1
+        self._pending = None
         for item in self.items:
             self.plot.removeItem(item)
         self.items, self.map = [], None
@@ -138,8 +162,9 @@ class GreenOverlay(QObject):
         self.items.append(item)
 
     def draw(self, m: GreenMap) -> None:
-        self.clear()
-        self.map = m
+        for item in self.items:
+            self.plot.removeItem(item)
+        self.items, self.map = [], m
         dx, dy = m.x[1] - m.x[0], m.y[1] - m.y[0]
         inside = ~np.isfinite(m.g)
         filled = np.where(inside, 0.0, m.g)  # g is 0 on and inside the conductor

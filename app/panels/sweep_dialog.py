@@ -18,6 +18,7 @@ import functools
 import html
 from pathlib import Path
 
+import numpy as np
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
     QComboBox,
@@ -212,8 +213,6 @@ class SweepDialog(QDialog):
         if not figures:
             self.status.setText("Tick at least one figure to collect.")
             return False
-        import numpy as np
-
         values = np.linspace(start, stop, self.count_spin.value())
         job = functools.partial(_sweep_job, self.document.model, {self.field().path: values}, figures)
         self.found = None

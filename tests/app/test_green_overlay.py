@@ -92,3 +92,21 @@ def test_the_view_menu_offers_each_conductor_and_both_tied(window):
     window._fill_green_menu()
     assert [a.text() for a in window.green_menu.actions() if a.text()] == [
         "bar", "wire", "all conductors tied together", "Hide"]
+
+
+def test_only_the_latest_request_is_drawn(window, qtbot):
+    window.load(bar_and_wire(), None)
+    window.show_green_function(["bar"])
+    window.show_green_function(["wire"])  # asked while the bar's map is computing
+    qtbot.waitUntil(lambda: window.green_overlay.map is not None and not window.green_overlay.runner.is_busy,
+                    timeout=60000)
+    assert window.green_overlay.map.names == ("wire",)
+
+
+def test_a_map_finished_after_the_drawing_changed_is_not_drawn(window, qtbot):
+    window.load(bar_and_wire(), None)
+    window.show_green_function(["bar"])
+    window.document.apply(bar_and_wire().with_potentials({"bar": 3.0}), "change")
+    qtbot.waitUntil(lambda: not window.green_overlay.runner.is_busy, timeout=60000)
+    qtbot.wait(50)
+    assert window.green_overlay.map is None and window.green_overlay.items == []
