@@ -1,13 +1,16 @@
-"""The table and the plot of a study's results (views only; the numbers come from the solver).
+"""The table, the plot and the caution line of a study's results (views only; the numbers come
+from the solver).
 
 :class:`StudyTableView` shows a :class:`solver.studies.StudyTable` with a unit in each column
 header (an SI prefix chosen per column from its values); failed cases show their reason.
 :class:`StudyPlot` draws one figure of the table against the varied field, with the goal
-search's solves, its target and the value found when there is one.
+search's solves, its target and the value found when there is one. :class:`CautionLine` shows
+a caution as one line that opens to the whole text.
 """
 
 from __future__ import annotations
 
+import html
 import math
 
 import numpy as np
@@ -135,3 +138,24 @@ class StudyPlot(QWidget):
             target_pen = pg.mkPen(SERIES_COLOURS[1], width=1, style=Qt.DashLine)
             self.plot.addItem(pg.InfiniteLine(s.target / scale, angle=0, pen=target_pen))
             self.plot.addItem(pg.InfiniteLine(s.value, angle=90, pen=target_pen))
+
+
+class CautionLine(QLabel):
+    """A caution in one line (its first three sentences) with "details" that shows the whole text."""
+
+    def __init__(self, text: str, parent=None) -> None:
+        super().__init__(parent)
+        self.caution = text
+        self.full = False
+        self.setWordWrap(True)
+        self.setTextFormat(Qt.RichText)
+        self.setStyleSheet("color: #5a3a00; background: #fdf3dc; padding: 4px;")
+        self.setToolTip(text)
+        self.linkActivated.connect(lambda _: self.set_full(not self.full))
+        self.setVisible(False)
+        self.set_full(False)
+
+    def set_full(self, full: bool) -> None:
+        self.full = full
+        shown = self.caution if full else ". ".join(self.caution.split(". ")[:3]) + "."
+        self.setText(f"\u26a0 {html.escape(shown)} <a href='toggle'>{'less' if full else 'details'}</a>")

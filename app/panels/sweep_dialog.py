@@ -15,7 +15,6 @@ The dialog holds no physics: every number comes from ``solver.studies``.
 from __future__ import annotations
 
 import functools
-import html
 from pathlib import Path
 
 import numpy as np
@@ -25,7 +24,6 @@ from PySide6.QtWidgets import (
     QDialog,
     QFileDialog,
     QFormLayout,
-    QGroupBox,
     QHBoxLayout,
     QLabel,
     QLineEdit,
@@ -42,7 +40,8 @@ from PySide6.QtWidgets import (
 import solver
 from app.jobs.study_runner import StudyRunner
 from app.messages import show_message
-from app.panels.study_views import StudyPlot, StudyTableView, column_scale
+from app.panels.goal_box import GoalBox
+from app.panels.study_views import CautionLine, StudyPlot, StudyTableView
 from solver.hot_spots.verdict import largest_potential_difference_V
 from solver.studies import NOT_RUN, SearchResult, model_with_values, search, sweep
 from solver.studies.choices import figure_choices, sweepable_fields
@@ -118,25 +117,12 @@ class SweepDialog(QDialog):
         buttons.addWidget(self.run_button)
         buttons.addWidget(self.cancel_button)
 
-        goal = QGroupBox("Find the value that gives ...")
-        self.goal_figure = QComboBox()
-        self.goal_target = QLineEdit()
-        self.goal_target.setPlaceholderText("target, SI units (e.g. 50 for 50 ohm)")
-        self.find_button = QPushButton("Find")
+        goal = GoalBox()
+        self.goal_figure, self.goal_target, self.goal_result = goal.figure, goal.target, goal.result
+        self.find_button, self.apply_button = goal.find_button, goal.apply_button
         self.find_button.clicked.connect(self.run_search)
-        self.apply_button = QPushButton("Use this value")
-        self.apply_button.setEnabled(False)
         self.apply_button.clicked.connect(self.apply_found)
-        self.goal_result = QLabel("Searches between the From and To values above.")
-        self.goal_result.setWordWrap(True)
-        goal_form = QFormLayout(goal)
-        goal_form.addRow("Figure", self.goal_figure)
-        goal_form.addRow("equal to", self.goal_target)
-        goal_buttons = QHBoxLayout()
-        goal_buttons.addWidget(self.find_button)
-        goal_buttons.addWidget(self.apply_button)
-        goal_form.addRow(goal_buttons)
-        goal_form.addRow(self.goal_result)
+        self.goal_box = goal
 
         left = QWidget()
         left_column = QVBoxLayout(left)
@@ -151,13 +137,7 @@ class SweepDialog(QDialog):
         self.export_button = QPushButton("Export CSV...")
         self.export_button.setEnabled(False)
         self.export_button.clicked.connect(lambda: self.export_csv())
-        self.caution = QLabel()
-        self.caution.setWordWrap(True)
-        self.caution.setTextFormat(Qt.RichText)
-        self.caution.setStyleSheet("color: #5a3a00; background: #fdf3dc; padding: 4px;")
-        self.caution.linkActivated.connect(lambda _: self._set_caution_text(full=not self._caution_full))
-        self.caution.setVisible(False)
-        self._caution_full = False
+        self.caution = CautionLine(solver.HIGH_VOLTAGE_CAUTION)
         right = QSplitter(Qt.Vertical)
         right.addWidget(self.plot)
         lower = QWidget()
@@ -252,14 +232,7 @@ class SweepDialog(QDialog):
     def _on_finished(self, result) -> None:
         if isinstance(result, SearchResult):
             self.found = result
-            scale, unit = column_scale([result.target, result.figure_value], result.figure)
-            f = self.field()
-            self.goal_result.setText(
-                f"<b>{html.escape(f.label)} = {result.value:.6g} {html.escape(f.unit)}</b> gives "
-                f"{html.escape(result.figure)} = {result.figure_value / scale:.6g} {html.escape(unit)} "
-                f"(target {result.target / scale:.6g}; {result.n_solves} solves; root finder's tolerance "
-                f"{result.parameter_tolerance:.2g} {html.escape(f.unit)}, the figure's own error comes on top).")
-            self.apply_button.setEnabled(True)
+            self.goal_box.show_found(result, self.field().label, self.field().unit)
             self.plot.show_study(self.table, self._x_label(), result)
             self._show_caution([result.figure])
             return
@@ -289,17 +262,8 @@ class SweepDialog(QDialog):
         difference = largest_potential_difference_V(potentials, model.has_return_path)
         hv = difference >= solver.LOW_VOLTAGE_THRESHOLD_V and any(
             f.split(".")[0] in HIGH_VOLTAGE_FIGURES for f in figures)
-        self._set_caution_text(full=False)
+        self.caution.set_full(False)
         self.caution.setVisible(hv)
-
-    def _set_caution_text(self, full: bool) -> None:
-        """One line (the caution's first two sentences) with "details", or the whole caution."""
-        self._caution_full = full
-        text = solver.HIGH_VOLTAGE_CAUTION
-        shown = text if full else ". ".join(text.split(". ")[:3]) + "."
-        link = "less" if full else "details"
-        self.caution.setText(f"\u26a0 {html.escape(shown)} <a href='toggle'>{link}</a>")
-        self.caution.setToolTip(text)
 
     # ---- results ---------------------------------------------------------------------------
     def apply_found(self) -> bool:
