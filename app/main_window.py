@@ -14,7 +14,6 @@ from pathlib import Path
 
 import numpy as np
 from PySide6.QtCore import Qt, QTimer
-from PySide6.QtGui import QAction
 from PySide6.QtWidgets import (
     QCheckBox,
     QComboBox,
@@ -41,6 +40,7 @@ from app.panels.parts_list import PartsList
 from app.panels.properties import PropertiesPanel
 from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
+from app.study_menus import StudyMenus
 from app.units import format_field, format_potential
 from solver import Model, SolverError
 
@@ -84,7 +84,7 @@ class MainWindow(QMainWindow):
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
         self._build_status_bar()
         self.commands = Commands(self)
-        self._add_study_menus()
+        self.studies = StudyMenus(self)  # drawings, sweeps, Green's function
         self.addToolBarBreak(Qt.TopToolBarArea)
         self._build_view_bar()
 
@@ -160,79 +160,6 @@ class MainWindow(QMainWindow):
     def _update_title(self) -> None:
         name = self.document.path.name if self.document.path else "untitled"
         self.setWindowTitle(f"{name}{' *' if self.document.is_modified else ''} — Edgewise")
-
-    def _add_study_menus(self) -> None:
-        """File > Import drawing..., Solve > Sweep and goal search... (dialogs in their own modules)."""
-        menus = {a.text(): a.menu() for a in self.menuBar().actions() if a.menu() is not None}
-        self.import_action = QAction("Import drawing (DXF, SVG)…", self)
-        self.import_action.triggered.connect(lambda: self.import_drawing())
-        export = next(a for a in menus["&File"].actions() if a.text() == "&Export")
-        menus["&File"].insertAction(export, self.import_action)
-        self.sweep_action = QAction("Sweep and goal search…", self)
-        self.sweep_action.setShortcut("Ctrl+Shift+W")
-        self.sweep_action.triggered.connect(lambda: self.open_sweep_dialog())
-        menus["&Solve"].addAction(self.sweep_action)
-        self.green_menu = menus["&View"].addMenu("Green's function (pole at infinity)")
-        self.green_menu.aboutToShow.connect(self._fill_green_menu)
-        from app.canvas.green_overlay import GreenOverlay
-
-        self.green_overlay = GreenOverlay(self.canvas.plotItem, self)
-        self.green_overlay.shown.connect(self._on_green_shown)
-        self.green_overlay.failed.connect(lambda m: self.statusBar().showMessage(f"Green's function: {m}", 8000))
-        self.document.events.connect("model_changed", lambda _: self.green_overlay.clear())
-
-    def _fill_green_menu(self) -> None:
-        self.green_menu.clear()
-        names = self.document.model.conductor_names
-        for name in names:
-            self.green_menu.addAction(name, lambda n=name: self.show_green_function([n]))
-        if len(names) > 1:
-            self.green_menu.addAction("all conductors tied together", lambda: self.show_green_function(list(names)))
-        self.green_menu.addSeparator()
-        self.green_menu.addAction("Hide", self.green_overlay.clear)
-
-    def show_green_function(self, names: list[str]) -> None:
-        """Overlay the Green's function with pole at infinity of ``names`` (tied together)."""
-        self.statusBar().showMessage(f"Computing the Green's function of {', '.join(names)}...", 4000)
-        self.green_overlay.show_for(self.document.model, names)
-
-    def _on_green_shown(self, m) -> None:
-        (x0, x1), (y0, y1) = self.green_overlay.view_range()
-        self.canvas.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
-        unit = self.document.model.unit
-        self.statusBar().showMessage(
-            f"Green's function of {' + '.join(m.names)}: equivalent radius {m.equivalent_radius:.5g} {unit}, "
-            f"Robin constant {m.robin_constant:.5g} (lengths in {unit}); round wire within 1 % beyond "
-            f"{m.round_wire_distance:.4g} {unit} from the charge centre.", 20000)
-
-    def open_sweep_dialog(self):
-        """Show the sweep dialog for the drawing as it is now (returns it)."""
-        from app.panels.sweep_dialog import SweepDialog
-
-        if not self.document.model.conductors:
-            self.statusBar().showMessage("Nothing to sweep: draw a conductor first.", 6000)
-            return None
-        dialog = SweepDialog(self.document, self)
-        dialog.setAttribute(Qt.WA_DeleteOnClose)
-        dialog.show()
-        return dialog
-
-    def import_drawing(self, path: Path | None = None):
-        """Show the layer-mapping dialog for a drawing (asks for the file without ``path``)."""
-        from app.files.import_dialog import ImportDrawingDialog, ask_drawing_path
-
-        path = path or ask_drawing_path(self)
-        if path is None:
-            return None
-        dialog = ImportDrawingDialog(self.document, Path(path), self)
-        if dialog.census_error:
-            show_message(self, "critical", "Cannot read the drawing", dialog.census_error)
-            dialog.deleteLater()
-            return None
-        dialog.setAttribute(Qt.WA_DeleteOnClose)
-        dialog.accepted.connect(self.canvas.fit_view)
-        dialog.show()
-        return dialog
 
     # ---- document --------------------------------------------------------------------------
     def load(self, model: Model, path: Path | None, *, modified: bool = False) -> None:
@@ -412,12 +339,7 @@ class MainWindow(QMainWindow):
             return
         self.runner.cancel()
         self.runner.wait()
-        self.green_overlay.clear()
-        self.green_overlay.runner.wait()
-        from app.panels.sweep_dialog import SweepDialog
-
-        for dialog in self.findChildren(SweepDialog):
-            dialog.close()  # stops its study
+        self.studies.close()
         files.discard_recovery()
         if self.settings is not None:
             self.settings.setValue("window_geometry", self.saveGeometry())

@@ -49,12 +49,12 @@ def test_the_overlay_draws_contours_where_g_has_their_value(window, qtbot):
     from app.canvas.green_overlay import GreenMap, contour_levels
 
     window.load(bar_and_wire(), None)
-    with qtbot.waitSignal(window.green_overlay.shown, timeout=60000) as shown:
-        window.show_green_function(["bar"])
+    with qtbot.waitSignal(window.studies.green_overlay.shown, timeout=60000) as shown:
+        window.studies.show_green_function(["bar"])
     m: GreenMap = shown.args[0]
     levels = contour_levels(m.g)
     assert len(levels) >= 4
-    curves = [i for i in window.green_overlay.items if i.__class__.__name__ == "PlotCurveItem"]
+    curves = [i for i in window.studies.green_overlay.items if i.__class__.__name__ == "PlotCurveItem"]
     # every contour point of the outermost level, away from the conductor, is nearly a circle of
     # radius a exp(level) about the centre: the far field of the bar is that of its round wire
     from scipy.interpolate import RegularGridInterpolator
@@ -71,7 +71,7 @@ def test_the_overlay_draws_contours_where_g_has_their_value(window, qtbot):
             np.testing.assert_allclose(radius, m.equivalent_radius * math.exp(top), rtol=0.03)
             checked += 1
     assert checked >= 1
-    texts = [i.toPlainText() for i in window.green_overlay.items if hasattr(i, "toPlainText")]
+    texts = [i.toPlainText() for i in window.studies.green_overlay.items if hasattr(i, "toPlainText")]
     assert f"round wire within 1% beyond {m.round_wire_distance:.4g} mm" in texts
     labels = [t for t in texts if t.startswith("g = ")]
     assert 2 <= len(labels) <= len(levels)
@@ -80,33 +80,33 @@ def test_the_overlay_draws_contours_where_g_has_their_value(window, qtbot):
 
 def test_the_overlay_goes_when_the_drawing_changes(window, qtbot):
     window.load(bar_and_wire(), None)
-    with qtbot.waitSignal(window.green_overlay.shown, timeout=60000):
-        window.show_green_function(["bar", "wire"])
-    assert window.green_overlay.items
+    with qtbot.waitSignal(window.studies.green_overlay.shown, timeout=60000):
+        window.studies.show_green_function(["bar", "wire"])
+    assert window.studies.green_overlay.items
     window.document.apply(bar_and_wire().with_potentials({"bar": 2.0}), "change")
-    assert window.green_overlay.items == [] and window.green_overlay.map is None
+    assert window.studies.green_overlay.items == [] and window.studies.green_overlay.map is None
 
 
 def test_the_view_menu_offers_each_conductor_and_both_tied(window):
     window.load(bar_and_wire(), None)
-    window._fill_green_menu()
-    assert [a.text() for a in window.green_menu.actions() if a.text()] == [
+    window.studies.fill_green_menu()
+    assert [a.text() for a in window.studies.green_menu.actions() if a.text()] == [
         "bar", "wire", "all conductors tied together", "Hide"]
 
 
 def test_only_the_latest_request_is_drawn(window, qtbot):
     window.load(bar_and_wire(), None)
-    window.show_green_function(["bar"])
-    window.show_green_function(["wire"])  # asked while the bar's map is computing
-    qtbot.waitUntil(lambda: window.green_overlay.map is not None and not window.green_overlay.runner.is_busy,
+    window.studies.show_green_function(["bar"])
+    window.studies.show_green_function(["wire"])  # asked while the bar's map is computing
+    qtbot.waitUntil(lambda: window.studies.green_overlay.map is not None and not window.studies.green_overlay.runner.is_busy,
                     timeout=60000)
-    assert window.green_overlay.map.names == ("wire",)
+    assert window.studies.green_overlay.map.names == ("wire",)
 
 
 def test_a_map_finished_after_the_drawing_changed_is_not_drawn(window, qtbot):
     window.load(bar_and_wire(), None)
-    window.show_green_function(["bar"])
+    window.studies.show_green_function(["bar"])
     window.document.apply(bar_and_wire().with_potentials({"bar": 3.0}), "change")
-    qtbot.waitUntil(lambda: not window.green_overlay.runner.is_busy, timeout=60000)
+    qtbot.waitUntil(lambda: not window.studies.green_overlay.runner.is_busy, timeout=60000)
     qtbot.wait(50)
-    assert window.green_overlay.map is None and window.green_overlay.items == []
+    assert window.studies.green_overlay.map is None and window.studies.green_overlay.items == []

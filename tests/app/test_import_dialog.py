@@ -31,7 +31,7 @@ def _map_bus_on_post(dialog) -> None:
 @pytest.fixture
 def open_dialog(window):
     """The dialog as File > Import drawing... opens it (a child of the window, deleted on close)."""
-    return window.import_drawing
+    return window.studies.import_drawing
 
 
 def test_the_layers_are_listed_with_their_entity_counts(open_dialog):
@@ -106,11 +106,11 @@ def test_values_not_understood_name_the_layer(open_dialog):
 def test_a_file_that_is_no_drawing_is_refused_with_a_message(window, tmp_path, shown_messages):
     bad = tmp_path / "broken.dxf"
     bad.write_text("not a drawing", encoding="utf-8")
-    assert window.import_drawing(bad) is None
+    assert window.studies.import_drawing(bad) is None
     assert shown_messages and "cannot be read as DXF" in shown_messages[-1][2]
 
 
 def test_the_menu_entries_exist(window):
     texts = [a.text() for a in window.commands.file_menu.actions()]
     assert "Import drawing (DXF, SVG)…" in texts
-    assert window.sweep_action.shortcut().toString() == "Ctrl+Shift+W"
+    assert window.studies.sweep_action.shortcut().toString() == "Ctrl+Shift+W"
