@@ -37,7 +37,9 @@ class StudyMenus(QObject):
         self.green_overlay = GreenOverlay(window.canvas.plotItem, self)
         self.green_overlay.shown.connect(self._on_green_shown)
         self.green_overlay.failed.connect(lambda m: self._say(f"Green's function: {m}", 8000))
+        self.green_overlay.cleared.connect(self._restore_result_layers)
         window.document.events.connect("model_changed", lambda _: self.green_overlay.clear())
+        self._saved_layers: tuple[str, dict[str, bool]] | None = None
 
     def _say(self, text: str, ms: int) -> None:
         self.w.statusBar().showMessage(text, ms)
@@ -57,6 +59,33 @@ class StudyMenus(QObject):
         """Overlay the Green's function with pole at infinity of ``names`` (tied together)."""
         self._say(f"Computing the Green's function of {', '.join(names)}...", 4000)
         self.green_overlay.show_for(self.w.document.model, names)
+        self._hide_result_layers()
+
+    #: Result layers hidden while the Green's function is on the map (they would hide its contours).
+    HIDDEN_LAYERS = ("equipotentials", "hot spots")
+
+    def _set_layers(self, shading: str, show: dict[str, bool]) -> None:
+        """Through the window's Show bar when it has one (so it stays in step), else the overlays."""
+        combo, boxes = getattr(self.w, "shading_combo", None), getattr(self.w, "layer_boxes", {})
+        overlays = self.w.canvas.overlays
+        if combo is not None:
+            combo.setCurrentText(shading)
+        overlays.set_shading(shading)
+        for layer, on in show.items():
+            if layer in boxes:
+                boxes[layer].setChecked(on)
+            overlays.set_visible(layer, on)
+
+    def _hide_result_layers(self) -> None:
+        overlays = self.w.canvas.overlays
+        if self._saved_layers is None:
+            self._saved_layers = (overlays.shading, {k: overlays.show[k] for k in self.HIDDEN_LAYERS})
+        self._set_layers("none", dict.fromkeys(self.HIDDEN_LAYERS, False))
+
+    def _restore_result_layers(self) -> None:
+        if self._saved_layers is not None:
+            saved, self._saved_layers = self._saved_layers, None
+            self._set_layers(*saved)
 
     def _on_green_shown(self, m) -> None:
         (x0, x1), (y0, y1) = self.green_overlay.view_range()

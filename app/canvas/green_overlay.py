@@ -110,6 +110,7 @@ class GreenOverlay(QObject):
 
     shown = Signal(object)  # the GreenMap drawn
     failed = Signal(str)
+    cleared = Signal()
 
     def __init__(self, plot_item: pg.PlotItem, parent: QObject | None = None) -> None:
         super().__init__(parent)
@@ -155,6 +156,7 @@ class GreenOverlay(QObject):
         for item in self.items:
             self.plot.removeItem(item)
         self.items, self.map = [], None
+        self.cleared.emit()
 
     def _add(self, item, z: float = 30) -> None:
         item.setZValue(z)

@@ -110,3 +110,17 @@ def test_a_map_finished_after_the_drawing_changed_is_not_drawn(window, qtbot):
     qtbot.waitUntil(lambda: not window.studies.green_overlay.runner.is_busy, timeout=60000)
     qtbot.wait(50)
     assert window.studies.green_overlay.map is None and window.studies.green_overlay.items == []
+
+
+def test_the_result_layers_step_aside_while_the_map_shows_and_come_back_after(window, qtbot):
+    window.load(bar_and_wire(), None)
+    overlays = window.canvas.overlays
+    before = (overlays.shading, dict(overlays.show))
+    assert before[0] != "none" and before[1]["equipotentials"]
+    with qtbot.waitSignal(window.studies.green_overlay.shown, timeout=60000):
+        window.studies.show_green_function(["bar"])
+    assert overlays.shading == "none" and not overlays.show["equipotentials"] and not overlays.show["hot spots"]
+    assert window.shading_combo.currentText() == "none" and not window.layer_boxes["equipotentials"].isChecked()
+    window.studies.green_overlay.clear()  # View > Green's function > Hide
+    assert (overlays.shading, overlays.show) == before
+    assert window.shading_combo.currentText() == before[0] and window.layer_boxes["equipotentials"].isChecked()
