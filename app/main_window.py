@@ -41,6 +41,7 @@ from app.panels.properties import PropertiesPanel
 from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.panels.wheel_steps import WheelSteps
+from app.study_menus import StudyMenus
 from app.units import format_field, format_potential, format_si
 from solver import Model, SolverError
 
@@ -85,6 +86,7 @@ class MainWindow(QMainWindow):
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
         self._build_status_bar()
         self.commands = Commands(self)
+        self.studies = StudyMenus(self)  # drawings, sweeps, Green's function
         self.addToolBarBreak(Qt.TopToolBarArea)
         self._build_view_bar()
 
@@ -373,6 +375,7 @@ class MainWindow(QMainWindow):
             return
         self.runner.cancel()
         self.runner.wait()
+        self.studies.close()
         files.discard_recovery()
         if self.settings is not None:
             self.settings.setValue("window_geometry", self.saveGeometry())

@@ -1,6 +1,10 @@
 """Command line: solve a project file and print a summary, JSON or a CSV of the capacitance matrices.
 
     python -m solver MODEL.json [--json] [--csv FILE] [--density coarse|normal|fine]
+    python -m solver DRAWING.dxf --layer BUS=conductor:10kV --layer EPOXY=dielectric:4.4 ...
+
+A drawing (.dxf, .svg) is read with its ``--layer`` map (:mod:`solver.cli.drawing_input`) and
+then solved like a project file.
 
 One run reads the options (:func:`solver.cli.options.options_from_args`), solves the model
 once, computes one :class:`~solver.cli.report.Report` from the solution
@@ -25,13 +29,14 @@ from solver.bem.solution import Solution
 from solver.bem.solve import solve
 from solver.cli.cross_check import add_arguments as add_cross_check_arguments
 from solver.cli.csv_output import write_capacitance_csv
+from solver.cli.drawing_input import add_arguments as add_drawing_arguments
+from solver.cli.drawing_input import load_model
 from solver.cli.formatting import format_engineering
 from solver.cli.json_output import JSON_PARTS, JsonPart, report_to_json
 from solver.cli.options import add_arguments, options_from_args
 from solver.cli.report import NO_FIXED_CONDUCTOR, NO_RETURN_PATH, build_report
 from solver.cli.text import TEXT_SECTIONS, TextSection, summary_lines
 from solver.errors import SolverError
-from solver.io.project_file import load_project
 from solver.model.model import MESH_DENSITIES, Model
 
 __all__ = ["build_parser", "format_engineering", "main", "run_solve"]
@@ -43,12 +48,13 @@ def build_parser() -> argparse.ArgumentParser:
         prog="edgewise-solve" if sys.argv[0].endswith("edgewise-solve") else "python -m solver",
         description="Solve an Edgewise project file (2-D electrostatics of conductor cross-sections).",
     )
-    parser.add_argument("model", metavar="MODEL.json", help="project file to solve")
+    parser.add_argument("model", metavar="MODEL.json", help="project file to solve, or a drawing (.dxf, .svg) with --layer")
     parser.add_argument("--json", action="store_true", help="print the full result as JSON (SI units)")
     parser.add_argument("--csv", metavar="FILE", help="write the capacitance matrices (pF/m) to FILE")
     parser.add_argument("--density", choices=MESH_DENSITIES, help="mesh density (default: as in the file)")
     add_arguments(parser)
     add_cross_check_arguments(parser)
+    add_drawing_arguments(parser)
     return parser
 
 
@@ -83,7 +89,7 @@ def main(
         return int(e.code or 0)
     try:
         options = options_from_args(args)
-        model = load_project(args.model)
+        model = load_model(args)
         if args.density:
             model = model.with_mesh_density(args.density)
         if args.csv and not (model.has_return_path and model.signal_names):

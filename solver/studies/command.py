@@ -10,7 +10,9 @@ Examples::
         --vary conductors.trace.shapes.0.width=normal:0.03 --figure Z0_ohm --cases 1000 --dask
 
 Values: ``START:STOP:COUNT`` (evenly spaced, both ends included) or ``V1,V2,...``, in the
-project's units. Tables go to ``--out`` (``.csv`` or ``.json``) or, as CSV, to the terminal.
+project's units. Tables go to ``--out`` (``.csv`` or ``.json``) or, as CSV, to the terminal;
+``--plot FILE.svg`` draws the figures against the first parameter (sweep), the solves made
+(search) or the histograms (spread), see :mod:`solver.studies.plot`.
 A progress bar is drawn on standard error when it is a terminal.
 """
 
@@ -24,7 +26,9 @@ from collections.abc import Sequence
 import numpy as np
 
 from solver.errors import SolverError
+from solver.studies.engine import as_model
 from solver.studies.figures import FIGURE_WORDS
+from solver.studies.plot import histogram_svg, table_plot_svg
 from solver.studies.search import search
 from solver.studies.spread import parse_distribution, spread
 from solver.studies.sweep import sweep
@@ -83,6 +87,11 @@ def _emit(table: StudyTable, out: str | None) -> None:
         table.to_csv(out)
 
 
+def _axis_label(project: str, parameter: str) -> str:
+    """The parameter path with the project's length unit (lengths are the usual parameters)."""
+    return f"{parameter} (project unit: {as_model(project).unit})"
+
+
 def _parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(prog="python -m solver.studies", description=__doc__.split("\n\n")[0],
                                 epilog="Figures: " + "; ".join(f"{k}: {v}" for k, v in FIGURE_WORDS.items()))
@@ -95,6 +104,7 @@ def _parser() -> argparse.ArgumentParser:
                        help="sweep: PATH=START:STOP:COUNT or PATH=V1,V2; search: PATH; spread: PATH=normal:STD "
                             "or PATH=uniform:HALF_WIDTH (project units); join paths with + to move them together")
         s.add_argument("--figure", action="append", required=True, help="figure name (repeatable)")
+        s.add_argument("--plot", metavar="FILE.svg", help="also draw the results as an SVG plot")
         if name != "search":
             s.add_argument("--out", help="write the table to this .csv or .json file")
             s.add_argument("--dask", action="store_true", help="run on a local Dask cluster of processes")
@@ -119,7 +129,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         if args.command == "sweep":
             vary = {path: parse_values(v) for path, v in map(_split_assignment, args.vary)}
-            _emit(sweep(args.project, vary, args.figure, cluster=_cluster(args), progress=bar), args.out)
+            table = sweep(args.project, vary, args.figure, cluster=_cluster(args), progress=bar)
+            _emit(table, args.out)
+            if args.plot:
+                table_plot_svg(table, x_label=_axis_label(args.project, table.parameters[0]), path=args.plot)
         elif args.command == "search":
             if len(args.vary) != 1 or len(args.figure) != 1:
                 raise SolverError("search varies one --vary PATH to meet one --figure; give exactly one of each.")
@@ -128,6 +141,8 @@ def main(argv: Sequence[str] | None = None) -> int:
             print(json.dumps({"parameter": found.parameter, "value": found.value, "figure": found.figure,
                               "figure_value": found.figure_value, "target": found.target,
                               "parameter_tolerance": found.parameter_tolerance, "solves": found.n_solves}, indent=1))
+            if args.plot:
+                table_plot_svg(found.evaluations, x_label=_axis_label(args.project, found.parameter), path=args.plot)
         else:
             dists = {path: parse_distribution(v) for path, v in map(_split_assignment, args.vary)}
             spread_of = spread(args.project, dists, args.figure, n_cases=args.cases, seed=args.seed,
@@ -135,6 +150,8 @@ def main(argv: Sequence[str] | None = None) -> int:
                                progress=bar)
             if args.out:
                 _emit(spread_of.table, args.out)
+            if args.plot:
+                histogram_svg(spread_of.histograms, path=args.plot)
             print(json.dumps({"seed": spread_of.seed, "cases": len(spread_of.table), "failed": spread_of.n_failed,
                               "nominal": spread_of.nominal, "percentiles": spread_of.percentiles,
                               "sensitivities": spread_of.sensitivities, "contributions": spread_of.contributions,
@@ -142,5 +159,8 @@ def main(argv: Sequence[str] | None = None) -> int:
                                              for f, (c, e) in spread_of.histograms.items()}}, indent=1))
     except SolverError as e:
         print(f"error: {e}", file=sys.stderr)
+        return 2
+    except OSError as e:
+        print(f"error: cannot write {getattr(e, 'filename', None) or 'the output'}: {e.strerror or e}", file=sys.stderr)
         return 2
     return 0

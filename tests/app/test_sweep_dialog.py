@@ -1,0 +1,144 @@
+"""The sweep dialog end to end: the solver's sweep in the background, table, plot, CSV, goal search,
+cancel, and the value found put into the drawing (undoable)."""
+
+from __future__ import annotations
+
+import html
+import math
+import re
+
+import numpy as np
+import pytest
+
+from solver import EPSILON_0_F_PER_M, Circle, Conductor, GroundPlane, Model
+from solver.studies import NOT_RUN, sweep
+
+WIRE_Y = "conductors.wire.shapes.0.center.1"
+WIRE_R = "conductors.wire.shapes.0.radius"
+
+
+def wire_over_plane(height_mm: float = 5.0, potential_V: float = 1.0) -> Model:
+    """A 1 mm radius wire over an earthed plane (a scenario of our own)."""
+    return Model(unit="mm", ground_plane=GroundPlane(0.0),
+                 conductors=(Conductor("wire", (Circle((0.0, height_mm), 1.0),), "fixed", potential_V),))
+
+
+@pytest.fixture
+def dialog(window, qtbot):
+    from app.panels.sweep_dialog import SweepDialog
+
+    window.load(wire_over_plane(), None)
+    d = SweepDialog(window.document, window)
+    qtbot.addWidget(d)
+    d.show()
+    yield d
+    d.runner.cancel()
+    d.runner.wait()
+
+
+def _finish(qtbot, dialog, timeout_ms=60000):
+    qtbot.waitUntil(lambda: not dialog.runner.is_busy, timeout=timeout_ms)
+
+
+def test_the_dialog_offers_the_drawings_fields_and_figures(dialog):
+    paths = [dialog.field_combo.itemData(i) for i in range(dialog.field_combo.count())]
+    assert {"conductors.wire.potential_V", WIRE_R, WIRE_Y, "ground_plane.y"} <= set(paths)
+    figures = [dialog.figure_list.item(i).text() for i in range(dialog.figure_list.count())]
+    assert figures[:2] == ["Z0_ohm", "eps_eff"] and "peak_field_V_per_m.wire" in figures
+
+
+def test_a_sweep_shows_the_solvers_table_and_plot_and_exports_its_csv(dialog, qtbot, tmp_path):
+    dialog.select_field(WIRE_R)
+    dialog.start_edit.setText("0.5")
+    dialog.stop_edit.setText("1.5")
+    dialog.count_spin.setValue(3)
+    dialog.set_figures(["C_F_per_m.wire.wire", "peak_field_V_per_m.wire"])
+    with qtbot.waitSignal(dialog.runner.finished, timeout=60000):
+        assert dialog.run_sweep()
+    expected = sweep(wire_over_plane(), {WIRE_R: [0.5, 1.0, 1.5]}, ["C_F_per_m.wire.wire", "peak_field_V_per_m.wire"])
+    assert dialog.table == expected
+    assert dialog.table_view.rowCount() == 3
+    header = dialog.table_view.horizontalHeaderItem(1).text()
+    assert header == "C_F_per_m.wire.wire (pF/m)"
+    c_pF = expected.column("C_F_per_m.wire.wire")[1] * 1e12
+    assert dialog.table_view.item(1, 1).text() == f"{c_pF:.5g}"
+    dialog.plot.figure_combo.setCurrentText("C_F_per_m.wire.wire")
+    x, y = dialog.plot.curve_data()
+    np.testing.assert_allclose(x, [0.5, 1.0, 1.5])
+    np.testing.assert_allclose(y, np.array(expected.column("C_F_per_m.wire.wire")) * 1e12)
+    assert "1 V" not in dialog.caution.text() and not dialog.caution.isVisible()  # a 1 V model: no caution
+    out = tmp_path / "sweep.csv"
+    assert dialog.export_csv(out)
+    assert out.read_text(encoding="utf-8") == expected.to_csv()
+
+
+def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_the_drawing(dialog, qtbot, window):
+    # Closed form of a round wire over a conducting plane by images: C' = 2 pi eps0 / arcosh(h / a)
+    # (S. Ramo, J. R. Whinnery, T. Van Duzer, Fields and Waves in Communication Electronics, 1994, sec. 1.x).
+    target = 2 * math.pi * EPSILON_0_F_PER_M / math.acosh(7.0 / 1.0)
+    dialog.select_field(WIRE_Y)
+    dialog.start_edit.setText("3")
+    dialog.stop_edit.setText("12")
+    dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
+    dialog.goal_target.setText(repr(target))
+    with qtbot.waitSignal(dialog.runner.finished, timeout=120000):
+        assert dialog.run_search()
+    found = dialog.found
+    assert found.value == pytest.approx(7.0, rel=2e-3)  # the solver's error on C is well under 1e-3
+    assert f"wire: centre y = {found.value:.6g} mm</b> gives C_F_per_m.wire.wire = {target * 1e12:.6g} pF/m" in \
+        dialog.goal_result.text()
+    assert dialog.apply_found()
+    assert window.document.model.conductor("wire").shapes[0].center[1] == pytest.approx(found.value, rel=1e-12)
+    window.document.undo()
+    assert window.document.model == wire_over_plane()
+
+
+def test_a_bad_number_is_said_and_nothing_runs(dialog):
+    dialog.start_edit.setText("two")
+    assert not dialog.run_sweep()
+    assert "'two' is not a number" in dialog.status.text() and not dialog.runner.is_busy
+
+
+def test_cancel_stops_the_sweep_and_keeps_the_cases_run(dialog, qtbot):
+    dialog.select_field(WIRE_R)
+    dialog.count_spin.setValue(200)
+    dialog.set_figures(["C_F_per_m.wire.wire"])
+    with qtbot.waitSignal(dialog.runner.cancelled, timeout=60000):
+        dialog.run_sweep()
+        dialog.runner.cancel()
+    _finish(qtbot, dialog)
+    assert dialog.table is not None and len(dialog.table) == 200
+    assert any(r["error"] == NOT_RUN for r in dialog.table.rows)
+    run = sum(1 for r in dialog.table.rows if r["error"] != NOT_RUN)
+    assert dialog.status.text() == f"{run} of 200 cases run, cancelled."
+
+
+def test_margins_of_a_high_voltage_model_carry_the_caution(window, qtbot):
+    from app.panels.sweep_dialog import SweepDialog
+    from solver import HIGH_VOLTAGE_CAUTION
+
+    window.load(wire_over_plane(potential_V=20e3), None)
+    d = SweepDialog(window.document, window)
+    qtbot.addWidget(d)
+    d.select_field(WIRE_R)
+    d.count_spin.setValue(2)
+    d.set_figures(["peak_field_V_per_m.wire"])
+    with qtbot.waitSignal(d.runner.finished, timeout=60000):
+        d.run_sweep()
+    assert not d.caution.isHidden() and d.caution.toolTip() == HIGH_VOLTAGE_CAUTION
+    assert "Caution - high voltage." in d.caution.text() and "details" in d.caution.text()
+    d.caution.linkActivated.emit("toggle")
+    assert html.unescape(re.sub("<[^>]+>", "", d.caution.text())) == f"\u26a0 {HIGH_VOLTAGE_CAUTION} less"
+
+
+def test_a_target_out_of_reach_is_said_in_the_search_box(dialog, qtbot):
+    dialog.select_field(WIRE_R)
+    dialog.start_edit.setText("0.5")
+    dialog.stop_edit.setText("1.5")
+    dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
+    dialog.goal_target.setText("1e-9")  # 1000 pF/m: far above any wire of this size
+    status_before = dialog.status.text()
+    with qtbot.waitSignal(dialog.runner.failed, timeout=60000):
+        assert dialog.run_search()
+    assert "does not cross 1e-09" in dialog.goal_result.text()
+    assert dialog.status.text() == status_before and not dialog.apply_button.isEnabled()
