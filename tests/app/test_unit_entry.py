@@ -122,3 +122,55 @@ def test_the_unit_follows_a_unit_conversion(panel):
     panel.unit_combo.activated.emit(panel.unit_combo.currentIndex())
     assert panel.fields["width"].unit_label.text() == "mil"
     assert panel.fields["width"].text() == f"{20 / MIL_MM:.10g}"
+
+
+def test_part_length_takes_a_unit(qtbot):
+    from app.panels.safety_views import PART_LENGTH_KEY, CaveatsView
+
+    doc = Document()
+    doc.replace(Model(conductors=(Conductor("w", (Rectangle((0, 10), 2, 2),)),), unit="mm"), None)
+    view = CaveatsView(doc)
+    qtbot.addWidget(view)
+    view.length_edit.setText("0.5 m")
+    view.length_edit.editingFinished.emit()
+    assert doc.model.extras[PART_LENGTH_KEY] == 500.0
+    view.length_edit.setText("2 kV")
+    view.length_edit.editingFinished.emit()
+    assert "'2 kV' in 'part length': 'kV' is not a unit of length" in view.verdict.text()
+    assert doc.model.extras[PART_LENGTH_KEY] == 500.0
+
+
+def _capture_jobs(monkeypatch, runner):
+    started = []
+    monkeypatch.setattr(runner, "start_with_progress", lambda fn, *args: started.append(args))
+    return started
+
+
+def test_sweep_radii_and_corner_radius_take_units(qtbot, monkeypatch):
+    from types import SimpleNamespace
+
+    from app.panels.corner_radius_view import CornerRadiusPart
+    from app.panels.hot_spots_view import HotSpotsView
+
+    results = SimpleNamespace(model=Model(conductors=(Conductor("bar", (Rectangle((0, 10), 4, 2),)),), unit="mm"),
+                              solution=None)
+    part = CornerRadiusPart()
+    qtbot.addWidget(part)
+    assert not part.plot.isVisible() and part.plot.isHidden()  # no empty plot before a sweep
+    part.results = results
+    part.conductor_box.addItem("bar")
+    started = _capture_jobs(monkeypatch, part.runner)
+    part.radii_edit.setText("0.1, 200 um, 20 mil")
+    part.run_sweep()
+    assert started[-1][2] == pytest.approx([1e-4, 2e-4, 20 * 25.4e-6])
+    part.radii_edit.setText("0.1, 2 kV")
+    part.run_sweep()
+    assert len(started) == 1 and "give positive numbers" in part.status.text()
+
+    view = HotSpotsView()
+    qtbot.addWidget(view)
+    view.results = results
+    started = _capture_jobs(monkeypatch, view.runner)
+    view.corner_edit.setText("20 mil")
+    view.corner_button.click()
+    assert started[-1][2] == pytest.approx(20 * 25.4e-6)
