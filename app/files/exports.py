@@ -13,6 +13,8 @@ from PySide6.QtGui import QPainter
 from PySide6.QtSvg import QSvgGenerator
 from PySide6.QtWidgets import QWidget
 
+from solver.cli.csv_output import capacitance_csv_rows, write_capacitance_rows
+
 PF = 1e-12
 
 
@@ -26,17 +28,11 @@ def suggested_path(document_path: Path | None, title: str, section: str, suffix:
 
 
 def write_matrices_csv(results, path: Path) -> None:
-    """Both capacitance matrices in pF/m, one block each, with conductor names."""
+    """Both capacitance matrices in pF/m, one block each, with conductor names: the layout the
+    command line writes too (:mod:`solver.cli.csv_output`)."""
     sol = results.solution
-    names = list(sol.signal_names)
-    with open(path, "w", newline="", encoding="utf-8") as f:
-        w = csv.writer(f)
-        for title, matrix in (("Maxwell capacitance matrix (pF/m)", sol.capacitance_maxwell_F_per_m),
-                              ("Mutual capacitance matrix (pF/m)", sol.capacitance_mutual_F_per_m)):
-            w.writerow([title] + names)
-            for name, row in zip(names, matrix):
-                w.writerow([name] + [f"{v / PF:.9g}" for v in row])
-            w.writerow([])
+    write_capacitance_rows(capacitance_csv_rows(list(sol.signal_names), sol.capacitance_maxwell_F_per_m,
+                                                sol.capacitance_mutual_F_per_m), str(path))
 
 
 def write_matrices_json(results, path: Path) -> None:

@@ -100,16 +100,16 @@ def test_csv_has_names_as_headers(tmp_path, capsys):
     result = json.loads(capsys.readouterr().out)
     names = result["signal_conductors"]
     with open(out_csv, newline="", encoding="utf-8") as f:
-        rows = list(csv.DictReader(f))
-        f.seek(0)
-        header = next(csv.reader(f))
-    assert header == ["matrix (pF/m)", "conductor", *names]
-    assert [r["matrix (pF/m)"] for r in rows] == ["maxwell"] * 3 + ["mutual"] * 3
-    assert [r["conductor"] for r in rows] == names * 2
-    for form, block in (("maxwell", rows[:3]), ("mutual", rows[3:])):
+        rows = list(csv.reader(f))
+    # one block per matrix: title with unit, then names; one row per conductor; an empty row after
+    assert rows[0] == ["Maxwell capacitance matrix (pF/m)", *names]
+    assert rows[4] == [] and rows[5] == ["Mutual capacitance matrix (pF/m)", *names] and rows[9] == []
+    assert len(rows) == 10
+    for form, block in (("maxwell", rows[1:4]), ("mutual", rows[6:9])):
+        assert [r[0] for r in block] == names
         expected = result[f"capacitance_{form}_F_per_m"]
         for i, row in enumerate(block):
-            assert [float(row[n]) for n in names] == pytest.approx([x * 1e12 for x in expected[i]], rel=1e-9)
+            assert [float(x) for x in row[1:]] == pytest.approx([x * 1e12 for x in expected[i]], rel=1e-9)
 
 
 @pytest.mark.slow  # three full command-line runs
