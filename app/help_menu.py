@@ -71,12 +71,12 @@ def library_versions() -> list[tuple[str, str]]:
 
 
 def about_html() -> str:
-    rows = "".join(f"<tr><td>{html.escape(n)}</td><td>&nbsp;{html.escape(v)}</td></tr>" for n, v in library_versions())
+    rows = "".join(f"<li>{html.escape(n)} {html.escape(v)}</li>" for n, v in library_versions())
     return (f"<h3>Edgewise {html.escape(program_version())}</h3>"
             "<p>A workbench for the 2-D electrostatics of conductor cross-sections: capacitance matrices, "
             "surface and insulation fields, hot spots, by the boundary-element method.</p>"
             f"<p>Licence: {html.escape(program_licence())}.</p>"
-            f"<p><b>Libraries</b></p><table>{rows}</table>"
+            f"<p><b>Libraries</b></p><ul>{rows}</ul>"
             f"<p><small>{html.escape(cautions.STANDING_STATEMENT)}</small></p>")
 
 
