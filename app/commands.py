@@ -18,7 +18,7 @@ from app.canvas.tools import TOOLS
 from app.document import PartRef
 from app.files import exports
 from app.files import project_files as files
-from app.files.report import write_report_pdf
+from app.files.report import drawing_for_report, write_report_pdf
 from app.messages import show_message
 from solver import Model, SolverError
 
@@ -313,5 +313,8 @@ class Commands:
                                                               "report")) is None:
             return False
         name = self.doc.path.name if self.doc.path else "untitled"
-        image = self.w.canvas.grab().toImage()
-        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name, self.doc.model), path)
+        image = drawing_for_report(self.w.canvas)
+        hot_spots = self.w.results_panel.hot_spots
+        margins = hot_spots.margins if getattr(hot_spots, "results", None) is self.w.results else None
+        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name, self.doc.model, margins=margins,
+                                                    project_path=self.doc.path, modified=self.doc.is_modified), path)
