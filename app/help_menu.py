@@ -126,6 +126,7 @@ class EmptyCanvasHint(QObject):
         self.label.setObjectName("first_run_hint")
         self.label.setTextFormat(Qt.RichText)
         self.label.setAlignment(Qt.AlignCenter)
+        self.label.setWordWrap(True)
         self.label.setAttribute(Qt.WA_TransparentForMouseEvents)
         self.label.setStyleSheet("background: rgba(255, 255, 255, 225); color: #202020; padding: 14px; "
                                  "border: 1px solid #8c8c8c; border-radius: 6px;")
@@ -145,7 +146,8 @@ class EmptyCanvasHint(QObject):
         return False
 
     def _place(self) -> None:
-        self.label.adjustSize()
+        self.label.setFixedWidth(max(120, min(480, self.canvas.width() - 24)))  # wraps in a narrow canvas
+        self.label.setFixedHeight(self.label.heightForWidth(self.label.width()))
         x = max(0, (self.canvas.width() - self.label.width()) // 2)
         y = max(0, (self.canvas.height() - self.label.height()) // 3)
         self.label.move(x, y)

@@ -189,7 +189,8 @@ def read_quantity(text: str, unit: str, field: str = "value", default_unit: str 
     note = ""
     if basis == "rms":
         crest = value * math.sqrt(2.0)
-        note = f"{text.strip()} is taken as {crest:.6g} V crest (√2 × rms, a sine wave)."
+        size, prefix = next(((f, p) for f, p in ((1e6, "M"), (1e3, "k")) if abs(crest) >= f), (1.0, ""))
+        note = f"{text.strip()} is taken as {crest / size:.4g} {prefix}V crest (√2 × rms, a sine wave)."
         value = crest
     return TypedQuantity(value, text, unit, basis, note)
 

@@ -45,5 +45,7 @@ def test_first_run_hint_shows_on_an_empty_drawing_only(window):
     assert not hint.isVisible()
     window.document.undo()
     assert hint.isVisible()
-    geometry = hint.geometry()
-    assert window.canvas.rect().contains(geometry)
+    for width in (900, 360):  # the hint wraps inside a narrow canvas, never cut at its edge
+        window.canvas.resize(width, 500)
+        assert window.canvas.rect().contains(hint.geometry())
+        assert hint.height() >= hint.heightForWidth(hint.width())

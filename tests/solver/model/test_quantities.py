@@ -77,3 +77,7 @@ def test_bad_input_is_refused_with_the_field_named(text, unit, field, message):
 def test_case_matters_for_prefixes():
     assert parse_quantity("1 mV", "V") == pytest.approx(1e-3)
     assert parse_quantity("1 MV", "V") == pytest.approx(1e6)
+
+
+def test_the_rms_note_gives_the_crest_in_kV():
+    assert read_quantity("12 kV rms", "V", "potential").note == "12 kV rms is taken as 16.97 kV crest (√2 × rms, a sine wave)."
