@@ -64,6 +64,13 @@ def drawing_for_report(canvas):
             item.setVisible(True)
 
 
+def drawing_width(aspect: float | None, width: int = 640, max_height: int = 440) -> int:
+    """Width of the drawing on the page (of 720 px), so that it is at most ``max_height`` tall."""
+    if not aspect or aspect <= 0:
+        return width
+    return int(min(width, max_height / aspect))
+
+
 def _matrix_html(title: str, names, matrix, relative_error) -> str:
     head = "".join(f"<th>{html.escape(n)}</th>" for n in names)
     rows = "".join(
@@ -110,13 +117,15 @@ def _stress_html(sol, model) -> str:
 
 
 def report_html(results, document_name: str, image_name: str = "drawing", settings_model=None, *,
-                margins=None, project_path: Path | None = None, modified: bool = False) -> str:
+                margins=None, project_path: Path | None = None, modified: bool = False,
+                image_aspect: float | None = None) -> str:
     """The report body as HTML (the drawing is the resource ``image_name``).
 
     ``settings_model`` supplies the user's part length and the project's air conditions
     (default: the solved model). The verdict and its words are the solver's (one caution rule).
     ``margins`` is the Hot spots section's :class:`solver.MarginReport` for this solve, if computed;
-    ``project_path`` the saved project file, whose SHA-256 heads the page.
+    ``project_path`` the saved project file, whose SHA-256 heads the page. ``image_aspect``
+    (height / width of the drawing) keeps a tall drawing from filling the page.
     """
     sol, model = results.solution, results.model
     settings_model = settings_model or model
@@ -126,7 +135,7 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
              f"<p>Edgewise {html.escape(program_version())} &nbsp; Date: {dt.datetime.now().isoformat(' ', 'minutes')}"
              f" &nbsp; Unit: {model.unit} &nbsp; Panels: {sol.mesh.n_panels} &nbsp; Background εr = "
              f"{format_plain(model.background_eps_r, 6)}<br>{project_file_line(project_path, modified)}</p>",
-             f"<p><img src='{image_name}' width='640'></p>"]
+             f"<p align='center'><img src='{image_name}' width='{drawing_width(image_aspect)}'></p>"]
     if sol.has_capacitance:
         names = list(sol.signal_names)
         parts.append("<table><tr><td valign='top'>"
@@ -188,7 +197,8 @@ def paint_report(painter: QPainter, page_width: float, page_height: float, resul
     ``about`` passes ``margins``, ``project_path`` and ``modified`` on to :func:`report_html`."""
     doc = QTextDocument()
     doc.addResource(QTextDocument.ImageResource, QUrl("drawing"), drawing_image)
-    doc.setHtml(report_html(results, document_name, settings_model=settings_model, **about))
+    aspect = drawing_image.height() / drawing_image.width() if drawing_image.width() else None
+    doc.setHtml(report_html(results, document_name, settings_model=settings_model, image_aspect=aspect, **about))
     # Lay the text out at screen-like size and scale it onto the page, shrinking to one page.
     width_px = 720.0
     doc.setTextWidth(width_px)

@@ -61,3 +61,10 @@ def test_report_drawing_leaves_out_handles_and_probe(window, qtbot):
     assert np.mean(np.abs(marked - clean)) > 0.05  # the handles and probe line are on screen
     assert np.array_equal(_pixels(drawing_for_report(canvas)), clean)  # and not in the report
     assert np.array_equal(_pixels(canvas.grab().toImage()), marked)  # and back on screen after
+
+
+def test_a_tall_drawing_does_not_fill_the_page():
+    from app.files.report import drawing_width
+
+    assert drawing_width(None) == drawing_width(0.5) == 640  # a wide drawing keeps the page width
+    assert drawing_width(1.5) * 1.5 <= 440  # a tall one is narrowed to keep room for the figures
