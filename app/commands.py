@@ -6,6 +6,7 @@ dialog. Errors are shown in a message box naming the file and the reason, and ch
 
 from __future__ import annotations
 
+import logging
 from pathlib import Path
 
 from PySide6.QtCore import Qt
@@ -17,9 +18,11 @@ from app.canvas.tools import TOOLS
 from app.document import PartRef
 from app.files import exports
 from app.files import project_files as files
-from app.files.report import write_report_pdf
+from app.files.report import drawing_for_report, write_report_pdf
 from app.messages import show_message
 from solver import Model, SolverError
+
+logger = logging.getLogger(__name__)
 
 TOOL_KEYS = {"pick": "S", "rectangle": "R", "circle": "C", "tube": "U", "polygon": "P", "strip": "T",
              "ground plane": "G", "dielectric": "I", "probe line": "L"}
@@ -43,12 +46,16 @@ class Commands:
         export = self.file_menu.addMenu("&Export")
         self._act(export, "Capacitance matrices (CSV)…", self.export_matrices_csv)
         self._act(export, "Capacitance matrices (JSON)…", self.export_matrices_json)
-        self._act(export, "Drawing (PNG)…", lambda: self.export_picture(self.w.canvas, "png"))
-        self._act(export, "Drawing (SVG)…", lambda: self.export_picture(self.w.canvas, "svg"))
-        self._act(export, "Charge plot (PNG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "png"))
-        self._act(export, "Charge plot (SVG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "svg"))
-        self._act(export, "Probe plots (PNG)…", lambda: self.export_picture(self.w.results_panel.probe, "png"))
-        self._act(export, "Probe plots (SVG)…", lambda: self.export_picture(self.w.results_panel.probe, "svg"))
+        self._act(export, "Drawing (PNG)…", lambda: self.export_picture(self.w.canvas, "png", section="drawing"))
+        self._act(export, "Drawing (SVG)…", lambda: self.export_picture(self.w.canvas, "svg", section="drawing"))
+        self._act(export, "Charge plot (PNG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "png",
+                                                                            section="charge plot"))
+        self._act(export, "Charge plot (SVG)…", lambda: self.export_picture(self.w.results_panel.boundary.plot, "svg",
+                                                                            section="charge plot"))
+        self._act(export, "Probe plots (PNG)…", lambda: self.export_picture(self.w.results_panel.probe, "png",
+                                                                            section="probe plots"))
+        self._act(export, "Probe plots (SVG)…", lambda: self.export_picture(self.w.results_panel.probe, "svg",
+                                                                            section="probe plots"))
         self._act(export, "Probe profile (CSV)…", self.export_profile_csv)
         self._act(export, "One-page report (PDF)…", self.export_report, "Ctrl+Shift+P")
         self.file_menu.addSeparator()
@@ -239,10 +246,11 @@ class Commands:
         self.doc.apply(edits.align_to(self.doc.model, ref, other, how), f"Align {how}")
 
     # ---- exports ---------------------------------------------------------------------------
-    def _target(self, path, title: str, pattern: str, suffix: str) -> Path | None:
+    def _target(self, path, title: str, pattern: str, suffix: str, section: str = "") -> Path | None:
         if path is not None:
             return Path(path)
-        name, _ = QFileDialog.getSaveFileName(self.w, title, "", pattern)
+        suggested = exports.suggested_path(self.doc.path, self.doc.model.title, section or title.lower(), suffix)
+        name, _ = QFileDialog.getSaveFileName(self.w, title, str(suggested), pattern)
         if not name:
             return None
         return Path(name if name.lower().endswith(suffix) else name + suffix)
@@ -259,26 +267,34 @@ class Commands:
         return True
 
     def _run(self, writer, path: Path) -> bool:
+        """Write with ``writer``; any failure is shown in a dialog and leaves no half-written file."""
+        existed = Path(path).exists()
         try:
             writer(path)
-        except (OSError, SolverError) as exc:
-            QMessageBox.critical(self.w, "Export failed", f"{path}: {exc}")
+        except Exception as exc:  # an export must never fail silently, whatever broke
+            logger.exception("export to %s failed", path)
+            if not existed:
+                Path(path).unlink(missing_ok=True)
+            reason = str(exc) if isinstance(exc, (OSError, SolverError)) else f"{type(exc).__name__}: {exc}"
+            show_message(self.w, "critical", "Export failed", f"{path}: nothing was written. {reason}")
             return False
         self.w.statusBar().showMessage(f"Wrote {path}", 6000)
         return True
 
     def export_matrices_csv(self, path=None) -> bool:
-        if not self._need_results(True) or (path := self._target(path, "Export matrices", "CSV (*.csv)", ".csv")) is None:
+        if not self._need_results(True) or (path := self._target(path, "Export matrices", "CSV (*.csv)", ".csv",
+                                                                  "capacitance matrices")) is None:
             return False
         return self._run(lambda p: exports.write_matrices_csv(self.w.results, p), path)
 
     def export_matrices_json(self, path=None) -> bool:
-        if not self._need_results(True) or (path := self._target(path, "Export matrices", "JSON (*.json)", ".json")) is None:
+        if not self._need_results(True) or (path := self._target(path, "Export matrices", "JSON (*.json)", ".json",
+                                                                  "capacitance matrices")) is None:
             return False
         return self._run(lambda p: exports.write_matrices_json(self.w.results, p), path)
 
-    def export_picture(self, widget, kind: str, path=None) -> bool:
-        if (path := self._target(path, "Export picture", f"{kind.upper()} (*.{kind})", f".{kind}")) is None:
+    def export_picture(self, widget, kind: str, path=None, section: str = "picture") -> bool:
+        if (path := self._target(path, "Export picture", f"{kind.upper()} (*.{kind})", f".{kind}", section)) is None:
             return False
         writer = exports.write_widget_png if kind == "png" else exports.write_widget_svg
         return self._run(lambda p: writer(widget, p), path)
@@ -288,13 +304,17 @@ class Commands:
         if profile is None:
             QMessageBox.information(self.w, "No probe line", "Draw a probe line first (Draw > Probe line).")
             return False
-        if (path := self._target(path, "Export probe profile", "CSV (*.csv)", ".csv")) is None:
+        if (path := self._target(path, "Export probe profile", "CSV (*.csv)", ".csv", "probe profile")) is None:
             return False
         return self._run(lambda p: exports.write_profile_csv(*profile[:3], profile[3], p), path)
 
     def export_report(self, path=None) -> bool:
-        if not self._need_results() or (path := self._target(path, "Export report", "PDF (*.pdf)", ".pdf")) is None:
+        if not self._need_results() or (path := self._target(path, "Export report", "PDF (*.pdf)", ".pdf",
+                                                              "report")) is None:
             return False
         name = self.doc.path.name if self.doc.path else "untitled"
-        image = self.w.canvas.grab().toImage()
-        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name, self.doc.model), path)
+        image = drawing_for_report(self.w.canvas)
+        hot_spots = self.w.results_panel.hot_spots
+        margins = hot_spots.margins if getattr(hot_spots, "results", None) is self.w.results else None
+        return self._run(lambda p: write_report_pdf(self.w.results, image, p, name, self.doc.model, margins=margins,
+                                                    project_path=self.doc.path, modified=self.doc.is_modified), path)

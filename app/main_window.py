@@ -34,6 +34,7 @@ from app.canvas.overlays import SHADINGS
 from app.commands import Commands
 from app.document import Document
 from app.files import project_files as files
+from app.help_menu import install_help
 from app.jobs.worker import SolveRunner
 from app.messages import show_message
 from app.panels.parts_list import PartsList
@@ -87,6 +88,7 @@ class MainWindow(QMainWindow):
         self._build_status_bar()
         self.commands = Commands(self)
         self.studies = StudyMenus(self)  # drawings, sweeps, Green's function
+        install_help(self)  # Help > Safety, Help > About; the hint on an empty drawing
         self.addToolBarBreak(Qt.TopToolBarArea)
         self._build_view_bar()
 

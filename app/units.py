@@ -1,15 +1,32 @@
-"""Number formatting with SI prefixes and units (Qt-free)."""
+"""Number formatting for the desktop program: the solver's one formatter (Qt-free).
+
+Every view, the PDF report and the command line show numbers through
+:mod:`solver.cli.formatting`, so a figure reads the same everywhere: the digits its error
+estimate supports, round-off shown as 0, true minus signs.
+"""
 
 from __future__ import annotations
 
 import math
+
+from solver.cli.formatting import (
+    digits_for,
+    format_measured,
+    format_percent,
+    format_plain,
+    format_point,
+    true_minus,
+)
+
+__all__ = ["digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
+           "format_point", "format_potential", "format_si", "si_scale", "true_minus"]
 
 _PREFIXES = ((1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),
              (1e-9, "n"), (1e-12, "p"), (1e-15, "f"))
 
 
 def si_scale(magnitude: float) -> tuple[float, str]:
-    """(factor, prefix) so that ``magnitude / factor`` lies in [1, 1000)."""
+    """(factor, prefix) so that ``magnitude / factor`` lies in [1, 1000), for plot axes."""
     m = abs(float(magnitude))
     if not math.isfinite(m) or m == 0:
         return 1.0, ""
@@ -19,22 +36,19 @@ def si_scale(magnitude: float) -> tuple[float, str]:
     return _PREFIXES[-1]
 
 
-def format_si(value: float, unit: str, digits: int = 4) -> str:
+def format_si(value: float | None, unit: str, digits: int = 4, largest: float | None = None) -> str:
     """``value`` with an SI prefix, e.g. format_si(1.2e6, "V/m") -> "1.2 MV/m"."""
-    if value is None or not math.isfinite(value):
-        return "n/a"
-    factor, prefix = si_scale(value)
-    return f"{value / factor:.{digits}g} {prefix}{unit}"
+    return format_measured(value, unit, digits=digits, largest=largest)
 
 
-def format_field(value_V_per_m: float) -> str:
-    return format_si(value_V_per_m, "V/m", 3)
+def format_field(value_V_per_m: float | None, largest: float | None = None) -> str:
+    return format_measured(value_V_per_m, "V/m", digits=3, largest=largest)
 
 
-def format_potential(value_V: float) -> str:
-    return format_si(value_V, "V", 4)
+def format_potential(value_V: float | None) -> str:
+    return format_measured(value_V, "V", digits=4)
 
 
 def format_length(value_m: float, unit: str, metres_per_unit: float) -> str:
-    """A length in metres shown in the model's unit."""
-    return f"{value_m / metres_per_unit:.4g} {unit}"
+    """A length in metres shown in the model's unit, without exponent ("1010 mm")."""
+    return f"{format_plain(value_m / metres_per_unit, 4)} {unit}"

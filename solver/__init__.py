@@ -152,3 +152,7 @@ __all__ += [
 
 #: Earlier name of :class:`Solution` for models with dielectric regions; one type serves all models now.
 DielectricSolution = Solution
+
+from solver.model.quantities import QuantityError, TypedQuantity, parse_quantity, read_quantity, unit_choices  # noqa: E402
+
+__all__ += ["QuantityError", "TypedQuantity", "parse_quantity", "read_quantity", "unit_choices"]

@@ -4,28 +4,35 @@ from __future__ import annotations
 
 import csv
 import json
+import re
 from pathlib import Path
 
 import numpy as np
-from PySide6.QtCore import QRect, QSize
+from PySide6.QtCore import QPoint, QRect, QSize
 from PySide6.QtGui import QPainter
 from PySide6.QtSvg import QSvgGenerator
+from PySide6.QtWidgets import QWidget
+
+from solver.cli.csv_output import capacitance_csv_rows, write_capacitance_rows
 
 PF = 1e-12
 
 
+def suggested_path(document_path: Path | None, title: str, section: str, suffix: str) -> Path:
+    """A file name for an export: the project's name and the section, in the project's folder,
+    e.g. "busbar - drawing.svg" (characters that file systems refuse are replaced by "_")."""
+    stem = Path(document_path).stem if document_path else (title.strip() or "untitled")
+    name = re.sub(r'[\\/:*?"<>|]+', "_", f"{stem} - {section}").strip() + suffix
+    folder = Path(document_path).parent if document_path else Path.home()
+    return folder / name
+
+
 def write_matrices_csv(results, path: Path) -> None:
-    """Both capacitance matrices in pF/m, one block each, with conductor names."""
+    """Both capacitance matrices in pF/m, one block each, with conductor names: the layout the
+    command line writes too (:mod:`solver.cli.csv_output`)."""
     sol = results.solution
-    names = list(sol.signal_names)
-    with open(path, "w", newline="", encoding="utf-8") as f:
-        w = csv.writer(f)
-        for title, matrix in (("Maxwell capacitance matrix (pF/m)", sol.capacitance_maxwell_F_per_m),
-                              ("Mutual capacitance matrix (pF/m)", sol.capacitance_mutual_F_per_m)):
-            w.writerow([title] + names)
-            for name, row in zip(names, matrix):
-                w.writerow([name] + [f"{v / PF:.9g}" for v in row])
-            w.writerow([])
+    write_capacitance_rows(capacitance_csv_rows(list(sol.signal_names), sol.capacitance_maxwell_F_per_m,
+                                                sol.capacitance_mutual_F_per_m), str(path))
 
 
 def write_matrices_json(results, path: Path) -> None:
@@ -70,15 +77,26 @@ def write_widget_png(widget, path: Path) -> None:
 
 
 def write_widget_svg(widget, path: Path, title: str = "Edgewise") -> None:
-    """A picture of the widget as SVG (vector where Qt can paint it so)."""
+    """A picture of the widget as SVG: the widget as drawn on screen (children included), in
+    vectors where Qt paints them so, at the widget's size and screen resolution so text, lines
+    and plots keep the proportions seen on screen."""
     size = widget.size()
-    gen = QSvgGenerator()
+    if size.width() < 1 or size.height() < 1:
+        raise OSError(f"Nothing to write to {path}: the view is not shown (open its section first).")
+    gen = QSvgGenerator(QSvgGenerator.SvgVersion.Svg11)  # SVG 1.1 keeps clipping (plot areas)
     gen.setFileName(str(path))
     gen.setSize(QSize(size.width(), size.height()))
     gen.setViewBox(QRect(0, 0, size.width(), size.height()))
+    gen.setResolution(widget.logicalDpiX())
     gen.setTitle(title)
-    painter = QPainter(gen)
+    painter = QPainter()
+    if not painter.begin(gen):
+        raise OSError(f"Could not write the picture to {path}.")
     try:
-        widget.render(painter)
+        # QWidget.render, not a graphics view's own render(): the latter paints the scene
+        # stretched to the page, without axes and labels in their places.
+        QWidget.render(widget, painter, QPoint(0, 0))
     finally:
         painter.end()
+    if not Path(path).is_file() or Path(path).stat().st_size == 0:
+        raise OSError(f"The picture written to {path} is empty.")

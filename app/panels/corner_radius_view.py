@@ -60,7 +60,7 @@ class CornerRadiusPart(QWidget):
         self.conductor_box = QComboBox()
         self.radii_label = QLabel("radii")
         self.radii_edit = QLineEdit()
-        self.radii_edit.setToolTip("Corner radii in the model's length unit, separated by commas.")
+        self.radii_edit.setToolTip("Corner radii separated by commas, in the model's length unit or with a unit (0.5 mm, 20 mil).")
         self.run_button = QPushButton("Run sweep")
         self.export_button = QPushButton("Export CSV…")
         self.export_button.setEnabled(False)
@@ -95,6 +95,7 @@ class CornerRadiusPart(QWidget):
         self.export_button.clicked.connect(self._on_export_clicked)
         self.conductor_box.currentTextChanged.connect(self._on_conductor_changed)
         self._set_axes("m", "kV/m")
+        self._clear()
 
     # ---- feeding -----------------------------------------------------------------------------
     def set_results(self, results) -> None:
@@ -134,9 +135,10 @@ class CornerRadiusPart(QWidget):
         if self.results is None:
             return
         model = self.results.model
-        try:
-            radii = [float(t) for t in self.radii_edit.text().replace(";", ",").split(",") if t.strip()]
-        except ValueError:
+        try:  # lengths with units ("0.5 mm, 20 mil") or bare numbers in the model's unit
+            radii = [solver.parse_quantity(t, "m", "radii", default_unit=model.unit) / model.metres_per_unit
+                     for t in self.radii_edit.text().replace(";", ",").split(",") if t.strip()]
+        except solver.SolverError:
             radii = []
         if not radii or any(not (r > 0 and math.isfinite(r)) for r in radii):
             self._set_status(f"Radii '{self.radii_edit.text()}': give positive numbers in {model.unit}, "
@@ -167,6 +169,8 @@ class CornerRadiusPart(QWidget):
         self.error_bars.setData(x=np.zeros(0), y=np.zeros(0), height=np.zeros(0))
         self.table.fill([], [], [])
         self.export_button.setEnabled(False)
+        self.plot.setVisible(False)  # no empty axes before a sweep exists
+        self.table.setVisible(False)
 
     def _on_sweep_ready(self, sweep) -> None:
         self.sweep = sweep
@@ -177,6 +181,8 @@ class CornerRadiusPart(QWidget):
         y = sweep.peak_field_V_per_m / factor
         errors = np.nan_to_num(sweep.estimated_relative_error, nan=0.0) * y
         self._set_axes(model.unit, label)
+        self.plot.setVisible(True)
+        self.table.setVisible(True)
         self.curve.setData(x, y)
         self.error_bars.setData(x=x, y=y, height=2.0 * errors)
         self.plot.enableAutoRange()

@@ -12,6 +12,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QListWidget, QListWidgetItem,
 
 import solver
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
+from app.units import digits_for, format_percent, format_plain
 
 
 def default_group(model) -> list[str]:
@@ -109,16 +110,23 @@ class EquivalentRadiusPart(QWidget):
         model = self.results.model
         unit, scale = model.unit, model.metres_per_unit
         tied = "'" + "', '".join(b.conductors) + "'" + (" tied together" if len(b.conductors) > 1 else "")
-        text = (f"Equivalent radius of {tied}: {b.equivalent_radius_m / scale:.5g} {unit} "
-                f"(estimated error {100 * b.estimated_relative_error:.2g} %).")
+        digits = digits_for(b.estimated_relative_error)
+        text = (f"Equivalent radius of {tied}: {format_plain(b.equivalent_radius_m / scale, digits)} {unit} "
+                f"(estimated error {format_percent(b.estimated_relative_error)}).")
         if b.is_regular_bundle and b.n_subconductors and b.n_subconductors > 1:
             text += (f"\nRegular bundle of n = {b.n_subconductors} round subconductors of radius r = "
-                     f"{b.subconductor_radius_m / scale:.4g} {unit} on a circle of radius A = "
-                     f"{b.bundle_radius_m / scale:.4g} {unit}: the bundle formula (n r A^(n−1))^(1/n) gives "
-                     f"{b.formula_equivalent_radius_m / scale:.5g} {unit}; the solver's value differs by "
-                     f"{100 * b.relative_difference:+.3g} % (the formula ignores the crowding of charge toward "
+                     f"{format_plain(b.subconductor_radius_m / scale)} {unit} on a circle of radius A = "
+                     f"{format_plain(b.bundle_radius_m / scale)} {unit}: the bundle formula (n r A^(n−1))^(1/n) gives "
+                     f"{format_plain(b.formula_equivalent_radius_m / scale, digits)} {unit}; the solver's value differs "
+                     f"by {_signed_percent(b.relative_difference)} (the formula ignores the crowding of charge toward "
                      "the outside of the bundle, so it is exact only for r much smaller than A).")
         elif len(b.conductors) > 1:
             text += ("\nThese conductors are not a regular bundle (equal circles evenly spaced on a circle), "
                      "so the bundle formula does not apply.")
         self._set_result(text)
+
+
+def _signed_percent(fraction: float) -> str:
+    """A signed percentage without exponent, e.g. "+1.3 %" or "−0.25 %"."""
+    text = format_percent(fraction, 3)
+    return text if text.startswith(("\u2212", "n/a")) else "+" + text

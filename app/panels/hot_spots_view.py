@@ -175,9 +175,10 @@ class HotSpotsView(QWidget):
         if self.results is None:
             return
         text = self.corner_edit.text().strip()
-        try:
-            radius = float(text)
-        except ValueError:
+        model = self.results.model
+        try:  # a length with a unit ("0.5 mm", "20 mil") or a bare number in the model's unit
+            radius = solver.parse_quantity(text, "m", "corner radius", default_unit=model.unit) / model.metres_per_unit
+        except solver.SolverError:
             radius = -1.0
         if not (radius > 0 and math.isfinite(radius)):
             self._set_status(f"Corner radius '{text}': give a positive length in {self.results.model.unit}.",

@@ -1,4 +1,8 @@
-"""The numbers tab: capacitance matrices (pF/m), per-conductor figures and the error estimate."""
+"""The numbers tab: capacitance matrices (pF/m), per-conductor figures and the error estimate.
+
+Every figure goes through the one formatter (:mod:`app.units`): the matrices carry the digits
+their estimated error supports, round-off shows as 0, minus signs are true minus signs.
+"""
 
 from __future__ import annotations
 
@@ -16,10 +20,19 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.units import format_field, format_si
+from app.units import digits_for, format_measured, format_percent, format_plain, format_point
 from solver import NoReferenceError
 
 PF = 1e-12
+
+#: Two quantities that are both called "self capacitance" in the trade, named apart here.
+MAXWELL_DIAGONAL_TIP = (
+    "Maxwell diagonal C_ii: the charge per metre on conductor i per volt on it, with every other "
+    "conductor held at 0 V. It counts the capacitance to earth and to all the other conductors.")
+TO_EARTH_TIP = (
+    "Capacitance to earth C_i0: the capacitance between conductor i and the reference (earthed "
+    "conductors and the ground plane) alone, the row sum of the Maxwell matrix. It is the diagonal "
+    "of the mutual form; the off-diagonal entries there are the capacitances between pairs.")
 
 
 class CopyableTable(QTableWidget):
@@ -47,13 +60,13 @@ class CopyableTable(QTableWidget):
         self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
 
     def as_text(self) -> str:
-        """The whole table with its headers as tab-separated lines."""
+        """The whole table with its headers as tab-separated lines (ASCII minus signs)."""
         cols = [self.horizontalHeaderItem(j).text() for j in range(self.columnCount())]
         lines = ["\t".join([""] + cols)]
         for i in range(self.rowCount()):
             cells = [self.item(i, j).text() if self.item(i, j) else "" for j in range(self.columnCount())]
             lines.append("\t".join([self.verticalHeaderItem(i).text()] + cells))
-        return "\n".join(lines)
+        return "\n".join(lines).replace("\u2212", "-")  # spreadsheets read an ASCII minus as a number
 
     def copy_to_clipboard(self) -> None:
         QGuiApplication.clipboard().setText(self.as_text())
@@ -69,10 +82,14 @@ class MatricesView(QWidget):
         self.status = QLabel(self._status_text)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
-        self.maxwell_label = QLabel("Capacitance matrix, Maxwell form (pF/m)")
+        self.maxwell_label = QLabel("Capacitance matrix, Maxwell form (pF/m): Maxwell diagonal C_ii on the "
+                                    "diagonal, minus the capacitance between pairs off it")
+        self.maxwell_label.setWordWrap(True)
+        self.maxwell_label.setToolTip(MAXWELL_DIAGONAL_TIP + "\n\n" + TO_EARTH_TIP)
         self.maxwell = CopyableTable()
-        self.mutual_label = QLabel("Capacitance matrix, mutual form (pF/m): self capacitance on the diagonal, "
-                                   "capacitance between pairs off it")
+        self.mutual_label = QLabel("Capacitance matrix, mutual form (pF/m): capacitance to earth C_i0 on the "
+                                   "diagonal, capacitance between pairs off it")
+        self.mutual_label.setToolTip(TO_EARTH_TIP + "\n\n" + MAXWELL_DIAGONAL_TIP)
         self.mutual_label.setWordWrap(True)
         self.mutual = CopyableTable()
         self.conductors_label = QLabel("Per conductor")
@@ -100,6 +117,8 @@ class MatricesView(QWidget):
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
         layout.addStretch(1)
+        self.maxwell.setToolTip(MAXWELL_DIAGONAL_TIP)
+        self.mutual.setToolTip(TO_EARTH_TIP)
         for table in (self.maxwell, self.mutual, self.conductors, self.regions):
             table.fill([], [], [])  # compact until there is something to show
         self.regions_label.setVisible(False)
@@ -109,10 +128,8 @@ class MatricesView(QWidget):
         sol, model = results.solution, results.model
         names = list(sol.signal_names)
         if sol.has_capacitance:
-            c = sol.capacitance_maxwell_F_per_m / PF
-            m = sol.capacitance_mutual_F_per_m / PF
-            self.maxwell.fill(names, names, [[f"{v:.5g}" for v in row] for row in c])
-            self.mutual.fill(names, names, [[f"{v:.5g}" for v in row] for row in m])
+            self.maxwell.fill(names, names, matrix_cells(sol.capacitance_maxwell_F_per_m, sol.estimated_relative_error))
+            self.mutual.fill(names, names, matrix_cells(sol.capacitance_mutual_F_per_m, sol.estimated_relative_error))
             self.status.setText(f"Solved: {len(model.conductors)} conductors, {sol.mesh.n_panels} boundary panels.")
         else:
             self.maxwell.fill([], [], [])
@@ -129,25 +146,29 @@ class MatricesView(QWidget):
         err = sol.estimated_relative_error
         self.error_label.setText(
             "Estimated relative error of the matrix: n/a" if err is None else
-            f"Estimated relative error: {err:.2g} ({100 * err:.2g} %), the change against a mesh at half the "
-            f"resolution ({sol.coarse_mesh_panels} panels against {sol.mesh.n_panels}).")
+            f"Estimated relative error: {format_percent(err)}, the change against a mesh at half the "
+            f"resolution ({sol.coarse_mesh_panels} panels against {sol.mesh.n_panels}); figures are shown "
+            f"to {digits_for(err)} significant digits.")
 
     def _fill_conductors(self, results) -> None:
         sol, model = results.solution, results.model
-        scale = model.metres_per_unit
+        scale, size = model.metres_per_unit, drawing_size(sol)
+        err = sol.estimated_relative_error
         peaks = {p.conductor: p for p in sol.peak_surface_fields}
+        largest_field = max((p.field_V_per_m for p in peaks.values() if np.isfinite(p.field_V_per_m)), default=None)
+        largest_charge = float(np.max(np.abs(sol.conductor_charges_C_per_m))) if len(model.conductors) else None
         rows, cells = [], []
         for k, c in enumerate(model.conductors):
             p = peaks.get(c.name)
             radius = results.equivalent_radius_m.get(c.name)
             rows.append(c.name)
             cells.append([
-                format_si(float(sol.conductor_potentials_V[k]), "V"),
-                format_si(float(sol.conductor_charges_C_per_m[k]), "C/m"),
-                format_field(p.field_V_per_m) if p else "n/a",
-                (f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g})"
+                format_measured(float(sol.conductor_potentials_V[k]), "V", digits=6),
+                format_measured(float(sol.conductor_charges_C_per_m[k]), "C/m", err, largest=largest_charge),
+                format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest_field) if p else "n/a",
+                (format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip()
                  + (" sharp corner" if p.at_sharp_corner else "")) if p else "",
-                f"{radius / scale:.4g}" if radius else "n/a",
+                format_plain(radius / scale, digits_for(err)) if radius else "n/a",
             ])
         self.conductors.fill(rows, ["potential", "charge/length", "peak |E| at surface",
                                     f"peak at ({model.unit})", f"equiv. radius ({model.unit})"], cells)
@@ -157,10 +178,11 @@ class MatricesView(QWidget):
         peaks = tuple(getattr(sol, "peak_region_fields", ()))
         self.regions_label.setVisible(bool(peaks))
         self.regions.setVisible(bool(peaks))
-        scale = model.metres_per_unit
+        scale, size = model.metres_per_unit, drawing_size(sol)
+        largest = max((p.field_V_per_m for p in peaks if np.isfinite(p.field_V_per_m)), default=None)
         rows = [p.region for p in peaks]
-        cells = [[f"{p.eps_r:.3g}", format_field(p.field_V_per_m),
-                  f"({p.location_m[0] / scale:.4g}, {p.location_m[1] / scale:.4g})",
+        cells = [[format_plain(p.eps_r, 3), format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest),
+                  format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip(),
                   p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else "")] for p in peaks]
         self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells)
 
@@ -177,3 +199,17 @@ def matrix_rows(results) -> tuple[list[str], np.ndarray, np.ndarray]:
     """(names, Maxwell, mutual) in F/m for exports."""
     sol = results.solution
     return list(sol.signal_names), sol.capacitance_maxwell_F_per_m, sol.capacitance_mutual_F_per_m
+
+
+def drawing_size(solution) -> float:
+    """The extent of the mesh in metres: coordinates far below it are round-off."""
+    points = np.asarray(solution.mesh.midpoints)
+    return float(np.max(np.ptp(points, axis=0))) if points.size else 1.0
+
+
+def matrix_cells(matrix_F_per_m, relative_error) -> list[list[str]]:
+    """Matrix entries in pF/m to the digits the error supports; round-off entries as 0."""
+    values = np.asarray(matrix_F_per_m) / PF
+    largest = float(np.max(np.abs(values))) if values.size else 0.0
+    digits = digits_for(relative_error)
+    return [[format_plain(v, digits) if abs(v) > 1e-9 * largest else "0" for v in row] for row in values]

@@ -3,6 +3,8 @@
 Fields follow the document both ways: typing a value and pressing Enter (or leaving the
 field) makes one edit; any change of the model or selection refreshes the fields with their
 signals blocked. A bad value is refused with the reason shown in red under the fields.
+Every number may be typed with a unit ("150 kV", "12 mil", "0.5 mm"); its unit is shown beside
+the field, and what was typed is shown back while the model holds that value.
 """
 
 from __future__ import annotations
@@ -22,80 +24,14 @@ from PySide6.QtWidgets import (
 )
 
 from app import edits
-from solver import LENGTH_UNITS, MESH_DENSITIES, Shape, SolverError, material, material_names
+from app.panels.quantity_edit import QuantityEdit, TypedTexts
+from app.panels.shape_fields import parse_points, points_text, shape_fields, shape_from_values, shape_lengths
+from solver import LENGTH_UNITS, MESH_DENSITIES, SolverError, material, material_names
 
 ROLE_LABELS = {"fixed": "fixed potential", "floating": "floating (net charge)", "reference": "reference (0 V)"}
 
-
-def _points_text(points) -> str:
-    return "; ".join(f"{x:g}, {y:g}" for x, y in points)
-
-
-def _parse_points(text: str):
-    pts = []
-    for chunk in text.split(";"):
-        if chunk.strip():
-            x, y = chunk.split(",")
-            pts.append((float(x), float(y)))
-    return tuple(pts)
-
-
-def _label(name: str) -> str:
-    return name.replace("_", " ").replace("center", "centre")
-
-
-def shape_fields(shape: Shape) -> tuple[tuple[str, str], ...]:
-    """(label, key) of each editable field of ``shape``, from its project-file form.
-
-    A number is one field; a point is two (``cx``/``cy`` for ``center``); a vertex list is one
-    text field "x, y; x, y; ..." (key ``points``). Lists of vertex lists (holes) are kept as they are.
-    """
-    out: list[tuple[str, str]] = []
-    for name, value in shape.to_dict().items():
-        if name == "kind":
-            continue
-        if isinstance(value, (int, float)):
-            out.append((_label(name), name))
-        elif _is_point(value):
-            out += [(f"{_label(name)} x", f"{name[0]}x"), (f"{_label(name)} y", f"{name[0]}y")]
-        elif value and all(_is_point(p) for p in value):
-            out.append(("vertices x, y; ..." if shape.is_solid else "points x, y; ...", "points"))
-    return tuple(out)
-
-
-def _is_point(value) -> bool:
-    return isinstance(value, list) and len(value) == 2 and all(isinstance(v, (int, float)) for v in value)
-
-
-def shape_values(shape: Shape) -> dict[str, str]:
-    """Field texts of ``shape`` by key (see :func:`shape_fields`)."""
-    out: dict[str, str] = {}
-    for name, value in shape.to_dict().items():
-        if isinstance(value, (int, float)) and name != "kind":
-            out[name] = f"{value:g}"
-        elif _is_point(value):
-            out[f"{name[0]}x"], out[f"{name[0]}y"] = f"{value[0]:g}", f"{value[1]:g}"
-        elif isinstance(value, list) and value and all(_is_point(p) for p in value):
-            out["points"] = _points_text(value)
-    return out
-
-
-def shape_from_values(values: dict[str, str], old: Shape) -> Shape:
-    """A shape of ``old``'s kind with the typed field texts (ValueError on a bad number, the
-    solver's message when the result is not a valid shape)."""
-    data = old.to_dict()
-    for name, value in list(data.items()):
-        if isinstance(value, (int, float)) and name in values:
-            data[name] = float(values[name])
-        elif _is_point(value) and f"{name[0]}x" in values:
-            data[name] = [float(values[f"{name[0]}x"]), float(values[f"{name[0]}y"])]
-        elif isinstance(value, list) and value and all(_is_point(p) for p in value) and "points" in values:
-            data[name] = [list(p) for p in _parse_points(values["points"])]
-    shape = Shape.from_dict(data)
-    problem = shape.problem(f"The {shape.kind}")
-    if problem is not None:
-        raise ValueError(problem)
-    return shape
+#: The potential field says how a typed voltage is taken (an rms value is turned into its crest).
+POTENTIAL_UNIT_NOTE = "V crest"
 
 
 class PropertiesPanel(QWidget):
@@ -114,11 +50,11 @@ class PropertiesPanel(QWidget):
         self.unit_combo.addItems(list(LENGTH_UNITS))
         self.density_combo = QComboBox()
         self.density_combo.addItems(list(MESH_DENSITIES))
-        self.eps_edit = QLineEdit()
+        self.eps_edit = QuantityEdit("", "background relative permittivity εr")
         form.addRow("title", self.title_edit)
         form.addRow("length unit (converts)", self.unit_combo)
         form.addRow("mesh density", self.density_combo)
-        form.addRow("background εr", self.eps_edit)
+        form.addRow("background εr", self.eps_edit.with_unit())
         layout.addWidget(self.model_box)
 
         self.part_box = QGroupBox("Selected part")
@@ -128,6 +64,9 @@ class PropertiesPanel(QWidget):
         self.problem_label.setWordWrap(True)
         self.problem_label.setStyleSheet("color: #b00000;")
         layout.addWidget(self.problem_label)
+        self.note_label = QLabel()  # how a typed value was taken, e.g. an rms voltage as its crest
+        self.note_label.setWordWrap(True)
+        layout.addWidget(self.note_label)
         layout.addStretch(1)
 
         self.title_edit.editingFinished.connect(lambda: self._edit_model(title=self.title_edit.text()))
@@ -136,16 +75,17 @@ class PropertiesPanel(QWidget):
         self.eps_edit.editingFinished.connect(self._on_eps_edited)
         self._form_key = None
         self.fields: dict[str, QLineEdit] = {}
+        self.typed = TypedTexts()
         document.events.connect("model_changed", self._on_model_changed)
         document.events.connect("selection_changed", self._on_selection_changed)
         self._on_model_changed(document.model)
 
     # ---- document -> widgets ---------------------------------------------------------------
     def _on_model_changed(self, model) -> None:
-        for w, text in ((self.title_edit, model.title), (self.eps_edit, f"{model.background_eps_r:g}")):
-            w.blockSignals(True)
-            w.setText(text)
-            w.blockSignals(False)
+        self.title_edit.blockSignals(True)
+        self.title_edit.setText(model.title)
+        self.title_edit.blockSignals(False)
+        self.eps_edit.show_value(model.background_eps_r, self.typed.text_for("background_eps_r", model.background_eps_r))
         for combo, text in ((self.unit_combo, model.unit), (self.density_combo, model.mesh_density)):
             combo.blockSignals(True)
             combo.setCurrentText(text)
@@ -155,6 +95,7 @@ class PropertiesPanel(QWidget):
 
     def _on_selection_changed(self, ref) -> None:
         self.show_problem("")
+        self.note_label.setText("")
         self._refresh_part()
         self._show_shape_problem()
 
@@ -177,14 +118,20 @@ class PropertiesPanel(QWidget):
             self._build_form(key)
         if ref is None:
             return
-        values: dict[str, str] = {}
+        numbers: dict[str, float] = {}  # by field key, SI for potential and charge, model units for lengths
+        texts: dict[str, str] = {}
         if ref.kind == "plane":
-            values["plane_y"] = f"{model.ground_plane.y:g}"
+            numbers["plane_y"] = model.ground_plane.y
         else:
-            values.update(shape_values(edits.shape_of(model, ref)))
+            shape = edits.shape_of(model, ref)
+            numbers.update(shape_lengths(shape))
+            points = points_text(shape, model.unit)
+            if points is not None:
+                texts["points"] = points
         if ref.kind == "conductor":
             c = model.conductors[ref.index]
-            values.update(name=c.name, potential=f"{c.potential_V:g}", charge=f"{c.charge_C_per_m:g}")
+            texts["name"] = c.name
+            numbers.update(potential=c.potential_V, charge=c.charge_C_per_m)
             self._set_combo(self.role_combo, ROLE_LABELS[c.role])
             self.member_combo.blockSignals(True)
             self.member_combo.clear()
@@ -196,14 +143,36 @@ class PropertiesPanel(QWidget):
             self.fields["charge"].setEnabled(c.role == "floating")
         if ref.kind == "dielectric":
             d = model.dielectrics[ref.index]
-            values.update(name=d.name, eps_r=f"{d.eps_r:g}")
+            texts["name"] = d.name
+            numbers["eps_r"] = d.eps_r
             self._set_combo(self.material_combo, d.material if d.material in material_names() else "(own value)")
-        for key, text in values.items():
+        scale = model.metres_per_unit
+        for key, number in numbers.items():
+            edit = self.fields.get(key)
+            if isinstance(edit, QuantityEdit):
+                if edit.unit == "m":
+                    edit.set_display_unit(model.unit)  # a unit conversion keeps the form
+                value_si = number * scale if edit.unit == "m" else number
+                edit.show_value(value_si, self.typed.text_for(self._typed_key(key), value_si))
+        for key, text in texts.items():
             if key in self.fields:
+                kept = self.typed.text_for(self._typed_key(key), hash(text)) if key == "points" else None
+                # (a typed vertex list is remembered against the text the model gives back for it)
                 self.fields[key].blockSignals(True)
-                self.fields[key].setText(text)
+                self.fields[key].setText(kept or text)
                 self.fields[key].setCursorPosition(0)
                 self.fields[key].blockSignals(False)
+
+    def _typed_key(self, key: str):
+        """Where a typed text is remembered: the selected part and the field."""
+        ref = self.document.selection
+        return (None if ref is None else (ref.kind, ref.index, ref.shape), key)
+
+    def _part_name(self) -> str:
+        ref, model = self.document.selection, self.document.model
+        if ref is None or ref.kind == "plane":
+            return "ground plane"
+        return (model.conductors if ref.kind == "conductor" else model.dielectrics)[ref.index].name
 
     @staticmethod
     def _set_combo(combo, text) -> None:
@@ -223,7 +192,7 @@ class PropertiesPanel(QWidget):
         kind, shape_key = key
         if kind == "plane":
             self.part_box.setTitle("Ground plane (0 V)")
-            self._add_field("plane_y", f"height y ({unit})", self._on_plane_edited)
+            self._add_field("plane_y", "height y", self._on_plane_edited, "m", unit)
             return
         self.part_box.setTitle(f"Selected {kind}: {shape_key[0]}")
         if kind == "conductor":
@@ -232,8 +201,12 @@ class PropertiesPanel(QWidget):
             self.role_combo.addItems(list(ROLE_LABELS.values()))
             self.role_combo.activated.connect(self._on_role_chosen)
             self.part_form.addRow("role", self.role_combo)
-            self._add_field("potential", "potential (V)", self._on_potential_edited)
-            self._add_field("charge", "net charge (C/m)", self._on_charge_edited)
+            self._add_field("potential", "potential", self._on_potential_edited, "V", "V")
+            self.fields["potential"].unit_label.setText(POTENTIAL_UNIT_NOTE)
+            self.fields["potential"].unit_label.setToolTip(
+                "Potentials are crest (peak) values. Type '12 kV rms' to give an rms value: it is taken as its "
+                "crest, √2 × rms for a sine wave, and the note under the fields says so.")
+            self._add_field("charge", "net charge", self._on_charge_edited, "C/m", "C/m")
             self.color_button = QPushButton("colour…")
             self.color_button.clicked.connect(self._on_color_clicked)
             self.part_form.addRow("display colour", self.color_button)
@@ -246,21 +219,32 @@ class PropertiesPanel(QWidget):
             self.material_combo.addItems(list(material_names()) + ["(own value)"])
             self.material_combo.activated.connect(self._on_material_chosen)
             self.part_form.addRow("material", self.material_combo)
-            self._add_field("eps_r", "relative permittivity εr", self._on_eps_r_edited)
+            self._add_field("eps_r", "relative permittivity εr", self._on_eps_r_edited, "", "")
         for label, field in shape_key[1]:
-            self._add_field(field, f"{label} ({unit})", self._on_shape_edited)
+            if field == "points":
+                self._add_field(field, f"{label} ({unit})", self._on_shape_edited)
+            else:
+                self._add_field(field, label, self._on_shape_edited, "m", unit)
 
-    def _add_field(self, key: str, label: str, handler) -> None:
-        edit = QLineEdit()
+    def _add_field(self, key: str, label: str, handler, unit: str | None = None, display_unit: str = "") -> None:
+        """A row of the part's form: a text field, or a value with a unit when ``unit`` is given."""
+        if unit is None:
+            edit = QLineEdit()
+            row: QWidget = edit
+        else:
+            edit = QuantityEdit(unit, f"{label} of {self._part_name()}", display_unit)
+            row = edit.with_unit()
         edit.setObjectName(f"field_{key}")
         edit.editingFinished.connect(handler)
         self.fields[key] = edit
-        self.part_form.addRow(label, edit)
+        self.part_form.addRow(label, row)
 
     # ---- widgets -> document ---------------------------------------------------------------
     def show_problem(self, message: str) -> None:
         self.problem_label.setText(message)
         self.problem_changed.emit(message)
+        if message:
+            self.note_label.setText("")
 
     def _apply(self, make, description: str) -> None:
         try:
@@ -283,8 +267,8 @@ class PropertiesPanel(QWidget):
         self._apply(lambda: edits.convert_unit(self.document.model, unit), f"Convert to {unit}")
 
     def _on_eps_edited(self) -> None:
-        self._apply(lambda: edits.update_model(self.document.model, background_eps_r=float(self.eps_edit.text())),
-                    "Change background permittivity")
+        self._typed_edit(self.eps_edit, "background_eps_r",
+                         lambda v: self._edit_model(background_eps_r=v))
 
     def _edit_conductor(self, **changes) -> None:
         ref = self.document.selection
@@ -299,12 +283,21 @@ class PropertiesPanel(QWidget):
         self._number_edit("charge", lambda v: self._edit_conductor(charge_C_per_m=v))
 
     def _number_edit(self, key: str, then) -> None:
+        edit = self.fields[key]
+        assert isinstance(edit, QuantityEdit)
+        self._typed_edit(edit, self._typed_key(key), then)
+
+    def _typed_edit(self, edit: QuantityEdit, typed_key, then) -> None:
+        """Read ``edit`` (value and unit), remember the text, and pass the SI value on."""
         try:
-            value = float(self.fields[key].text())
-        except ValueError:
-            self.show_problem(f"Not applied: '{self.fields[key].text()}' is not a number.")
+            quantity = edit.quantity()
+        except SolverError as exc:
+            self.show_problem(f"Not applied: {exc}")
             return
-        then(value)
+        self.typed.remember(typed_key, edit.text().strip(), quantity.value_si)
+        then(quantity.value_si)
+        if not self.problem_label.text():
+            self.note_label.setText(quantity.note)
 
     def _on_role_chosen(self, index: int) -> None:
         self._edit_conductor(role=list(ROLE_LABELS)[index])
@@ -339,14 +332,29 @@ class PropertiesPanel(QWidget):
         self._number_edit("eps_r", lambda v: self._edit_dielectric(eps_r=v, material=None))
 
     def _on_plane_edited(self) -> None:
-        self._apply(lambda: edits.set_ground_plane(self.document.model, float(self.fields["plane_y"].text())),
-                    "Move ground plane")
+        scale = self.document.model.metres_per_unit
+        self._number_edit("plane_y", lambda v: self._apply(
+            lambda: edits.set_ground_plane(self.document.model, float(f"{v / scale:.12g}")), "Move ground plane"))
 
     def _on_shape_edited(self) -> None:
-        ref = self.document.selection
+        ref, model = self.document.selection, self.document.model
         if ref is None or ref.kind == "plane":
             return
-        old = edits.shape_of(self.document.model, ref)
-        values = {key: self.fields[key].text() for _, key in shape_fields(old)}
-        self._apply(lambda: edits.replace_shape(self.document.model, ref, shape_from_values(values, old)),
-                    "Change shape")
+        old = edits.shape_of(model, ref)
+        keys = [key for _, key in shape_fields(old)]
+        values = {key: self.fields[key].text() for key in keys}
+        for key in keys:  # remember what was typed, once it reads
+            edit = self.fields[key]
+            try:
+                if isinstance(edit, QuantityEdit):
+                    self.typed.remember(self._typed_key(key), edit.text().strip(), edit.value_si())
+                else:
+                    parse_points(edit.text(), model.unit, model.metres_per_unit)
+            except (SolverError, ValueError):
+                continue
+        self._apply(lambda: edits.replace_shape(model, ref, shape_from_values(
+            values, old, model.unit, model.metres_per_unit, self._part_name())), "Change shape")
+        new_points = points_text(edits.shape_of(self.document.model, ref), model.unit) if "points" in keys else None
+        if new_points is not None and not self.problem_label.text():
+            self.typed.remember(self._typed_key("points"), values["points"].strip(), hash(new_points))
+            self._refresh_part()

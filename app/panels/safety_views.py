@@ -29,11 +29,10 @@ def caution_for(results, model):
     return solver.judge_solution(results.solution, solver.air_conditions_of(model))
 
 
-def _number(text: str) -> float | None:
-    try:
-        return float(text)
-    except ValueError:
-        return None
+def _length(text: str, model) -> float:
+    """A typed part length ("2 m", "150 mm", or a bare number in the model's unit) in model units."""
+    value_m = solver.parse_quantity(text, "m", "part length", default_unit=model.unit)
+    return float(f"{value_m / model.metres_per_unit:.12g}")
 
 
 class CaveatsView(QWidget):
@@ -94,8 +93,12 @@ class CaveatsView(QWidget):
 
     def _on_length_edited(self) -> None:
         text = self.length_edit.text().strip()
-        value = _number(text) if text else None
-        if text and (value is None or value <= 0):
+        try:
+            value = _length(text, self.document.model) if text else None
+        except solver.SolverError as exc:
+            self.verdict.setText(f"Not applied: {exc}")
+            return
+        if value is not None and value <= 0:
             self.verdict.setText(f"Not applied: '{text}' is not a positive length.")
             return
         self.document.apply(edits.set_extra(self.document.model, PART_LENGTH_KEY, value), "Set part length")

@@ -12,7 +12,14 @@ from collections.abc import Callable, Sequence
 import numpy as np
 
 from solver.cli.cross_check import cross_check_lines
-from solver.cli.formatting import format_engineering, length_in_unit, text_table
+from solver.cli.formatting import (
+    digits_for,
+    format_measured,
+    format_percent,
+    format_plain,
+    format_point,
+    text_table,
+)
 from solver.cli.hot_spots import caution_lines, hot_spot_section
 from solver.cli.line_figures import dielectric_section, transmission_line_section
 from solver.cli.report import Report
@@ -40,16 +47,24 @@ def header_section(report: Report) -> list[str]:
 def conductors_section(report: Report) -> list[str]:
     """Each conductor's role, potential and net charge per unit length."""
     solution = report.solution
+    charges = np.abs(np.asarray(solution.conductor_charges_C_per_m))
+    floor = 1e-9 * float(charges.max()) if charges.size else 0.0  # round-off of the solve, shown as 0
     rows = [
-        [c.name, c.role, f"{v:.6g}", f"{q * 1e12:.6g}"]
+        [c.name, c.role, format_plain(v, 6),
+         format_plain(q * 1e12, digits_for(solution.estimated_relative_error)) if abs(q) > floor else "0"]
         for c, v, q in zip(solution.model.conductors, solution.conductor_potentials_V,
                            solution.conductor_charges_C_per_m)
     ]
     return ["Conductors", *text_table(["name", "role", "potential (V)", "net charge (pC/m)"], rows)]
 
 
-def _matrix_lines(title: str, names: Sequence[str], matrix_F_per_m: np.ndarray) -> list[str]:
-    rows = [[name, *(f"{x * 1e12:.5g}" for x in row)] for name, row in zip(names, matrix_F_per_m)]
+def _matrix_lines(title: str, names: Sequence[str], matrix_F_per_m: np.ndarray, relative_error: float | None) -> list[str]:
+    """A matrix in pF/m to the digits the error supports; entries at round-off level read 0."""
+    values = np.asarray(matrix_F_per_m) * 1e12
+    floor = 1e-9 * float(np.max(np.abs(values))) if values.size else 0.0
+    digits = digits_for(relative_error)
+    rows = [[name, *(format_plain(x, digits) if abs(x) > floor else "0" for x in row)]
+            for name, row in zip(names, values)]
     return [title, *text_table(["pF/m", *names], rows)]
 
 
@@ -59,11 +74,13 @@ def capacitance_section(report: Report) -> list[str]:
         return [report.capacitance_note]
     solution = report.solution
     names = solution.signal_names
-    lines = _matrix_lines("Capacitance matrix, Maxwell form (pF/m)", names, solution.capacitance_maxwell_F_per_m)
+    err = solution.estimated_relative_error
+    lines = _matrix_lines("Capacitance matrix, Maxwell form (pF/m): Maxwell diagonal C_ii (charge per volt with "
+                          "all others at 0 V)", names, solution.capacitance_maxwell_F_per_m, err)
     lines.append("")
     lines += _matrix_lines(
-        "Capacitance matrix, mutual form (pF/m): diagonal to the reference, off-diagonal between conductors",
-        names, solution.capacitance_mutual_F_per_m,
+        "Capacitance matrix, mutual form (pF/m): capacitance to earth C_i0 on the diagonal, between conductors "
+        "off it", names, solution.capacitance_mutual_F_per_m, err,
     )
     return lines
 
@@ -73,11 +90,15 @@ def peak_field_section(report: Report) -> list[str]:
     m = report.solution.model
     rows: list[list[str]] = []
     corner_exponents: dict[float | None, list[str]] = {}
-    for p in report.solution.peak_surface_fields:
+    peaks = report.solution.peak_surface_fields
+    largest = max((p.field_V_per_m for p in peaks if np.isfinite(p.field_V_per_m)), default=None)
+    midpoints = np.asarray(report.solution.mesh.midpoints)
+    size = float(np.max(np.ptp(midpoints, axis=0))) / m.metres_per_unit if midpoints.size else 1.0
+    for p in peaks:
         x, y = p.location_m
         mark = " *" if p.at_sharp_corner else ""
-        rows.append([p.conductor, format_engineering(p.field_V_per_m, "V/m") + mark,
-                     f"({length_in_unit(m, x)}, {length_in_unit(m, y)}) {m.unit}"])
+        rows.append([p.conductor, format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest) + mark,
+                     format_point(x / m.metres_per_unit, y / m.metres_per_unit, m.unit, size)])
         if p.at_sharp_corner:
             corner_exponents.setdefault(p.corner_exponent, []).append(p.conductor)
     notes = []
@@ -106,13 +127,14 @@ def error_section(report: Report) -> list[str]:
                 "  The high-order solver declined this model (dielectric regions of another permittivity); "
                 f"the low-order solver was refined to the tolerance ({solution.n_unknowns} unknowns)."]
     coarse = f", against {solution.coarse_mesh_panels} panels" if solution.coarse_mesh_panels else ""
-    return [f"Estimated relative error of the {what}: {err:.2g} (change from a mesh at half the resolution{coarse})"]
+    return [f"Estimated relative error of the {what}: {format_percent(err)} (change from a mesh at half the "
+            f"resolution{coarse}); figures are shown to {digits_for(err)} significant digits"]
 
 
 def equivalent_radius_section(report: Report) -> list[str]:
     """Each conductor's equivalent radius, in the model's unit."""
     m = report.solution.model
-    rows = [[name, f"{r / m.metres_per_unit:.5g} {m.unit}"]
+    rows = [[name, f"{format_plain(r / m.metres_per_unit, 5)} {m.unit}"]
             for name, r in zip(report.solution.conductor_names, report.equivalent_radii_m)]
     return ["Equivalent radius (logarithmic capacity) of each conductor alone",
             *text_table(["conductor", "radius"], rows)]

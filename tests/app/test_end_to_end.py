@@ -32,7 +32,9 @@ def test_busbar_pair_over_ground_end_to_end(window, qtbot, tmp_path):
     wait_for_solve(qtbot, window)
     assert window.results is not None and not window.stale_label.isVisible()
     table = window.results_panel.numbers.maxwell
-    c = np.array([[float(table.item(i, j).text()) for j in range(2)] for i in range(2)])
+    c = np.array([[float(table.item(i, j).text().replace("\u2212", "-")) for j in range(2)] for i in range(2)])
+    assert table.item(0, 1).text().startswith("\u2212")  # a true minus sign on screen
+    assert "-" in table.as_text() and "\u2212" not in table.as_text()  # an ASCII one for spreadsheets
     assert c[0, 0] > 0 and c[1, 1] > 0 and c[0, 1] < 0
     assert abs(c[0, 1] - c[1, 0]) <= 1e-9 * abs(c[0, 0])
     per = window.results_panel.numbers.conductors

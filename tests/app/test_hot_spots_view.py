@@ -2,6 +2,7 @@
 
 import csv
 import io
+import re
 
 import pytest
 from test_line_figures_view import wait_until
@@ -121,8 +122,12 @@ def test_equivalent_radius_of_a_regular_bundle(qtbot):
     part.compute()
     wait_until(lambda: part.comparison is not None)
     text = part.result.text()
-    assert "bundle formula (n r A^(n−1))^(1/n) gives 63.246 mm" in text  # sqrt(2 * 10 * 200)
-    assert f"{part.comparison.equivalent_radius_m * 1e3:.5g} mm" in text
+    from app.units import digits_for, format_plain
+
+    digits = digits_for(part.comparison.estimated_relative_error)  # figures the error supports
+    assert f"bundle formula (n r A^(n−1))^(1/n) gives {format_plain(4000 ** 0.5, digits)} mm" in text  # sqrt(2*10*200)
+    assert f"{format_plain(part.comparison.equivalent_radius_m * 1e3, digits)} mm" in text
+    assert re.search(r"differs by [+\u2212][\d.]+ %", text) and not re.search(r"\de[+-]\d", text)
 
 
 def test_stale_results_are_marked(qtbot):

@@ -1,0 +1,48 @@
+"""The numbers tab: figures to the digits their error supports, two self capacitances named apart."""
+
+import re
+
+import pytest
+
+import solver
+from app.jobs.results import compute_results
+from app.panels.matrices_view import MatricesView
+from app.units import digits_for
+
+
+@pytest.fixture(scope="module")
+def results():
+    return compute_results(solver.load_project("sample_geometries/three_traces_over_ground.json"),
+                           grid_points=0, n_field_lines=0)
+
+
+@pytest.fixture
+def view(qtbot, results):
+    v = MatricesView()
+    qtbot.addWidget(v)
+    v.show_results(results)
+    return v
+
+
+def _cells(table):
+    return [table.item(i, j).text() for i in range(table.rowCount()) for j in range(table.columnCount())]
+
+
+def test_the_two_self_capacitances_have_names_that_cannot_be_confused(view):
+    assert "Maxwell diagonal C_ii" in view.maxwell_label.text()
+    assert "capacitance to earth C_i0" in view.mutual_label.text()
+    assert "self capacitance" not in (view.maxwell_label.text() + view.mutual_label.text()).lower()
+    for tip in (view.maxwell_label.toolTip(), view.mutual_label.toolTip()):
+        assert "Maxwell diagonal C_ii" in tip and "Capacitance to earth C_i0" in tip
+
+
+def test_figures_carry_the_digits_their_error_supports_and_no_exponents(view, results):
+    shown = _cells(view.maxwell) + _cells(view.mutual) + _cells(view.conductors)
+    assert not any(re.search(r"\de[+-]?\d", text) for text in shown), shown
+    assert any(text.startswith("\u2212") for text in _cells(view.maxwell))  # true minus signs off the diagonal
+    assert not any("-" in text for text in _cells(view.maxwell))
+    err = results.solution.estimated_relative_error
+    figures = [len(re.sub(r"\D", "", t).lstrip("0")) for t in _cells(view.maxwell)]
+    assert max(figures) == digits_for(err)  # no more figures than the error supports
+    assert f"{digits_for(err)} significant digits" in view.error_label.text()
+    assert "%" in view.error_label.text() and "e-" not in view.error_label.text()
