@@ -36,12 +36,21 @@ def header_section(report: Report) -> list[str]:
         lines.append(m.description)
     lines += [
         "",
-        f"Unit of length: {m.unit}    background eps_r: {m.background_eps_r:g}    "
-        f"mesh: {m.mesh_density}, {solution.mesh.n_panels} panels",
+        f"Unit of length: {m.unit}    background eps_r: {m.background_eps_r:g}    {_mesh_words(report)}",
         f"Ground plane: y = {m.ground_plane.y:g} {m.unit}" if m.ground_plane is not None else "Ground plane: none",
         "Figures are per metre of a long, uniform cross-section (2-D electrostatics).",
     ]
     return lines
+
+
+def _mesh_words(report: Report) -> str:
+    """How the boundary was discretised: the named density, or the high-order tolerance solve."""
+    solution = report.solution
+    if getattr(solution, "tolerance", None) is not None:
+        return f"high-order solver to tolerance {solution.tolerance:.2g}, {solution.n_unknowns} unknowns"
+    if report.options.tolerance is not None:
+        return f"low-order solver refined to tolerance {report.options.tolerance:.2g}, {solution.mesh.n_panels} panels"
+    return f"mesh: {solution.model.mesh_density}, {solution.mesh.n_panels} panels"
 
 
 def conductors_section(report: Report) -> list[str]:

@@ -146,3 +146,14 @@ def test_command_line_tolerance_reports_unknowns_and_stage_times(capsys, tmp_pat
     assert set(out["stage_seconds"]) == {"meshing", "solving", "checking"}
     assert out["estimated_relative_error"] <= 1e-10
     assert main([str(path), "--tolerance", "2"]) == 2
+
+
+def test_command_line_text_names_the_solver_that_was_used(capsys, tmp_path):
+    from solver.io.project_file import save_project
+
+    path = tmp_path / "twin.json"
+    save_project(two_wire(1.0, 3.0), path)
+    assert main([str(path), "--tolerance", "1e-10"]) == 0
+    header = capsys.readouterr().out.splitlines()[2]
+    # the header must not quote the named mesh's panel count for a solve that never used it
+    assert "high-order solver to tolerance 1e-10" in header and "panels" not in header
