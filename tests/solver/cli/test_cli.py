@@ -218,7 +218,10 @@ def test_high_voltage_sample_carries_the_caution(capsys):
     out = capsys.readouterr().out
     from solver import HIGH_VOLTAGE_CAUTION
 
-    assert "High-voltage verdict: ample." in out  # rounded 30 mm edges, within their corona onset
+    # rounded 30 mm edges, within their corona onset; the basis is said, and at operating voltage
+    # the result asks for a check at the test and overvoltage levels (common practice)
+    assert "High-voltage verdict: ample (voltage basis: operating voltage (crest))." in out
+    assert "check again with the voltage basis set to those levels" in " ".join(out.split())
     assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in " ".join(out.split())  # word for word (SAFETY.md)
 
 
