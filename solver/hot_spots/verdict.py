@@ -43,6 +43,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from typing import Any
 
 from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.margins import (
@@ -207,8 +208,8 @@ def judge_peak(
     k = voltage_basis.field_factor
     peak = float(peak_field_V_per_m) * k
     dv = float(largest_potential_difference_V) * k
-    extra = dict(gap_m=strength.gap_m, air_strength_basis=strength.basis, voltage_basis=voltage_basis.describe(),
-                 field_factor=k)
+    extra: dict[str, Any] = dict(gap_m=strength.gap_m, air_strength_basis=strength.basis,
+                                 voltage_basis=voltage_basis.describe(), field_factor=k)
     caution_applies = True
     graded: tuple | None = None
     if not (math.isfinite(peak) and math.isfinite(dv)):

@@ -9,6 +9,7 @@ import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
 from solver.errors import InvalidModelError
+from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
@@ -19,7 +20,6 @@ from solver.hot_spots.margins import (
     relative_air_density,
     round_radius_m,
 )
-from solver.hot_spots.air_strength import air_strength
 from solver.model.materials import Medium
 
 ROOT = Path(__file__).resolve().parents[3]
