@@ -74,7 +74,8 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
         parts.append(f"<p style='color:{colour}'><b>High-voltage verdict: {html.escape(verdict.status)}. "
                      f"{html.escape(verdict.headline)}</b> {html.escape(body)} ({html.escape(statuses)}; air: "
                      f"{html.escape(air.description)}, relative density {air.relative_air_density:.3f}, surface "
-                     f"factor {air.surface_factor:g})</p>")
+                     f"factor {air.surface_factor:g}; voltage basis: "
+                     f"{html.escape(solver.voltage_basis_of(settings_model).describe())})</p>")
     length = settings_model.extras.get(PART_LENGTH_KEY)
     parts.append("<p><b>What 2-D cannot tell.</b> "
                  + html.escape(cautions.length_text(model, length)) + " "

@@ -303,7 +303,8 @@ class MarginReport:
 
     With insulated conductors in air, ``air_region_margin`` compares the largest field in the
     surrounding air (on the outer surface of the insulation, say) with air breakdown, and
-    ``air_region_status`` grades it like a conductor's; both are None otherwise (and when that
+    ``air_region_status`` grades it like a conductor's (against
+    ``air_region_breakdown_field_V_per_m``, the long-gap strength of air); all are None otherwise (and when that
     field lies on a bare conductor, whose own verdict covers it).
     ``verdict`` is the model's :class:`solver.CautionVerdict`; ``caution_text`` its caution
     (the full high-voltage caution whenever the model is not low-voltage).
@@ -318,6 +319,7 @@ class MarginReport:
     air_region_status: str | None = None
     verdict: CautionVerdict | None = None
     voltage_basis: VoltageBasis = OPERATING_CREST
+    air_region_breakdown_field_V_per_m: float | None = None
 
     @property
     def needs_caution(self) -> bool:
@@ -344,6 +346,7 @@ class MarginReport:
             "conductors": [{k: clean(v) for k, v in vars(m).items()} for m in self.margins],
             "air_region_peak_field_V_per_m": self.air_region_peak_field_V_per_m,
             "air_region_margin": clean(self.air_region_margin),
+            "air_region_breakdown_field_V_per_m": self.air_region_breakdown_field_V_per_m,
             "air_region_status": self.air_region_status,
             "status": None if v is None else v.status,
             "headline": None if v is None else v.headline,
@@ -443,15 +446,15 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
         out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, v.air_breakdown_field_V_per_m,
                                    v.air_breakdown_margin, radius, basis_text, corona, v.corona_onset_margin, v.status,
                                    v.caution, v.reason, v.headline, v.gap_m, v.air_strength_basis, v.field_factor))
-    region_peak = region_margin = region_status = None
+    region_peak = region_margin = region_status = region_strength = None
     if air_region is not None and judges_air_region(air_region.where):
         region_peak = float(air_region.field_V_per_m)
         v = judge_peak(region_peak, where="the surrounding air", largest_potential_difference_V=largest_potential_difference_V,
                        medium=None, at_sharp_corner=bool(air_region.at_sharp_corner), air=air, thin_margin=thin_margin,
                        voltage_basis=basis)
         verdicts.append(v)
-        region_margin, region_status = v.air_breakdown_margin, v.status
+        region_margin, region_status, region_strength = v.air_breakdown_margin, v.status, v.air_breakdown_field_V_per_m
     verdict = summarise_verdicts(verdicts)
     caution = "" if verdict is None else verdict.caution
     return MarginReport(tuple(out), air, float(thin_margin), caution, region_peak, region_margin,
-                        region_status, verdict, basis)
+                        region_status, verdict, basis, region_strength)
