@@ -153,3 +153,25 @@ def test_a_bad_voltage_basis_ends_in_exit_2_with_one_line(capsys):
     assert "--voltage-factor" in capsys.readouterr().err
     assert main([str(HV), "--voltage-basis", "lightning_impulse", "--potentials-rms"]) == 2
     assert "no rms value" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("name", ["microstrip_on_substrate", "hv_electrode_over_earth", "two_layer_coax_cable",
+                                  "three_phase_line", "edge_coupled_pair"])
+def test_the_full_caution_appears_word_for_word_whenever_the_model_is_high_voltage(name, capsys):
+    # SAFETY.md: every model with potentials 300 V or more apart carries the caution in text and JSON
+    from solver import load_project
+    from solver.hot_spots.verdict import LOW_VOLTAGE_THRESHOLD_V, largest_potential_difference_V
+
+    path = ROOT / "sample_geometries" / f"{name}.json"
+    model = load_project(path)
+    fixed = [c.potential_V for c in model.conductors if c.role == "fixed"]
+    has_zero = model.ground_plane is not None or any(c.role == "reference" for c in model.conductors)
+    high = largest_potential_difference_V(fixed, has_zero) >= LOW_VOLTAGE_THRESHOLD_V
+    data = _json(capsys, path, "--density", "coarse")
+    assert main([str(path), "--density", "coarse"]) == 0
+    text = " ".join(capsys.readouterr().out.split())
+    if high:
+        assert data["high_voltage_caution"] and data["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION)
+        assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in text
+    else:
+        assert data["high_voltage_caution"] == "" and "Caution - high voltage" not in text
