@@ -354,6 +354,7 @@ def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: fl
     )
     from solver.hot_spots.peak_diagnostics import nearest_other_potential
     from solver.hot_spots.voltage_basis import voltage_basis_of
+    from solver.hot_spots.weak_corners import weak_corner_at
 
     model = solution.model
     basis = voltage_basis_of(model) if voltage_basis is None else voltage_basis
@@ -363,11 +364,12 @@ def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: fl
     for p in solution.peak_surface_fields:
         curvature = signed_radius_of_curvature_m(solution.mesh, p.panel_index)
         local = curvature if 0 < curvature < math.inf else None
-        radius, radius_basis = corona_radius_m(model, p.conductor, p.location_m, local, p.at_sharp_corner)
+        at_corner = bool(p.at_sharp_corner) or weak_corner_at(solution.mesh, p.panel_index) is not None
+        radius, radius_basis = corona_radius_m(model, p.conductor, p.location_m, local, at_corner)
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
         verdicts.append(judge_peak(p.field_V_per_m, where=f"'{p.conductor}'", largest_potential_difference_V=dv,
-                                   medium=medium_next_to(solution, p.panel_index), at_sharp_corner=p.at_sharp_corner,
+                                   medium=medium_next_to(solution, p.panel_index), at_sharp_corner=at_corner,
                                    corona_onset_field_V_per_m=corona, corona_radius_basis=radius_basis, air=air,
                                    thin_margin=thin_margin, gap_m=gaps.get(p.conductor), voltage_basis=basis))
     in_air = largest_air_field(solution) if model.dielectrics else None
