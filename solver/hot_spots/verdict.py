@@ -51,7 +51,7 @@ from solver.hot_spots.margins import (
     THIN_MARGIN,
     AirConditions,
 )
-from solver.hot_spots.voltage_basis import OPERATING_CREST, VoltageBasis
+from solver.hot_spots.voltage_basis import OPERATING_CREST, VOLTAGE_BASES, VoltageBasis
 from solver.model.materials import Medium
 
 #: Largest potential difference (V) below which no breakdown caution is given; a choice of
@@ -262,7 +262,7 @@ def basis_phrase(voltage_basis: VoltageBasis) -> str:
         return f"at {voltage_basis.factor:g} x operating voltage"
     if voltage_basis.basis == "operating":
         return "at operating voltage"
-    return f"at the {voltage_basis.describe().split(' (')[0].split(';')[0]}"
+    return f"at the {VOLTAGE_BASES[voltage_basis.basis]}"
 
 
 @dataclass(frozen=True)
