@@ -38,6 +38,7 @@ from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points,
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
 from solver.hot_spots.air_region import AirRegionPeak
+from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
 from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
@@ -66,6 +67,13 @@ from solver.hot_spots.verdict import (
     largest_potential_difference_V,
     solution_potential_difference_V,
     summarise_verdicts,
+)
+from solver.hot_spots.voltage_basis import (
+    OPERATING_CREST,
+    VOLTAGE_BASES,
+    VoltageBasis,
+    voltage_basis_of,
+    with_voltage_basis,
 )
 from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
@@ -118,6 +126,8 @@ __all__ = [
     "air_breakdown_field_V_per_m", "assess_margins", "peek_corona_onset_field_V_per_m",
     "pressure_at_altitude_Pa", "relative_air_density", "relative_air_density_at_altitude",
     "air_conditions_of", "with_air_conditions",
+    "AirStrength", "air_strength", "uniform_field_breakdown_voltage_V",
+    "OPERATING_CREST", "VOLTAGE_BASES", "VoltageBasis", "voltage_basis_of", "with_voltage_basis",
     "LOW_VOLTAGE_THRESHOLD_V", "CautionVerdict", "PeakVerdict", "judge_peak", "judge_solution",
     "largest_potential_difference_V", "solution_potential_difference_V", "summarise_verdicts",
     "Medium", "background_is_air", "is_air_material", "region_is_air",

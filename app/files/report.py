@@ -29,13 +29,14 @@ TABLE = "<table border='1' cellspacing='0' cellpadding='2'>"
 
 
 def voltage_basis_text(settings_model) -> str | None:
-    """HOOK for the voltage basis (operating crest / withstand / impulse) of the project: the
-    sentence the report prints, once the solver offers ``solver.voltage_basis_of``; None before."""
-    describe = getattr(solver, "voltage_basis_of", None)
-    if describe is None:
+    """The project's voltage basis (operating crest / withstand / impulse / factor) in words, as
+    the solver describes it; None when there is no model or its saved basis is not valid."""
+    if settings_model is None:
         return None
-    basis = describe(settings_model)
-    return getattr(basis, "description", None) or str(basis)
+    try:
+        return solver.voltage_basis_of(settings_model).describe()
+    except solver.SolverError:
+        return None
 
 
 def project_file_line(project_path: Path | None, modified: bool) -> str:

@@ -1,21 +1,23 @@
-"""The "Air at the site" inputs: altitude, or pressure and temperature, and Peek's surface factor.
+"""The "Air at the site" inputs: altitude, or pressure and temperature, Peek's surface factor,
+and the voltage basis of the check (what the potentials stand for; :class:`solver.VoltageBasis`).
 
 The project has one set of air conditions (saved in the project file, read by
 :func:`solver.air_conditions_of`); the High voltage and Hot spots tabs each show this box for
 it. :meth:`AirConditionsBox.show_project_air` fills the inputs from the project;
 :meth:`AirConditionsBox.conditions` turns the inputs into a :class:`solver.AirConditions` (as the
 command line's --altitude-m / --pressure-kPa / --temperature-C / --surface-factor do) and
-describes them in words; ``applied`` fires when the user presses the button (the owner then
-saves them in the project). No physics here.
+describes them in words; :meth:`AirConditionsBox.voltage_basis` does the same for the basis and
+:meth:`AirConditionsBox.applied_to` gives the model carrying both; ``applied`` fires when the
+user presses the button (the owner then saves them in the project). No physics here.
 """
 
 from __future__ import annotations
 
 from PySide6.QtCore import Signal
-from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit, QPushButton
+from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit, QPushButton
 
 import solver
-from solver import AirConditions
+from solver import AirConditions, VoltageBasis
 
 KELVIN_AT_0_C = 273.15
 
@@ -36,7 +38,12 @@ class AirConditionsBox(QGroupBox):
         self.surface_edit = QLineEdit("1")
         self.peek_form = QComboBox()
         self.peek_form.addItems(["parallel wires", "coaxial"])
-        self.apply_button = QPushButton("Apply air conditions")
+        self.basis = QComboBox()
+        for key, name in solver.VOLTAGE_BASES.items():
+            self.basis.addItem(name, key)
+        self.factor_edit = QLineEdit("1")
+        self.rms_box = QCheckBox("potentials are rms values (converted to crest for the check)")
+        self.apply_button = QPushButton("Apply air conditions and voltage basis")
         self.label = QLabel()
         self.label.setWordWrap(True)
         form.addRow("air given by", self.mode)
@@ -45,23 +52,38 @@ class AirConditionsBox(QGroupBox):
         form.addRow("temperature (°C)", self.temperature_edit)
         form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit)
         form.addRow("Peek form", self.peek_form)
+        form.addRow("potentials stand for", self.basis)
+        form.addRow("overvoltage factor", self.factor_edit)
+        form.addRow(self.rms_box)
         form.addRow(self.apply_button)
         form.addRow(self.label)
         self.apply_button.clicked.connect(self.applied)
         self.mode.currentIndexChanged.connect(self._on_mode_changed)
+        self.basis.currentIndexChanged.connect(self._on_basis_changed)
         self._on_mode_changed(0)
+        self._on_basis_changed(0)
 
     def _on_mode_changed(self, index: int) -> None:
         self.altitude_edit.setEnabled(index == 0)
         self.pressure_edit.setEnabled(index == 1)
 
+    def _on_basis_changed(self, _index: int) -> None:
+        self.factor_edit.setEnabled(self.basis.currentData() == "factor")
+
     def show_project_air(self, model) -> None:
-        """Fill the inputs with the project's air conditions (as saved) and describe them."""
+        """Fill the inputs with the project's air conditions and voltage basis (as saved) and describe them."""
         try:
             settings = solver.air_conditions_of(model).as_settings()
+            basis = solver.voltage_basis_of(model)
         except solver.SolverError as exc:
             self.label.setText(f"The project's air conditions cannot be used: {exc}")
             return
+        self.basis.blockSignals(True)
+        self.basis.setCurrentIndex(max(0, self.basis.findData(basis.basis)))
+        self.basis.blockSignals(False)
+        self._on_basis_changed(self.basis.currentIndex())
+        self.factor_edit.setText(f"{basis.factor:g}")
+        self.rms_box.setChecked(basis.potentials == "rms")
         for widget in (self.mode, self.peek_form):
             widget.blockSignals(True)
         self.mode.setCurrentIndex(1 if "pressure_kPa" in settings else 0)
@@ -87,18 +109,41 @@ class AirConditionsBox(QGroupBox):
         return AirConditions.at_altitude(float(self.altitude_edit.text()), temperature_K,
                                          surface_factor=surface, peek_form=form)
 
+    def _read_basis(self) -> VoltageBasis:
+        key = str(self.basis.currentData())
+        factor = float(self.factor_edit.text()) if key == "factor" else 1.0
+        return VoltageBasis(key, "rms" if self.rms_box.isChecked() else "crest", factor)
+
+    def voltage_basis(self) -> VoltageBasis | None:
+        """The voltage basis chosen; None (with the reason shown) when invalid."""
+        return self._described()[1]
+
     def conditions(self) -> AirConditions | None:
         """The air typed in, described below the inputs; None (with the reason shown) when invalid."""
+        return self._described()[0]
+
+    def applied_to(self, model):
+        """``model`` carrying the air conditions and voltage basis typed in (None when either is invalid)."""
+        air, basis = self._described()
+        if air is None or basis is None:
+            return None
+        return solver.with_voltage_basis(solver.with_air_conditions(model, air), basis)
+
+    def _described(self) -> tuple[AirConditions | None, VoltageBasis | None]:
         try:
             air = self._read()
-            breakdown = solver.air_breakdown_field_V_per_m(air.relative_air_density)
+            basis = self._read_basis()
+            at_1_cm = solver.air_strength(0.01, air.relative_air_density, air.surface_factor).field_V_per_m
+            long_gap = solver.air_strength(None, air.relative_air_density, air.surface_factor).field_V_per_m
         except (ValueError, solver.SolverError) as exc:
-            self.label.setText(f"Air conditions not applied: {exc}")
+            self.label.setText(f"Air conditions or voltage basis not applied: {exc}")
             self.label.setStyleSheet("color: #7a0000; font-weight: bold;")
-            return None
+            return None, None
         self.label.setStyleSheet("")
         self.label.setText(
-            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Air breakdown "
-            f"{breakdown / 1e6:.3g} MV/m (uniform field, in proportion to δ, common practice); corona onset of round "
-            f"conductors by Peek (1929), {self.peek_form.currentText()} form, surface factor {air.surface_factor:g}.")
-        return air
+            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Strength of air in a "
+            f"uniform field {at_1_cm / 1e6:.3g} MV/m across 1 cm, {long_gap / 1e6:.3g} MV/m for long gaps (Kuffel, "
+            f"Zaengl & Kuffel 2000; each peak uses its own gap; times the surface factor {air.surface_factor:g}); "
+            f"corona onset of round conductors by Peek (1929), {self.peek_form.currentText()} form. "
+            f"Voltage basis: {basis.describe()}.")
+        return air, basis

@@ -198,7 +198,9 @@ class HotSpotsView(QWidget):
         if air is None:
             return
         if self.document is not None:
-            self.document.apply(solver.with_air_conditions(self.document.model, air), "Set air conditions")
+            updated = self.air_box.applied_to(self.document.model)
+            if updated is not None:
+                self.document.apply(updated, "Set air conditions and voltage basis")
         elif self.report is not None:
             self._assess()
 
@@ -226,12 +228,12 @@ class HotSpotsView(QWidget):
         self._assess()
 
     def _assess(self) -> None:
-        air = self.air_box.conditions()
-        if air is None or self.report is None:
+        air, basis = self.air_box.conditions(), self.air_box.voltage_basis()
+        if air is None or basis is None or self.report is None:
             return
         r = self.report
         self.margins = solver.assess_margins(r.solved_model, r.hot_spots, air, THIN_MARGIN, r.air_region,
-                                             solver.solution_potential_difference_V(r.solution))
+                                             solver.solution_potential_difference_V(r.solution), basis)
         self._fill()
 
     def _fill(self) -> None:
@@ -266,7 +268,8 @@ class HotSpotsView(QWidget):
             ar = r.air_region
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
             rows.append(f"largest in air ({place}{', negligible' if ar.negligible else ''})")
-            breakdown = m.margins[0].air_breakdown_field_V_per_m if m.margins else math.nan
+            breakdown = m.air_region_breakdown_field_V_per_m
+            breakdown = math.nan if breakdown is None else breakdown
             error = ar.estimated_relative_error
             cells.append([f"{ar.field_V_per_m / factor:.4g}", "—" if error is None else f"{100 * error:.2g}",
                           f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
@@ -281,7 +284,10 @@ class HotSpotsView(QWidget):
         for j, status in enumerate(statuses):
             self.table.item(len(quantities) - 1, j).setBackground(QColor(STATUS_COLOURS.get(status, "#ffffff")))
         notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
-                     "potential. Potentials and fields are crest values (AC rms × √2).")
+                     "potential. Fields are crest values at the model's potentials. Voltage basis: "
+                     f"{m.voltage_basis.describe()}"
+                     + (f"; the margins compare the thresholds with these peaks × {m.voltage_basis.field_factor:.4g}."
+                        if m.voltage_basis.field_factor != 1.0 else "."))
         self.notes.setText("\n".join(notes))
         self._show_caution()
 

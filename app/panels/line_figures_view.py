@@ -18,6 +18,8 @@ import solver
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
 
+MODES_CAPTION = ("Modes (slowest first): effective permittivity, velocity, modal impedance and the modal "
+                 "voltages on each line (largest +1)")
 QUASI_TEM_NOTE = ("Quasi-TEM figures: they hold while the cross-section is small against the wavelength; "
                   "skin effect, conductor and dielectric loss and dispersion are not modelled.")
 NO_RETURN_PATH = ("No line figures: a transmission line needs a return path. Add a reference conductor "
@@ -72,8 +74,7 @@ class LineFiguresView(QWidget):
         self.line_table = CopyableTable()
         self.inductance_label = QLabel()
         self.inductance = CopyableTable()
-        self.modes_label = QLabel("Modes (slowest first): effective permittivity, velocity, modal impedance and "
-                                  "the modal voltages on each line (largest +1)")
+        self.modes_label = QLabel(MODES_CAPTION)
         self.modes = CopyableTable()
         self.coupling_label = QLabel("Coupling coefficients between lines: capacitive k_C = −C_ij / √(C_ii C_jj), "
                                      "inductive k_L = L_ij / √(L_ii L_jj)")
@@ -204,6 +205,7 @@ class LineFiguresView(QWidget):
                               f"{f.modal_impedances_ohm[k]:.4g}"]
                              + [f"{(0.0 if abs(x) < 5e-4 else x):+.3f}" for x in f.modal_voltages[:, k]])
             self.modes.fill([f"mode {k + 1}" for k in range(len(names))], columns, cells)
+            self.modes_label.setText(MODES_CAPTION + (f" — note: {f.modal_note}." if f.modal_note else ""))
             self._show(self.modes_label, self.modes)
             pairs = [(i, j) for i in range(len(names)) for j in range(i + 1, len(names))]
             self.coupling.fill([f"{names[i]} – {names[j]}" for i, j in pairs], ["capacitive k_C", "inductive k_L"],

@@ -116,6 +116,8 @@ class MatricesView(QWidget):
         self.error_label = QLabel()
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
+        self.asymmetry_label = QLabel()  # raw asymmetry of the computed matrix (Solution.capacitance_asymmetry)
+        layout.addWidget(self.asymmetry_label)
         layout.addStretch(1)
         self.maxwell.setToolTip(MAXWELL_DIAGONAL_TIP)
         self.mutual.setToolTip(TO_EARTH_TIP)
@@ -141,6 +143,9 @@ class MatricesView(QWidget):
                 reason = str(exc)
             self.status.setText(reason)
         self._status_text = self.status.text()
+        self.asymmetry_label.setText(
+            f"Accuracy check: the computed matrix was asymmetric by {100 * sol.capacitance_asymmetry:.2g} % "
+            "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else "")
         self._fill_conductors(results)
         self._fill_regions(results)
         err = sol.estimated_relative_error

@@ -26,7 +26,7 @@ def caution_for(results, model):
     """
     if results is None:
         return None
-    return solver.judge_solution(results.solution, solver.air_conditions_of(model))
+    return solver.judge_solution(results.solution, solver.air_conditions_of(model), voltage_basis=solver.voltage_basis_of(model))
 
 
 def _length(text: str, model) -> float:
@@ -160,6 +160,6 @@ class HighVoltageView(QWidget):
         self.detail.setText("\n".join(lines + ([body] if body else [])))
 
     def _on_air_applied(self) -> None:
-        air = self.air_box.conditions()
-        if air is not None:
-            self.document.apply(solver.with_air_conditions(self.document.model, air), "Set air conditions")
+        updated = self.air_box.applied_to(self.document.model)
+        if updated is not None:
+            self.document.apply(updated, "Set air conditions and voltage basis")

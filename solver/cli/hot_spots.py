@@ -7,9 +7,11 @@ solution's own meshes, :func:`solver.analyse_hot_spots`), the margins
 
 JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 ``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
-``air_breakdown_field_V_per_m``, ``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
+``air_breakdown_field_V_per_m`` (the strength of air for each conductor's gap, ``air_gap_m``),
+``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
 ``corona_onset_margin``, ``margin_status``, ``margin_reason``, ``relative_air_density``,
-``thin_margin_threshold``, ``caution_status``, ``caution_headline``, ``high_voltage_caution``
+``thin_margin_threshold``, ``voltage_basis`` (its project-file form), ``voltage_basis_text``,
+``field_factor`` (what the peaks were multiplied by for the margins), ``caution_status``, ``caution_headline``, ``high_voltage_caution``
 (the full caution, word for word, whenever the model is not low-voltage) and the details
 under ``hot_spots`` and ``margins``. Status, reason and caution come from
 :func:`solver.judge_peak`, the one caution rule.
@@ -28,7 +30,7 @@ from solver.figures.bundles import BundleComparison, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length
 from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.margins import THIN_MARGIN, MarginReport, air_breakdown_field_V_per_m, assess_margins
+from solver.hot_spots.margins import THIN_MARGIN, MarginReport, assess_margins
 from solver.hot_spots.verdict import solution_potential_difference_V
 
 
@@ -73,7 +75,8 @@ def analysis(
     report = analyse_hot_spots(solution, options.peak_target, options.corner_radius_m,
                                progress=progress, cancel=cancel)
     margins = assess_margins(report.solved_model, report.hot_spots, options.air_for(solution.model),
-                             THIN_MARGIN, report.air_region, solution_potential_difference_V(solution))
+                             THIN_MARGIN, report.air_region, solution_potential_difference_V(solution),
+                             options.basis_for(solution.model))
     return report, margins
 
 
@@ -123,15 +126,20 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
                      _fmt(spot.enhancement_factor), _fmt(m.air_breakdown_margin),
                      _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.status])
     air = margins.air
+    strengths = ", ".join(f"{m.conductor} {_fmt(m.air_breakdown_field_V_per_m, 'V/m')}" for m in margins.margins)
     lines = [
         f"Hot spots: peak surface field, refined to an error target of {100 * report.target_relative_error:g} % "
         f"({report.n_panels[-1]} panels{rounded})",
         *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
                  "corona margin", "status"], rows),
-        f"  Air: {air.description}, relative density {air.relative_air_density:.3f}; breakdown "
-        f"{_fmt(air_breakdown_field_V_per_m(air.relative_air_density), 'V/m')} "
-        f"(3 MV/m x density, common practice); corona onset by Peek (1929, {air.peek_form.replace('_', ' ')}), "
-        f"surface factor {air.surface_factor:g}.",
+        f"  Air: {air.description}, relative density {air.relative_air_density:.3f}, surface factor "
+        f"{air.surface_factor:g}; breakdown: uniform-field strength of air for each conductor's gap "
+        f"(Kuffel, Zaengl & Kuffel 2000) x density x surface factor, "
+        f"{strengths}"
+        f"; corona onset by Peek (1929, {air.peek_form.replace('_', ' ')}).",
+        f"  Voltage basis: {margins.voltage_basis.describe()}"
+        + (f"; margins compare the thresholds with the peaks x {margins.voltage_basis.field_factor:.4g}."
+           if margins.voltage_basis.field_factor != 1.0 else "; margins compare the thresholds with the peaks as shown."),
         f"  Enhancement = peak / (potential difference / gap) to the nearest conductor at another potential. "
         f"Margin = threshold / peak; below {margins.thin_margin:g} is thin. Fields are crest values.",
     ]
@@ -185,7 +193,8 @@ def caution_lines(figures: HotSpotFigures) -> list[str]:
     v = figures.margins.verdict
     if v is None:
         return []
-    head = f"High-voltage verdict: {v.status}."
+    basis = figures.margins.voltage_basis
+    head = f"High-voltage verdict: {v.status} (voltage basis: {basis.describe()})."
     if v.caution.startswith(v.headline):
         return [head, v.caution]
     return [head, v.headline, *([v.caution] if v.caution else [])]
@@ -201,7 +210,8 @@ def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
         "peak_field_estimated_relative_error": [s.estimated_relative_error for s in report.hot_spots],
         "peak_field_singular": [s.singular for s in report.hot_spots],
         "enhancement_factor": [s.enhancement_factor for s in report.hot_spots],
-        "air_breakdown_field_V_per_m": margins.margins[0].air_breakdown_field_V_per_m if margins.margins else None,
+        "air_breakdown_field_V_per_m": [m["air_breakdown_field_V_per_m"] for m in per],
+        "air_gap_m": [m["gap_m"] for m in per],
         "air_breakdown_margin": [m["air_breakdown_margin"] for m in per],
         "corona_onset_field_V_per_m": [m["corona_onset_field_V_per_m"] for m in per],
         "corona_onset_margin": [m["corona_onset_margin"] for m in per],
@@ -210,6 +220,9 @@ def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
         "air_region_margin": margin_dict["air_region_margin"],
         "relative_air_density": margins.air.relative_air_density,
         "thin_margin_threshold": margins.thin_margin,
+        "voltage_basis": margin_dict["voltage_basis_settings"],
+        "voltage_basis_text": margin_dict["voltage_basis"],
+        "field_factor": margin_dict["field_factor"],
         "margin_reason": [m["reason"] for m in per],
         "caution_status": margin_dict["status"],
         "caution_headline": margin_dict["headline"],

@@ -37,16 +37,20 @@ def model_json(report: Report) -> dict:
 
 
 def capacitance_json(report: Report) -> dict:
-    """Both capacitance matrices (F/m) or None, with the note saying why there are none."""
+    """Both capacitance matrices (F/m) or None, with the note saying why there are none, and the
+    raw asymmetry of the computed Maxwell matrix before it was symmetrised (an accuracy check:
+    largest |C_ij - C_ji| / largest |C_ij|)."""
     solution, note = report.solution, report.capacitance_note
-    maxwell = mutual = None
+    maxwell = mutual = asymmetry = None
     if note is None:
         try:
             maxwell = solution.capacitance_maxwell_F_per_m.tolist()
             mutual = solution.capacitance_mutual_F_per_m.tolist()
+            asymmetry = solution.capacitance_asymmetry
         except NoReferenceError as e:  # the solution knows better than our note
             note = str(e)
-    return {"capacitance_maxwell_F_per_m": maxwell, "capacitance_mutual_F_per_m": mutual, "capacitance_note": note}
+    return {"capacitance_maxwell_F_per_m": maxwell, "capacitance_mutual_F_per_m": mutual,
+            "capacitance_asymmetry": asymmetry, "capacitance_note": note}
 
 
 def operating_point_json(report: Report) -> dict:

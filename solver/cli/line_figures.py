@@ -67,6 +67,8 @@ def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
             f"    {k + 1}: Z {_ohm(f.modal_impedances_ohm[k])}, eps_eff {f.modal_effective_permittivities[k]:.5g}, "
             f"voltages ({vec})"
         )
+    if f.modal_note:
+        lines.append(f"  note on the modes: {f.modal_note}.")
     pairs = [
         f"{names[i]}-{names[j]}: k_C {f.capacitive_coupling[i, j]:.3g}, k_L {f.inductive_coupling[i, j]:.3g}"
         for i in range(len(names)) for j in range(i + 1, len(names))

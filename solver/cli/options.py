@@ -7,6 +7,7 @@ from dataclasses import dataclass
 
 from solver.errors import InvalidModelError
 from solver.hot_spots.margins import AirConditions, air_conditions_of
+from solver.hot_spots.voltage_basis import VOLTAGE_BASES, VoltageBasis, voltage_basis_of
 from solver.model.model import Model
 
 
@@ -27,6 +28,9 @@ class ReportOptions:
         or None.
     tolerance : requested relative accuracy of the capacitance matrix and equivalent radii
         (``--tolerance``; the high-order adaptive solver), or None for the mesh density.
+    basis_override : voltage-basis settings given on the command line (project-file keys
+        ``basis``, ``potentials``, ``factor``); they replace the project's own field by field
+        (see :meth:`basis_for`).
     """
 
     air_override: tuple[tuple[str, float], ...] = ()
@@ -36,6 +40,7 @@ class ReportOptions:
     radius_sweep: tuple[str, tuple[float, ...]] | None = None
     cross_check_points: tuple[int, ...] | None = None
     tolerance: float | None = None
+    basis_override: tuple[tuple[str, str | float], ...] = ()
 
     def air_for(self, model: Model) -> AirConditions:
         """The project's air conditions with this run's command-line air settings over them."""
@@ -46,6 +51,15 @@ class ReportOptions:
                 settings.pop(key, None)
         return AirConditions.from_settings(settings | override)
 
+    def basis_for(self, model: Model) -> VoltageBasis:
+        """The project's voltage basis with this run's --voltage-basis, --voltage-factor and
+        --potentials-rms over it."""
+        settings = voltage_basis_of(model).as_settings()
+        override = dict(self.basis_override)
+        if "basis" in override and override["basis"] != "factor":
+            settings.pop("factor", None)
+        return VoltageBasis.from_settings(settings | override)
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Add the air, surface, corner-radius and error-target options to ``parser``."""
@@ -55,6 +69,14 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     group.add_argument("--temperature-C", type=float, help="air temperature, degC (default 20)")
     group.add_argument("--surface-factor", type=float,
                        help="Peek's surface factor m of round conductors (1 smooth, ~0.85 stranded)")
+    group.add_argument("--voltage-basis", choices=tuple(VOLTAGE_BASES),
+                       help="what the potentials stand for in the high-voltage check (default: the project's, "
+                            "else operating)")
+    group.add_argument("--voltage-factor", type=float,
+                       help="overvoltage factor: check at this multiple of the operating voltage "
+                            "(sets --voltage-basis factor)")
+    group.add_argument("--potentials-rms", action="store_true",
+                       help="the potentials are rms values of a sine wave (converted to crest for the check)")
     group.add_argument("--corner-radius-m", type=float,
                        help="round every sharp corner and strip edge to this radius, m, for the peak fields")
     group.add_argument("--peak-target", type=float, default=0.01,
@@ -83,6 +105,26 @@ def air_override(args: argparse.Namespace) -> tuple[tuple[str, float], ...]:
     return tuple(override.items())
 
 
+def basis_override(args: argparse.Namespace) -> tuple[tuple[str, str | float], ...]:
+    """The voltage-basis settings given with --voltage-basis, --voltage-factor and
+    --potentials-rms (checked here, before any solve)."""
+    override: dict[str, str | float] = {}
+    basis = getattr(args, "voltage_basis", None)
+    factor = getattr(args, "voltage_factor", None)
+    if factor is not None:
+        if basis not in (None, "factor"):
+            raise InvalidModelError(f"--voltage-factor goes with --voltage-basis factor, not {basis}.")
+        override["basis"], override["factor"] = "factor", float(factor)
+    elif basis is not None:
+        if basis == "factor":
+            raise InvalidModelError("--voltage-basis factor needs --voltage-factor (e.g. 1.2).")
+        override["basis"] = basis
+    if getattr(args, "potentials_rms", False):
+        override["potentials"] = "rms"
+    VoltageBasis.from_settings(override)
+    return tuple(override.items())
+
+
 def parse_radius_sweep(text: str | None) -> tuple[str, tuple[float, ...]] | None:
     """``"CONDUCTOR=R1,R2,..."`` as (conductor, radii in metres); None for no text."""
     if not text:
@@ -101,6 +143,7 @@ def options_from_args(args: argparse.Namespace) -> ReportOptions:
     """The :class:`ReportOptions` of one command-line run (raises InvalidModelError on a bad sweep)."""
     return ReportOptions(
         air_override=air_override(args),
+        basis_override=basis_override(args),
         corner_radius_m=getattr(args, "corner_radius_m", None),
         peak_target=getattr(args, "peak_target", 0.01),
         part_length_m=getattr(args, "part_length_m", None),

@@ -91,7 +91,18 @@ def capacitance_section(report: Report) -> list[str]:
         "Capacitance matrix, mutual form (pF/m): capacitance to earth C_i0 on the diagonal, between conductors "
         "off it", names, solution.capacitance_mutual_F_per_m, err,
     )
+    lines.append(asymmetry_line(solution.capacitance_asymmetry))
     return lines
+
+
+def asymmetry_line(asymmetry: float) -> str:
+    """The raw asymmetry of the computed matrix, an accuracy check made before it is symmetrised.
+
+    >>> asymmetry_line(2.5e-4)
+    'Accuracy check: the computed matrix was asymmetric by 0.025 % (largest |C_ij - C_ji| / largest |C_ij|) before it was symmetrised.'
+    """
+    return (f"Accuracy check: the computed matrix was asymmetric by {100 * asymmetry:.2g} % "
+            "(largest |C_ij - C_ji| / largest |C_ij|) before it was symmetrised.")
 
 
 def peak_field_section(report: Report) -> list[str]:

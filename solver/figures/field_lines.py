@@ -162,6 +162,21 @@ def _size_m(solution: Solution) -> tuple[np.ndarray, float]:
     return 0.5 * (lo + hi), float(np.hypot(*(hi - lo))) or 1.0
 
 
+def _tracing_extent_m(solution: Solution) -> tuple[np.ndarray, float]:
+    """Centre and size (bounding-box diagonal) of what field lines run between, metres.
+
+    The conductors and, when there is one, the ground plane below them: a line from a conductor
+    high above the plane must be able to reach it, so the step and the cut-off are sized from
+    the whole gap, not from the conductors alone.
+    """
+    pts = np.vstack([solution.mesh.starts, solution.mesh.ends])
+    lo, hi = pts.min(axis=0), pts.max(axis=0)
+    plane = solution.model.ground_plane
+    if plane is not None:
+        lo[1] = min(lo[1], plane.y * solution.model.metres_per_unit)
+    return 0.5 * (lo + hi), float(np.hypot(*(hi - lo))) or 1.0
+
+
 def field_line_seeds(solution: Solution, n_lines: int) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Start points at equal steps of charge along the boundaries.
 
@@ -206,9 +221,10 @@ def trace_field_lines(
         Number of seeds over the absolute charge of all conductors; each line carries
         ``sum |q| / n_lines`` of flux (C/m).
     max_steps : int
-        Steps per line at most; the step is 1/150 of the model's size.
+        Steps per line at most; the step is 1/150 of the size of the conductors together with
+        the ground plane (when there is one), so a line can run the whole gap to the plane.
     far_factor : float
-        A line stops when it is farther than ``far_factor`` model sizes from the centre.
+        A line stops when it is farther than ``far_factor`` such sizes from their centre.
     cancel : callable() -> bool, optional
         Polled at every step; when it returns True, SolveCancelled is raised.
 
@@ -220,7 +236,7 @@ def trace_field_lines(
     seeds, sign, start = field_line_seeds(solution, n_lines)
     if len(seeds) == 0:
         return ()
-    centre, size = _size_m(solution)
+    centre, size = _tracing_extent_m(solution)
     h = size / 150.0
     solid, strip = _solid_and_strip_geometry(solution)
     pos = seeds.copy()
@@ -243,6 +259,13 @@ def trace_field_lines(
         d1, n1 = direction(p, s)
         d2, _ = direction(p + 0.5 * h * d1, s)
         new = p + h * d2
+        hit_plane = np.zeros(len(idx), dtype=bool)
+        if solution.model.ground_plane is not None:
+            plane_y = solution.model.ground_plane.y * solution.model.metres_per_unit
+            hit_plane = new[:, 1] <= plane_y
+            # end a line that crosses the plane on the plane itself
+            t = (p[hit_plane, 1] - plane_y) / np.maximum(p[hit_plane, 1] - new[hit_plane, 1], 1e-300)
+            new[hit_plane] = p[hit_plane] + t.clip(0.0, 1.0)[:, None] * (new[hit_plane] - p[hit_plane])
         inside = _blocked(solution, solid, new)
         if strip is not None:
             inside |= shapely.dwithin(strip, shapely.points(new), 0.5 * h)
@@ -252,9 +275,6 @@ def trace_field_lines(
             paths[i].append(new[j])
         pos[idx] = new
         stop = inside | far | stalled
-        hit_plane = np.zeros(len(idx), dtype=bool)
-        if solution.model.ground_plane is not None:
-            hit_plane = new[:, 1] <= solution.model.ground_plane.y * solution.model.metres_per_unit
         ended[idx[inside & ~hit_plane]] = "conductor"
         active[idx[stop]] = False
 

@@ -10,7 +10,10 @@ same with every relative permittivity set to 1 (F/m, over the signal conductors)
                            C_even = C11 + C12, C_odd = C11 - C12 (likewise C0, per line),
                            Z_even/odd = 1 / (c sqrt(C_mode C0_mode)), eps_eff = C_mode / C0_mode,
                            differential impedance 2 Z_odd, common-mode impedance Z_even / 2
-    N conductors:          modes are the eigenvectors t_k of L C, with L C t_k = t_k / v_k^2;
+    N conductors:          modes are the eigenvectors t_k of L C, with L C t_k = t_k / v_k^2,
+                           found as the generalised symmetric problem C t = eps_eff C0 t
+                           (scipy.linalg.eigh; see :mod:`solver.figures.modes` for modes
+                           that share a velocity, as in a homogeneous medium);
                            modal current i_k = inv(L) t_k / v_k; modal impedance
                            Z_k = (t_k . t_k) / (t_k . i_k), which is Z_even / Z_odd for a
                            symmetric pair and Z0 for one line.
@@ -33,6 +36,7 @@ from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback
 from solver.constants import SPEED_OF_LIGHT_M_PER_S
 from solver.errors import NoReferenceError
+from solver.figures.modes import modes_of
 from solver.mesh.panels import MeshSettings
 from solver.model.model import Model
 
@@ -58,6 +62,10 @@ class TransmissionLineFigures:
     modal_velocities_m_per_s, modal_effective_permittivities, modal_impedances_ohm : (N,)
         per mode, slowest first.
     modal_voltages : (N, N) voltage eigenvectors as columns (largest entry +1).
+    modes_defined : False when modes share a velocity and their voltage vectors are not
+        fixed by the matrices (see :func:`solver.figures.modes.modes_of`); the modal voltages and
+        impedances of such modes are then one choice among many.
+    modal_note : how the modes were chosen, in words.
     capacitive_coupling, inductive_coupling : (N, N) coupling coefficients (zero diagonal).
     estimated_relative_error : of C (the larger of the two solves' estimates), or None.
     truncation_relative_error : change of C when the truncated layers (wide substrate
@@ -74,6 +82,8 @@ class TransmissionLineFigures:
     modal_voltages: np.ndarray
     capacitive_coupling: np.ndarray
     inductive_coupling: np.ndarray
+    modes_defined: bool = True
+    modal_note: str = ""
     characteristic_impedance_ohm: float | None = None
     effective_permittivity: float | None = None
     delay_s_per_m: float | None = None
@@ -136,12 +146,9 @@ def figures_from_matrices(
     names = tuple(signal_names) if signal_names is not None else tuple(f"line {i + 1}" for i in range(n))
     light = SPEED_OF_LIGHT_M_PER_S
     inductance = np.linalg.inv(c0) / light**2
-    lam, vecs = np.linalg.eig(inductance @ c)
-    lam, vecs = lam.real, vecs.real
-    order = np.argsort(-lam)  # slowest mode first
-    lam, vecs = lam[order], vecs[:, order]
-    vecs = vecs / vecs[np.argmax(np.abs(vecs), axis=0), np.arange(n)][None, :]
-    velocities = 1.0 / np.sqrt(lam)
+    modes = modes_of(c, c0)
+    velocities = light / np.sqrt(modes.effective_permittivities)
+    vecs = modes.voltages
     currents = np.linalg.solve(inductance, vecs) / velocities[None, :]
     impedances = np.einsum("ik,ik->k", vecs, vecs) / np.einsum("ik,ik->k", vecs, currents)
     figures = TransmissionLineFigures(
@@ -153,6 +160,8 @@ def figures_from_matrices(
         modal_effective_permittivities=(light / velocities) ** 2,
         modal_impedances_ohm=impedances,
         modal_voltages=vecs,
+        modes_defined=modes.defined,
+        modal_note=modes.note,
         capacitive_coupling=_coupling(c, -1.0),
         inductive_coupling=_coupling(inductance, 1.0),
         estimated_relative_error=estimated_relative_error,

@@ -49,6 +49,7 @@ from solver.hot_spots.peak_diagnostics import (
     nearest_other_potential,
     richardson_estimate,
 )
+from solver.hot_spots.weak_corners import corner_exponent, weak_corner_at_peak, weak_corner_note
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, PanelMesh, discretize_boundary
 from solver.model.materials import Medium
 from solver.model.model import Model
@@ -311,7 +312,8 @@ def analyse_hot_spots(
     index = [model.conductor_names.index(n) for n in names]
     while True:
         peaks = np.array([[s.surface_field_V_per_m[s.mesh.conductor_index == k].max() for k in index] for s in solutions])
-        singular = [corner_field_grows(solutions[-2], solutions[-1], k) for k in index]
+        weak = [weak_corner_at_peak(solutions[-1], k) for k in index]
+        singular = [corner_field_grows(solutions[-2], solutions[-1], k) or w is not None for k, w in zip(index, weak)]
         errors = [richardson_estimate(peaks[:, i])[0] for i in range(len(index))]
         pending = [e > target_relative_error for e, s in zip(errors, singular) if not s]
         air = air_region_peak(solutions)
@@ -332,7 +334,7 @@ def analyse_hot_spots(
     neighbours = nearest_other_potential(solved_models[-1], final)
     spots = []
     for i, k in enumerate(index):
-        spots.append(_hot_spot(final, k, peaks[:, i], singular[i], neighbours[k], target_relative_error))
+        spots.append(_hot_spot(final, k, peaks[:, i], singular[i], neighbours[k], target_relative_error, weak[i]))
     return HotSpotReport(
         hot_spots=tuple(spots),
         target_relative_error=float(target_relative_error),
@@ -345,7 +347,8 @@ def analyse_hot_spots(
     )
 
 
-def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neighbour, target: float) -> HotSpot:
+def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neighbour, target: float,
+              weak_turn_rad: float | None = None) -> HotSpot:
     mesh = final.mesh
     idx = np.flatnonzero(mesh.conductor_index == k)
     i = int(idx[np.argmax(final.surface_field_V_per_m[idx])])
@@ -355,15 +358,20 @@ def _hot_spot(final: Solution, k: int, history: np.ndarray, singular: bool, neig
     near_name, gap, dv = neighbour
     gap_field = None if gap is None else float(dv / gap)
     enhancement = None if not gap_field else float(peak / gap_field)
-    if singular:
-        exponent, beta = most_singular_corner(final, k)
+    if singular and weak_turn_rad is not None:  # the peak sits on a vertex turning by less than 25 degrees
+        exponent, beta = corner_exponent(weak_turn_rad), math.pi + weak_turn_rad
+        note = weak_corner_note(weak_turn_rad)
+    elif singular:
+        found, opening = most_singular_corner(final, k)
         # singular comes from corner_field_grows on this same solution, which needs a corner of k
-        assert exponent is not None and beta is not None
+        assert found is not None and opening is not None
+        exponent, beta = found, opening
         note = (
             f"Sharp corner or free edge (field-region opening {math.degrees(beta):.0f} degrees): the charge "
             f"density goes like r^({exponent:.3f}) and the 2-D peak field has no finite value; this number "
             "grows with every refinement. Give a corner radius to get a peak you can use."
         )
+    if singular:
         return HotSpot(name, peak, location, True, exponent, beta, None, None, None,
                        False, float(final.conductor_potentials_V[k]), near_name, gap, gap_field, enhancement,
                        tuple(map(float, history)), note, medium_eps_r=medium_next_to(final, i).eps_r,

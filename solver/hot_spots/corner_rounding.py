@@ -23,6 +23,7 @@ import math
 from collections.abc import Iterable
 from dataclasses import replace
 
+import numpy as np
 import shapely
 from shapely.geometry import MultiPolygon
 from shapely.geometry import Polygon as ShapelyPolygon
@@ -38,10 +39,15 @@ def conductors_with_sharp_corners(model: Model) -> tuple[str, ...]:
     """Names of the conductors that have a sharp convex corner or a free strip edge.
 
     Uses the corner detection of the mesher (a vertex turning by more than 25 degrees with the
-    field region opening wider than pi).
+    field region opening wider than pi) and the weak corners of
+    :mod:`solver.hot_spots.weak_corners` (convex vertices turning by less, arcs excepted).
     """
+    from solver.hot_spots.weak_corners import weak_corner_turns
+
     mesh = discretize_boundary(model, MeshSettings(0.5))
-    found = sorted(set(int(k) for k in mesh.corner_conductor))
+    _, _, pairs = weak_corner_turns(mesh)
+    weak = mesh.conductor_index[pairs[:, 0]] if pairs.size else np.zeros(0, dtype=int)
+    found = sorted(set(int(k) for k in mesh.corner_conductor) | set(int(k) for k in weak))
     return tuple(model.conductors[k].name for k in found)
 
 

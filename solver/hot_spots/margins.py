@@ -2,10 +2,12 @@
 
 Thresholds and where they come from
 -----------------------------------
-* Air breakdown: about 3 MV/m (30 kV/cm crest) in a uniform field at standard conditions --
-  common practice -- scaled in proportion to the relative air density delta (breakdown of
-  centimetre gaps follows the gas density, Paschen's law). For long uniform gaps the value
-  falls toward about 2.4 MV/m, so 3 MV/m is not a conservative figure there.
+* Air breakdown: the uniform-field strength of air for the gap to the nearest conductor at
+  another potential, from the empirical relation of Kuffel, Zaengl & Kuffel (High Voltage
+  Engineering Fundamentals, 2000), in proportion to gas density and times the surface factor
+  (:mod:`solver.hot_spots.air_strength`). The rule of thumb 3 MV/m x delta
+  (:func:`air_breakdown_field_V_per_m`, common practice) is that relation near a 1 cm gap;
+  for longer gaps it is not conservative, so the verdicts no longer use it.
 * Relative air density: delta = (p / p0) (T0 / T) with the standard reference atmosphere of
   high-voltage testing, p0 = 101.325 kPa and T0 = 293.15 K (20 degC) (from memory of IEC
   60060-1). Peek's own reference was 25 degC and 76 cm Hg (delta = 3.92 b / (273 + t)); the
@@ -37,6 +39,7 @@ from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING, Any
 
 from solver.errors import InvalidModelError
+from solver.hot_spots.voltage_basis import OPERATING_CREST, VoltageBasis, voltage_basis_of
 from solver.model.model import Model
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -97,7 +100,11 @@ def relative_air_density_at_altitude(altitude_m: float, temperature_K: float = R
 
 
 def air_breakdown_field_V_per_m(relative_air_density: float = 1.0) -> float:
-    """Uniform-field dielectric strength of air, 3 MV/m x delta (common practice), V/m crest."""
+    """The rule of thumb for air, 3 MV/m x delta (common practice), V/m crest.
+
+    About right for a gap near 1 cm only; the verdicts use the gap-dependent relation of
+    :func:`solver.hot_spots.air_strength.air_strength` instead.
+    """
     if not relative_air_density > 0:
         raise InvalidModelError(f"Relative air density is {relative_air_density}; it must be positive.")
     return AIR_DIELECTRIC_STRENGTH_V_PER_M * relative_air_density
@@ -259,7 +266,11 @@ def with_air_conditions(model: Model, air: AirConditions) -> Model:
 class ConductorMargin:
     """Margins of one conductor's peak surface field (all fields crest values, V/m).
 
-    ``*_margin`` = threshold / peak (None when the peak is not graded: not finite, at a sharp
+    ``peak_field_V_per_m`` is the peak at the model's potentials; the margins compare the
+    thresholds with it times ``field_factor`` (the voltage basis: sqrt 2 for rms potentials,
+    an overvoltage factor). ``air_breakdown_field_V_per_m`` is the uniform-field strength of
+    air for ``gap_m`` (how it was found: ``air_strength_basis``).
+    ``*_margin`` = threshold / (peak x field factor) (None when the peak is not graded: not finite, at a sharp
     corner, not in air, or in a low-voltage model).
     ``corona_radius_m`` is the radius put into Peek's formula: the conductor's own radius for a
     round conductor, else the local radius of curvature of the outline at the peak (an
@@ -281,6 +292,9 @@ class ConductorMargin:
     caution: str
     reason: str = ""
     headline: str = ""
+    gap_m: float | None = None
+    air_strength_basis: str = ""
+    field_factor: float = 1.0
 
 
 @dataclass(frozen=True)
@@ -289,7 +303,8 @@ class MarginReport:
 
     With insulated conductors in air, ``air_region_margin`` compares the largest field in the
     surrounding air (on the outer surface of the insulation, say) with air breakdown, and
-    ``air_region_status`` grades it like a conductor's; both are None otherwise (and when that
+    ``air_region_status`` grades it like a conductor's (against
+    ``air_region_breakdown_field_V_per_m``, the long-gap strength of air); all are None otherwise (and when that
     field lies on a bare conductor, whose own verdict covers it).
     ``verdict`` is the model's :class:`solver.CautionVerdict`; ``caution_text`` its caution
     (the full high-voltage caution whenever the model is not low-voltage).
@@ -303,6 +318,8 @@ class MarginReport:
     air_region_margin: float | None = None
     air_region_status: str | None = None
     verdict: CautionVerdict | None = None
+    voltage_basis: VoltageBasis = OPERATING_CREST
+    air_region_breakdown_field_V_per_m: float | None = None
 
     @property
     def needs_caution(self) -> bool:
@@ -323,9 +340,13 @@ class MarginReport:
             "surface_factor": self.air.surface_factor,
             "peek_form": self.air.peek_form,
             "thin_margin_threshold": self.thin_margin,
+            "voltage_basis": self.voltage_basis.describe(),
+            "voltage_basis_settings": self.voltage_basis.as_settings(),
+            "field_factor": self.voltage_basis.field_factor,
             "conductors": [{k: clean(v) for k, v in vars(m).items()} for m in self.margins],
             "air_region_peak_field_V_per_m": self.air_region_peak_field_V_per_m,
             "air_region_margin": clean(self.air_region_margin),
+            "air_region_breakdown_field_V_per_m": self.air_region_breakdown_field_V_per_m,
             "air_region_status": self.air_region_status,
             "status": None if v is None else v.status,
             "headline": None if v is None else v.headline,
@@ -369,7 +390,8 @@ def corona_radius_m(model: Model, conductor: str, location_m: tuple[float, float
 
 def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirConditions(),
                    thin_margin: float = THIN_MARGIN, air_region=None,
-                   largest_potential_difference_V: float | None = None) -> MarginReport:
+                   largest_potential_difference_V: float | None = None,
+                   voltage_basis: VoltageBasis | None = None) -> MarginReport:
     """Margins to air breakdown and (round conductors) corona onset, per conductor, with verdicts.
 
     Each peak is judged by :func:`solver.judge_peak`, the one caution rule.
@@ -389,6 +411,9 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
     largest_potential_difference_V : float, optional
         Largest potential difference in the model, V (default: from the model's fixed
         potentials, the hot spots' potentials and 0 V for a ground plane or reference).
+    voltage_basis : VoltageBasis, optional
+        What the potentials stand for (default: the project's, :func:`voltage_basis_of`); the
+        peaks are judged times its field factor.
 
     Returns
     -------
@@ -403,30 +428,33 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = AirCo
         potentials += [s.potential_V for s in hot_spots if getattr(s, "potential_V", None) is not None]
         has_zero = model.ground_plane is not None or any(c.role == "reference" for c in model.conductors)
         largest_potential_difference_V = spread(potentials, has_zero)
+    basis = voltage_basis_of(model) if voltage_basis is None else voltage_basis
     background = medium_of_region(model, len(model.dielectrics))
     out, verdicts = [], []
     for spot in hot_spots:
         peak = float(spot.field_V_per_m)
-        radius, basis = corona_radius_m(model, spot.conductor, getattr(spot, "location_m", None),
+        radius, basis_text = corona_radius_m(model, spot.conductor, getattr(spot, "location_m", None),
                                         getattr(spot, "local_radius_of_curvature_m", None), spot.singular)
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
         medium = getattr(spot, "medium", None) or background
         v = judge_peak(peak, where=f"'{spot.conductor}'", largest_potential_difference_V=largest_potential_difference_V,
                        medium=medium, at_sharp_corner=bool(spot.singular), corona_onset_field_V_per_m=corona,
-                       corona_radius_basis=basis, air=air, thin_margin=thin_margin)
+                       corona_radius_basis=basis_text, air=air, thin_margin=thin_margin,
+                       gap_m=getattr(spot, "gap_m", None), voltage_basis=basis)
         verdicts.append(v)
         out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, v.air_breakdown_field_V_per_m,
-                                   v.air_breakdown_margin, radius, basis, corona, v.corona_onset_margin, v.status,
-                                   v.caution, v.reason, v.headline))
-    region_peak = region_margin = region_status = None
+                                   v.air_breakdown_margin, radius, basis_text, corona, v.corona_onset_margin, v.status,
+                                   v.caution, v.reason, v.headline, v.gap_m, v.air_strength_basis, v.field_factor))
+    region_peak = region_margin = region_status = region_strength = None
     if air_region is not None and judges_air_region(air_region.where):
         region_peak = float(air_region.field_V_per_m)
         v = judge_peak(region_peak, where="the surrounding air", largest_potential_difference_V=largest_potential_difference_V,
-                       medium=None, at_sharp_corner=bool(air_region.at_sharp_corner), air=air, thin_margin=thin_margin)
+                       medium=None, at_sharp_corner=bool(air_region.at_sharp_corner), air=air, thin_margin=thin_margin,
+                       voltage_basis=basis)
         verdicts.append(v)
-        region_margin, region_status = v.air_breakdown_margin, v.status
+        region_margin, region_status, region_strength = v.air_breakdown_margin, v.status, v.air_breakdown_field_V_per_m
     verdict = summarise_verdicts(verdicts)
     caution = "" if verdict is None else verdict.caution
     return MarginReport(tuple(out), air, float(thin_margin), caution, region_peak, region_margin,
-                        region_status, verdict)
+                        region_status, verdict, basis, region_strength)

@@ -21,9 +21,18 @@ The rule, in order (the first that applies decides):
    a local radius of curvature) the threshold is Peek's corona-onset field (F. W. Peek,
    Dielectric Phenomena in High-Voltage Engineering, 1929), which already contains the
    uniform-field strength of air and the help of the field's decay away from a curved
-   surface; elsewhere it is the uniform-field strength of air, 3 MV/m x relative air density
-   (common practice). Below 1: "exceeded"; below :data:`THIN_MARGIN` (1.5, a choice of this
-   program): "thin"; else "ample". Only "exceeded" says "expect corona or flashover".
+   surface; elsewhere it is the uniform-field strength of air for the gap to the nearest
+   conductor at another potential, corrected for air density and multiplied by the surface
+   factor (:mod:`solver.hot_spots.air_strength`: the empirical relation of E. Kuffel,
+   W. S. Zaengl & J. Kuffel, High Voltage Engineering Fundamentals, 2000). Below 1:
+   "exceeded"; below :data:`THIN_MARGIN` (1.5, a choice of this program): "thin"; else
+   "ample". Only "exceeded" says "expect corona or flashover".
+
+The voltage basis (:mod:`solver.hot_spots.voltage_basis`) says what the potentials stand for
+(operating, power-frequency withstand, lightning impulse or an overvoltage factor; crest or
+rms): the peak and the potential difference are multiplied by its field factor before rules
+2-5, every graded headline names the basis, and a check at operating voltage says to check
+again at the test and overvoltage levels.
 
 Whenever the model is not low-voltage (and the values are finite) the full
 :data:`HIGH_VOLTAGE_CAUTION` is part of the caution text, whatever the status.
@@ -34,13 +43,15 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from typing import Any
 
+from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,
-    air_breakdown_field_V_per_m,
 )
+from solver.hot_spots.voltage_basis import OPERATING_CREST, VOLTAGE_BASES, VoltageBasis
 from solver.model.materials import Medium
 
 #: Largest potential difference (V) below which no breakdown caution is given; a choice of
@@ -59,7 +70,7 @@ NON_FINITE, LOW_VOLTAGE, SHARP_CORNER, NOT_IN_AIR = "non-finite value", "low vol
 
 @dataclass(frozen=True)
 class PeakVerdict:
-    """The verdict on one peak field (all fields crest values, V/m).
+    """The verdict on one peak field (all fields crest values at the voltage basis, V/m).
 
     Attributes
     ----------
@@ -69,13 +80,18 @@ class PeakVerdict:
     headline : one line for a banner or a frame.
     caution : the full text to show (headline, advice and :data:`HIGH_VOLTAGE_CAUTION`);
         empty only for a low-voltage model.
-    peak_field_V_per_m : the peak that was judged.
-    air_breakdown_field_V_per_m, air_breakdown_margin : uniform-field strength of air and
-        strength / peak (None when not graded).
+    peak_field_V_per_m : the peak that was judged: the model's peak times the basis's field
+        factor.
+    air_breakdown_field_V_per_m, air_breakdown_margin : uniform-field strength of air for the
+        gap (density and surface factor included) and strength / peak (None when not graded).
     corona_onset_field_V_per_m, corona_onset_margin : Peek's onset and onset / peak (None
         without a corona radius or when not graded).
     margin : the margin that set the status (None when not graded).
     threshold : what ``margin`` compares with, in words (None when not graded).
+    gap_m : the gap the strength of air was taken for, metres (None: none known).
+    air_strength_basis : how the strength of air was found, in words.
+    voltage_basis : the voltage basis in words (:meth:`VoltageBasis.describe`).
+    field_factor : what the model's fields were multiplied by (1 for operating crest).
     """
 
     where: str
@@ -90,6 +106,10 @@ class PeakVerdict:
     corona_onset_margin: float | None = None
     margin: float | None = None
     threshold: str | None = None
+    gap_m: float | None = None
+    air_strength_basis: str = ""
+    voltage_basis: str = ""
+    field_factor: float = 1.0
 
     @property
     def graded(self) -> bool:
@@ -122,7 +142,7 @@ def _graded(where: str, peak: float, breakdown: float, corona: float | None, cor
     if m_cor is not None:
         margin, threshold = m_cor, f"corona onset (Peek 1929, {corona_basis or 'round conductor'})"
     else:
-        margin, threshold = m_air, "the uniform-field strength of air"
+        margin, threshold = m_air, "the uniform-field strength of air for its gap"
     status = "exceeded" if margin < 1 else "thin" if margin < thin_margin else "ample"
     return status, f"graded against {threshold}", m_air, m_cor, margin, threshold
 
@@ -138,13 +158,15 @@ def judge_peak(
     corona_radius_basis: str | None = None,
     air: AirConditions = REFERENCE_AIR,
     thin_margin: float = THIN_MARGIN,
+    gap_m: float | None = None,
+    voltage_basis: VoltageBasis = OPERATING_CREST,
 ) -> PeakVerdict:
     """The status of one peak surface field, its reason and its caution text.
 
     Parameters
     ----------
     peak_field_V_per_m : float
-        Largest |E| (crest), V/m.
+        Largest |E| at the model's potentials, V/m (times the basis's field factor when judged).
     where : str
         What the peak belongs to, as shown ("'bar'" or "the surrounding air").
     largest_potential_difference_V : float
@@ -161,6 +183,11 @@ def judge_peak(
         The project's air conditions.
     thin_margin : float
         Margins below this are "thin" (default 1.5, a choice of this program).
+    gap_m : float, optional
+        Gap from the peak's conductor to the nearest conductor (or earth) at another
+        potential, metres, for the strength of air (None: its long-gap limit).
+    voltage_basis : VoltageBasis
+        What the model's potentials stand for (default: operating crest values).
 
     Returns
     -------
@@ -170,15 +197,19 @@ def judge_peak(
     --------
     >>> v = judge_peak(2.4e6, where="'wire'", largest_potential_difference_V=50e3, medium=None,
     ...                at_sharp_corner=False)
-    >>> v.status, round(v.margin, 3)
-    ('thin', 1.25)
+    >>> v.status, round(v.margin, 3)  # 2.47 MV/m (no gap known: long-gap limit) / 2.4 MV/m
+    ('thin', 1.028)
     >>> judge_peak(2.4e6, where="'trace'", largest_potential_difference_V=1.0, medium=None,
     ...            at_sharp_corner=True).caution
     ''
     """
-    breakdown = air_breakdown_field_V_per_m(air.relative_air_density)
-    peak = float(peak_field_V_per_m)
-    dv = float(largest_potential_difference_V)
+    strength = air_strength(gap_m, air.relative_air_density, air.surface_factor)
+    breakdown = strength.field_V_per_m
+    k = voltage_basis.field_factor
+    peak = float(peak_field_V_per_m) * k
+    dv = float(largest_potential_difference_V) * k
+    extra: dict[str, Any] = dict(gap_m=strength.gap_m, air_strength_basis=strength.basis,
+                                 voltage_basis=voltage_basis.describe(), field_factor=k)
     caution_applies = True
     graded: tuple | None = None
     if not (math.isfinite(peak) and math.isfinite(dv)):
@@ -201,19 +232,37 @@ def judge_peak(
     if graded is None:
         status, headline = "not assessed", f"No margin for {where}: {reason}."
         caution = f"{headline} {HIGH_VOLTAGE_CAUTION}" if caution_applies else ""
-        return PeakVerdict(where, status, reason, headline, caution, peak, breakdown)
+        return PeakVerdict(where, status, reason, headline, caution, peak, breakdown, **extra)
     status, reason, m_air, m_cor, margin, threshold = graded
+    at = basis_phrase(voltage_basis)
+    basis_text = f"Voltage basis: {voltage_basis.describe()}."
+    advice = voltage_basis.advice()
+    tail = f"{basis_text} {advice + ' ' if advice else ''}{HIGH_VOLTAGE_CAUTION}"
     if status == "exceeded":
-        headline = f"CAUTION: the peak surface field on {where} exceeds {threshold}."
-        caution = f"{headline} Expect corona or flashover in air at these potentials. {HIGH_VOLTAGE_CAUTION}"
+        headline = f"CAUTION: the peak surface field on {where} exceeds {threshold} {at}."
+        caution = f"{headline} Expect corona or flashover in air at these potentials. {tail}"
     elif status == "thin":
-        headline = f"CAUTION: thin margin on {where} to {threshold} (below {thin_margin:g})."
-        caution = f"{headline} Margins are small. {HIGH_VOLTAGE_CAUTION}"
+        headline = f"CAUTION: thin margin on {where} to {threshold} (below {thin_margin:g}) {at}."
+        caution = f"{headline} Margins are small. {tail}"
     else:
-        headline = f"Margin on {where} to {threshold} is ample ({thin_margin:g} or more)."
-        caution = HIGH_VOLTAGE_CAUTION
+        headline = f"Margin on {where} to {threshold} is ample ({thin_margin:g} or more) {at}."
+        caution = f"{headline} {tail}"
     return PeakVerdict(where, status, reason, headline, caution, peak, breakdown, m_air,
-                       corona_onset_field_V_per_m if m_cor is not None else None, m_cor, margin, threshold)
+                       corona_onset_field_V_per_m if m_cor is not None else None, m_cor, margin, threshold,
+                       **extra)
+
+
+def basis_phrase(voltage_basis: VoltageBasis) -> str:
+    """How a headline names the voltage basis ("at operating voltage", ...).
+
+    >>> basis_phrase(VoltageBasis("factor", factor=1.2))
+    'at 1.2 x operating voltage'
+    """
+    if voltage_basis.basis == "factor":
+        return f"at {voltage_basis.factor:g} x operating voltage"
+    if voltage_basis.basis == "operating":
+        return "at operating voltage"
+    return f"at the {VOLTAGE_BASES[voltage_basis.basis]}"
 
 
 @dataclass(frozen=True)
@@ -274,7 +323,8 @@ def solution_potential_difference_V(solution) -> float:
     return largest_potential_difference_V(solution.conductor_potentials_V, has_zero)
 
 
-def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: float = THIN_MARGIN) -> CautionVerdict | None:
+def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: float = THIN_MARGIN,
+                   voltage_basis: VoltageBasis | None = None) -> CautionVerdict | None:
     """The verdict on the operating-point peaks of one solve (no refinement), by :func:`judge_peak`.
 
     One verdict per conductor (its largest surface field), plus the largest field in air
@@ -289,6 +339,8 @@ def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: fl
     air : AirConditions
         The project's air conditions (:func:`solver.air_conditions_of`).
     thin_margin : float
+    voltage_basis : VoltageBasis, optional
+        What the potentials stand for (default: the project's, :func:`solver.voltage_basis_of`).
 
     Returns
     -------
@@ -300,23 +352,29 @@ def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: fl
         corona_radius_m,
         peek_corona_onset_field_V_per_m,
     )
+    from solver.hot_spots.peak_diagnostics import nearest_other_potential
+    from solver.hot_spots.voltage_basis import voltage_basis_of
+    from solver.hot_spots.weak_corners import weak_corner_at
 
     model = solution.model
+    basis = voltage_basis_of(model) if voltage_basis is None else voltage_basis
     dv = solution_potential_difference_V(solution)
+    gaps = {name: gap for name, (_, gap, _) in zip(solution.conductor_names, nearest_other_potential(model, solution))}
     verdicts = []
     for p in solution.peak_surface_fields:
         curvature = signed_radius_of_curvature_m(solution.mesh, p.panel_index)
         local = curvature if 0 < curvature < math.inf else None
-        radius, basis = corona_radius_m(model, p.conductor, p.location_m, local, p.at_sharp_corner)
+        at_corner = bool(p.at_sharp_corner) or weak_corner_at(solution.mesh, p.panel_index) is not None
+        radius, radius_basis = corona_radius_m(model, p.conductor, p.location_m, local, at_corner)
         corona = None if radius is None else peek_corona_onset_field_V_per_m(
             radius, air.relative_air_density, air.surface_factor, air.peek_form)
         verdicts.append(judge_peak(p.field_V_per_m, where=f"'{p.conductor}'", largest_potential_difference_V=dv,
-                                   medium=medium_next_to(solution, p.panel_index), at_sharp_corner=p.at_sharp_corner,
-                                   corona_onset_field_V_per_m=corona, corona_radius_basis=basis, air=air,
-                                   thin_margin=thin_margin))
+                                   medium=medium_next_to(solution, p.panel_index), at_sharp_corner=at_corner,
+                                   corona_onset_field_V_per_m=corona, corona_radius_basis=radius_basis, air=air,
+                                   thin_margin=thin_margin, gap_m=gaps.get(p.conductor), voltage_basis=basis))
     in_air = largest_air_field(solution) if model.dielectrics else None
     if in_air is not None and judges_air_region(in_air.where):
         verdicts.append(judge_peak(in_air.field_V_per_m, where="the surrounding air", largest_potential_difference_V=dv,
                                    medium=None, at_sharp_corner=in_air.at_sharp_corner, air=air,
-                                   thin_margin=thin_margin))
+                                   thin_margin=thin_margin, voltage_basis=basis))
     return summarise_verdicts(verdicts)

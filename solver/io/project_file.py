@@ -31,6 +31,7 @@ from solver.io.project_reading import (
     AIR_CONDITIONS_KEY,
     PROJECT_FORMAT_NAME,
     PROJECT_FORMAT_VERSION,
+    VOLTAGE_BASIS_KEY,
     FieldProblem,
     read_model,
 )
@@ -96,6 +97,9 @@ def model_to_dict(model: Model) -> dict:
     air = extras.pop(AIR_CONDITIONS_KEY, None)
     if air is not None:  # the project's one set of air conditions (solver.air_conditions_of)
         out[AIR_CONDITIONS_KEY] = air
+    basis = extras.pop(VOLTAGE_BASIS_KEY, None)
+    if basis is not None:  # what the potentials stand for (solver.voltage_basis_of)
+        out[VOLTAGE_BASIS_KEY] = basis
     out["extras"] = extras
     return out
 

@@ -36,11 +36,16 @@ PROJECT_FORMAT_NAME = "edgewise-project"
 
 _COLOR = re.compile(r"^#[0-9a-fA-F]{6}$")
 _TOP_KEYS = {"$schema", "format", "version", "unit", "title", "description", "background_eps_r",
-             "mesh_density", "ground_plane", "conductors", "dielectrics", "extras", "air_conditions"}
+             "mesh_density", "ground_plane", "conductors", "dielectrics", "extras", "air_conditions",
+             "voltage_basis"}
 _SHAPE_KEYS = {kind: (set(cls.required_fields), set(cls.optional_fields)) for kind, cls in SHAPE_KINDS.items()}
 #: Key under which the project's air conditions are kept in ``Model.extras``
 #: (:func:`solver.air_conditions_of` reads them).
 AIR_CONDITIONS_KEY = "air_conditions"
+#: Key under which the project's voltage basis is kept in ``Model.extras``
+#: (:func:`solver.voltage_basis_of` reads it).
+VOLTAGE_BASIS_KEY = "voltage_basis"
+_VOLTAGE_BASES = ("operating", "power_frequency_withstand", "lightning_impulse", "factor")
 #: Altitudes the standard-atmosphere pressure formula holds for, m (as solver.hot_spots.margins).
 ALTITUDE_RANGE_M = (-500.0, 11_000.0)
 _PEEK_FORMS = ("parallel_wires", "coaxial")
@@ -275,6 +280,29 @@ def _air_conditions_from(value: Any, path: str) -> dict:
     return out
 
 
+def _voltage_basis_from(value: Any, path: str) -> dict:
+    """The project's voltage basis, checked field by field (see docs/project_file.md).
+
+    Missing keys mean operating voltage, crest values (what files without the field meant).
+    """
+    v = _object(value, path, set(), {"basis", "potentials", "factor"})
+    basis = _string(v.get("basis", "operating"), f"{path}.basis", choices=_VOLTAGE_BASES)
+    potentials = _string(v.get("potentials", "crest"), f"{path}.potentials", choices=("crest", "rms"))
+    out: dict = {"basis": basis, "potentials": potentials}
+    if "factor" in v:
+        factor = _number(v["factor"], f"{path}.factor", positive=True)
+        if basis != "factor" and factor != 1.0:
+            raise FieldProblem(f"{path}.factor", f"{factor:g} is given with basis '{basis}', which takes no factor; "
+                                                 "use basis 'factor'")
+        if factor > 100:
+            raise FieldProblem(f"{path}.factor", f"{factor:g} is above 100; an overvoltage factor is a few units")
+        if basis == "factor":
+            out["factor"] = factor
+    if basis == "lightning_impulse" and potentials == "rms":
+        raise FieldProblem(f"{path}.potentials", "a lightning impulse has no rms value; give 'crest'")
+    return out
+
+
 def read_model(data: Any) -> Model:
     """The Model described by a project dictionary; raises FieldProblem on the first bad field."""
     _check_header(data)
@@ -292,6 +320,10 @@ def read_model(data: Any) -> Model:
         extras[AIR_CONDITIONS_KEY] = _air_conditions_from(extras[AIR_CONDITIONS_KEY], f"extras.{AIR_CONDITIONS_KEY}")
     if AIR_CONDITIONS_KEY in v:
         extras[AIR_CONDITIONS_KEY] = _air_conditions_from(v[AIR_CONDITIONS_KEY], AIR_CONDITIONS_KEY)
+    if VOLTAGE_BASIS_KEY in extras:  # kept there by a script: checked like the top-level field
+        extras[VOLTAGE_BASIS_KEY] = _voltage_basis_from(extras[VOLTAGE_BASIS_KEY], f"extras.{VOLTAGE_BASIS_KEY}")
+    if VOLTAGE_BASIS_KEY in v:
+        extras[VOLTAGE_BASIS_KEY] = _voltage_basis_from(v[VOLTAGE_BASIS_KEY], VOLTAGE_BASIS_KEY)
     conductors = tuple(_conductor_from(c, f"conductors[{i}]", scale) for i, c in enumerate(_list(v["conductors"], "conductors")))
     dielectrics = tuple(_dielectric_from(d, f"dielectrics[{i}]", scale) for i, d in enumerate(_list(v.get("dielectrics", []), "dielectrics")))
     try:

@@ -31,3 +31,8 @@ def double_click(canvas, p) -> None:
 def wait_for_solve(qtbot, window, timeout_ms: int = 30000) -> None:
     """Start nothing; wait until the running solve has reported."""
     qtbot.waitUntil(lambda: not window.runner.is_busy, timeout=timeout_ms)
+
+
+class UnexpectedDialog(AssertionError):
+    """A test opened a modal dialog it did not ask for (it would wait for a click forever);
+    raised by the autouse ``no_unexpected_dialogs`` fixture of tests/app/conftest.py."""

@@ -5,6 +5,7 @@ import os
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 
 import pytest  # noqa: E402
+from app_helpers import UnexpectedDialog  # noqa: E402
 
 
 @pytest.fixture(autouse=True)
@@ -13,6 +14,65 @@ def private_recovery(tmp_path, monkeypatch):
     folder = tmp_path / "recovery"
     monkeypatch.setenv("EDGEWISE_RECOVERY_DIR", str(folder))
     return folder
+
+
+def pytest_configure(config):
+    config.addinivalue_line("markers", "allow_dialogs: the test shows real modal dialogs (and closes them itself)")
+
+
+#: Modal entry points that wait for the user: (class name, attribute) in PySide6.QtWidgets.
+MODAL_ENTRY_POINTS = (
+    ("QDialog", "exec"), ("QMessageBox", "exec"),
+    ("QMessageBox", "information"), ("QMessageBox", "question"), ("QMessageBox", "warning"),
+    ("QMessageBox", "critical"), ("QMessageBox", "about"),
+    ("QFileDialog", "getOpenFileName"), ("QFileDialog", "getOpenFileNames"), ("QFileDialog", "getSaveFileName"),
+    ("QFileDialog", "getExistingDirectory"), ("QColorDialog", "getColor"), ("QFontDialog", "getFont"),
+    ("QInputDialog", "getText"), ("QInputDialog", "getInt"), ("QInputDialog", "getDouble"),
+    ("QInputDialog", "getItem"),
+)
+
+
+def _describe_dialog(args) -> str:
+    for a in args:
+        title = getattr(a, "windowTitle", None)
+        if callable(title):
+            text = getattr(a, "text", None)
+            return f"'{title()}'" + (f": {text()}" if callable(text) else "")
+    return ", ".join(repr(a)[:80] for a in args if isinstance(a, str))
+
+
+@pytest.fixture(autouse=True)
+def no_unexpected_dialogs(request, monkeypatch):
+    """Fail a test that opens a modal dialog it did not opt in to, instead of letting it stall.
+
+    Every modal entry point (``exec`` of QDialog and QMessageBox, the static QMessageBox,
+    QFileDialog, QColorDialog, QFontDialog and QInputDialog functions) raises
+    :class:`UnexpectedDialog`. A test opts in by replacing the entry point itself (the
+    ``shown_messages`` fixture, ``monkeypatch.setattr``, ``mock.patch.object``), or by the
+    ``allow_dialogs`` marker. Raised inside a Qt slot the error may be swallowed, so the test
+    also fails at teardown when any dialog was stopped.
+    """
+    if request.node.get_closest_marker("allow_dialogs"):
+        yield []
+        return
+    from PySide6 import QtWidgets
+
+    stopped: list[str] = []
+
+    def guard(where: str):
+        def refuse(*args, **kwargs):
+            what = f"{where} {_describe_dialog(args)}".strip()
+            stopped.append(what)
+            raise UnexpectedDialog(f"unexpected modal dialog {what}; opt in with the shown_messages fixture, "
+                                   "a monkeypatch of the call, or @pytest.mark.allow_dialogs")
+        return refuse
+
+    for cls_name, attr in MODAL_ENTRY_POINTS:
+        cls = getattr(QtWidgets, cls_name)
+        monkeypatch.setattr(cls, attr, guard(f"{cls_name}.{attr}"))
+    yield stopped
+    if stopped:
+        pytest.fail("unexpected modal dialog(s): " + "; ".join(stopped), pytrace=False)
 
 
 @pytest.fixture

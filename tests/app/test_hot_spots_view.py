@@ -52,7 +52,12 @@ def test_altitude_reruns_the_assessment(qtbot):
     view.air_box.altitude_edit.setText("2000")
     view.air_box.apply_button.click()
     after = view.margins.margins[0].air_breakdown_margin
-    assert after == pytest.approx(before * solver.relative_air_density_at_altitude(2000.0), rel=1e-12)
+    gap = view.margins.margins[0].gap_m
+
+    def ratio(delta):  # uniform-field strength for the gap, Kuffel, Zaengl & Kuffel (2000)
+        return solver.air_strength(gap, delta).field_V_per_m / solver.air_strength(gap, 1.0).field_V_per_m
+
+    assert after == pytest.approx(before * ratio(solver.relative_air_density_at_altitude(2000.0)), rel=1e-12)
     assert "δ = 0.78" in view.air_box.label.text()
     box = view.air_box
     box.mode.setCurrentIndex(1)
@@ -60,10 +65,25 @@ def test_altitude_reruns_the_assessment(qtbot):
     box.temperature_edit.setText("30")
     box.apply_button.click()
     delta = (90.0 / 101.325) * (293.15 / 303.15)
-    assert abs(view.margins.margins[0].air_breakdown_margin / (before * delta) - 1) < 1e-9
+    assert abs(view.margins.margins[0].air_breakdown_margin / (before * ratio(delta)) - 1) < 1e-9
     box.mode.setCurrentIndex(0)
     box.temperature_edit.setText("20")
     view.air_box.altitude_edit.setText("high")
+    view.air_box.apply_button.click()
+    assert "not applied" in view.air_box.label.text()
+
+
+def test_voltage_basis_is_chosen_in_the_box_and_said(qtbot):
+    # rms to crest by sqrt 2 (common practice): every margin falls by sqrt 2, and the notes say so
+    view = open_view(qtbot, solver.load_project(HV_SAMPLE))
+    before = view.margins.margins[0].corona_onset_margin
+    assert "at operating voltage" in view.margins.verdict.headline
+    view.air_box.rms_box.setChecked(True)
+    view.air_box.apply_button.click()
+    assert view.margins.margins[0].corona_onset_margin == pytest.approx(before / 2**0.5, rel=1e-12)
+    assert "converted to crest" in view.air_box.label.text() and "× 1.414" in view.notes.text()
+    view.air_box.basis.setCurrentIndex(view.air_box.basis.findData("factor"))
+    view.air_box.factor_edit.setText("0")
     view.air_box.apply_button.click()
     assert "not applied" in view.air_box.label.text()
 

@@ -131,6 +131,10 @@ def test_pair_shows_even_odd_modes_and_coupling(qtbot):
     assert shown_value(view, "odd-mode impedance") == f"{f.odd_mode_impedance_ohm:.4g} Ω"
     assert view.modes.rowCount() == 2 and view.coupling.rowCount() == 1
     assert float(view.coupling.item(0, 0).text()) > 0.0
+    # one medium: both modes travel at one speed, so the modes shown are those of C, and the tab says so
+    assert f.modes_defined and "eigenvectors of C" in view.modes_label.text()
+    shown = sorted(tuple(view.modes.item(k, c).text() for c in (4, 5)) for k in range(2))
+    assert shown == [("+1.000", "+1.000"), ("+1.000", "-1.000")]
 
 
 def test_window_shows_line_figures_when_the_tab_is_shown(window, qtbot):

@@ -87,7 +87,7 @@ def test_every_view_shows_the_same_verdict(window, qtbot, tmp_path, capsys, near
     # command line: text and JSON
     assert main([str(path)]) == 0
     text = _words(capsys.readouterr().out)
-    assert "High-voltage verdict: thin." in text and _words(caution) in text
+    assert "High-voltage verdict: thin (voltage basis: operating voltage (crest))." in text and _words(caution) in text
     assert main([str(path), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["margin_status"] == ["thin"] and data["caution_status"] == "thin"

@@ -77,3 +77,10 @@ def test_no_air_caution_when_the_peaks_sit_in_insulation(window, qtbot):
     assert not window.banner.isVisible()
     hv = window.results_panel.high_voltage
     assert "not in air: inside" in hv.headline.text()
+
+
+def test_numbers_show_the_raw_asymmetry_of_the_capacitance_matrix(twin):
+    # accuracy check made before the matrix is symmetrised (reciprocity, common practice)
+    asymmetry = twin.results.solution.capacitance_asymmetry
+    text = twin.results_panel.numbers.asymmetry_label.text()
+    assert f"asymmetric by {100 * asymmetry:.2g} %" in text and "before it was symmetrised" in text

@@ -22,6 +22,7 @@ import math
 import pytest
 
 from solver import Circle, Conductor, GroundPlane, Model
+from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.analysis import analyse_hot_spots
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
@@ -85,18 +86,20 @@ def _wire(voltage: float, a_mm: float = 20.0, h_mm: float = 300.0) -> tuple[Mode
 
 @pytest.mark.parametrize("wanted_margin, status", [(2.0, "ample"), (1.2, "thin"), (0.8, "exceeded")])
 def test_corona_margin_of_a_wire_over_earth(wanted_margin, status):  # Peek 1929 and images
-    # A 20 mm wire with a rough surface (m = 0.8) at 1500 m: Peek's onset field lies below the
-    # uniform-field strength of air, so corona onset sets the status.
+    # A 20 mm wire with a rough surface (m = 0.8) at 1500 m: a round conductor is graded by
+    # Peek's onset, which holds the strength of air and the help of its curved surface.
     air = AirConditions.at_altitude(1500.0, surface_factor=0.8)
     onset = peek_corona_onset_field_V_per_m(0.02, air.relative_air_density, 0.8)
-    assert onset < air_breakdown_field_V_per_m(air.relative_air_density)
     model, peak_per_volt = _wire(1.0)
     model = model.with_potentials({"wire": onset / wanted_margin / peak_per_volt})
     report = assess_margins(model, analyse_hot_spots(model).hot_spots, air)
     m = report.margins[0]
     assert m.corona_radius_m == pytest.approx(0.02) and m.corona_radius_basis == "round conductor"
     assert m.corona_onset_margin == pytest.approx(wanted_margin, rel=1e-4)
-    breakdown = 3e6 * air.relative_air_density
+    # strength of air across the gap to earth, rough surface included (Kuffel, Zaengl & Kuffel, 2000)
+    breakdown = air_strength(m.gap_m, air.relative_air_density, 0.8).field_V_per_m
+    assert m.gap_m == pytest.approx(model.conductors[0].shapes[0].center[1] * 1e-3 - 0.02, rel=1e-6)
+    assert m.air_breakdown_field_V_per_m == pytest.approx(breakdown)
     assert m.air_breakdown_margin == pytest.approx(breakdown / onset * wanted_margin, rel=1e-4)
     assert m.status == status
     assert m.caution.endswith(HIGH_VOLTAGE_CAUTION)  # a high-voltage model: always the full caution

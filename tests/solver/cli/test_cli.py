@@ -221,7 +221,10 @@ def test_high_voltage_sample_carries_the_caution(capsys):
     out = capsys.readouterr().out
     from solver import HIGH_VOLTAGE_CAUTION
 
-    assert "High-voltage verdict: ample." in out  # rounded 30 mm edges, within their corona onset
+    # rounded 30 mm edges, within their corona onset; the basis is said, and at operating voltage
+    # the result asks for a check at the test and overvoltage levels (common practice)
+    assert "High-voltage verdict: ample (voltage basis: operating voltage (crest))." in out
+    assert "check again with the voltage basis set to those levels" in " ".join(out.split())
     assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in " ".join(out.split())  # word for word (SAFETY.md)
 
 
@@ -258,3 +261,18 @@ def test_csv_into_missing_folder_exits_2(tmp_path, capsys):
     assert main([str(path), "--csv", str(target)]) == 2
     err = capsys.readouterr().err
     assert err == f"error: cannot write {target}: No such file or directory\n"
+
+
+def test_raw_asymmetry_of_the_capacitance_matrix_is_shown_in_text_and_json(capsys):
+    # accuracy check before symmetrising: a reciprocal medium has C_ij = C_ji (common practice)
+    path = ROOT / "sample_geometries" / "three_traces_over_ground.json"
+    assert main([str(path), "--density", "coarse"]) == 0
+    text = capsys.readouterr().out
+    assert main([str(path), "--density", "coarse", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    from solver import load_project, solve
+
+    expected = solve(load_project(path).with_mesh_density("coarse")).capacitance_asymmetry
+    assert data["capacitance_asymmetry"] == pytest.approx(expected, rel=1e-6, abs=1e-18)
+    assert 0 < data["capacitance_asymmetry"] < 1e-3
+    assert f"asymmetric by {100 * expected:.2g} %" in text and "before it was symmetrised" in text

@@ -9,6 +9,7 @@ import pytest
 
 from solver import Conductor, GroundPlane, Model, Rectangle, save_project
 from solver.cli.command import main
+from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.margins import HIGH_VOLTAGE_CAUTION, relative_air_density_at_altitude
 
 ROOT = Path(__file__).resolve().parents[3]
@@ -25,15 +26,21 @@ def test_json_has_margins_and_peak_error_in_si_keys(capsys):
     assert data["conductors"] == ["electrode"]
     assert data["peak_field_estimated_relative_error"][0] < 0.01
     assert data["relative_air_density"] == pytest.approx(relative_air_density_at_altitude(2000.0))
-    assert data["air_breakdown_field_V_per_m"] == pytest.approx(3e6 * data["relative_air_density"])
-    assert data["air_breakdown_margin"][0] == pytest.approx(data["air_breakdown_field_V_per_m"]
+    # strength of air across the 1 m gap to earth, x density, x surface factor (Kuffel, Zaengl &
+    # Kuffel, High Voltage Engineering Fundamentals, 2000)
+    strength = air_strength(1.0, data["relative_air_density"], 0.9).field_V_per_m
+    assert data["air_gap_m"][0] == pytest.approx(1.0)
+    assert data["air_breakdown_field_V_per_m"][0] == pytest.approx(strength, rel=1e-6)
+    assert data["air_breakdown_margin"][0] == pytest.approx(data["air_breakdown_field_V_per_m"][0]
                                                             / data["peak_field_V_per_m"][0])
-    assert data["corona_onset_field_V_per_m"][0] > data["air_breakdown_field_V_per_m"]
+    assert data["corona_onset_field_V_per_m"][0] > data["air_breakdown_field_V_per_m"][0]
     assert data["corona_onset_margin"][0] == pytest.approx(data["corona_onset_field_V_per_m"][0]
                                                            / data["peak_field_V_per_m"][0])
     assert data["margins"]["surface_factor"] == 0.9
     # ample, but a high-voltage model: the full caution, word for word (SAFETY.md)
-    assert data["margin_status"] == ["ample"] and data["high_voltage_caution"] == HIGH_VOLTAGE_CAUTION
+    assert data["margin_status"] == ["ample"] and data["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION)
+    assert data["voltage_basis"] == {"basis": "operating", "potentials": "crest"} and data["field_factor"] == 1.0
+    assert "at operating voltage" in data["caution_headline"] and "check again" in data["high_voltage_caution"]
     assert data["caution_status"] == "ample"
     assert data["air_region_peak_field_V_per_m"] is None and data["air_region_margin"] is None  # no insulation
     detail = data["hot_spots"]["conductors"][0]
@@ -121,3 +128,50 @@ def test_radius_sweep_option(capsys):
         assert main([str(HV), "--radius-sweep", bad]) == 2
         err = capsys.readouterr().err
         assert words in err and err.count("\n") == 1
+
+
+def test_voltage_basis_scales_the_margins_and_is_said(capsys):
+    # rms to crest by sqrt 2 (common practice); fields scale with the potentials in electrostatics
+    plain = _json(capsys, HV)
+    rms = _json(capsys, HV, "--potentials-rms")
+    assert rms["field_factor"] == pytest.approx(2**0.5)
+    assert rms["voltage_basis"] == {"basis": "operating", "potentials": "rms"}
+    assert "converted to crest" in rms["voltage_basis_text"]
+    assert rms["corona_onset_margin"][0] == pytest.approx(plain["corona_onset_margin"][0] / 2**0.5, rel=1e-9)
+    assert rms["peak_field_V_per_m"] == plain["peak_field_V_per_m"]  # the model's own fields, unscaled
+    impulse = _json(capsys, HV, "--voltage-basis", "lightning_impulse")
+    assert "lightning-impulse withstand" in impulse["caution_headline"]
+    assert "check again" not in impulse["high_voltage_caution"]
+    assert impulse["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION)
+    over = _json(capsys, HV, "--voltage-factor", "6")
+    assert over["corona_onset_margin"][0] == pytest.approx(plain["corona_onset_margin"][0] / 6, rel=1e-9)
+    assert over["caution_status"] != "ample" and "at 6 x operating voltage" in over["caution_headline"]
+
+
+def test_a_bad_voltage_basis_ends_in_exit_2_with_one_line(capsys):
+    assert main([str(HV), "--voltage-basis", "factor"]) == 2
+    assert "--voltage-factor" in capsys.readouterr().err
+    assert main([str(HV), "--voltage-basis", "lightning_impulse", "--potentials-rms"]) == 2
+    assert "no rms value" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("name", ["microstrip_on_substrate", "hv_electrode_over_earth", "two_layer_coax_cable",
+                                  "three_phase_line", "edge_coupled_pair"])
+def test_the_full_caution_appears_word_for_word_whenever_the_model_is_high_voltage(name, capsys):
+    # SAFETY.md: every model with potentials 300 V or more apart carries the caution in text and JSON
+    from solver import load_project
+    from solver.hot_spots.verdict import LOW_VOLTAGE_THRESHOLD_V, largest_potential_difference_V
+
+    path = ROOT / "sample_geometries" / f"{name}.json"
+    model = load_project(path)
+    fixed = [c.potential_V for c in model.conductors if c.role == "fixed"]
+    has_zero = model.ground_plane is not None or any(c.role == "reference" for c in model.conductors)
+    high = largest_potential_difference_V(fixed, has_zero) >= LOW_VOLTAGE_THRESHOLD_V
+    data = _json(capsys, path, "--density", "coarse")
+    assert main([str(path), "--density", "coarse"]) == 0
+    text = " ".join(capsys.readouterr().out.split())
+    if high:
+        assert data["high_voltage_caution"] and data["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION)
+        assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in text
+    else:
+        assert data["high_voltage_caution"] == "" and "Caution - high voltage" not in text

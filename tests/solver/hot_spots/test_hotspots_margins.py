@@ -9,6 +9,7 @@ import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
 from solver.errors import InvalidModelError
+from solver.hot_spots.air_strength import air_strength
 from solver.hot_spots.margins import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
@@ -32,6 +33,7 @@ class _Spot:  # the fields assess_margins reads from a HotSpot
     estimated_relative_error: float | None = 1e-4
     local_radius_of_curvature_m: float | None = None
     medium: Medium | None = None
+    gap_m: float | None = None
 
 
 MODEL = Model(unit="mm", conductors=(
@@ -53,7 +55,8 @@ def test_a_round_conductor_is_graded_by_its_corona_onset():
     for peak, status in ((2.5e6, "ample"), (3.5e6, "thin"), (4.5e6, "exceeded")):
         m = assess_margins(MODEL, [_Spot("wire", peak)]).margins[0]
         assert m.status == status
-        assert m.air_breakdown_margin == pytest.approx(3e6 / peak)
+        # no gap known: the long-gap limit of the uniform-field relation (Kuffel, Zaengl & Kuffel, 2000)
+        assert m.air_breakdown_margin == pytest.approx(air_strength(None).field_V_per_m / peak)
         assert m.corona_onset_margin == pytest.approx(onset / peak)
         assert m.caution.endswith(HIGH_VOLTAGE_CAUTION)  # 100 kV: the full caution always applies
         assert ("expect corona or flashover" in m.caution.lower()) == (status == "exceeded")
@@ -67,10 +70,23 @@ def test_air_margin_above_one_but_corona_margin_above_one_is_not_told_to_expect_
 
 
 def test_a_conductor_without_corona_radius_is_graded_by_the_strength_of_air():
-    for peak, status in ((1.0e6, "ample"), (2.5e6, "thin"), (3.5e6, "exceeded")):
+    # no gap known: 2.47 MV/m, the long-gap limit of Kuffel, Zaengl & Kuffel (2000)
+    for peak, status in ((1.0e6, "ample"), (2.0e6, "thin"), (2.6e6, "exceeded")):
         m = assess_margins(MODEL, [_Spot("bar", peak)]).margins[0]
         assert m.corona_onset_margin is None and m.status == status
         assert "uniform-field strength of air" in m.reason
+
+
+def test_the_strength_of_air_depends_on_the_gap_and_the_surface_of_a_flat_face():
+    # Kuffel, Zaengl & Kuffel (2000): 3.14 MV/m across 1 cm, 4.61 MV/m across 1 mm at 1 atm; the same
+    # 3.2 MV/m peak is exceeded across a 1 m gap and only thin across 1 mm.
+    near = assess_margins(MODEL, [_Spot("bar", 3.2e6, gap_m=1e-3)]).margins[0]
+    far = assess_margins(MODEL, [_Spot("bar", 3.2e6, gap_m=1.0)]).margins[0]
+    assert near.air_breakdown_field_V_per_m == pytest.approx(4.607e6, rel=1e-3) and near.gap_m == 1e-3
+    assert near.status == "thin" and far.status == "exceeded"
+    # the surface factor lowers the strength of a flat face too, not only Peek's onset (common practice)
+    rough = assess_margins(MODEL, [_Spot("bar", 3.2e6, gap_m=1e-3)], AirConditions(surface_factor=0.8)).margins[0]
+    assert rough.air_breakdown_field_V_per_m == pytest.approx(0.8 * near.air_breakdown_field_V_per_m)
 
 
 def test_singular_peak_is_not_assessed_and_cautioned():
