@@ -46,8 +46,9 @@ def header_section(report: Report) -> list[str]:
 def _mesh_words(report: Report) -> str:
     """How the boundary was discretised: the named density, or the high-order tolerance solve."""
     solution = report.solution
-    if getattr(solution, "tolerance", None) is not None:
-        return f"high-order solver to tolerance {solution.tolerance:.2g}, {solution.n_unknowns} unknowns"
+    reached = getattr(solution, "tolerance", None)
+    if reached is not None:
+        return f"high-order solver to tolerance {reached:.2g}, {solution.n_unknowns} unknowns"
     if report.options.tolerance is not None:
         return f"low-order solver refined to tolerance {report.options.tolerance:.2g}, {solution.mesh.n_panels} panels"
     return f"mesh: {solution.model.mesh_density}, {solution.mesh.n_panels} panels"
