@@ -55,7 +55,9 @@ class WheelSteps(QObject):
         if kind == QEvent.ChildAdded:
             child = event.child()
             if isinstance(child, QWidget):
+                # a field may arrive inside a container (a value with its unit label)
                 child.installEventFilter(self)
+                self._watch_new_children(child)
             return False
         if kind != QEvent.Wheel or not isinstance(watched, QLineEdit) or not watched.isEnabled():
             return False
