@@ -30,6 +30,9 @@ TEXT = "#1a1a1a"
 TEXT_MUTED = "#505050"
 PAGE = "#ffffff"
 
+#: Text of results that are out of date (the drawing changed after the solve).
+STALE_TEXT = "#5b6472"
+
 #: Okabe & Ito (2008): blue, vermillion, bluish green, reddish purple, orange, sky blue.
 CONDUCTOR_PALETTE = ("#0072b2", "#d55e00", "#009e73", "#cc79a7", "#e69f00", "#56b4e9")
 
@@ -143,6 +146,9 @@ def potential_stops(lowest_V: float, highest_V: float) -> tuple[list[float], lis
     """
     n = len(POTENTIAL_STOPS)
     mid = n // 2
+    tiny = 1e-3 * max(abs(lowest_V), abs(highest_V))  # solver noise near 0 V (a part per thousand) is no sign
+    lowest_V = 0.0 if abs(lowest_V) <= tiny else lowest_V
+    highest_V = 0.0 if abs(highest_V) <= tiny else highest_V
     if lowest_V < 0 < highest_V:
         top = max(-lowest_V, highest_V)
         colours = list(POTENTIAL_STOPS)

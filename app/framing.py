@@ -22,13 +22,29 @@ def _union(boxes) -> tuple[float, float, float, float]:
     return (min(b[0] for b in boxes), min(b[1] for b in boxes), max(b[2] for b in boxes), max(b[3] for b in boxes))
 
 
+def _facing_part(part, signal, reach):
+    """The piece of a large part that faces the signals within reach: a wide plane or board
+    counts with its height across the signals' width, a tall wall with its width across their
+    height; None when the part is small, out of reach or neither wide nor tall."""
+    wide = part[0] < reach[0] and part[2] > reach[2]
+    tall = part[1] < reach[1] and part[3] > reach[3]
+    if wide == tall:
+        return None
+    if wide:
+        y0, y1 = max(part[1], reach[1]), min(part[3], reach[3])
+        return (signal[0], y0, signal[2], y1) if y0 <= y1 else None
+    x0, x1 = max(part[0], reach[0]), min(part[2], reach[2])
+    return (x0, signal[1], x1, signal[3]) if x0 <= x1 else None
+
+
 def framing_box(model: Model) -> tuple[float, float, float, float] | None:
     """(xmin, ymin, xmax, ymax) in model units that the view opens on, margin included.
 
     The signal (fixed-potential) conductors set the frame, so a trace on a board stays
     readable: other conductors and dielectrics join it when their whole box lies within
     :data:`FRAME_REACH` signal-box sizes of it (a cable's screen, a coax shield) or when they
-    are small (:data:`SMALL_PART`: a return or earth wire), and a ground plane within
+    are small (:data:`SMALL_PART`: a return or earth wire); a wide plane or board within reach
+    joins with its height only, a tall wall with its width only, and a ground plane within
     :data:`PLANE_REACH` sizes joins as its height.
     Far enclosures, wide boards and reference planes drawn as strips do not set the zoom.
     None for an empty drawing.
@@ -46,6 +62,7 @@ def framing_box(model: Model) -> tuple[float, float, float, float] | None:
     others += [s.bounds() for d in model.dielectrics for s in d.shapes]
     near = [b for b in others if b[0] >= reach[0] and b[1] >= reach[1] and b[2] <= reach[2] and b[3] <= reach[3]
             or max(b[2] - b[0], b[3] - b[1]) <= SMALL_PART * size]
+    near += [c for c in (_facing_part(b, box, reach) for b in others) if c is not None]
     box = _union([box] + near)
     plane = model.ground_plane
     if plane is not None and min(abs(plane.y - box[1]), abs(plane.y - box[3])) <= PLANE_REACH * size:

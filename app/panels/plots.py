@@ -35,6 +35,9 @@ def _plot(parent=None) -> pg.PlotWidget:
 #: A corner spike is clipped above this many times the 95th percentile of |sigma| on its conductor.
 SPIKE_CLIP = 1.6
 
+#: Opacity of plotted results that are out of date.
+STALE_OPACITY = 0.35
+
 #: At most this many conductors get a row each; more are chosen one at a time.
 MAX_ROWS = 6
 
@@ -80,6 +83,7 @@ class BoundaryPlot(QWidget):
         self.plot.scene().sigMouseClicked.connect(self._on_scene_clicked)
         self.rows: list[tuple[pg.PlotItem, np.ndarray, np.ndarray, np.ndarray]] = []
         self._factor = 1.0
+        self._stale = False
 
     def show_results(self, results) -> None:
         self.results = results
@@ -143,7 +147,14 @@ class BoundaryPlot(QWidget):
             for s_corner in self._corner_positions(sol, k, idx):
                 item.addItem(pg.InfiniteLine(s_corner / scale, angle=90,
                                              pen=pg.mkPen(colours.TEXT_MUTED, width=1, style=Qt.DashLine)))
+            item.setOpacity(STALE_OPACITY if self._stale else 1.0)
             self.rows.append((item, s, y, idx))
+
+    def mark_stale(self, stale: bool) -> None:
+        """Dim the curves while the drawing has changed since the solve."""
+        self._stale = stale
+        for item, *_ in self.rows:
+            item.setOpacity(STALE_OPACITY if stale else 1.0)
 
     @staticmethod
     def _corner_positions(sol, k: int, idx: np.ndarray) -> list[float]:
@@ -248,6 +259,11 @@ class ProbePlot(QWidget):
         for p in (self.potential_plot, self.field_plot):
             p.setLabel("bottom", f"distance along probe ({unit})")
         self.export_button.setEnabled(True)
+
+    def mark_stale(self, stale: bool) -> None:
+        """Dim the profile while the drawing has changed since the solve."""
+        for p in (self.potential_plot, self.field_plot):
+            p.plotItem.setOpacity(STALE_OPACITY if stale else 1.0)
 
     def clear(self) -> None:
         """No profile (a new drawing): nothing from the previous one stays on show."""

@@ -3,16 +3,17 @@ every width, wrapping onto as many rows as needed) and the section shown below t
 
 A section is any QWidget registered with :meth:`ResultsPanel.add_section`; if it has
 ``show_results(results)`` it is called after every solve, and ``mark_stale(bool)`` when the
-drawing changes after a solve. Every section is also dimmed, and marked out of date, here.
+drawing changes after a solve. Every section's text is also dimmed here, under one
+"out of date" strip.
 """
 
 from __future__ import annotations
 
 import math
 
+from PySide6.QtGui import QColor, QPalette
 from PySide6.QtWidgets import (
     QButtonGroup,
-    QGraphicsOpacityEffect,
     QGridLayout,
     QLabel,
     QScrollArea,
@@ -38,15 +39,19 @@ OLD_TITLES = {"Hot spots": "High voltage", "Charge along boundary": "Charge", "P
 #: Narrowest button of the section row, px; the row wraps below this.
 BUTTON_MIN_WIDTH = 104
 
-#: Opacity of a section whose results are out of date.
-STALE_OPACITY = 0.45
-
 STALE_TEXT = "◐ Out of date: the drawing changed after this solve. Press F5 to solve again."
 
 
-def _dim(page: QWidget, stale: bool) -> None:
-    """Show ``page`` at reduced opacity while its results are out of date."""
-    page.setGraphicsEffect(QGraphicsOpacityEffect(page, opacity=STALE_OPACITY) if stale else None)
+def _dim(page: QWidget, stale: bool, fresh_palette: QPalette) -> None:
+    """Show ``page``'s text in the out-of-date colour while its results are stale (text and
+    tables only: the page stays usable and scrolls cleanly; plots dim themselves)."""
+    if not stale:
+        page.setPalette(fresh_palette)
+        return
+    palette = QPalette(fresh_palette)
+    for role in (QPalette.WindowText, QPalette.Text, QPalette.ButtonText):
+        palette.setColor(role, QColor(colours.STALE_TEXT))
+    page.setPalette(palette)
 
 
 class SectionButtons(QWidget):
@@ -107,6 +112,7 @@ class ResultsPanel(QWidget):
         super().__init__(parent)
         self.sections: dict[str, QWidget] = {}
         self._pages: dict[str, QWidget] = {}
+        self._palettes: dict[str, QPalette] = {}
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.setSpacing(4)
@@ -141,7 +147,8 @@ class ResultsPanel(QWidget):
             shown = QScrollArea()
             shown.setWidgetResizable(True)
             shown.setWidget(widget)
-        _dim(shown, self.stale)
+        self._palettes[title] = QPalette(shown.palette())
+        _dim(shown, self.stale, self._palettes[title])
         self.stack.addWidget(shown)
         button = self.buttons.add(title)
         if len(self.sections) == 0:
@@ -175,8 +182,8 @@ class ResultsPanel(QWidget):
         self.stale_strip.setVisible(stale)
         if self.summary.solution is not None and self.summary.state in ("fresh", "stale"):
             self.summary.set_state("stale" if stale else "fresh")
-        for page in self._pages.values():
-            _dim(page, stale)
+        for title, page in self._pages.items():
+            _dim(page, stale, self._palettes[title])
         for widget in self.sections.values():
             if hasattr(widget, "mark_stale"):
                 widget.mark_stale(stale)

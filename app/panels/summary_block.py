@@ -150,6 +150,7 @@ class CautionLine(QFrame):
         self.details_area.setVisible(False)
         layout.addWidget(self.details_area)
         self.verdict = None
+        self.stale = False
         self.setVisible(False)
 
     def show_verdict(self, verdict) -> None:
@@ -158,13 +159,26 @@ class CautionLine(QFrame):
         if verdict is None or not verdict.caution:
             self.setVisible(False)
             return
-        badge = colours.SEVERITY[verdict.status]
-        self.headline.setText(f"{badge.symbol}  {badge.word.upper()} — {verdict.headline}")
-        self.setStyleSheet(f"#caution_line {{ background: {badge.background}; border-left: 6px solid {badge.text}; }}"
-                           f" QLabel {{ color: {badge.text}; background: {badge.background}; }}")
-        self.headline.setStyleSheet("font-weight: bold;")
         self.details.setText(verdict.caution)
+        self._paint()
         self.setVisible(True)
+
+    def set_stale(self, stale: bool) -> None:
+        """Grey the line out (and say so) while the drawing has changed since the verdict."""
+        if stale != self.stale:
+            self.stale = stale
+            if self.verdict is not None:
+                self._paint()
+
+    def _paint(self) -> None:
+        badge = colours.SEVERITY[self.verdict.status]
+        text, background = (colours.STALE_TEXT, colours.FRESHNESS["stale"].background) if self.stale \
+            else (badge.text, badge.background)
+        before = "out of date: " if self.stale else ""
+        self.headline.setText(f"{badge.symbol}  {before}{badge.word.upper()} — {self.verdict.headline}")
+        self.setStyleSheet(f"#caution_line {{ background: {background}; border-left: 6px solid {text}; }}"
+                           f" QLabel {{ color: {text}; background: {background}; }}")
+        self.headline.setStyleSheet("font-weight: bold;")
 
     def _on_details_toggled(self, on: bool) -> None:
         self.details_area.setVisible(on)
@@ -257,4 +271,4 @@ class SummaryBlock(QWidget):
             else:
                 value.setStyleSheet(f"color: {colours.TEXT}; font-weight: bold;")
             self.form.addRow(name, value)
-        self.caution.setEnabled(not dim)
+        self.caution.set_stale(dim)

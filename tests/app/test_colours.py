@@ -19,7 +19,8 @@ ROOT = Path(__file__).resolve().parents[2]
 
 def text_pairs():
     """Every (text colour, background) the program shows text in."""
-    pairs = [(colours.TEXT, colours.PAGE), (colours.TEXT_MUTED, colours.PAGE)]
+    pairs = [(colours.TEXT, colours.PAGE), (colours.TEXT_MUTED, colours.PAGE), (colours.STALE_TEXT, colours.PAGE),
+             (colours.STALE_TEXT, colours.FRESHNESS["stale"].background)]
     for badge in list(colours.SEVERITY.values()) + list(colours.FRESHNESS.values()):
         pairs += [(badge.text, badge.background), (badge.text, colours.PAGE)]
     label_fill = "#{:02x}{:02x}{:02x}".format(*colours.LABEL_FILL[:3])
@@ -66,3 +67,11 @@ def test_no_inline_colours_outside_the_colour_table(module):
     source = (ROOT / module).read_text(encoding="utf-8")
     inline = re.findall(r"#[0-9a-fA-F]{6}\b|#[0-9a-fA-F]{3}\b(?!\w)|QColor\(\s*\d|mkPen\(\s*\(|mkBrush\(\s*\d", source)
     assert inline == [], f"{module} writes colours inline: {inline}"
+
+
+def test_noise_near_zero_volts_does_not_make_the_map_diverging():
+    # a buried stripline's grid dips to -3.4e-5 V next to its earthed planes (solver noise at 1 V)
+    positions, stops, lo, hi = colours.potential_stops(-3.4e-5, 1.0)
+    assert (lo, hi) == (0.0, 1.0) and len(stops) == len(colours.POTENTIAL_STOPS) // 2 + 1
+    positions, stops, lo, hi = colours.potential_stops(-0.01, 1.0)  # a real negative potential does
+    assert (lo, hi) == (-1.0, 1.0)

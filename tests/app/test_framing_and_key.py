@@ -101,3 +101,11 @@ def test_the_drawing_keeps_its_size_when_the_shading_changes(window, qtbot):
     assert max(widths) - min(widths) < 1.0
     window.document.apply(edits.update_conductor(window.document.model, 0, potential_V=2.0), "Potential")
     assert window.canvas.overlays.key.bar.opacity() < 0.5  # the key dims with the map
+
+
+def test_a_return_plane_drawn_as_a_wide_strip_frames_with_its_height_only():
+    model = solver.load_project(files.SAMPLES_DIR / "buried_stripline.json")
+    x0, y0, x1, y1 = framing_box(model)
+    upper = next(c for c in model.conductors if c.name == "upper plane").shapes[0].bounds()
+    assert y1 >= upper[3]  # the upper plane is in view above the trace ...
+    assert (x1 - x0) < 0.25 * (upper[2] - upper[0])  # ... but its 8 mm width does not set the zoom

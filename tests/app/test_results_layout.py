@@ -113,19 +113,32 @@ def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
 
 
 def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
+    from PySide6.QtGui import QPalette
+
+    from app import colours
+
     panel = hv_twin.results_panel
-    assert all(page.graphicsEffect() is None for page in panel._pages.values())
+
+    def dimmed(page) -> bool:
+        return page.palette().color(QPalette.WindowText).name() == colours.STALE_TEXT
+
+    assert not any(dimmed(page) for page in panel._pages.values())
     assert panel.summary.state == "fresh" and not panel.stale_strip.isVisible()
+    line = panel.summary.caution
+    assert line.isVisible() and "out of date" not in line.headline.text()
     hv_twin.document.apply(edits.update_conductor(hv_twin.document.model, 0, potential_V=12000.0), "Potential")
     settle(qtbot)
     assert panel.summary.state == "stale" and panel.stale_strip.isVisible()
     assert dict(panel.summary.rows())["Results"] == "out of date"
+    assert "out of date: APPROACHING" in line.headline.text()  # the verdict no longer speaks at full strength
     for title, page in panel._pages.items():
-        effect = page.graphicsEffect()
-        assert effect is not None and effect.opacity() < 0.6, title
+        assert dimmed(page), title
+    for plot in (panel.boundary.rows[0][0], panel.probe.potential_plot.plotItem):
+        assert plot.opacity() < 0.5
     hv_twin.document.undo()
     settle(qtbot)
-    assert panel.summary.state == "fresh" and all(page.graphicsEffect() is None for page in panel._pages.values())
+    assert panel.summary.state == "fresh" and not any(dimmed(page) for page in panel._pages.values())
+    assert "out of date" not in line.headline.text() and panel.boundary.rows[0][0].opacity() == 1.0
 
 
 def test_a_new_drawing_does_not_show_the_old_results_as_current(hv_twin, qtbot):
