@@ -44,6 +44,9 @@ EARTH_FILL = (110, 110, 110, 40)
 DIELECTRIC_OUTLINE = "#3d3d3d"
 DIELECTRIC_HATCH = (40, 40, 40, 90)
 
+#: Outline of a shape being drawn (before it is placed).
+PREVIEW = "#8c8c8c"
+
 #: Selection outline and the outline of a shape the solver rejects.
 SELECTION = "#000000"
 INVALID = "#7b1fa2"

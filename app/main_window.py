@@ -48,8 +48,9 @@ logger = logging.getLogger(__name__)
 #: Models with at most this many conductors re-solve by themselves after an edit.
 AUTO_SOLVE_MAX_CONDUCTORS = 8
 
-#: Starting width of the results area, px (the drawing keeps the larger share).
-RESULTS_WIDTH = 470
+#: Starting width of the results area: this share of the window, within these bounds, px
+#: (the drawing keeps the larger share).
+RESULTS_SHARE, RESULTS_MIN_WIDTH, RESULTS_MAX_WIDTH = 0.3, 470, 640
 
 
 class MainWindow(QMainWindow):
@@ -109,14 +110,27 @@ class MainWindow(QMainWindow):
                                       timeout=self._write_recovery)
         self._recovery_schedule = files.RecoverySchedule()
         self._recovery_failure_told = False
+        self.results_dock = results_dock
         self.resize(1500, 900)
-        self.resizeDocks([results_dock], [RESULTS_WIDTH], Qt.Horizontal)
+        self._dock_widths_restored = False
+        self.fit_results_width()
         if settings is not None and settings.value("window_geometry") is not None:
             self.restoreGeometry(settings.value("window_geometry"))
-            self.restoreState(settings.value("window_state"))
+            self._dock_widths_restored = bool(self.restoreState(settings.value("window_state")))
         self._update_title()
 
     # ---- layout ----------------------------------------------------------------------------
+    def fit_results_width(self) -> None:
+        """Give the results area its share of the window's width (unless a saved layout applies)."""
+        width = int(min(max(RESULTS_SHARE * self.width(), RESULTS_MIN_WIDTH), RESULTS_MAX_WIDTH))
+        self.resizeDocks([self.results_dock], [width], Qt.Horizontal)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        if not self._dock_widths_restored:  # once, when the window first knows its size
+            self._dock_widths_restored = True
+            self.fit_results_width()
+
     def _dock(self, title: str, widget, area) -> QDockWidget:
         dock = QDockWidget(title, self)
         dock.setObjectName(title)

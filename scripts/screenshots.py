@@ -97,6 +97,10 @@ def run(out: Path, width: int, height: int) -> None:
     w = MainWindow(settings)
     w.show()
     w.setGeometry(0, 0, width, height)
+    s0 = time.time()
+    while time.time() - s0 < 0.3:
+        app.processEvents()
+    w.fit_results_width()
     s = Shooter(app, w, out)
     s.settle(0.5)
     s.shoot("empty_drawing")

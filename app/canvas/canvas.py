@@ -15,7 +15,7 @@ from PySide6.QtCore import Qt, Signal
 from shapely.geometry import Point
 
 from app import colours
-from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item
+from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item, style_axes
 from app.canvas.error_marks import ErrorMarks
 from app.canvas.overlays import Overlays
 from app.canvas.tools import TOOLS, PickTool
@@ -55,13 +55,13 @@ class Canvas(pg.PlotWidget):
         self.plotItem.setAspectLocked(True)
         self.plotItem.showGrid(x=True, y=True, alpha=0.18)
         self.plotItem.hideButtons()
-        for side in ("bottom", "left"):
-            self.plotItem.getAxis(side).enableAutoSIPrefix(False)
+        style_axes(self.plotItem)
         self.plotItem.setMenuEnabled(False)
         self._part_items: list = []
         self._preview_item = None
         self._plane_preview = None
-        self._handles = pg.ScatterPlotItem(symbol="s", size=9, pen=pg.mkPen("#111"), brush=pg.mkBrush("#ffffff"))
+        self._handles = pg.ScatterPlotItem(symbol="s", size=9, pen=pg.mkPen(colours.SELECTION),
+                                            brush=pg.mkBrush(colours.PAGE))
         self._handles.setZValue(50)
         self.addItem(self._handles)
         self._probe = pg.PlotDataItem(pen=pg.mkPen(colours.PROBE, width=1.2), symbol=["o", "s"], symbolSize=8,
@@ -251,11 +251,11 @@ class Canvas(pg.PlotWidget):
                 self.plotItem.removeItem(item)
         self._preview_item = self._plane_preview = None
         if shape is not None:
-            self._preview_item = shape_item(shape, "#777777", alpha=60, dashed=True)
+            self._preview_item = shape_item(shape, colours.PREVIEW, alpha=60, dashed=True)
             self._preview_item.setZValue(60)
             self.plotItem.addItem(self._preview_item)
         if plane_y is not None:
-            self._plane_preview = pg.InfiniteLine(pos=plane_y, angle=0, pen=cosmetic_pen("#777777", 2, Qt.DashLine))
+            self._plane_preview = pg.InfiniteLine(pos=plane_y, angle=0, pen=cosmetic_pen(colours.PREVIEW, 2, Qt.DashLine))
             self.plotItem.addItem(self._plane_preview)
 
     def show_probe(self, a, b) -> None:

@@ -83,3 +83,13 @@ def dielectric_item(shape: Shape, eps_r: float, where: str | None = None) -> QGr
     item.setToolTip(f"{where or 'Dielectric'}: relative permittivity {eps_r:g}")
     mark_if_invalid(item, shape, where)
     return item
+
+
+def style_axes(plot_item) -> None:
+    """Legible axes on a pyqtgraph PlotItem: text in the palette's text colours (contrast
+    >= 4.5:1), lines in the muted one, and no automatic SI multiplier on the numbers."""
+    for side in ("left", "bottom"):
+        axis = plot_item.getAxis(side)
+        axis.setTextPen(QPen(QColor(colours.TEXT)))
+        axis.setPen(QPen(QColor(colours.TEXT_MUTED)))
+        axis.enableAutoSIPrefix(False)

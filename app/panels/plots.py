@@ -13,16 +13,8 @@ from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 from app import colours
+from app.canvas.drawing import style_axes
 from app.units import si_scale
-
-
-def style_axes(plot_item: pg.PlotItem) -> None:
-    """Legible axes: text in the palette's text colours (contrast >= 4.5:1), no SI multiplier."""
-    for side in ("left", "bottom"):
-        axis = plot_item.getAxis(side)
-        axis.setTextPen(pg.mkPen(colours.TEXT))
-        axis.setPen(pg.mkPen(colours.TEXT_MUTED))
-        axis.enableAutoSIPrefix(False)
 
 
 def _plot(parent=None) -> pg.PlotWidget:

@@ -12,7 +12,8 @@ from app import colours
 DRAWING_MODULES = ("app/main_window.py", "app/panels/results_panel.py", "app/panels/hot_spots_view.py",
                    "app/panels/safety_views.py", "app/panels/plots.py", "app/panels/summary_block.py",
                    "app/cautions.py", "app/canvas/drawing.py", "app/canvas/overlays.py",
-                   "app/canvas/colour_key.py", "app/canvas/labels.py")
+                   "app/canvas/colour_key.py", "app/canvas/labels.py", "app/canvas/canvas.py",
+                   "app/framing.py")
 
 ROOT = Path(__file__).resolve().parents[2]
 
@@ -75,3 +76,13 @@ def test_noise_near_zero_volts_does_not_make_the_map_diverging():
     assert (lo, hi) == (0.0, 1.0) and len(stops) == len(colours.POTENTIAL_STOPS) // 2 + 1
     positions, stops, lo, hi = colours.potential_stops(-0.01, 1.0)  # a real negative potential does
     assert (lo, hi) == (-1.0, 1.0)
+
+
+def test_axis_text_on_the_drawing_and_the_plots_is_legible(window):
+    # the axes used to be rgb(150,150,150) on white (2.96:1)
+    plots = [window.canvas.plotItem, window.results_panel.probe.potential_plot.plotItem,
+             window.results_panel.probe.field_plot.plotItem]
+    for plot in plots:
+        for side in ("left", "bottom"):
+            text = plot.getAxis(side).textPen().color().name()
+            assert colours.contrast_ratio(text, colours.PAGE) >= 4.5, (plot, side, text)
