@@ -132,10 +132,10 @@ def run(out: Path, width: int, height: int) -> None:
 
     # a high-voltage verdict that must catch the eye, its details, and the drawing out of date
     s.open_sample("hv_electrode_over_earth.json")
-    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=400e3), "Potential")
+    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=700e3), "Potential")
     w.solve()
     s.settle()
-    s.shoot("hv_electrode_400kV_caution")
+    s.shoot("hv_electrode_700kV_caution")
     w.results_panel.summary.caution.details_button.setChecked(True)
     w.results_panel.summary.show_where.emit()
     s.settle(0.2)

@@ -162,7 +162,7 @@ class Overlays:
                 top = float(np.percentile(e[np.isfinite(e)], 99.5))  # corners would wash out the rest of the map
                 factor, prefix = si_scale(top or 1.0)
                 data, lo, hi = e / factor, 0.0, top / factor
-                label = f"field strength |E| ({prefix}V/m); darkest = 99.5th percentile and above"
+                label = f"|E| ({prefix}V/m); darkest: 99.5th percentile and above"
         img = pg.ImageItem(data)
         img.setRect(QRectF(x[0] - dx / 2, y[0] - dy / 2, dx * len(x), dy * len(y)))
         img.setColorMap(cmap)
