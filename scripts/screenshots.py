@@ -156,6 +156,7 @@ def run(out: Path, width: int, height: int) -> None:
     s.dialog("unsaved_changes", w.commands.maybe_save)
     broken = Path(tempfile.mkdtemp()) / "broken.json"
     broken.write_text("{not json", encoding="utf-8")
+    w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")  # so that Open goes straight to the file
     s.dialog("cannot_open", lambda: w.commands.open(broken))
     for menu_action in w.menuBar().actions():
         if menu_action.text().replace("&", "") == "Help" and menu_action.menu() is not None:
