@@ -16,6 +16,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+import solver
 from app import edits
 from app.files import project_files as files
 
@@ -173,3 +174,17 @@ def test_old_section_names_still_lead_to_their_section(hv_twin):
     assert panel.current_section() == "High voltage" and panel.sections["High voltage"] is panel.hot_spots
     panel.show_section("Charge along boundary")
     assert panel.current_section() == "Charge"
+
+
+@pytest.mark.parametrize("size", ((1366, 768), (1024, 640)))
+def test_a_long_caution_headline_is_never_clipped(window, qtbot, size):
+    model = solver.load_project(files.SAMPLES_DIR / "hv_electrode_over_earth.json").with_mesh_density("coarse")
+    window.load(edits.update_conductor(model, 0, potential_V=700e3), None)
+    window.solve()
+    wait_for_solve(qtbot, window)
+    window.resize(*size)
+    settle(qtbot)
+    line = window.results_panel.summary.caution
+    assert line.isVisible() and "EXCEEDED" in line.headline.text() and len(line.headline.text()) > 150
+    assert line.headline.height() >= line.headline.heightForWidth(line.headline.width())
+    assert problems_in(window.results_panel.summary, f"{size} summary") == []
