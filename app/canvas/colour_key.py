@@ -29,11 +29,13 @@ def round_ticks(lo: float, hi: float) -> list[float]:
     if not (math.isfinite(lo) and math.isfinite(hi)) or hi <= lo:
         return [lo]
     span = hi - lo
+    tol = 1e-9 * span + 4.0 * math.ulp(max(abs(lo), abs(hi)))  # round-off, also at a large offset
     for exponent in range(int(math.floor(math.log10(span))) + 1, int(math.floor(math.log10(span))) - 3, -1):
         for m in (5.0, 2.5, 2.0, 1.0):
             step = m * 10.0 ** exponent
             first = math.ceil(lo / step - 1e-9) * step
-            ticks = [first + k * step for k in range(int((hi - first) / step + 1e-9) + 1)]
+            ticks = [first + k * step for k in range(int((hi - first) / step + 1e-9) + 2)]
+            ticks = [t for t in ticks if lo - tol <= t <= hi + tol]
             if FEWEST_TICKS <= len(ticks) <= MOST_TICKS:
                 return [0.0 if abs(t) < 1e-9 * step else t for t in ticks]
     return list(np.linspace(lo, hi, FEWEST_TICKS))

@@ -1,6 +1,8 @@
 """The view opens on the conductors (board-scale samples readable), follows a part whose
 coordinates were typed, keeps labels apart, and keeps its colour key in one place with round ticks."""
 
+import math
+
 import pytest
 from app_helpers import wait_for_solve
 from hypothesis import given
@@ -76,7 +78,8 @@ def test_labels_take_a_free_place():
 def test_colour_key_ticks_are_few_and_round(lo, span):
     ticks = round_ticks(lo, lo + span)
     assert 5 <= len(ticks) <= 7
-    assert all(lo - 1e-9 * span <= t <= lo + span * (1 + 1e-9) for t in ticks)
+    tol = 1e-9 * span + 4.0 * math.ulp(max(abs(lo), abs(lo + span)))  # round-off at a large offset
+    assert all(lo - tol <= t <= lo + span + tol for t in ticks)
     steps = [b - a for a, b in zip(ticks, ticks[1:])]
     assert max(steps) - min(steps) <= 1e-3 * min(steps)  # evenly spaced (to round-off at a large offset)
 
