@@ -10,18 +10,14 @@ This module only words and colours what they return.
 from __future__ import annotations
 
 import solver
+from app import colours
 from solver import HIGH_VOLTAGE_CAUTION, SolverError
 
 #: The standing statement shown with every high-voltage figure (SAFETY.md has it word for word).
 STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION
 
-#: Text and background colours of each verdict status.
-STATUS_COLOURS = {
-    "exceeded": ("#b00000", "#ffe0e0"),
-    "thin": ("#8a5200", "#fff1cc"),
-    "not assessed": ("#5a5a5a", "#eeeeee"),
-    "ample": ("#1e6b30", "#e3f3e6"),
-}
+#: Text and background colours of each verdict status (from the one colour table, app.colours).
+STATUS_COLOURS = {status: (badge.text, badge.background) for status, badge in colours.SEVERITY.items()}
 
 #: The limits of a 2-D electrostatic model (the same points as SAFETY.md and the design brief).
 TWO_D_LIMITS = (

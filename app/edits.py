@@ -8,11 +8,12 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+from app.colours import CONDUCTOR_PALETTE
 from app.document import PartRef
 from solver import Conductor, GroundPlane, InvalidModelError, Model, Shape, dielectric_of
 
-#: Colours given to new conductors in turn (our own palette).
-PALETTE = ("#c0392b", "#2471a3", "#1e8449", "#b9770e", "#7d3c98", "#117a65", "#a04000", "#5d6d7e")
+#: Colours given to new conductors in turn (the one identity palette, app.colours).
+PALETTE = CONDUCTOR_PALETTE
 
 
 def unique_name(model: Model, stem: str = "conductor") -> str:

@@ -28,7 +28,7 @@ from PySide6.QtWidgets import (
 )
 
 import solver
-from app import cautions
+from app import colours
 from app.canvas.canvas import Canvas
 from app.canvas.overlays import SHADINGS
 from app.commands import Commands
@@ -51,6 +51,10 @@ logger = logging.getLogger(__name__)
 #: Models with at most this many conductors re-solve by themselves after an edit.
 AUTO_SOLVE_MAX_CONDUCTORS = 8
 
+#: Starting width of the results area: this share of the window, within these bounds, px
+#: (the drawing keeps the larger share).
+RESULTS_SHARE, RESULTS_MIN_WIDTH, RESULTS_MAX_WIDTH = 0.3, 470, 640
+
 
 class MainWindow(QMainWindow):
     def __init__(self, settings=None, *, grid_points: int = 120, n_field_lines: int = 48) -> None:
@@ -64,24 +68,23 @@ class MainWindow(QMainWindow):
         self.runner = SolveRunner(self, grid_points=grid_points, n_field_lines=n_field_lines)
 
         self.canvas = Canvas(self.document)
-        self.banner = QLabel()
+        self.banner = QLabel()  # why the drawing cannot be solved (the verdict lives in the summary block)
         self.banner.setWordWrap(True)
         self.banner.setVisible(False)
         self._banner_is_error = False
-        self.stale_label = QLabel()
-        self.stale_label.setVisible(False)
-        self.stale_label.setStyleSheet("background: #fde9c4; color: #6b4000; padding: 4px; font-weight: bold;")
+        self._shown_model = None  # the model whose results the sections show (kept after New/Open)
         centre = QWidget()
         column = QVBoxLayout(centre)
         column.setContentsMargins(0, 0, 0, 0)
         column.addWidget(self.banner)
-        column.addWidget(self.stale_label)
         column.addWidget(self.canvas, 1)
         self.setCentralWidget(centre)
 
         self.parts = PartsList(self.document)
         self.properties = PropertiesPanel(self.document)
         self.results_panel = ResultsPanel(self.document)
+        self.stale_label = self.results_panel.stale_strip  # shown while the results are out of date
+        self.results_panel.summary.show_where.connect(self.show_worst_peak)
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
@@ -118,14 +121,27 @@ class MainWindow(QMainWindow):
                                       timeout=self._write_recovery)
         self._recovery_schedule = files.RecoverySchedule()
         self._recovery_failure_told = False
+        self.results_dock = results_dock
         self.resize(1500, 900)
-        self.resizeDocks([results_dock], [640], Qt.Horizontal)
+        self._dock_widths_restored = False
+        self.fit_results_width()
         if settings is not None and settings.value("window_geometry") is not None:
             self.restoreGeometry(settings.value("window_geometry"))
-            self.restoreState(settings.value("window_state"))
+            self._dock_widths_restored = bool(self.restoreState(settings.value("window_state")))
         self._update_title()
 
     # ---- layout ----------------------------------------------------------------------------
+    def fit_results_width(self) -> None:
+        """Give the results area its share of the window's width (unless a saved layout applies)."""
+        width = int(min(max(RESULTS_SHARE * self.width(), RESULTS_MIN_WIDTH), RESULTS_MAX_WIDTH))
+        self.resizeDocks([self.results_dock], [width], Qt.Horizontal)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        if not self._dock_widths_restored:  # once, when the window first knows its size
+            self._dock_widths_restored = True
+            self.fit_results_width()
+
     def _dock(self, title: str, widget, area) -> QDockWidget:
         dock = QDockWidget(title, self)
         dock.setObjectName(title)
@@ -182,7 +198,9 @@ class MainWindow(QMainWindow):
         self.canvas.overlays.clear()
         self.canvas.clear_errors()
         self.canvas.clear_probe()
+        self.results_panel.probe.clear()
         self._probe_ends = None
+        self.results_panel.summary.clear()
         self.document.replace(model, path, modified=modified)
         self.canvas.fit_view()
 
@@ -207,10 +225,10 @@ class MainWindow(QMainWindow):
         if self._banner_is_error:
             self.banner.setVisible(False)
             self._banner_is_error = False
-        stale = self.results is not None and model != self.results.model  # extras (view settings) ignored
+        stale = self._shown_model is not None and model != self._shown_model  # extras (view settings) ignored
         self._set_stale(stale)
         if self.results is not None and not stale:
-            self._update_banner()
+            self._update_verdict()
         if self._recovery_schedule.edited():
             self._write_recovery()  # edits keep coming: do not wait for a quiet moment any longer
         else:
@@ -222,8 +240,6 @@ class MainWindow(QMainWindow):
     def _set_stale(self, stale: bool) -> None:
         self.canvas.overlays.set_stale(stale)
         self.results_panel.mark_stale(stale)
-        self.stale_label.setText("Results are out of date: the drawing changed after the last solve. Press F5 to solve.")
-        self.stale_label.setVisible(stale)
 
     def _write_recovery(self) -> None:
         """Keep the recovery file in step: the unsaved model, or nothing once all is saved."""
@@ -273,8 +289,13 @@ class MainWindow(QMainWindow):
     def _on_busy_changed(self, busy: bool) -> None:
         self.progress.setVisible(busy)
         self.cancel_button.setVisible(busy)
+        summary = self.results_panel.summary
         if busy:
             self.progress.setValue(0)
+            summary.set_state("solving")
+        elif summary.state == "solving":  # cancelled: back to what is shown
+            stale = self._shown_model is not None and self.document.model != self._shown_model
+            summary.set_state("none" if summary.solution is None else "stale" if stale else "fresh")
 
     def _on_progress_changed(self, fraction: float, message: str) -> None:
         self.progress.setValue(int(100 * fraction))
@@ -285,10 +306,11 @@ class MainWindow(QMainWindow):
         self.canvas.results = results
         self.canvas.clear_errors()
         self.canvas.overlays.set_results(results)
+        self._shown_model = results.model
         self.results_panel.show_results(results)
         live = self._dragged_model is not None and not results.complete  # a recent drag position
         self._set_stale(not (live or results.model == self.document.model))
-        self._update_banner()
+        self._update_verdict()
         if self._probe_ends is not None:
             self._show_probe_profile(*self._probe_ends)  # the profile follows the new solution
         self.live_figures.setText(live_figures_text(results.solution))
@@ -309,26 +331,44 @@ class MainWindow(QMainWindow):
     def _show_error(self, message: str, names: list[str]) -> None:
         self.canvas.show_errors(names, message)
         self._banner_is_error = True
-        self.banner.setText(f"<b>Cannot solve:</b> {html.escape(message)}")
-        self.banner.setStyleSheet("background: #fde2e2; color: #7a0000; padding: 6px; font-weight: bold;")
+        self.banner.setText(f"<b>{colours.FRESHNESS['failed'].symbol} Cannot solve:</b> {html.escape(message)}")
+        self.banner.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"]) + " padding: 6px;")
         self.banner.setVisible(True)
+        self.results_panel.summary.set_state("failed")
 
-    def _update_banner(self) -> None:
-        """The solver's verdict on the peak fields (one caution rule), shown when it must catch the eye."""
-        self.results_panel.high_voltage.show_results(self.results)
+    def _update_verdict(self) -> None:
+        """The solver's verdict on the solve's peaks (one caution rule) in the summary block's
+        caution line, unless the High voltage section has judged the refined peaks."""
         self._banner_is_error = False
+        self.banner.setVisible(False)
+        if self.results_panel.hot_spots.margins is not None:
+            return  # the refined verdict stands; the section re-judges it when the air changes
         try:
             verdict = caution_for(self.results, self.document.model)
-        except solver.SolverError:
-            verdict = None  # the High voltage tab says why (e.g. air conditions out of range)
-        if verdict is None or not verdict.alarming:
-            self.banner.setVisible(False)
+        except solver.SolverError as exc:
+            verdict = None
+            self.statusBar().showMessage(f"No high-voltage verdict: {exc}", 8000)
+        self.results_panel.summary.show_verdict(verdict, "solve mesh")
+
+    def show_worst_peak(self) -> None:
+        """Mark the peak the verdict refers to on the drawing, and bring it into view."""
+        summary = self.results_panel.summary
+        verdict, results = summary.verdict, self.results
+        if verdict is None or results is None:
             return
-        colour, background = cautions.STATUS_COLOURS[verdict.status]
-        self.banner.setText(f"<b>{html.escape(verdict.headline)}</b><br>{html.escape(cautions.caution_body(verdict))}")
-        self.banner.setStyleSheet(f"background: {background}; color: {colour}; padding: 6px; "
-                                  f"border: 2px solid {colour};")
-        self.banner.setVisible(True)
+        worst = next((v for v in verdict.verdicts if v.headline == verdict.headline), verdict.verdicts[0])
+        report = self.results_panel.hot_spots.report
+        spots = report.hot_spots if (report is not None and summary.verdict_basis == "refined peaks") \
+            else results.solution.peak_surface_fields
+        places = {f"'{p.conductor}'": p.location_m for p in spots}
+        if report is not None and report.air_region is not None:
+            places.setdefault(worst.where, report.air_region.location_m)
+        if worst.where not in places:
+            self.statusBar().showMessage(f"No place to show for {worst.where}.", 6000)
+            return
+        xy = np.asarray(places[worst.where]) / results.model.metres_per_unit
+        self.canvas.overlays.mark_point(xy)
+        self.canvas.bring_into_view(float(xy[0]), float(xy[1]))
 
     # ---- readouts --------------------------------------------------------------------------
     def _on_cursor_moved(self, x: float, y: float) -> None:
@@ -341,7 +381,7 @@ class MainWindow(QMainWindow):
                 text += f"   potential {format_potential(phi[0])}, field strength {format_field(e[0])}"
             else:
                 text += "   inside a conductor"
-            if self.stale_label.isVisible():
+            if self.results_panel.stale:
                 text += " (out of date)"
         self.readout.setText(text)
 

@@ -1,190 +1,180 @@
-"""Save PNG screenshots of the main window with each overlay and results tab.
+"""Screenshots of a real window: every sample, every results section and every dialog, to check
+each change by eye.
 
-Usage: ``QT_QPA_PLATFORM=offscreen .venv/bin/python scripts/screenshots.py [OUTDIR]``
-(default OUTDIR: screenshots/, which git ignores). Offscreen rendering matches a real window.
+Set-up (once, Debian/Ubuntu)::
+
+    apt-get install -y --no-install-recommends xvfb xauth imagemagick libxcb-cursor0 \
+        libxkbcommon-x11-0 libxcb-icccm4 libxcb-image0 libxcb-keysyms1 libxcb-render-util0 \
+        libxcb-shape0 libxcb-xkb1
+
+Run (from the project root; pick a free display number)::
+
+    Xvfb :93 -screen 0 1920x1080x24 -nolisten tcp &
+    DISPLAY=:93 QT_QPA_PLATFORM=xcb .venv/bin/python scripts/screenshots.py shots --size 1366x768
+    DISPLAY=:93 QT_QPA_PLATFORM=xcb .venv/bin/python scripts/screenshots.py shots --size 1920x1080
+
+Each run writes ``OUTDIR/<width>x<height>/NN_<what>.png`` (default OUTDIR: screenshots/, which
+git ignores) and prints the paths. The window is shown at exactly the given size; dialogs are
+grabbed while open and then closed. Without a display, ``QT_QPA_PLATFORM=offscreen`` renders the
+same widgets, but look at the xcb pictures before calling a screen done.
 """
 
 from __future__ import annotations
 
+import argparse
 import os
 import sys
 import tempfile
 import time
 from pathlib import Path
 
-os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 os.environ.setdefault("EDGEWISE_RECOVERY_DIR", tempfile.mkdtemp(prefix="edgewise-shots-"))
 
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings, QTimer  # noqa: E402
 from PySide6.QtWidgets import QApplication  # noqa: E402
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from app import edits, files, shapes  # noqa: E402
-from app.document import PartRef  # noqa: E402
+from app import edits  # noqa: E402
+from app.files import project_files as files  # noqa: E402
 from app.main_window import MainWindow  # noqa: E402
 
-
-def settle(app, window, seconds: float = 0.3) -> None:
-    end = time.time() + seconds
-    while time.time() < end or window.runner.is_busy:
-        app.processEvents()
-        time.sleep(0.02)
-    app.processEvents()
+#: Samples in the order shown, and the results sections shown for the first of them.
+SAMPLES = ("busbar_enclosure.json", "microstrip_on_substrate.json", "buried_stripline.json",
+           "edge_coupled_pair.json", "three_traces_over_ground.json", "hv_electrode_over_earth.json",
+           "shielded_three_core_cable.json", "two_layer_coax_cable.json", "coaxial_feeder.json",
+           "twin_lead.json", "three_phase_line.json")
 
 
-def shoot(window, out: Path, name: str) -> None:
-    path = out / f"{name}.png"
-    window.grab().save(str(path))
-    print(path)
+class Shooter:
+    def __init__(self, app: QApplication, window: MainWindow, out: Path) -> None:
+        self.app, self.w, self.out, self.n = app, window, out, 0
+
+    def settle(self, seconds: float = 0.4) -> None:
+        """Let the solve and the background figure jobs finish, then paint."""
+        end = time.time() + seconds
+        while time.time() < end or self.w.runner.is_busy or self._jobs_busy():
+            self.app.processEvents()
+            time.sleep(0.02)
+        self.app.processEvents()
+
+    def _jobs_busy(self) -> bool:
+        panel = self.w.results_panel
+        runners = [panel.summary.runner] + [getattr(s, "runner", None) for s in panel.sections.values()]
+        return any(r is not None and r.is_busy for r in runners)
+
+    def shoot(self, name: str, widget=None) -> None:
+        self.n += 1
+        path = self.out / f"{self.n:02d}_{name}.png"
+        (widget or self.w).grab().save(str(path))
+        print(path)
+
+    def open_sample(self, name: str) -> None:
+        self.w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")  # no unsaved-changes prompt
+        self.w.commands.open(files.SAMPLES_DIR / name)
+        self.settle()
+
+    def dialog(self, name: str, trigger) -> None:
+        """Run ``trigger`` (which opens a modal dialog), grab the dialog, close it."""
+        def grab_and_close():
+            box = QApplication.activeModalWidget()
+            if box is None:
+                print(f"no dialog for {name}")
+                return
+            self.shoot(f"dialog_{name}", box)
+            box.close()
+
+        QTimer.singleShot(500, grab_and_close)
+        trigger()
+        self.settle(0.2)
 
 
-def open_sample(window, name: str) -> None:
-    window.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")  # no unsaved-changes prompt
-    window.commands.open(files.SAMPLES_DIR / name)
-
-
-def draw_busbars_by_mouse(app, w, out: Path) -> None:
-    """A new drawing made the way a person makes it: mouse on the canvas, numbers typed."""
-    from PySide6.QtCore import QPointF, Qt
-    from PySide6.QtTest import QTest
-
-    def px(x, y):
-        return w.canvas.mapFromScene(w.canvas.plotItem.vb.mapViewToScene(QPointF(x, y)))
-
-    def drag(a, b):
-        vp = w.canvas.viewport()
-        QTest.mousePress(vp, Qt.LeftButton, Qt.NoModifier, px(*a))
-        QTest.mouseMove(vp, px(*b))
-        QTest.mouseRelease(vp, Qt.LeftButton, Qt.NoModifier, px(*b))
-
-    def type_into(key, text):
-        w.properties.fields[key].setText(text)
-        w.properties.fields[key].editingFinished.emit()
-
-    w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")
-    w.commands.new()
-    w.auto_solve = False
-    settle(app, w, 0.2)
-    w.canvas.set_tool("ground plane")
-    QTest.mouseClick(w.canvas.viewport(), Qt.LeftButton, Qt.NoModifier, px(0, 0))
-    w.canvas.set_tool("rectangle")
-    drag((-30, 10), (-20, 40))
-    type_into("potential", "10000")
-    type_into("corner_radius", "2")
-    type_into("name", "phase A")
-    w.canvas.set_tool("rectangle")
-    drag((20, 10), (30, 40))
-    type_into("potential", "-10000")
-    type_into("corner_radius", "2")
-    type_into("name", "phase B")
-    w.canvas.set_tool("pick")
-    w.canvas.fit_view()
-    settle(app, w, 0.2)
-    shoot(w, out, "00a_busbars_drawn_by_mouse")
-    w.solve()
-    settle(app, w)
-    w.layer_boxes["field lines"].setChecked(True)
-    settle(app, w, 0.1)
-    shoot(w, out, "00b_busbars_drawn_by_mouse_solved")
-    w.layer_boxes["field lines"].setChecked(False)
-    w.auto_solve = True
-
-
-def main() -> None:
-    out = Path(sys.argv[1]) if len(sys.argv) > 1 else ROOT / "screenshots"
+def run(out: Path, width: int, height: int) -> None:
     out.mkdir(parents=True, exist_ok=True)
     app = QApplication.instance() or QApplication([])
     settings = QSettings(str(Path(tempfile.mkdtemp()) / "s.ini"), QSettings.IniFormat)
     w = MainWindow(settings)
-    w.resize(1600, 1000)
     w.show()
-    draw_busbars_by_mouse(app, w, out)
-    open_sample(w, "busbar_enclosure.json")
-    settle(app, w)
-    shoot(w, out, "01_busbars_potential")
-    for i, shading in enumerate(("field strength", "field strength (log)"), start=2):
+    w.setGeometry(0, 0, width, height)
+    s0 = time.time()
+    while time.time() - s0 < 0.3:
+        app.processEvents()
+    w.fit_results_width()
+    s = Shooter(app, w, out)
+    s.settle(0.5)
+    s.shoot("empty_drawing")
+
+    for name in SAMPLES:
+        s.open_sample(name)
+        s.shoot(f"sample_{Path(name).stem}")
+
+    s.open_sample("busbar_enclosure.json")
+    for title in w.results_panel.section_titles():
+        w.results_panel.show_section(title)
+        s.settle(0.5)
+        s.shoot(f"section_{title.replace(' ', '_').replace('-', '').lower()}")
+    for shading in ("field strength", "field strength (log)", "none"):
         w.shading_combo.setCurrentText(shading)
-        settle(app, w, 0.1)
-        shoot(w, out, f"0{i}_busbars_{shading.replace(' ', '_').replace('(', '').replace(')', '')}")
-    w.shading_combo.setCurrentText("none")
-    w.layer_boxes["equipotentials"].setChecked(False)
+        s.settle(0.2)
+        s.shoot(f"busbar_shading_{shading.replace(' ', '_').replace('(', '').replace(')', '')}")
+    w.shading_combo.setCurrentText("potential")
     w.layer_boxes["field lines"].setChecked(True)
     w.layer_boxes["surface charge"].setChecked(True)
-    settle(app, w, 0.1)
-    shoot(w, out, "04_busbars_field_lines_and_surface_charge")
-    w.shading_combo.setCurrentText("potential")
-    w.layer_boxes["equipotentials"].setChecked(True)
+    s.settle(0.2)
+    s.shoot("busbar_field_lines_and_surface_charge")
     w.layer_boxes["field lines"].setChecked(False)
     w.layer_boxes["surface charge"].setChecked(False)
+    w.canvas.show_probe((-100.0, 50.0), (100.0, 50.0))
+    w._on_probe_drawn((-100.0, 50.0), (100.0, 50.0))
+    s.settle(0.2)
+    s.shoot("busbar_probe_line")
 
-    w.results_panel.show_section("Charge along boundary")
-    w.results_panel.boundary.pick_at(60.0, 0.0)
-    settle(app, w, 0.1)
-    shoot(w, out, "05_charge_along_boundary")
-    w.canvas.show_probe((-40.0, 40.0), (40.0, 40.0))
-    w._on_probe_drawn((-40.0, 40.0), (40.0, 40.0))
-    settle(app, w, 0.1)
-    shoot(w, out, "06_probe_line")
-    w.results_panel.show_section("High voltage")
-    settle(app, w, 0.1)
-    shoot(w, out, "07_high_voltage")
-    w.results_panel.show_section("Limits of 2-D")
-    w.document.apply(edits.set_extra(w.document.model, "part_length", 1200.0), "Part length")
-    settle(app, w, 0.1)
-    shoot(w, out, "08_limits_of_2d")
-
-    from app.files.report import report_preview
-
-    report_preview(w.results, w.canvas.grab().toImage(), "busbar_enclosure.json",
-                   settings_model=w.document.model).save(str(out / "08b_report_page.png"))
-    w.commands.export_report(out / "busbar_report.pdf")
-    open_sample(w, "hv_electrode_over_earth.json")
-    settle(app, w)
-    w.results_panel.show_section("Numbers")
-    shoot(w, out, "09_hv_electrode")
-    # the same electrode at a higher potential: the caution strip appears above the drawing
-    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=400e3), "Potential")
-    hv = w.results_panel.high_voltage
-    hv.altitude_edit.setText("1500")
-    hv.altitude_edit.editingFinished.emit()
+    # a high-voltage verdict that must catch the eye, its details, and the drawing out of date
+    s.open_sample("hv_electrode_over_earth.json")
+    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=700e3), "Potential")
     w.solve()
-    settle(app, w)
+    s.settle()
+    s.shoot("hv_electrode_700kV_caution")
+    w.results_panel.summary.caution.details_button.setChecked(True)
+    w.results_panel.summary.show_where.emit()
+    s.settle(0.2)
+    s.shoot("hv_electrode_caution_details_and_place")
+    w.results_panel.summary.caution.details_button.setChecked(False)
     w.results_panel.show_section("High voltage")
-    shoot(w, out, "09b_hv_electrode_caution")
+    s.settle(1.0)
+    s.shoot("hv_electrode_high_voltage_section")
+    w.auto_solve = False
+    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=300e3), "Potential")
+    s.settle(0.2)
+    s.shoot("hv_electrode_out_of_date")
+    w.auto_solve = True
 
-    open_sample(w, "three_traces_over_ground.json")
-    settle(app, w)
-    w.layer_boxes["field lines"].setChecked(True)
-    settle(app, w, 0.1)
-    shoot(w, out, "10_three_traces_numbers")
-    w.layer_boxes["field lines"].setChecked(False)
-
-    open_sample(w, "shielded_three_core_cable.json")
-    settle(app, w)
-    w.shading_combo.setCurrentText("field strength (log)")
-    w.layer_boxes["equipotentials"].setChecked(False)
-    settle(app, w, 0.1)
-    shoot(w, out, "13_cable_with_dielectrics_log_field")
-    w.shading_combo.setCurrentText("potential")
-    w.layer_boxes["equipotentials"].setChecked(True)
-    open_sample(w, "three_traces_over_ground.json")
-    settle(app, w)
-
-    model, ref = edits.add_conductor(w.document.model, shapes.translated(
-        edits.shape_of(w.document.model, PartRef("conductor", 0, 0)), 0.05, 0.0))
-    w.document.apply(model, "Overlap")
-    w.document.select(ref)
-    w.solve()
-    settle(app, w)
-    shoot(w, out, "11_solver_error_next_to_part")
-    w.document.undo()
-    w.document.select(PartRef("conductor", 0, 0))
-    settle(app, w)
-    shoot(w, out, "12_selected_part_with_handles")
+    # dialogs: the ones the program opens itself, then every action of the Help menu
+    s.dialog("mouse_and_keys", w.commands.show_keys)
+    w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=200e3), "Potential")
+    s.dialog("unsaved_changes", w.commands.maybe_save)
+    broken = Path(tempfile.mkdtemp()) / "broken.json"
+    broken.write_text("{not json", encoding="utf-8")
+    w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")  # so that Open goes straight to the file
+    s.dialog("cannot_open", lambda: w.commands.open(broken))
+    for menu_action in w.menuBar().actions():
+        if menu_action.text().replace("&", "") == "Help" and menu_action.menu() is not None:
+            for action in menu_action.menu().actions():
+                if action.text() and not action.isSeparator():
+                    label = action.text().replace("&", "").replace("…", "").replace(" ", "_").lower()
+                    s.dialog(f"help_{label}", action.trigger)
     w.document.mark_saved(Path(tempfile.mkdtemp()) / "x.json")
     w.close()
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("out", nargs="?", default=str(ROOT / "screenshots"))
+    parser.add_argument("--size", default="1366x768", help="window size, WIDTHxHEIGHT (default 1366x768)")
+    args = parser.parse_args()
+    width, height = (int(v) for v in args.size.lower().split("x"))
+    run(Path(args.out) / f"{width}x{height}", width, height)
 
 
 if __name__ == "__main__":

@@ -14,11 +14,13 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
 from shapely.geometry import Point
 
-from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item
+from app import colours
+from app.canvas.drawing import cosmetic_pen, dielectric_item, shape_item, style_axes
 from app.canvas.error_marks import ErrorMarks
 from app.canvas.overlays import Overlays
 from app.canvas.tools import TOOLS, PickTool
 from app.document import PartRef
+from app.framing import framing_box
 from solver import DRAWING_ARC_STEP_RAD
 
 pg.setConfigOptions(imageAxisOrder="row-major", antialias=True)
@@ -58,16 +60,17 @@ class Canvas(pg.PlotWidget):
         self.plotItem.setAspectLocked(True)
         self.plotItem.showGrid(x=True, y=True, alpha=0.18)
         self.plotItem.hideButtons()
-        for side in ("bottom", "left"):
-            self.plotItem.getAxis(side).enableAutoSIPrefix(False)
+        style_axes(self.plotItem)
         self.plotItem.setMenuEnabled(False)
         self._part_items: list = []
         self._preview_item = None
         self._plane_preview = None
-        self._handles = pg.ScatterPlotItem(symbol="s", size=9, pen=pg.mkPen("#111"), brush=pg.mkBrush("#ffffff"))
+        self._handles = pg.ScatterPlotItem(symbol="s", size=9, pen=pg.mkPen(colours.SELECTION),
+                                            brush=pg.mkBrush(colours.PAGE))
         self._handles.setZValue(50)
         self.addItem(self._handles)
-        self._probe = pg.PlotDataItem(pen=pg.mkPen("#000000", width=2, style=Qt.DashLine))
+        self._probe = pg.PlotDataItem(pen=pg.mkPen(colours.PROBE, width=1.2), symbol=["o", "s"], symbolSize=8,
+                                      symbolPen=pg.mkPen(colours.PAGE), symbolBrush=pg.mkBrush(colours.PROBE))
         self._probe.setZValue(40)
         self.addItem(self._probe)
         self.overlays = Overlays(self.plotItem)
@@ -89,10 +92,38 @@ class Canvas(pg.PlotWidget):
         self.plotItem.setLabel("left", f"y ({unit})")
 
     def fit_view(self) -> None:
+        """Frame the conductors and the dielectrics around them (:func:`framing_box`)."""
         from app.jobs.results import view_box
 
-        x0, y0, x1, y1 = view_box(self.document.model, 0.2)
-        self.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
+        box = framing_box(self.document.model) or view_box(self.document.model, 0.2)
+        x0, y0, x1, y1 = box
+        self.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.0)
+
+    def bring_into_view(self, x: float, y: float, box=None) -> None:
+        """Pan so that the point is in view, or that ``box`` (xmin, ymin, xmax, ymax) is when none of
+        it is (zooming out only when the box is larger than the view)."""
+        (vx0, vx1), (vy0, vy1) = self.plotItem.vb.viewRange()
+        bx0, by0, bx1, by1 = box if box is not None else (x, y, x, y)
+        overlaps = bx0 <= vx1 and bx1 >= vx0 and by0 <= vy1 and by1 >= vy0
+        inside = vx0 < bx0 and bx1 < vx1 and vy0 < by0 and by1 < vy1
+        if inside if box is None else overlaps:
+            return  # a box partly in view, or a point in view, stays where it is
+        cx, cy = 0.5 * (bx0 + bx1), 0.5 * (by0 + by1)
+        w, h = max(vx1 - vx0, 1.2 * (bx1 - bx0)), max(vy1 - vy0, 1.2 * (by1 - by0))
+        self.plotItem.vb.setRange(xRange=(cx - w / 2, cx + w / 2), yRange=(cy - h / 2, cy + h / 2), padding=0.0)
+
+    def follow_selection(self) -> None:
+        """Bring the selected part into view when an edit (typed coordinates) moved it out."""
+        ref = self.document.selection
+        if ref is None or ref.kind == "plane" or self._mouse_down:
+            return
+        from app.edits import shape_of
+
+        try:
+            box = shape_of(self.document.model, ref).bounds()
+        except (IndexError, AttributeError):
+            return
+        self.bring_into_view(0.0, 0.0, box)
 
     def showEvent(self, event) -> None:
         super().showEvent(event)
@@ -131,24 +162,26 @@ class Canvas(pg.PlotWidget):
             for j, s in enumerate(d.shapes):
                 item = dielectric_item(s, d.eps_r, f"Dielectric '{d.name}', shape {j + 1} ({s.kind})")
                 if selected == PartRef("dielectric", i, j):
-                    item.setPen(cosmetic_pen("#111111", 2.5))
+                    item.setPen(cosmetic_pen(colours.SELECTION, 2.5))
                 self._add_part(item, 5)
         for i, c in enumerate(model.conductors):
             for j, s in enumerate(c.shapes):
                 sel = selected == PartRef("conductor", i, j)
-                self._add_part(shape_item(s, c.color or "#808080", selected=sel,
+                self._add_part(shape_item(s, colours.display_colour(c, i), selected=sel,
                                           where=f"Conductor '{c.name}', shape {j + 1} ({s.kind})"), 20)
         if model.ground_plane is not None:
             sel = selected == PartRef("plane")
             line = pg.InfiniteLine(pos=model.ground_plane.y, angle=0,
-                                   pen=cosmetic_pen("#111111" if sel else "#4d4d4d", 4 if sel else 3))
+                                   pen=cosmetic_pen(colours.SELECTION if sel else colours.EARTH, 4 if sel else 3))
             below = pg.LinearRegionItem(values=(model.ground_plane.y - 1e6, model.ground_plane.y),
                                         orientation="horizontal", movable=False,
-                                        brush=pg.mkBrush(120, 120, 120, 60), pen=pg.mkPen(None))
-            pg.InfLineLabel(line, text="ground plane, 0 V", position=0.15, color="#333333", anchors=[(0, 1), (0, 1)])  # child of line
+                                        brush=pg.mkBrush(*colours.EARTH_FILL), pen=pg.mkPen(None))
+            pg.InfLineLabel(line, text="ground plane, 0 V", position=0.08, color=colours.TEXT,
+                            anchors=[(0, 1), (0, 1)])  # child of line
             self._add_part(below, 4)
             self._add_part(line, 21)
         self._update_handles()
+        self.follow_selection()
 
     def _add_part(self, item, z: float) -> None:
         item.setZValue(z)
@@ -223,11 +256,11 @@ class Canvas(pg.PlotWidget):
                 self.plotItem.removeItem(item)
         self._preview_item = self._plane_preview = None
         if shape is not None:
-            self._preview_item = shape_item(shape, "#777777", alpha=60, dashed=True)
+            self._preview_item = shape_item(shape, colours.PREVIEW, alpha=60, dashed=True)
             self._preview_item.setZValue(60)
             self.plotItem.addItem(self._preview_item)
         if plane_y is not None:
-            self._plane_preview = pg.InfiniteLine(pos=plane_y, angle=0, pen=cosmetic_pen("#777777", 2, Qt.DashLine))
+            self._plane_preview = pg.InfiniteLine(pos=plane_y, angle=0, pen=cosmetic_pen(colours.PREVIEW, 2, Qt.DashLine))
             self.plotItem.addItem(self._plane_preview)
 
     def show_probe(self, a, b) -> None:

@@ -1,20 +1,20 @@
-"""Qt painter paths and items for model shapes, in model units."""
+"""Qt painter paths and items for model shapes, in model units.
+
+Colours come from :mod:`app.colours` (one table, one meaning per colour).
+"""
 
 from __future__ import annotations
-
-import math
 
 from PySide6.QtCore import QPointF, Qt
 from PySide6.QtGui import QBrush, QColor, QPainterPath, QPen
 from PySide6.QtWidgets import QGraphicsPathItem
 
+from app import colours
 from solver import Shape
 
-#: Fill colours of dielectric regions, from eps_r = 1 (lightest) upwards.
-DIELECTRIC_TINT = QColor(214, 196, 120)
-
 #: Outline colour of a shape the solver rejects.
-INVALID_COLOR = QColor("#d00000")
+INVALID_COLOR = QColor(colours.INVALID)
+
 
 
 def shape_path(shape: Shape) -> QPainterPath:
@@ -50,7 +50,7 @@ def mark_if_invalid(item: QGraphicsPathItem, shape: Shape, where: str | None = N
     return problem
 
 
-def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int = 150,
+def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int = 235,
                dashed: bool = False, where: str | None = None) -> QGraphicsPathItem:
     """A filled, outlined item for a conductor shape (strips drawn as thick lines).
 
@@ -61,9 +61,9 @@ def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int =
     base = QColor(color)
     strip = not shape.is_solid
     width = 4.0 if strip else (2.5 if selected else 1.5)
-    outline = QColor("#111111") if selected else base.darker(150)
+    outline = QColor(colours.SELECTION) if selected else base.darker(170)
     if strip:
-        outline = base if not selected else QColor("#111111")
+        outline = base if not selected else QColor(colours.SELECTION)
     item.setPen(cosmetic_pen(outline, width, Qt.DashLine if dashed else Qt.SolidLine))
     if not strip:
         fill = QColor(base)
@@ -74,12 +74,22 @@ def shape_item(shape: Shape, color: str, *, selected: bool = False, alpha: int =
 
 
 def dielectric_item(shape: Shape, eps_r: float, where: str | None = None) -> QGraphicsPathItem:
-    """A plain fill for a dielectric region, darker for higher relative permittivity (marked
-    like :func:`shape_item` when invalid)."""
+    """A dielectric region as a dark outline and a light hatch over the map (no fill that would
+    tint the shading); eps_r in its tooltip. Marked like :func:`shape_item` when invalid."""
     item = QGraphicsPathItem(shape_path(shape))
-    fill = QColor(DIELECTRIC_TINT)
-    fill.setAlpha(int(min(60 + 25 * math.log2(max(eps_r, 1.0)), 200)))
-    item.setBrush(QBrush(fill))
-    item.setPen(cosmetic_pen(DIELECTRIC_TINT.darker(160), 1.0, Qt.DashLine))
+    brush = QBrush(QColor(*colours.DIELECTRIC_HATCH), Qt.BDiagPattern)
+    item.setBrush(brush)
+    item.setPen(cosmetic_pen(colours.DIELECTRIC_OUTLINE, 1.2, Qt.DashLine))
+    item.setToolTip(f"{where or 'Dielectric'}: relative permittivity {eps_r:g}")
     mark_if_invalid(item, shape, where)
     return item
+
+
+def style_axes(plot_item) -> None:
+    """Legible axes on a pyqtgraph PlotItem: text in the palette's text colours (contrast
+    >= 4.5:1), lines in the muted one, and no automatic SI multiplier on the numbers."""
+    for side in ("left", "bottom"):
+        axis = plot_item.getAxis(side)
+        axis.setTextPen(QPen(QColor(colours.TEXT)))
+        axis.setPen(QPen(QColor(colours.TEXT_MUTED)))
+        axis.enableAutoSIPrefix(False)

@@ -1,8 +1,10 @@
-"""Result layers on the drawing area: shading with a colour bar, equipotentials, field lines,
+"""Result layers on the drawing area: shading with its colour key, equipotentials, field lines,
 surface charge density on the outlines, hot spots and a picked point.
 
-Every layer is switchable; all positions are in model units. :meth:`Overlays.set_stale` dims
-the layers when the model has changed since the solve.
+Every layer is switchable; all positions are in model units; every colour is from
+:mod:`app.colours`. The potential map is centred on 0 V (diverging), or sequential from 0 V
+when all potentials share a sign. The colour key keeps one place (:mod:`app.canvas.colour_key`).
+:meth:`Overlays.set_stale` dims the layers and the key when the model has changed since the solve.
 """
 
 from __future__ import annotations
@@ -12,13 +14,14 @@ import pyqtgraph as pg
 from PySide6.QtCore import QPointF, QRectF
 from scipy import ndimage
 
+from app import colours
+from app.canvas import labels
+from app.canvas.colour_key import ColourKey, colour_map
 from app.units import format_field, format_potential, si_scale
 
-#: Our own colour scales.
-POTENTIAL_MAP = pg.ColorMap([0.0, 0.5, 1.0], [(38, 84, 150), (240, 240, 232), (168, 50, 38)])
-FIELD_MAP = pg.ColorMap([0.0, 0.3, 0.6, 0.85, 1.0],
-                        [(250, 250, 245), (250, 222, 130), (236, 128, 44), (160, 30, 40), (50, 8, 40)])
-CHARGE_MAP = pg.ColorMap([0.0, 0.5, 1.0], [(20, 90, 200), (170, 170, 170), (215, 30, 30)])
+FIELD_MAP = colour_map(np.linspace(0.0, 1.0, len(colours.FIELD_STOPS)), colours.FIELD_STOPS)
+CHARGE_MAP = colour_map(np.linspace(0.0, 1.0, len(colours.POTENTIAL_STOPS)), colours.POTENTIAL_STOPS)
+
 
 SHADINGS = ("none", "potential", "field strength", "field strength (log)")
 
@@ -32,11 +35,15 @@ class Overlays:
         self.shading = "potential"
         self.show = {"equipotentials": True, "field lines": False, "surface charge": False, "hot spots": True}
         self._items: list = []
-        self._bars: list = []
-        self._marker = pg.ScatterPlotItem(symbol="o", size=14, pen=pg.mkPen("#000", width=2), brush=pg.mkBrush(None))
+        self.key = ColourKey(plot_item, 5)  # shading (or surface charge when there is no shading)
+        self._second_key: ColourKey | None = None  # surface charge beside the shading, when both show
+        self._marker = pg.ScatterPlotItem(symbol="o", size=18, pen=pg.mkPen(colours.SELECTION, width=2.5),
+                                          brush=pg.mkBrush(None))
         self._marker.setZValue(90)
         self.plot.addItem(self._marker)
         self.stale = False
+        self._label_boxes: list = []
+        self._mask: labels.PartMask | None = None
 
     # ---- public ----------------------------------------------------------------------------
     def set_results(self, results) -> None:
@@ -62,6 +69,9 @@ class Overlays:
         self.stale = stale
         for item in self._items:
             item.setOpacity(0.3 if stale else 1.0)
+        for key in (self.key, self._second_key):
+            if key is not None:
+                key.set_stale(stale)
 
     def mark_point(self, xy) -> None:
         self._marker.setData([xy[0]], [xy[1]])
@@ -78,76 +88,87 @@ class Overlays:
     def redraw(self) -> None:
         for item in self._items:
             self.plot.removeItem(item)
-        for bar in self._bars:
-            self.plot.layout.removeItem(bar)
-            if bar.scene() is not None:
-                bar.scene().removeItem(bar)
-        self._items, self._bars = [], []
+        self._items = []
+        self.key.blank()
+        if self._second_key is not None:
+            self.plot.layout.removeItem(self._second_key.bar)
+            if self._second_key.bar.scene() is not None:
+                self._second_key.bar.scene().removeItem(self._second_key.bar)
+            self._second_key = None
+        self._label_boxes: list = []  # labels placed so far, kept apart (app.canvas.labels)
         r = self.results
         if r is None:
             return
         scale = r.model.metres_per_unit
+        self._mask = None if r.grid is None else labels.PartMask(
+            r.grid.x_m / scale, r.grid.y_m / scale, ~np.isfinite(r.grid.potential_V))
         if r.grid is not None and self.shading != "none":
             self._draw_shading(r.grid, scale)
+        if self.show["hot spots"]:  # first: their labels matter most, the others keep clear of them
+            self._draw_hot_spots(r, scale)
         if r.grid is not None and self.show["equipotentials"]:
             self._draw_equipotentials(r.grid, scale)
         if self.show["field lines"]:
             self._draw_field_lines(r, scale)
         if self.show["surface charge"]:
             self._draw_surface_charge(r, scale)
-        if self.show["hot spots"]:
-            self._draw_hot_spots(r, scale)
         self.set_stale(self.stale)
 
-    def _colour_bar(self, values, cmap, label: str, column: int, ticks=None) -> pg.ColorBarItem:
-        lo, hi = values
-        if not hi > lo:
-            hi = lo + 1.0
-        bar = pg.ColorBarItem(values=(lo, hi), colorMap=cmap, label=label, interactive=False, width=14)
-        if ticks is not None:
-            bar.axis.setTicks([ticks])
-            bar.axis.setWidth(70)
-        self.plot.layout.addItem(bar, 2, column)
-        self._bars.append(bar)
-        return bar
+    def _units_per_pixel(self) -> tuple[float, float]:
+        """Model units per screen pixel, across and up, in the current view."""
+        (v0, v1), (w0, w1) = self.plot.vb.viewRange()
+        return (v1 - v0) / max(self.plot.vb.width(), 1.0), (w1 - w0) / max(self.plot.vb.height(), 1.0)
+
+    def _key_for(self, layer: str) -> ColourKey:
+        """The fixed key for the shading; surface charge takes it when there is no shading."""
+        if layer == "shading" or not self.key.shown:
+            return self.key
+        self._second_key = ColourKey(self.plot, 6)
+        return self._second_key
 
     def _draw_shading(self, grid, scale: float) -> None:
         x, y = grid.x_m / scale, grid.y_m / scale
         dx, dy = x[1] - x[0], y[1] - y[0]
+        ticks = None
         if self.shading == "potential":
-            data, cmap = grid.potential_V, POTENTIAL_MAP
-            factor, prefix = si_scale(np.nanmax(np.abs(data)) if np.isfinite(data).any() else 1.0)
-            data = data / factor
-            label, ticks = f"potential ({prefix}V)", None
+            data = grid.potential_V
+            if not np.isfinite(data).any():
+                return
+            potentials = [float(v) for v in self.results.solution.conductor_potentials_V] + [0.0]
+            lo_v = min(potentials + [float(np.nanmin(data))])
+            hi_v = max(potentials + [float(np.nanmax(data))])
+            positions, stops, lo_v, hi_v = colours.potential_stops(lo_v, hi_v)
+            factor, prefix = si_scale(max(abs(lo_v), abs(hi_v)))
+            data, lo, hi = data / factor, lo_v / factor, hi_v / factor
+            cmap = colour_map(positions, stops)
+            label = f"potential ({prefix}V), 0 V neutral"
         else:
             e = grid.field_V_per_m
             cmap = FIELD_MAP
+            if not np.isfinite(e).any():
+                return
             if self.shading == "field strength (log)":
                 data = np.log10(np.where(e > 0, e, np.nan))
-                hi = np.nanmax(data)
-                lo = max(np.nanmin(data), hi - 3.0)  # three decades; weaker fields share the lightest colour
+                hi = float(np.nanmax(data))
+                lo = max(float(np.nanmin(data)), hi - 3.0)  # three decades; weaker fields share the lightest colour
                 data = np.clip(data, lo, None)
-                ticks = [(float(np.log10(m * 10.0 ** k)), format_field(m * 10.0 ** k))
-                         for k in range(int(np.floor(lo)), int(np.ceil(hi)) + 1) for m in (1, 2, 5)
-                         if lo <= np.log10(m * 10.0 ** k) <= hi]
+                marks = [m * 10.0 ** k for k in range(int(np.floor(lo)), int(np.ceil(hi)) + 1) for m in (1, 2, 5)]
+                marks = [v for v in marks if lo <= np.log10(v) <= hi]
+                if len(marks) > 7:
+                    marks = [v for v in marks if f"{v:.0e}".startswith("1")]
+                ticks = [(float(np.log10(v)), format_field(v)) for v in marks]
                 label = "field strength |E| (log scale, three decades)"
             else:
-                factor, prefix = si_scale(np.nanmax(e) if np.isfinite(e).any() else 1.0)
-                data, ticks = e / factor, None
-                label = f"field strength |E| ({prefix}V/m); darkest = 99.5th percentile and above"
-        finite = data[np.isfinite(data)]
-        if finite.size == 0:
-            return
-        lo, hi = float(finite.min()), float(finite.max())
-        if self.shading == "field strength":
-            lo = 0.0
-            hi = float(np.percentile(finite, 99.5))  # corners would wash out the rest of the map
+                top = float(np.percentile(e[np.isfinite(e)], 99.5))  # corners would wash out the rest of the map
+                factor, prefix = si_scale(top or 1.0)
+                data, lo, hi = e / factor, 0.0, top / factor
+                label = f"|E| ({prefix}V/m); darkest: 99.5th percentile and above"
         img = pg.ImageItem(data)
         img.setRect(QRectF(x[0] - dx / 2, y[0] - dy / 2, dx * len(x), dy * len(y)))
         img.setColorMap(cmap)
         img.setLevels((lo, hi if hi > lo else lo + 1.0))
         self._add(img, 1)
-        self._colour_bar((lo, hi), cmap, label, 5, ticks)
+        self._key_for("shading").show(lo, hi, cmap, label, ticks)
 
     def _draw_equipotentials(self, grid, scale: float, n_levels: int = 9) -> None:
         phi = grid.potential_V
@@ -167,9 +188,8 @@ class Overlays:
         levels = lo + (hi - lo) * (np.arange(1, n_levels + 1) / (n_levels + 1))
         x, y = grid.x_m / scale, grid.y_m / scale
         dx, dy = x[1] - x[0], y[1] - y[0]
-        pen = pg.mkPen((30, 30, 30, 200), width=1)
-        min_gap = 0.06 * max(x[-1] - x[0], y[-1] - y[0])  # keep labels apart
-        placed: list[tuple[float, float]] = []
+        pen = pg.mkPen(colours.EQUIPOTENTIAL, width=1)
+        px, py = self._units_per_pixel()
         for k, level in enumerate(levels):
             longest = None
             for line in pg.functions.isocurve(phi, level, connected=True):
@@ -189,18 +209,20 @@ class Overlays:
                 continue
             n = len(longest[0])
             for t in ((0.5 + 0.382 * k + 0.05 * j) % 1.0 for j in range(20)):
-                px, py = longest[0][int(t * (n - 1))], longest[1][int(t * (n - 1))]
-                if not (np.isfinite(px) and np.isfinite(py)):
+                lx, ly = longest[0][int(t * (n - 1))], longest[1][int(t * (n - 1))]
+                if not (np.isfinite(lx) and np.isfinite(ly)):
                     continue
-                row = int(np.clip(round((py - y[0]) / dy), 0, len(y) - 1))
-                col = int(np.clip(round((px - x[0]) / dx), 0, len(x) - 1))
+                row = int(np.clip(round((ly - y[0]) / dy), 0, len(y) - 1))
+                col = int(np.clip(round((lx - x[0]) / dx), 0, len(x) - 1))
                 if near_part[row, col]:
                     continue
-                if all(np.hypot(px - qx, py - qy) >= min_gap for qx, qy in placed):
-                    placed.append((px, py))
-                    label = pg.TextItem(format_potential(level), color="#202020", anchor=(0.5, 0.5),
-                                        fill=pg.mkBrush(255, 255, 255, 170))
-                    label.setPos(QPointF(px, py))
+                text = format_potential(level).replace("-", "−")
+                box = labels.centred_box(lx, ly, *labels.label_size(text, px, py))
+                if not any(labels.overlap(box, other) for other in self._label_boxes) and not self._mask.covers(box):
+                    self._label_boxes.append(box)
+                    label = pg.TextItem(text, color=colours.TEXT, anchor=(0.5, 0.5),
+                                        fill=pg.mkBrush(*colours.LABEL_FILL))
+                    label.setPos(QPointF(lx, ly))
                     self._add(label, 11)
                     break
 
@@ -210,7 +232,7 @@ class Overlays:
         xs = np.concatenate([line.points_m[:, 0] for line in r.field_lines]) / scale
         ys = np.concatenate([line.points_m[:, 1] for line in r.field_lines]) / scale
         connect = np.concatenate([np.r_[np.ones(len(line.points_m) - 1), 0] for line in r.field_lines])
-        self._add(pg.PlotCurveItem(xs, ys, connect=connect.astype(bool), pen=pg.mkPen((20, 60, 20), width=1.3)), 12)
+        self._add(pg.PlotCurveItem(xs, ys, connect=connect.astype(bool), pen=pg.mkPen(colours.FIELD_LINE, width=1.2)), 12)
 
     def _draw_surface_charge(self, r, scale: float, n_bins: int = 48) -> None:
         mesh, sigma = r.solution.mesh, r.solution.surface_charge_density_C_per_m2
@@ -225,7 +247,7 @@ class Overlays:
             y = np.column_stack([mesh.starts[sel, 1], mesh.ends[sel, 1]]).ravel() / scale
             color = CHARGE_MAP.map((b + 0.5) / n_bins, mode="qcolor")
             self._add(pg.PlotCurveItem(x, y, connect="pairs", pen=pg.mkPen(color, width=5)), 30)
-        self._colour_bar((-limit, limit), CHARGE_MAP, f"surface charge density ({prefix}C/m²)", 6)
+        self._key_for("surface charge").show(-limit, limit, CHARGE_MAP, f"surface charge density ({prefix}C/m²)")
 
     def _draw_hot_spots(self, r, scale: float) -> None:
         peaks = r.solution.peak_surface_fields
@@ -234,22 +256,21 @@ class Overlays:
         top = max(p.field_V_per_m for p in peaks)
         xs = [p.location_m[0] / scale for p in peaks]
         ys = [p.location_m[1] / scale for p in peaks]
-        self._add(pg.ScatterPlotItem(xs, ys, symbol="star", size=16, pen=pg.mkPen("#000"),
-                                     brush=pg.mkBrush(255, 215, 0)), 35)
-        centre = 0.5 * (min(xs) + max(xs))
-        (v0, v1), _ = self.plot.vb.viewRange()
-        room = 0.3 * (v1 - v0)  # about the width of a label
-        for p, x, y in zip(peaks, xs, ys):
-            text = f"{p.conductor}: {format_field(p.field_V_per_m)}"
-            if p.at_sharp_corner:
-                text += " (sharp corner)"
+        self._add(pg.ScatterPlotItem(xs, ys, symbol="star", size=17, pen=pg.mkPen(colours.HOT_SPOT_RIM, width=1.5),
+                                     brush=pg.mkBrush(colours.HOT_SPOT_FILL)), 35)
+        (v0, v1), (w0, w1) = self.plot.vb.viewRange()
+        px, py = self._units_per_pixel()
+        order = sorted(range(len(peaks)), key=lambda k: -peaks[k].field_V_per_m)
+        for k in order:
+            p, x, y = peaks[k], xs[k], ys[k]
+            text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")
+            w, h = labels.label_size(text, px, py)
+            anchor, box = labels.free_place(x, y, w, h, 10 * px, 10 * py, self._label_boxes, (v0, v1, w0, w1),
+                                            self._mask)
+            self._label_boxes.append(box)
             bold = p.field_V_per_m == top
-            outward_left = x < centre
-            if outward_left and x - room < v0:
-                outward_left = False
-            elif not outward_left and x + room > v1:
-                outward_left = True
-            label = pg.TextItem(text, color="#000000", anchor=(1.0 if outward_left else 0.0, 1.1),
-                                fill=pg.mkBrush(255, 250, 205, 230), border=pg.mkPen("#8a6d00" if bold else "#bbbbbb"))
-            label.setPos(QPointF(x, y))
+            label = pg.TextItem(text, color=colours.TEXT, anchor=anchor, fill=pg.mkBrush(*colours.LABEL_FILL),
+                                border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
+            label.setPos(QPointF(*labels.anchor_point(box, anchor)))
             self._add(label, 36)
+

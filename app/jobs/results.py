@@ -20,6 +20,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 import solver
+from app.framing import framing_box
 from solver import GridField, Model, Solution, SolveCancelled
 
 logger = logging.getLogger(__name__)
@@ -62,8 +63,15 @@ def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, f
 
 
 def grid_axes(model: Model, n_long: int = 120) -> tuple[np.ndarray, np.ndarray]:
-    """Grid abscissae and ordinates in metres covering :func:`view_box`, about ``n_long`` along the longer side."""
+    """Grid abscissae and ordinates in metres covering :func:`view_box` (at most the opening frame of
+    :func:`app.framing.framing_box` and its own size around it), about ``n_long`` along the longer side."""
     x0, y0, x1, y1 = view_box(model)
+    frame = framing_box(model)
+    if frame is not None:  # the map is sharpest where the view opens (app.framing), and reaches a frame beyond
+        fx0, fy0, fx1, fy1 = frame
+        grow = max(fx1 - fx0, fy1 - fy0)
+        x0, x1 = max(x0, fx0 - grow), min(x1, fx1 + grow)
+        y0, y1 = max(y0, fy0 - grow), min(y1, fy1 + grow)
     # widen the short side so that the map fills a roughly square drawing area
     if (x1 - x0) < (y1 - y0):
         pad = 0.5 * ((y1 - y0) - (x1 - x0))

@@ -1,14 +1,14 @@
-"""The "Hot spots" section: peak surface fields you can trust, and their margins in air.
+"""The "High voltage" section: peak surface fields you can trust, and their margins in air.
 
 When shown after a solve, :func:`solver.analyse_hot_spots` runs in the background (refining
 each conductor's peak field to 1 %); :func:`solver.assess_margins` turns the peaks into margins
 to air breakdown and Peek's corona onset in the project's air conditions (one set per project,
-saved in the file, shared with the High voltage tab, the banner and the report). Each status,
-reason and caution is the solver's verdict (:func:`solver.judge_peak`, the one caution rule).
-Sharp corners are reported as singular with their exponent; a corner radius re-runs the
-analysis with the corners rounded. The standing statement is always visible; the verdict's
-caution shows in a coloured frame when a margin is thin or exceeded or a high-voltage peak
-could not be graded. The corner-radius sweep and the equivalent radius are parts of this
+saved in the file, shared with the summary block and the report). Each status, reason and
+caution is the solver's verdict (:func:`solver.judge_peak`, the one caution rule); the verdict
+on the refined peaks goes to the summary block's caution line (``verdict_ready``), its one
+home, where the full caution and the standing statement are one click away. Sharp corners
+are reported as singular with their exponent; a corner radius re-runs the analysis with the
+corners rounded. The corner-radius sweep and the equivalent radius are parts of this
 section. No physics here.
 """
 
@@ -16,23 +16,20 @@ from __future__ import annotations
 
 import math
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import Signal
 from PySide6.QtGui import QColor
-from PySide6.QtWidgets import QFrame, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
-from app import cautions
+from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable
-from solver import HIGH_VOLTAGE_CAUTION, THIN_MARGIN
+from solver import THIN_MARGIN
 
-#: The standing part of the caution (no clearances; codes and qualified practice prevail).
-STANDING_STATEMENT = HIGH_VOLTAGE_CAUTION[HIGH_VOLTAGE_CAUTION.index("This program does not determine"):]
-STATUS_COLOURS = {"ample": "#d8efdc", "thin": "#fde9c4", "exceeded": "#f7c6c6", "not assessed": "#e4e4e4"}
-STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
+STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
 TARGET = 0.01
 
 
@@ -43,7 +40,10 @@ def _margin(value: float | None) -> str:
 
 
 class HotSpotsView(QWidget):
-    """Per-conductor peak fields, margins, the caution, the radius sweep and the equivalent radius."""
+    """Per-conductor peak fields, margins, the radius sweep and the equivalent radius; the
+    verdict on the refined peaks goes out by ``verdict_ready(solver.CautionVerdict)``."""
+
+    verdict_ready = Signal(object)
 
     def __init__(self, document=None, parent=None) -> None:
         super().__init__(parent)
@@ -67,19 +67,6 @@ class HotSpotsView(QWidget):
         layout.addWidget(self.progress)
         self.runner.job_cancelled.connect(
             lambda: None if self._stale else self._set_status("Hot-spot analysis cancelled; solve again to restart it."))
-        self.caution_frame = QFrame()
-        self.caution_frame.setObjectName("caution_frame")
-        self.caution_frame.setStyleSheet("#caution_frame { border: 3px solid #b00000; background: #fde2e2; }")
-        frame_layout = QVBoxLayout(self.caution_frame)
-        self.caution_headline = QLabel()
-        self.caution_headline.setWordWrap(True)
-        self.caution_headline.setStyleSheet("color: #8a0000; font-weight: bold; font-size: 12pt;")
-        self.caution_text = QLabel(HIGH_VOLTAGE_CAUTION)
-        self.caution_text.setWordWrap(True)
-        frame_layout.addWidget(self.caution_headline)
-        frame_layout.addWidget(self.caution_text)
-        self.caution_frame.setVisible(False)
-        layout.addWidget(self.caution_frame)
         self.table_label = QLabel("Peak surface field per conductor (crest values; margin = threshold / peak, "
                                   f"below {THIN_MARGIN:g} is thin)")
         self.table_label.setWordWrap(True)
@@ -97,10 +84,6 @@ class HotSpotsView(QWidget):
         if document is not None:
             document.events.connect("model_changed", self._on_model_changed)
             self.air_box.show_project_air(document.model)
-        self.statement = QLabel(STANDING_STATEMENT)
-        self.statement.setWordWrap(True)
-        self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
-        layout.addWidget(self.statement)
         self.sweep_part = CornerRadiusPart()
         self.radius_part = EquivalentRadiusPart()
         layout.addWidget(self.sweep_part)
@@ -129,7 +112,6 @@ class HotSpotsView(QWidget):
         self.table.fill([], [], [])
         self.table.setEnabled(True)
         self.notes.setText("")
-        self.caution_frame.setVisible(False)
         model = results.model
         self.corner_label.setText(f"corner radius ({model.unit})")
         self.air_box.show_project_air(self._project_model())
@@ -151,7 +133,7 @@ class HotSpotsView(QWidget):
                 self._pending = True
                 self.runner.cancel()
             self.status.setText(STALE_TEXT)
-            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+            self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["stale"], bold=True))
         elif self.results is not None:
             self._set_status(*self._last_status)
             if self._pending and self.isVisible():
@@ -211,7 +193,7 @@ class HotSpotsView(QWidget):
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:
-        style = "color: #7a0000; font-weight: bold;" if error else style
+        style = colours.style_sheet(colours.FRESHNESS["failed"], bold=True) if error else style
         self._last_status = (text, style)
         if self._stale:
             return
@@ -282,7 +264,10 @@ class HotSpotsView(QWidget):
         # one column per conductor, so that every figure stays in view in a narrow panel
         self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [])
         for j, status in enumerate(statuses):
-            self.table.item(len(quantities) - 1, j).setBackground(QColor(STATUS_COLOURS.get(status, "#ffffff")))
+            badge = colours.SEVERITY.get(status, colours.SEVERITY["not assessed"])
+            cell = self.table.item(len(quantities) - 1, j)
+            cell.setBackground(QColor(badge.background))
+            cell.setForeground(QColor(badge.text))
         notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
                      "potential. Fields are crest values at the model's potentials. Voltage basis: "
                      f"{m.voltage_basis.describe()}"
@@ -292,18 +277,5 @@ class HotSpotsView(QWidget):
         self._show_caution()
 
     def _show_caution(self) -> None:
-        """The solver's verdict in a coloured frame when it must catch the eye."""
-        v = self.margins.verdict
-        if v is None or not v.alarming:
-            self.caution_frame.setVisible(False)
-            return
-        colour, background = cautions.STATUS_COLOURS[v.status]
-        self.caution_text.setText(cautions.caution_body(v))
-        self._frame(v.headline, colour, background)
-
-    def _frame(self, headline: str, colour: str, background: str) -> None:
-        self.caution_frame.setStyleSheet(f"#caution_frame {{ border: 3px solid {colour}; background: {background}; }}")
-        self.caution_headline.setStyleSheet(f"color: {colour}; font-weight: bold; font-size: 12pt;")
-        self.caution_headline.setTextFormat(Qt.PlainText)
-        self.caution_headline.setText(headline)
-        self.caution_frame.setVisible(True)
+        """Hand the verdict on the refined peaks to the caution line (its one home)."""
+        self.verdict_ready.emit(self.margins.verdict)

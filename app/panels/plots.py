@@ -1,4 +1,5 @@
-"""Result plots: surface charge density along each boundary, and the probe-line profile.
+"""Result plots: surface charge density along each boundary (one row per conductor), and the
+probe-line profile. Colours from :mod:`app.colours`.
 
 Picking a point in the boundary plot emits ``panel_picked(panel_index)`` so the drawing can
 mark the place; :meth:`BoundaryPlot.mark_panel` shows a place picked on the drawing.
@@ -11,26 +12,51 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
+from app import colours
+from app.canvas.drawing import style_axes
 from app.units import si_scale
 
 
 def _plot(parent=None) -> pg.PlotWidget:
     w = pg.PlotWidget(parent, background="w")
     w.showGrid(x=True, y=True, alpha=0.2)
-    w.addLegend(offset=(10, 10))
+    style_axes(w.plotItem)
     return w
 
 
+#: A corner spike is clipped above this many times the 95th percentile of |sigma| on its conductor.
+SPIKE_CLIP = 1.6
+
+#: Opacity of plotted results that are out of date.
+STALE_OPACITY = 0.35
+
+#: At most this many conductors get a row each; more are chosen one at a time.
+MAX_ROWS = 6
+
+
+def clip_spikes(values: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
+    """(clipped values, mask of clipped points, limit): corner spikes clipped at
+    :data:`SPIKE_CLIP` x the 95th percentile of |values| so they do not flatten the rest."""
+    if values.size == 0:
+        return values, np.zeros(0, bool), 0.0
+    limit = SPIKE_CLIP * float(np.percentile(np.abs(values), 95))
+    if limit <= 0 or np.max(np.abs(values)) <= limit:
+        return values, np.zeros(values.size, bool), float(np.max(np.abs(values)))
+    return np.clip(values, -limit, limit), np.abs(values) > limit, limit
+
+
 class BoundaryPlot(QWidget):
-    """Surface charge density against distance along each conductor's boundary."""
+    """Surface charge density against distance along each conductor's boundary, one row per
+    conductor (each with its own distance axis), corner spikes clipped and marked."""
 
     panel_picked = Signal(int)
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         layout = QVBoxLayout(self)
-        note = QLabel("Surface charge density along each conductor's boundary; dashed lines mark sharp corners "
-                      "and free edges. Click a point to show it on the drawing.")
+        note = QLabel("Surface charge density along each conductor's boundary, one row per conductor. Dashed lines "
+                      "mark sharp corners and free edges; ▲/▼ mark corner spikes clipped to keep the rest "
+                      "readable. Click a point to show it on the drawing.")
         note.setWordWrap(True)
         layout.addWidget(note)
         row = QHBoxLayout()
@@ -39,17 +65,22 @@ class BoundaryPlot(QWidget):
         self.choice.currentIndexChanged.connect(self._on_choice_changed)
         row.addWidget(self.choice, 1)
         layout.addLayout(row)
-        self.plot = _plot()
-        layout.addWidget(self.plot)
+        self.plot = pg.GraphicsLayoutWidget()
+        self.plot.setBackground("w")
+        layout.addWidget(self.plot, 1)
         self.results = None
-        self._marker = pg.ScatterPlotItem(symbol="o", size=12, pen=pg.mkPen("#000", width=2), brush=pg.mkBrush(None))
+        self._marker = pg.ScatterPlotItem(symbol="o", size=12, pen=pg.mkPen(colours.SELECTION, width=2),
+                                          brush=pg.mkBrush(None))
+        self._marker_row: pg.PlotItem | None = None
         self.plot.scene().sigMouseClicked.connect(self._on_scene_clicked)
-        self._x = self._y = self._panel = np.zeros(0)
+        self.rows: list[tuple[pg.PlotItem, np.ndarray, np.ndarray, np.ndarray]] = []
         self._factor = 1.0
+        self._stale = False
 
     def show_results(self, results) -> None:
         self.results = results
-        names = ["all conductors"] + list(results.model.conductor_names)
+        names = list(results.model.conductor_names)
+        names = (["all conductors"] if len(names) <= MAX_ROWS else [f"first {MAX_ROWS} conductors"]) + names
         if [self.choice.itemText(i) for i in range(self.choice.count())] != names:
             self.choice.blockSignals(True)
             self.choice.clear()
@@ -61,37 +92,61 @@ class BoundaryPlot(QWidget):
         if self.results is not None:
             self._draw()
 
-    def _draw(self) -> None:
-        results = self.results
+    def _shown(self) -> list[int]:
         only = self.choice.currentIndex() - 1  # -1: all
-        self.plot.clear()
-        self.plot.addItem(self._marker)
-        sol, model = results.solution, results.model
+        n = len(self.results.model.conductors)
+        return [only] if only >= 0 else list(range(min(n, MAX_ROWS)))
+
+    def _draw(self) -> None:
+        sol, model = self.results.solution, self.results.model
         mesh, sigma = sol.mesh, sol.surface_charge_density_C_per_m2
         scale = model.metres_per_unit
-        self._factor, prefix = si_scale(np.max(np.abs(sigma)) or 1.0)
-        self.plot.setLabel("bottom", f"distance along boundary ({model.unit})")
-        self.plot.setLabel("left", f"surface charge density ({prefix}C/m²)")
-        xs, ys, panels = [], [], []
-        for k, c in enumerate(model.conductors):
-            if only >= 0 and k != only:
-                continue
+        self._remove_marker()
+        self.plot.clear()
+        self.rows = []
+        shown = self._shown()
+        per_conductor = {}
+        for k in shown:
             idx = np.flatnonzero(mesh.conductor_index == k)
             s = mesh.arc_length_m[idx] / scale
             order = np.argsort(s, kind="stable")
-            idx, s = idx[order], s[order]
-            # break the curve between rings so separate outlines are not joined
-            rings = mesh.ring_index[idx]
+            per_conductor[k] = (idx[order], s[order])
+        limits = [clip_spikes(sigma[idx])[2] for idx, _ in per_conductor.values()]
+        self._factor, prefix = si_scale(max(limits + [0.0]) or 1.0)
+        for r, k in enumerate(shown):
+            idx, s = per_conductor[k]
+            c = model.conductors[k]
+            colour = colours.display_colour(c, k)
+            values, clipped, _limit = clip_spikes(sigma[idx])
+            y = values / self._factor
+            item = self.plot.addPlot(row=r, col=0)
+            style_axes(item)
+            item.showGrid(x=True, y=True, alpha=0.2)
+            item.setTitle(c.name, color=colours.TEXT, size="9pt")
+            item.setLabel("left", f"σ ({prefix}C/m²)")
+            if r == len(shown) - 1:
+                item.setLabel("bottom", f"distance along boundary ({model.unit})")
+            rings = mesh.ring_index[idx]  # break the curve between rings so separate outlines are not joined
             connect = np.r_[rings[1:] == rings[:-1], False]
-            self.plot.plot(s, sigma[idx] / self._factor, pen=pg.mkPen(c.color or "#555", width=2),
-                           name=c.name, connect=connect)
-            xs.append(s), ys.append(sigma[idx] / self._factor), panels.append(idx)
+            item.plot(s, y, pen=pg.mkPen(colour, width=2), connect=connect)
+            if clipped.any():
+                up = clipped & (values > 0)
+                down = clipped & (values < 0)
+                for mask, symbol in ((up, "t1"), (down, "t")):
+                    if mask.any():
+                        item.addItem(pg.ScatterPlotItem(s[mask], y[mask], symbol=symbol, size=9,
+                                                        pen=pg.mkPen(colours.TEXT), brush=pg.mkBrush(colour)))
             for s_corner in self._corner_positions(sol, k, idx):
-                self.plot.addItem(pg.InfiniteLine(s_corner / scale, angle=90,
-                                                  pen=pg.mkPen(c.color or "#555", width=1, style=Qt.DashLine)))
-        self._x, self._y, self._panel = (np.concatenate(a) if a else np.zeros(0) for a in (xs, ys, panels))
-        self._marker.setData([], [])
-        self.plot.plotItem.vb.autoRange()
+                item.addItem(pg.InfiniteLine(s_corner / scale, angle=90,
+                                             pen=pg.mkPen(colours.TEXT_MUTED, width=1, style=Qt.DashLine)))
+            item.setOpacity(STALE_OPACITY if self._stale else 1.0)
+            self.rows.append((item, s, y, idx))
+
+    def mark_stale(self, stale: bool) -> None:
+        """Dim the curves while the drawing has changed since the solve."""
+        self._stale = stale
+        for item, *_ in self.rows:
+            item.setOpacity(STALE_OPACITY if stale else 1.0)
 
     @staticmethod
     def _corner_positions(sol, k: int, idx: np.ndarray) -> list[float]:
@@ -108,30 +163,50 @@ class BoundaryPlot(QWidget):
                 out.append(float(mesh.arc_length_m[idx[i_e]] + 0.5 * mesh.lengths[idx[i_e]]))
         return out
 
+    def _remove_marker(self) -> None:
+        if self._marker_row is not None:
+            self._marker_row.removeItem(self._marker)
+            self._marker_row = None
+
+    def _mark(self, row: int, i: int) -> None:
+        item, s, y, _ = self.rows[row]
+        if self._marker_row is not item:
+            self._remove_marker()
+            item.addItem(self._marker)
+            self._marker_row = item
+        self._marker.setData([s[i]], [y[i]])
+
     def mark_panel(self, panel: int) -> None:
         """Show the place of boundary panel ``panel`` (switching to its conductor if hidden)."""
-        hit = np.flatnonzero(self._panel == panel)
-        if not hit.size and self.results is not None:
-            self.choice.setCurrentIndex(int(self.results.solution.mesh.conductor_index[panel]) + 1)
-            hit = np.flatnonzero(self._panel == panel)
-        if hit.size:
-            i = int(hit[0])
-            self._marker.setData([self._x[i]], [self._y[i]])
+        if self.results is None:
+            return
+        k = int(self.results.solution.mesh.conductor_index[panel])
+        if k not in self._shown():
+            self.choice.setCurrentIndex(k + 1)
+        for r, (_item, _s, _y, idx) in enumerate(self.rows):
+            hit = np.flatnonzero(idx == panel)
+            if hit.size:
+                self._mark(r, int(hit[0]))
+                return
 
     def _on_scene_clicked(self, event) -> None:
-        if self.results is None or self._x.size == 0:
-            return
-        p = self.plot.plotItem.vb.mapSceneToView(event.scenePos())
-        self.pick_at(p.x(), p.y())
+        for r, (item, _s, _y, _idx) in enumerate(self.rows):
+            if item.sceneBoundingRect().contains(event.scenePos()):
+                p = item.vb.mapSceneToView(event.scenePos())
+                self.pick_at(p.x(), p.y(), r)
+                return
 
-    def pick_at(self, x: float, y: float) -> int | None:
-        """Pick the plotted point nearest (x, y) in plot coordinates; emits ``panel_picked``."""
-        (x0, x1), (y0, y1) = self.plot.plotItem.vb.viewRange()
-        d = np.hypot((self._x - x) / (x1 - x0 or 1), (self._y - y) / (y1 - y0 or 1))
+    def pick_at(self, x: float, y: float, row: int = 0) -> int | None:
+        """Pick the point of row ``row`` nearest (x, y) in its plot coordinates; emits ``panel_picked``."""
+        if not self.rows:
+            return None
+        item, s, values, idx = self.rows[row]
+        (x0, x1), (y0, y1) = item.vb.viewRange()
+        d = np.hypot((s - x) / (x1 - x0 or 1), (values - y) / (y1 - y0 or 1))
         i = int(np.argmin(d))
-        self._marker.setData([self._x[i]], [self._y[i]])
-        self.panel_picked.emit(int(self._panel[i]))
-        return int(self._panel[i])
+        self._mark(row, i)
+        self.panel_picked.emit(int(idx[i]))
+        return int(idx[i])
 
 
 class ProbePlot(QWidget):
@@ -169,10 +244,23 @@ class ProbePlot(QWidget):
         ef, ep = si_scale(np.nanmax(field_V_per_m) if np.isfinite(field_V_per_m).any() else 1.0)
         self.potential_plot.clear()
         self.field_plot.clear()
-        self.potential_plot.plot(distance, potential_V / pf, pen=pg.mkPen("#26548f", width=2), connect="finite")
-        self.field_plot.plot(distance, field_V_per_m / ef, pen=pg.mkPen("#a03020", width=2), connect="finite")
+        self.potential_plot.plot(distance, potential_V / pf, pen=pg.mkPen(colours.POTENTIAL_CURVE, width=2), connect="finite")
+        self.field_plot.plot(distance, field_V_per_m / ef, pen=pg.mkPen(colours.FIELD_CURVE, width=2), connect="finite")
         self.potential_plot.setLabel("left", f"potential ({pp}V)")
-        self.field_plot.setLabel("left", f"field strength |E| ({ep}V/m)")
+        self.field_plot.setLabel("left", f"|E| ({ep}V/m)")
         for p in (self.potential_plot, self.field_plot):
             p.setLabel("bottom", f"distance along probe ({unit})")
         self.export_button.setEnabled(True)
+
+    def mark_stale(self, stale: bool) -> None:
+        """Dim the profile while the drawing has changed since the solve."""
+        for p in (self.potential_plot, self.field_plot):
+            p.plotItem.setOpacity(STALE_OPACITY if stale else 1.0)
+
+    def clear(self) -> None:
+        """No profile (a new drawing): nothing from the previous one stays on show."""
+        self.profile = None
+        self.potential_plot.clear()
+        self.field_plot.clear()
+        self.note.setText("Choose the Probe line tool (L) and drag a line on the drawing.")
+        self.export_button.setEnabled(False)

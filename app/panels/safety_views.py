@@ -1,4 +1,5 @@
-"""The two reading-aid tabs: what a 2-D model cannot tell, and the high-voltage caution.
+"""What a 2-D model cannot tell (the "Limits of 2-D" section), and the verdict the summary
+block shows right after a solve (:func:`caution_for`).
 
 The user's part length is kept in the model's ``extras`` and the air conditions in the
 project's ``air_conditions`` (both saved with the file). The verdict and its words are the
@@ -7,12 +8,10 @@ solver's (:func:`solver.judge_solution`); no physics here.
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidget
 
 import solver
 from app import cautions, edits
-from app.panels.air_conditions_box import AirConditionsBox
 from app.units import format_si
 
 PART_LENGTH_KEY = "part_length"
@@ -102,64 +101,3 @@ class CaveatsView(QWidget):
             self.verdict.setText(f"Not applied: '{text}' is not a positive length.")
             return
         self.document.apply(edits.set_extra(self.document.model, PART_LENGTH_KEY, value), "Set part length")
-
-
-class HighVoltageView(QWidget):
-    """The model's verdict on its peak fields in the project's air, with the standing statement."""
-
-    def __init__(self, document, parent=None) -> None:
-        super().__init__(parent)
-        self.document = document
-        self.results = None
-        layout = QVBoxLayout(self)
-        self.air_box = AirConditionsBox()
-        layout.addWidget(self.air_box)
-        self.headline = QLabel()
-        self.headline.setWordWrap(True)
-        self.headline.setTextFormat(Qt.PlainText)
-        self.detail = QLabel()
-        self.detail.setWordWrap(True)
-        self.detail.setTextFormat(Qt.PlainText)
-        layout.addWidget(self.headline)
-        layout.addWidget(self.detail)
-        self.statement = QLabel(cautions.STANDING_STATEMENT)
-        self.statement.setWordWrap(True)
-        self.statement.setStyleSheet("border: 1px solid #8a6d00; background: #fff7d6; padding: 6px;")
-        layout.addWidget(self.statement)
-        layout.addStretch(1)
-        self.air_box.applied.connect(self._on_air_applied)
-        document.events.connect("model_changed", self._on_model_changed)
-        self._on_model_changed(document.model)
-
-    def _on_model_changed(self, model) -> None:
-        self.air_box.show_project_air(model)
-        self._refresh()
-
-    def show_results(self, results) -> None:
-        self.results = results
-        self._refresh()
-
-    def _refresh(self) -> None:
-        try:
-            verdict = caution_for(self.results, self.document.model)
-        except solver.SolverError as exc:
-            self.headline.setText(f"No verdict: {exc}")
-            self.detail.setText("")
-            return
-        if verdict is None:
-            self.headline.setText("Solve to compare the peak surface fields with the strength of air and corona onset.")
-            self.headline.setStyleSheet("")
-            self.detail.setText("")
-            return
-        colour, _ = cautions.STATUS_COLOURS[verdict.status]
-        self.headline.setText(verdict.headline)
-        self.headline.setStyleSheet(f"color: {colour}; font-weight: bold; font-size: 13pt;")
-        lines = [f"{v.where}: {v.status}" + (f", margin {v.margin:.3g} ({v.reason})" if v.margin is not None
-                                               else f" ({v.reason})") for v in verdict.verdicts]
-        body = cautions.caution_body(verdict).replace(cautions.STANDING_STATEMENT, "").strip()
-        self.detail.setText("\n".join(lines + ([body] if body else [])))
-
-    def _on_air_applied(self) -> None:
-        updated = self.air_box.applied_to(self.document.model)
-        if updated is not None:
-            self.document.apply(updated, "Set air conditions and voltage basis")

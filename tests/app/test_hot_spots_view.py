@@ -1,4 +1,5 @@
-"""The "Hot spots" section: refined peak fields, margins, the caution frame, the sweep and the radius."""
+"""The "High voltage" section: refined peak fields, margins, the verdict it hands to the caution
+line, the sweep and the radius."""
 
 import csv
 import io
@@ -19,6 +20,8 @@ def open_view(qtbot, model):
 
     view = HotSpotsView()
     qtbot.addWidget(view)
+    view.verdicts = []  # what the section hands to the summary block's caution line
+    view.verdict_ready.connect(view.verdicts.append)
     view.show()
     view.show_results(compute_results(model, grid_points=0, n_field_lines=0))
     wait_until(lambda: view.margins is not None or "No hot-spot" in view.status.text())
@@ -42,8 +45,8 @@ def test_hv_electrode_peak_error_and_margins(qtbot):
     assert shown["air-breakdown margin"] == f"{margin.air_breakdown_margin:.3g}" and margin.air_breakdown_margin > 1
     assert shown["corona-onset margin"] == f"{margin.corona_onset_margin:.3g}" and margin.corona_onset_margin > 1
     assert shown["at a sharp corner"] == "no" and shown["status"] == "ample"
-    assert not view.caution_frame.isVisible()
-    assert "does not determine clearances" in view.statement.text() and view.statement.isVisible()
+    assert view.verdicts[-1].status == "ample" and not view.verdicts[-1].alarming
+    assert "does not determine clearances" in view.verdicts[-1].caution  # the standing statement, in the details
 
 
 def test_altitude_reruns_the_assessment(qtbot):
@@ -88,14 +91,15 @@ def test_voltage_basis_is_chosen_in_the_box_and_said(qtbot):
     assert "not applied" in view.air_box.label.text()
 
 
-def test_low_margin_shows_the_caution_frame(qtbot):
+def test_low_margin_hands_an_alarming_verdict_to_the_caution_line(qtbot):
     wire = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
         Conductor("wire", (Circle((0.0, 100.0), 5.0),), potential_V=60e3),))
     view = open_view(qtbot, wire)
     status = column(view, "wire")["status"]
     assert status in ("thin", "exceeded")
-    assert view.caution_frame.isVisible() and view.caution_text.text().endswith(HIGH_VOLTAGE_CAUTION)
-    assert "'wire'" in view.caution_headline.text()
+    verdict = view.verdicts[-1]
+    assert verdict is view.margins.verdict and verdict.alarming and verdict.caution.endswith(HIGH_VOLTAGE_CAUTION)
+    assert "'wire'" in verdict.headline
 
 
 def test_sharp_corner_is_singular_and_a_radius_rounds_it(qtbot):
@@ -104,14 +108,14 @@ def test_sharp_corner_is_singular_and_a_radius_rounds_it(qtbot):
     view = open_view(qtbot, bar)
     assert column(view, "bar")["at a sharp corner"].startswith("yes, σ ~ r^(-0.333)")
     assert "grows with every refinement" in view.notes.text()
-    assert column(view, "bar")["status"] == "not assessed" and view.caution_frame.isVisible()
-    assert "No margin for 'bar'" in view.caution_headline.text()
+    assert column(view, "bar")["status"] == "not assessed" and view.verdicts[-1].alarming
+    assert "No margin for 'bar'" in view.verdicts[-1].headline
     view.corner_edit.setText("2")
     view.corner_button.click()
     wait_until(lambda: view.report is not None and view.report.corner_radius_m == 0.002 and view.margins is not None
                and view.margins.margins[0].peak_field_V_per_m == view.report.hot_spots[0].field_V_per_m)
     assert column(view, "bar")["at a sharp corner"] == "no" and column(view, "bar")["status"] == "ample"
-    assert not view.caution_frame.isVisible()
+    assert not view.verdicts[-1].alarming
 
 
 def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
@@ -171,7 +175,7 @@ def test_window_runs_the_section_when_its_tab_is_shown_and_marks_it_stale(window
     wait_for_solve(qtbot, window)
     view = window.results_panel.hot_spots
     assert view.report is None and not view.runner.is_busy  # nothing runs while the tab is hidden
-    window.results_panel.show_section("Hot spots")
+    window.results_panel.show_section("High voltage")
     wait_until(lambda: view.margins is not None)
     assert column(view, "electrode")["status"] == "ample"
     window.document.apply(window.document.model.with_potentials({"electrode": 50e3}), "Lower the potential")

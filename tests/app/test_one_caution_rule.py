@@ -1,4 +1,5 @@
-"""One caution rule everywhere: banner, High voltage tab, Hot spots tab, PDF text, command-line text
+"""One caution rule everywhere: the caution line (solve mesh, then refined peaks), the High voltage
+section, the summary rows, PDF text, command-line text
 and JSON show the same status and words for one model near the threshold, in the project's air.
 
 The model: a 100 mm (diameter) smooth wire 1 m above earth, at 1000 m altitude (saved in the
@@ -60,24 +61,26 @@ def test_every_view_shows_the_same_verdict(window, qtbot, tmp_path, capsys, near
     window.solve()
     wait_for_solve(qtbot, window)
 
-    # banner
-    assert window.banner.isVisible()
-    banner = _words(window.banner.text().replace("<b>", "").replace("</b>", ""))
-    assert banner == _words(caution)
+    # the caution line, right after the solve (solve mesh): one graded line, the full text in its details
+    summary = window.results_panel.summary
+    line = summary.caution
+    assert line.isVisible() and summary.verdict_basis == "solve mesh"
+    assert line.headline.text().startswith("▲  APPROACHING") and line.headline.text().endswith(headline)
+    assert _words(line.details.text()) == _words(caution) and not line.details_area.isVisible()
+    line.details_button.click()
+    assert line.details_area.isVisible()
+    rows = dict(summary.rows())
+    assert "margin 1.2" in rows["Peak |E| (solve mesh)"] and rows["High voltage"].endswith(headline)
 
-    # High voltage tab
-    hv = window.results_panel.high_voltage
-    assert hv.headline.text() == headline and "'wire': thin, margin 1.2" in hv.detail.text()
-    assert hv.air_box.altitude_edit.text() == "1000"
-
-    # Hot spots tab (refined peaks, same rule, same air)
-    window.results_panel.show_section("Hot spots")
+    # High voltage section (refined peaks, same rule, same air): its verdict replaces the line's
+    window.results_panel.show_section("High voltage")
     spots = window.results_panel.hot_spots
+    assert spots.air_box.altitude_edit.text() == "1000"
     wait_until(lambda: spots.margins is not None)
     assert spots.margins.air.relative_air_density == pytest.approx(solver.air_conditions_of(model).relative_air_density)
     assert [m.status for m in spots.margins.margins] == ["thin"]
-    assert spots.caution_frame.isVisible() and spots.caution_headline.text() == headline
-    assert _words(headline + " " + spots.caution_text.text()) == _words(caution)
+    assert summary.verdict_basis == "refined peaks" and summary.verdict is spots.margins.verdict
+    assert line.headline.text().endswith(headline) and _words(line.details.text()) == _words(caution)
 
     # PDF report text
     report = _words(report_html(window.results, "wire.json", settings_model=window.document.model))
@@ -99,17 +102,16 @@ def test_changing_the_air_in_one_tab_changes_it_everywhere(window, qtbot, near_t
     window.load(near_threshold, None)
     window.solve()
     wait_for_solve(qtbot, window)
-    assert window.banner.isVisible()
+    assert window.results_panel.summary.caution.isVisible()
     spots = window.results_panel.hot_spots
     spots.air_box.mode.setCurrentIndex(0)
     spots.air_box.altitude_edit.setText("0")
     spots.air_box.apply_button.click()
     # sea level: denser air, higher onset: margin about 1.25 x (onset at sea level / at 1000 m) > 1.37
     assert solver.air_conditions_of(window.document.model).altitude_m == 0.0
-    hv = window.results_panel.high_voltage
-    assert hv.air_box.altitude_edit.text() == "0"
-    assert hv.headline.text() == window.results_panel.high_voltage.headline.text()
+    assert spots.air_box.altitude_edit.text() == "0"
     verdict = solver.judge_solution(window.results.solution, solver.air_conditions_of(window.document.model))
-    assert hv.headline.text() == verdict.headline
-    assert window.banner.isVisible() == verdict.alarming
+    summary = window.results_panel.summary
+    assert summary.verdict.headline == verdict.headline and summary.verdict.status == verdict.status
+    assert summary.caution.isVisible() and summary.caution.headline.text().endswith(verdict.headline)
     assert not window.stale_label.isVisible()  # air conditions do not outdate the solution

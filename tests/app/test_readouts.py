@@ -50,16 +50,18 @@ def test_part_length_caveat_follows_the_ten_times_rule(twin):
     assert not twin.stale_label.isVisible()  # a view setting does not outdate the results
 
 
-def test_high_voltage_banner_appears_when_a_margin_is_thin(twin, qtbot):
-    assert not twin.banner.isVisible()
+def test_caution_line_grades_a_thin_margin(twin, qtbot):
+    line = twin.results_panel.summary.caution
+    assert not line.isVisible()  # 1 V: a low-voltage model gets no breakdown caution
     # 15 kV on a 0.65 mm wire 8 mm from its return: peak about 1/1.2 of its Peek onset
     model = edits.update_conductor(twin.document.model, 0, potential_V=15000.0)
     twin.document.apply(model, "Potential")
     twin.solve()
     wait_for_solve(qtbot, twin)
-    assert twin.banner.isVisible()
-    assert "CAUTION: thin margin on &#x27;go&#x27;" in twin.banner.text() or "CAUTION: thin margin on 'go'" in twin.banner.text()
-    assert "qualified persons" in twin.banner.text()
+    assert line.isVisible() and not twin.banner.isVisible()  # the banner is for "cannot solve" only
+    assert line.headline.text().startswith("▲  APPROACHING") and "CAUTION: thin margin on 'go'" in line.headline.text()
+    assert "qualified persons" in line.details.text() and not line.details_area.isVisible()
+    assert line.height() < 150  # one graded line, not a banner
 
 
 def test_the_program_and_safety_md_state_the_same_caution():
@@ -75,8 +77,7 @@ def test_no_air_caution_when_the_peaks_sit_in_insulation(window, qtbot):
     window.solve()
     wait_for_solve(qtbot, window)
     assert not window.banner.isVisible()
-    hv = window.results_panel.high_voltage
-    assert "not in air: inside" in hv.headline.text()
+    assert "not in air: inside" in window.results_panel.summary.verdict.headline
 
 
 def test_numbers_show_the_raw_asymmetry_of_the_capacitance_matrix(twin):

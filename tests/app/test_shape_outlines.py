@@ -4,6 +4,7 @@ shown as invalid with the solver's message and never repaired into something els
 import numpy as np
 import pytest
 
+from app import colours
 from solver import Conductor, Model, Polygon, Rectangle
 
 
@@ -37,7 +38,7 @@ def test_an_invalid_polygon_is_shown_with_the_solvers_message(window):
     np.testing.assert_allclose(_path_points(item)[:4], np.asarray(bow_tie.exterior))  # as drawn, not repaired
     assert item.toolTip() == ("Conductor 'tie', shape 1 (polygon) is invalid: Self-intersection at (10, 10); "
                               "redraw the outline so it does not cross or touch itself.")
-    assert item.pen().color().name() == "#d00000"
+    assert item.pen().color().name() == colours.INVALID
     window.document.select(window.canvas.part_at((20.0, 10.0)))
     assert "Self-intersection at (10, 10)" in window.properties.problem_label.text()
 

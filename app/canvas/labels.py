@@ -1,0 +1,69 @@
+"""Keeping labels on the drawing apart: from each other, from the conductors and inside the view.
+
+Boxes are (x0, y0, x1, y1) in model units; a label's size comes from its text and the current
+model-units-per-pixel of the view.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy import ndimage
+
+#: Approximate size of label text in screen pixels: per character, per line, and padding.
+CHAR_PX, LINE_PX, PAD_PX = 7.0, 18.0, 10.0
+
+
+def label_size(text: str, px: float, py: float) -> tuple[float, float]:
+    """Width and height in model units of a one-line label (``px``, ``py``: units per pixel)."""
+    return (CHAR_PX * len(text) + PAD_PX) * px, LINE_PX * py
+
+
+def overlap(a, b) -> bool:
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
+class PartMask:
+    """Where the conductors are on the results grid (NaN potential), grown by one cell."""
+
+    def __init__(self, x: np.ndarray, y: np.ndarray, inside: np.ndarray) -> None:
+        self.x, self.y = x, y
+        self.mask = ndimage.binary_dilation(inside, iterations=1) if inside.any() else inside
+
+    def covers(self, box) -> bool:
+        """True when ``box`` overlaps a conductor."""
+        if not self.mask.any():
+            return False
+        c0, c1 = np.searchsorted(self.x, [box[0], box[2]])
+        r0, r1 = np.searchsorted(self.y, [box[1], box[3]])
+        return bool(self.mask[max(r0 - 1, 0):r1 + 1, max(c0 - 1, 0):c1 + 1].any())
+
+
+def centred_box(x: float, y: float, w: float, h: float):
+    return (x - w / 2, y - h / 2, x + w / 2, y + h / 2)
+
+
+def anchor_point(box, anchor) -> tuple[float, float]:
+    """The point of ``box`` where a pyqtgraph TextItem with ``anchor`` sits (y up in the view)."""
+    x0, y0, x1, y1 = box
+    return (x0 if anchor[0] == 0.0 else x1, y1 if anchor[1] == 0.0 else y0)
+
+
+def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None):
+    """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
+    places, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
+    possible (ties go to the outward side, then upwards)."""
+    v0, v1, w0, w1 = view
+    outward_right = x >= 0.5 * (v0 + v1)
+    candidates = []
+    for order, (right, up) in enumerate(((outward_right, True), (outward_right, False),
+                                         (not outward_right, True), (not outward_right, False))):
+        x0 = x + gap_x if right else x - gap_x - w
+        y0 = y + gap_y if up else y - gap_y - h
+        box = (x0, y0, x0 + w, y0 + h)
+        inside = v0 <= box[0] and box[2] <= v1 and w0 <= box[1] and box[3] <= w1
+        clashes = sum(overlap(box, other) for other in placed)
+        on_part = mask is not None and mask.covers(box)
+        candidates.append((clashes + on_part + (0 if inside else 2), order, (0.0 if right else 1.0, 1.0 if up else 0.0),
+                           box))
+    best = min(candidates, key=lambda c: (c[0], c[1]))
+    return best[2], best[3]

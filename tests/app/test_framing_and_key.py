@@ -1,0 +1,114 @@
+"""The view opens on the conductors (board-scale samples readable), follows a part whose
+coordinates were typed, keeps labels apart, and keeps its colour key in one place with round ticks."""
+
+import math
+
+import pytest
+from app_helpers import wait_for_solve
+from hypothesis import given
+from hypothesis import strategies as st
+
+import solver
+from app import edits
+from app.canvas import labels
+from app.canvas.colour_key import round_ticks
+from app.document import PartRef
+from app.files import project_files as files
+from app.framing import framing_box
+
+#: Board-scale samples and their signal traces: each trace spans at least this share of the frame's width.
+PCB_SAMPLES = ("microstrip_on_substrate.json", "buried_stripline.json", "edge_coupled_pair.json",
+               "three_traces_over_ground.json")
+READABLE_SHARE = 0.25
+
+
+def _signal_box(model):
+    boxes = [s.bounds() for c in model.conductors if c.role == "fixed" for s in c.shapes]
+    return (min(b[0] for b in boxes), min(b[1] for b in boxes), max(b[2] for b in boxes), max(b[3] for b in boxes))
+
+
+@pytest.mark.parametrize("name", PCB_SAMPLES)
+def test_board_samples_open_with_the_traces_readable(name):
+    model = solver.load_project(files.SAMPLES_DIR / name)
+    x0, y0, x1, y1 = framing_box(model)
+    sx0, sy0, sx1, sy1 = _signal_box(model)
+    assert x0 < sx0 and sx1 < x1 and y0 < sy0 and sy1 < y1  # the traces are in view
+    assert (sx1 - sx0) / (x1 - x0) >= READABLE_SHARE
+    for board in (s.bounds() for d in model.dielectrics for s in d.shapes):
+        assert (x1 - x0) < 0.5 * (board[2] - board[0])  # the wide board does not set the zoom
+    assert y0 <= model.ground_plane.y  # the plane under the trace stays in view ...
+    assert model.ground_plane.y - y0 < 0.15 * (y1 - y0)  # ... with only a strip of earth below it
+
+
+@pytest.mark.parametrize("name, must_show", [("twin_lead.json", "return"), ("busbar_enclosure.json", "enclosure"),
+                                             ("coaxial_feeder.json", "shield"), ("three_phase_line.json", "E2")])
+def test_returns_and_near_enclosures_stay_in_the_frame(name, must_show):
+    model = solver.load_project(files.SAMPLES_DIR / name)
+    x0, y0, x1, y1 = framing_box(model)
+    part = next(c for c in model.conductors if c.name == must_show)
+    for s in part.shapes:
+        bx0, by0, bx1, by1 = s.bounds()
+        assert x0 <= bx0 and bx1 <= x1 and y0 <= by0 and by1 <= y1
+
+
+def test_the_view_follows_a_part_whose_coordinates_were_typed(window, qtbot):
+    window.commands.open(files.SAMPLES_DIR / "microstrip_on_substrate.json")
+    ref = PartRef("conductor", 0, 0)
+    window.document.select(ref)
+    field = window.properties.fields["cx"]  # the trace's centre, typed as a user types it
+    field.setText("60")
+    field.editingFinished.emit()
+    assert edits.shape_of(window.document.model, ref).bounds()[0] > 50.0
+    (vx0, vx1), (vy0, vy1) = window.canvas.plotItem.vb.viewRange()
+    bx0, by0, bx1, by1 = edits.shape_of(window.document.model, ref).bounds()
+    assert vx0 < bx0 and bx1 < vx1 and vy0 < by0 and by1 < vy1
+
+
+def test_labels_take_a_free_place():
+    view = (0.0, 100.0, 0.0, 100.0)
+    first_anchor, first = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [], view)
+    anchor, second = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [first], view)
+    assert not labels.overlap(first, second) and anchor != first_anchor
+    # near the right edge the label goes left, inside the view
+    anchor, box = labels.free_place(95.0, 50.0, 20.0, 5.0, 1.0, 1.0, [], view)
+    assert box[2] <= 100.0 and anchor[0] == 1.0
+
+
+@given(st.floats(-1e6, 1e6), st.floats(1e-6, 1e6))
+def test_colour_key_ticks_are_few_and_round(lo, span):
+    ticks = round_ticks(lo, lo + span)
+    assert 5 <= len(ticks) <= 7
+    tol = 1e-9 * span + 4.0 * math.ulp(max(abs(lo), abs(lo + span)))  # round-off at a large offset
+    assert all(lo - tol <= t <= lo + span + tol for t in ticks)
+    steps = [b - a for a, b in zip(ticks, ticks[1:])]
+    assert max(steps) - min(steps) <= 1e-3 * min(steps)  # evenly spaced (to round-off at a large offset)
+
+
+def test_round_ticks_of_a_potential_range():
+    assert round_ticks(-9800.0, 9800.0) == [-7500.0, -5000.0, -2500.0, 0.0, 2500.0, 5000.0, 7500.0]
+    assert round_ticks(0.0, 1.0) == [0.0, 0.25, 0.5, 0.75, 1.0]
+
+
+def test_the_drawing_keeps_its_size_when_the_shading_changes(window, qtbot):
+    window.commands.open(files.SAMPLES_DIR / "twin_lead.json")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    widths = []
+    for shading in ("potential", "field strength", "none", "field strength (log)"):
+        window.shading_combo.setCurrentText(shading)
+        qtbot.wait(20)
+        widths.append(window.canvas.plotItem.vb.width())
+        key = window.canvas.overlays.key
+        if shading != "none":
+            assert key.shown and 5 <= len(key.bar.axis._tickLevels[0]) <= 7 or shading.endswith("(log)")
+    assert max(widths) - min(widths) < 1.0
+    window.document.apply(edits.update_conductor(window.document.model, 0, potential_V=2.0), "Potential")
+    assert window.canvas.overlays.key.bar.opacity() < 0.5  # the key dims with the map
+
+
+def test_a_return_plane_drawn_as_a_wide_strip_frames_with_its_height_only():
+    model = solver.load_project(files.SAMPLES_DIR / "buried_stripline.json")
+    x0, y0, x1, y1 = framing_box(model)
+    upper = next(c for c in model.conductors if c.name == "upper plane").shapes[0].bounds()
+    assert y1 >= upper[3]  # the upper plane is in view above the trace ...
+    assert (x1 - x0) < 0.25 * (upper[2] - upper[0])  # ... but its 8 mm width does not set the zoom

@@ -1,0 +1,190 @@
+"""The results area at every window size: every section one click away, no widget drawn over
+another or cut off, the summary block whole, and every section marked when out of date."""
+
+import pytest
+from app_helpers import wait_for_solve
+from PySide6.QtWidgets import (
+    QAbstractButton,
+    QAbstractScrollArea,
+    QApplication,
+    QComboBox,
+    QFrame,
+    QGroupBox,
+    QLabel,
+    QLineEdit,
+    QProgressBar,
+    QWidget,
+)
+
+import solver
+from app import edits
+from app.files import project_files as files
+
+SIZES = ((1366, 768), (1500, 900), (1920, 1080), (1024, 640))
+
+#: Widgets whose inside is their own business (scroll areas clip by design; plots draw themselves).
+LEAVES = (QAbstractScrollArea, QAbstractButton, QComboBox, QLineEdit, QProgressBar, QLabel)
+
+
+def settle(qtbot) -> None:
+    for _ in range(3):
+        QApplication.processEvents()
+        qtbot.wait(15)
+
+
+def problems_in(widget: QWidget, where: str) -> list[str]:
+    """Pairs of visible sibling widgets that overlap, children outside their parent, and word-
+    wrapped labels given less height than their text needs, anywhere under ``widget``."""
+    found = []
+    children = [c for c in widget.findChildren(QWidget, options=pyside_direct())
+                if c.isVisible() and not c.isWindow()]
+    rect = widget.rect()
+    for i, a in enumerate(children):
+        g = a.geometry()
+        if not rect.contains(g) and not isinstance(widget, QAbstractScrollArea):
+            found.append(f"{where}: {name(a)} {g.getRect()} is cut off by {name(widget)} {rect.getRect()}")
+        for b in children[i + 1:]:
+            overlap = g.intersected(b.geometry())
+            if overlap.width() > 1 and overlap.height() > 1:
+                found.append(f"{where}: {name(a)} overlaps {name(b)} by {overlap.width()}x{overlap.height()} px")
+        if isinstance(a, QLabel) and a.wordWrap() and a.text():
+            need = a.heightForWidth(a.width())
+            if need > a.height() + 1:
+                found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
+        if isinstance(a, QAbstractScrollArea) and hasattr(a, "widget") and a.widget() is not None:
+            found += problems_in(a.widget(), where)
+        elif not isinstance(a, LEAVES) and (type(a) in (QWidget, QFrame, QGroupBox) or a.layout() is not None):
+            found += problems_in(a, where)
+    return found
+
+
+def pyside_direct():
+    from PySide6.QtCore import Qt
+
+    return Qt.FindDirectChildrenOnly
+
+
+def name(w: QWidget) -> str:
+    return f"{type(w).__name__}({w.objectName() or (w.text()[:20] if hasattr(w, 'text') else '')})"
+
+
+@pytest.fixture
+def hv_twin(window, qtbot):
+    """The twin lead at 15 kV: a thin margin, so the caution line shows."""
+    window.commands.open(files.SAMPLES_DIR / "twin_lead.json")
+    model = edits.update_conductor(window.document.model, 0, potential_V=15000.0).with_mesh_density("coarse")
+    window.document.apply(model, "Potential")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    return window
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_every_section_fits_at_every_size(hv_twin, qtbot, size):
+    window, panel = hv_twin, hv_twin.results_panel
+    window.resize(*size)
+    settle(qtbot)
+    assert panel.summary.caution.isVisible()
+    # one click away: every section's button is whole and inside the panel, with its full text
+    for button in panel.buttons.buttons:
+        top_left = button.mapTo(panel, button.rect().topLeft())
+        assert panel.rect().contains(button.rect().translated(top_left)), button.text()
+        assert button.width() >= button.fontMetrics().horizontalAdvance(button.text()), button.text()
+        assert button.isVisible() and button.height() > 10
+    for title in panel.section_titles():
+        index = panel.section_titles().index(title)
+        panel.buttons.buttons[index].click()  # one click
+        runner = getattr(panel.sections[title], "runner", None)
+        if runner is not None:  # the section's figures come in the background: judge the settled page
+            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
+        settle(qtbot)
+        assert panel.current_section() == title
+        found = problems_in(panel, f"{size} {title}")
+        assert found == [], "\n".join(found)
+
+
+def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
+    panel = hv_twin.results_panel
+    hv_twin.resize(1366, 768)
+    panel.summary.caution.details_button.click()
+    settle(qtbot)
+    assert panel.summary.caution.details_area.isVisible()
+    assert problems_in(panel, "details open") == []
+    assert panel.stack.height() > 150  # the sections keep a usable share
+
+
+def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
+    from PySide6.QtGui import QPalette
+
+    from app import colours
+
+    panel = hv_twin.results_panel
+
+    def dimmed(page) -> bool:
+        return page.palette().color(QPalette.WindowText).name() == colours.STALE_TEXT
+
+    assert not any(dimmed(page) for page in panel._pages.values())
+    assert panel.summary.state == "fresh" and not panel.stale_strip.isVisible()
+    line = panel.summary.caution
+    assert line.isVisible() and "out of date" not in line.headline.text()
+    hv_twin.document.apply(edits.update_conductor(hv_twin.document.model, 0, potential_V=12000.0), "Potential")
+    settle(qtbot)
+    assert panel.summary.state == "stale" and panel.stale_strip.isVisible()
+    assert dict(panel.summary.rows())["Results"] == "out of date"
+    assert "out of date: APPROACHING" in line.headline.text()  # the verdict no longer speaks at full strength
+    for title, page in panel._pages.items():
+        assert dimmed(page), title
+    for plot in (panel.boundary.rows[0][0], panel.probe.potential_plot.plotItem):
+        assert plot.opacity() < 0.5
+    hv_twin.document.undo()
+    settle(qtbot)
+    assert panel.summary.state == "fresh" and not any(dimmed(page) for page in panel._pages.values())
+    assert "out of date" not in line.headline.text() and panel.boundary.rows[0][0].opacity() == 1.0
+
+
+def test_a_new_drawing_does_not_show_the_old_results_as_current(hv_twin, qtbot):
+    panel = hv_twin.results_panel
+    hv_twin.document.mark_saved(hv_twin.document.path)
+    hv_twin.commands.new()
+    settle(qtbot)
+    assert panel.summary.state == "none" and not panel.summary.caution.isVisible()
+    assert panel.stale_strip.isVisible()  # the sections still hold the twin lead's figures: marked
+    assert panel.probe.profile is None
+
+
+def test_the_walk_finds_overlaps_cut_offs_and_squeezed_labels(qtbot):
+    parent = QWidget()
+    qtbot.addWidget(parent)
+    parent.resize(200, 100)
+    a, b = QLineEdit(parent), QLineEdit(parent)
+    a.setGeometry(0, 0, 120, 30)
+    b.setGeometry(100, 10, 120, 30)  # 20 px over a, and 20 px past the parent's right edge
+    squeezed = QLabel("a long caution text that needs several lines at this width " * 3, parent)
+    squeezed.setWordWrap(True)
+    squeezed.setGeometry(0, 50, 150, 20)
+    parent.show()
+    found = "\n".join(problems_in(parent, "probe"))
+    assert "QLineEdit() overlaps QLineEdit() by 20x20 px" in found
+    assert "is cut off by" in found and "needs" in found
+
+
+def test_old_section_names_still_lead_to_their_section(hv_twin):
+    panel = hv_twin.results_panel
+    panel.show_section("Hot spots")
+    assert panel.current_section() == "High voltage" and panel.sections["High voltage"] is panel.hot_spots
+    panel.show_section("Charge along boundary")
+    assert panel.current_section() == "Charge"
+
+
+@pytest.mark.parametrize("size", ((1366, 768), (1024, 640)))
+def test_a_long_caution_headline_is_never_clipped(window, qtbot, size):
+    model = solver.load_project(files.SAMPLES_DIR / "hv_electrode_over_earth.json").with_mesh_density("coarse")
+    window.load(edits.update_conductor(model, 0, potential_V=700e3), None)
+    window.solve()
+    wait_for_solve(qtbot, window)
+    window.resize(*size)
+    settle(qtbot)
+    line = window.results_panel.summary.caution
+    assert line.isVisible() and "EXCEEDED" in line.headline.text() and len(line.headline.text()) > 150
+    assert line.headline.height() >= line.headline.heightForWidth(line.headline.width())
+    assert problems_in(window.results_panel.summary, f"{size} summary") == []
