@@ -4,7 +4,7 @@ and the voltage basis of the check (what the potentials stand for; :class:`solve
 The project has one set of air conditions (saved in the project file, read by
 :func:`solver.air_conditions_of`); the High voltage and Hot spots tabs each show this box for
 it. :meth:`AirConditionsBox.show_project_air` fills the inputs from the project;
-:meth:`AirConditionsBox.conditions` turns the inputs into a :class:`solver.AirConditions` (as the
+:meth:`AirConditionsBox.conditions` turns the inputs (values with units: "3 km", "95 kPa", "293 K") into a :class:`solver.AirConditions` (as the
 command line's --altitude-m / --pressure-kPa / --temperature-C / --surface-factor do) and
 describes them in words; :meth:`AirConditionsBox.voltage_basis` does the same for the basis and
 :meth:`AirConditionsBox.applied_to` gives the model carrying both; ``applied`` fires when the
@@ -14,12 +14,18 @@ user presses the button (the owner then saves them in the project). No physics h
 from __future__ import annotations
 
 from PySide6.QtCore import Signal
-from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QLineEdit, QPushButton
+from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton
 
 import solver
+from app.panels.quantity_edit import QuantityEdit
 from solver import AirConditions, VoltageBasis
 
-KELVIN_AT_0_C = 273.15
+
+def _edit(text: str, unit: str, field: str, display_unit: str) -> QuantityEdit:
+    """A field that takes a value with a unit ("3 km", "95 kPa", "293 K"), showing ``display_unit``."""
+    edit = QuantityEdit(unit, field, display_unit)
+    edit.setText(text)
+    return edit
 
 
 class AirConditionsBox(QGroupBox):
@@ -32,28 +38,28 @@ class AirConditionsBox(QGroupBox):
         form = QFormLayout(self)
         self.mode = QComboBox()
         self.mode.addItems(["altitude (standard-atmosphere pressure)", "measured pressure and temperature"])
-        self.altitude_edit = QLineEdit("0")
-        self.pressure_edit = QLineEdit("101.325")
-        self.temperature_edit = QLineEdit("20")
-        self.surface_edit = QLineEdit("1")
+        self.altitude_edit = _edit("0", "m", "altitude above sea level", "m")
+        self.pressure_edit = _edit("101.325", "Pa", "pressure", "kPa")
+        self.temperature_edit = _edit("20", "K", "temperature", "°C")
+        self.surface_edit = _edit("1", "", "Peek surface factor", "")
         self.peek_form = QComboBox()
         self.peek_form.addItems(["parallel wires", "coaxial"])
         self.basis = QComboBox()
         for key, name in solver.VOLTAGE_BASES.items():
             self.basis.addItem(name, key)
-        self.factor_edit = QLineEdit("1")
+        self.factor_edit = _edit("1", "", "overvoltage factor", "")
         self.rms_box = QCheckBox("potentials are rms values (converted to crest for the check)")
         self.apply_button = QPushButton("Apply air conditions and voltage basis")
         self.label = QLabel()
         self.label.setWordWrap(True)
         form.addRow("air given by", self.mode)
-        form.addRow("altitude above sea level (m)", self.altitude_edit)
-        form.addRow("pressure (kPa)", self.pressure_edit)
-        form.addRow("temperature (°C)", self.temperature_edit)
-        form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit)
+        form.addRow("altitude above sea level", self.altitude_edit.with_unit())
+        form.addRow("pressure", self.pressure_edit.with_unit())
+        form.addRow("temperature", self.temperature_edit.with_unit())
+        form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit.with_unit())
         form.addRow("Peek form", self.peek_form)
         form.addRow("potentials stand for", self.basis)
-        form.addRow("overvoltage factor", self.factor_edit)
+        form.addRow("overvoltage factor", self.factor_edit.with_unit())
         form.addRow(self.rms_box)
         form.addRow(self.apply_button)
         form.addRow(self.label)
@@ -100,18 +106,18 @@ class AirConditionsBox(QGroupBox):
         self.conditions()
 
     def _read(self) -> AirConditions:
-        temperature_K = float(self.temperature_edit.text()) + KELVIN_AT_0_C
-        surface = float(self.surface_edit.text())
+        temperature_K = self.temperature_edit.value_si()
+        surface = self.surface_edit.value_si()
         form = "coaxial" if self.peek_form.currentIndex() == 1 else "parallel_wires"
         if self.mode.currentIndex() == 1:
-            return AirConditions.at_pressure(float(self.pressure_edit.text()) * 1e3, temperature_K,
+            return AirConditions.at_pressure(self.pressure_edit.value_si(), temperature_K,
                                              surface_factor=surface, peek_form=form)
-        return AirConditions.at_altitude(float(self.altitude_edit.text()), temperature_K,
+        return AirConditions.at_altitude(self.altitude_edit.value_si(), temperature_K,
                                          surface_factor=surface, peek_form=form)
 
     def _read_basis(self) -> VoltageBasis:
         key = str(self.basis.currentData())
-        factor = float(self.factor_edit.text()) if key == "factor" else 1.0
+        factor = self.factor_edit.value_si() if key == "factor" else 1.0
         return VoltageBasis(key, "rms" if self.rms_box.isChecked() else "crest", factor)
 
     def voltage_basis(self) -> VoltageBasis | None:

@@ -69,8 +69,16 @@ def test_altitude_reruns_the_assessment(qtbot):
     box.apply_button.click()
     delta = (90.0 / 101.325) * (293.15 / 303.15)
     assert abs(view.margins.margins[0].air_breakdown_margin / (before * ratio(delta)) - 1) < 1e-9
+    # the same air typed with units gives the same margin
+    box.pressure_edit.setText("0.9 bar")
+    box.temperature_edit.setText("303.15 K")
+    box.apply_button.click()
+    assert abs(view.margins.margins[0].air_breakdown_margin / (before * ratio(delta)) - 1) < 1e-9
     box.mode.setCurrentIndex(0)
     box.temperature_edit.setText("20")
+    box.altitude_edit.setText("2 km")
+    box.apply_button.click()
+    assert view.margins.margins[0].air_breakdown_margin == pytest.approx(after, rel=1e-12)
     view.air_box.altitude_edit.setText("high")
     view.air_box.apply_button.click()
     assert "not applied" in view.air_box.label.text()
