@@ -42,6 +42,7 @@ from app.jobs.study_runner import StudyRunner
 from app.messages import show_message
 from app.panels.goal_box import GoalBox
 from app.panels.study_views import CautionLine, StudyPlot, StudyTableView
+from solver import LENGTH_UNITS, SolverError, read_quantity
 from solver.hot_spots.verdict import largest_potential_difference_V
 from solver.studies import NOT_RUN, SearchResult, model_with_values, search, sweep
 from solver.studies.choices import figure_choices, sweepable_fields
@@ -50,11 +51,15 @@ from solver.studies.choices import figure_choices, sweepable_fields
 HIGH_VOLTAGE_FIGURES = ("peak_field_V_per_m", "margin")
 
 
-def _value(edit: QLineEdit, what: str) -> float:
+def _value(edit: QLineEdit, what: str, unit: str = "") -> float:
+    """The number typed in ``edit``, in the field's own ``unit`` (the model's length unit, "V",
+    or "" for a plain number); a value may carry its unit ("12 mil", "1.5 kV")."""
     try:
-        return float(edit.text().replace("\u2212", "-").strip())
-    except ValueError:
-        raise ValueError(f"{what}: '{edit.text()}' is not a number.") from None
+        if unit in LENGTH_UNITS:
+            return read_quantity(edit.text(), "m", what, default_unit=unit).value_si / LENGTH_UNITS[unit]
+        return read_quantity(edit.text(), "V" if unit == "V" else "", what).value_si
+    except SolverError as e:
+        raise ValueError(str(e)) from None
 
 
 class SweepDialog(QDialog):
@@ -185,7 +190,8 @@ class SweepDialog(QDialog):
     def run_sweep(self) -> bool:
         """Start the sweep; False (with a message) when the input is not usable."""
         try:
-            start, stop = _value(self.start_edit, "From"), _value(self.stop_edit, "To")
+            unit = self.field().unit
+            start, stop = _value(self.start_edit, "From", unit), _value(self.stop_edit, "To", unit)
         except ValueError as e:
             self.status.setText(str(e))
             return False
@@ -204,7 +210,8 @@ class SweepDialog(QDialog):
     def run_search(self) -> bool:
         """Start the goal search; False (with a message) when the input is not usable."""
         try:
-            start, stop = _value(self.start_edit, "From"), _value(self.stop_edit, "To")
+            unit = self.field().unit
+            start, stop = _value(self.start_edit, "From", unit), _value(self.stop_edit, "To", unit)
             target = _value(self.goal_target, "Target")
         except ValueError as e:
             self.goal_result.setText(str(e))
@@ -258,7 +265,7 @@ class SweepDialog(QDialog):
         model = self.document.model
         potentials = [c.potential_V for c in model.conductors if c.role == "fixed"]
         if self.field().unit == "V":
-            potentials += [_value(self.start_edit, "From"), _value(self.stop_edit, "To")]
+            potentials += [_value(self.start_edit, "From", "V"), _value(self.stop_edit, "To", "V")]
         difference = largest_potential_difference_V(potentials, model.has_return_path)
         hv = difference >= solver.LOW_VOLTAGE_THRESHOLD_V and any(
             f.split(".")[0] in HIGH_VOLTAGE_FIGURES for f in figures)

@@ -49,7 +49,7 @@ def test_the_dialog_offers_the_drawings_fields_and_figures(dialog):
 
 def test_a_sweep_shows_the_solvers_table_and_plot_and_exports_its_csv(dialog, qtbot, tmp_path):
     dialog.select_field(WIRE_R)
-    dialog.start_edit.setText("0.5")
+    dialog.start_edit.setText("500 um")  # a value may carry its unit; a bare number is in the model's mm
     dialog.stop_edit.setText("1.5")
     dialog.count_spin.setValue(3)
     dialog.set_figures(["C_F_per_m.wire.wire", "peak_field_V_per_m.wire"])
@@ -94,9 +94,13 @@ def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_
 
 
 def test_a_bad_number_is_said_and_nothing_runs(dialog):
+    dialog.select_field(WIRE_R)
     dialog.start_edit.setText("two")
     assert not dialog.run_sweep()
-    assert "'two' is not a number" in dialog.status.text() and not dialog.runner.is_busy
+    assert "'two'" in dialog.status.text() and "From" in dialog.status.text() and not dialog.runner.is_busy
+    dialog.start_edit.setText("2 kV")  # a potential is not a length
+    assert not dialog.run_sweep()
+    assert "'2 kV'" in dialog.status.text() and not dialog.runner.is_busy
 
 
 def test_cancel_stops_the_sweep_and_keeps_the_cases_run(dialog, qtbot):
