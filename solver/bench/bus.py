@@ -64,6 +64,7 @@ def _solve_child(columns: int, rows: int, reference: bool) -> dict:
     }
     if reference:
         panels = sol.panels
+        assert panels is not None
         fine = CurvedPanels(panels.pieces, panels.piece_index, panels.s0, panels.s1, 16)
         fine = fine.split(np.ones(fine.n_panels, dtype=bool))
         c_fine = NodalSolve(model, fine).capacitance_maxwell_F_per_m()
@@ -89,7 +90,7 @@ def main(argv: list[str] | None = None) -> int:
     import argparse
     import json
 
-    parser = argparse.ArgumentParser(prog="python -m solver.bench.bus", description=main.__doc__.splitlines()[0])
+    parser = argparse.ArgumentParser(prog="python -m solver.bench.bus", description=(main.__doc__ or "").splitlines()[0])
     parser.add_argument("--size", type=int, default=10, help="bars per row and column of the large bus")
     parser.add_argument("--small", type=int, default=3, help="bars per row and column of the accuracy check")
     parser.add_argument("--json", action="store_true", help="print the figures as JSON")
