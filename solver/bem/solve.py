@@ -207,6 +207,10 @@ def solve(
         the tolerance, and the solution is a plain :class:`Solution`. Raises
         MeshTooLargeError when the panel budget runs out first.
 
+        Without a tolerance and ``settings``, a model of many conductors in one medium (see
+        :mod:`solver.bem.high_order.large_models`) is solved on coarse high-order panels in
+        one dense in-place solve, its memory checked before allocation.
+
     Returns
     -------
     Solution
@@ -222,8 +226,11 @@ def solve(
         raise InvalidModelError("The model has no conductors; draw at least one.")
     if tolerance is not None:
         return _solve_to_tolerance(model, tolerance, progress, cancel)
-    settings = settings or MeshSettings.for_density(model.mesh_density)
     report = progress_reporter(progress, cancel)
+    if settings is None and _is_large(model):
+        report(0.0, f"Solving {len(model.conductors)} conductors on coarse high-order panels")
+        return _solve_large(model, estimate_error)
+    settings = settings or MeshSettings.for_density(model.mesh_density)
 
     report(0.0, "Meshing boundaries")
     mesh = discretize_boundary(model, settings)
@@ -304,6 +311,18 @@ def _solve_to_tolerance(
                 "tolerance."
             )
         previous, level = error, next_level
+
+
+def _is_large(model: Model) -> bool:
+    from solver.bem.high_order.large_models import is_large
+
+    return is_large(model)
+
+
+def _solve_large(model: Model, estimate_error: bool) -> Solution:
+    from solver.bem.high_order.large_models import solve_large
+
+    return solve_large(model, estimate_error)
 
 
 def has_permittivity_contrast(model: Model) -> bool:

@@ -232,11 +232,16 @@ def curved_panels(
     corner_levels: int | Callable[[float], int],
     grading_ratio: float = 4.0,
     order: int = DEFAULT_ORDER,
+    smooth_joint_levels: int = SMOOTH_JOINT_LEVELS,
 ) -> CurvedPanels:
     """Divide every piece into panels of at most ``panel_size_m[piece]`` metres and
     ``max_sweep_rad`` of arc, graded toward sharp corners and strip ends by ``corner_levels``
     panels (a number, or a function of the corner's opening angle), each ``grading_ratio``
-    times smaller than the one before.
+    times smaller than the one before, with ``order`` Gauss-Legendre nodes per panel.
+
+    ``smooth_joint_levels`` panels are graded toward each tangent-continuous joint (an arc
+    meeting a straight edge); 0 leaves those joints ungraded, as large models do to keep
+    their unknowns few (see :mod:`solver.bem.high_order.large_models`).
 
     Raises
     ------
@@ -256,7 +261,7 @@ def curved_panels(
             elif beta is not None and abs(beta - math.pi) <= GRADED_OPENING_RAD:
                 # Tangent-continuous joints (an arc meeting a straight edge) are graded a
                 # little: the curvature jumps there and the density is less smooth.
-                levels.append(SMOOTH_JOINT_LEVELS)
+                levels.append(smooth_joint_levels)
             else:
                 levels.append(0)
         breaks = _graded_breaks(n, levels[0], levels[1], grading_ratio)

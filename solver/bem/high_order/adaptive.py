@@ -37,7 +37,7 @@ from solver.bem.high_order.solution import HighOrderSolution, high_order_solutio
 from solver.errors import MeshTooLargeError, SolveCancelled
 from solver.mesh.budget import max_panels
 from solver.mesh.curved_panels import CurvedPanels, curved_panels, gauss_legendre
-from solver.mesh.curved_pieces import PIECE_ARC_STEP_RAD, boundary_pieces
+from solver.mesh.curved_pieces import PIECE_ARC_STEP_RAD, Piece, boundary_pieces
 from solver.mesh.panels import MeshSettings
 from solver.model.geometry import conductor_geometries
 from solver.model.model import Model
@@ -73,26 +73,35 @@ def corner_levels(tolerance: float) -> Callable[[float], int]:
 def initial_panels(model: Model, tolerance: float) -> CurvedPanels:
     """The first high-order panels of ``model`` for a relative ``tolerance`` (see module doc)."""
     pieces = boundary_pieces(model)
-    geoms = conductor_geometries(model, PIECE_ARC_STEP_RAD)
-    scale = model.metres_per_unit
-    sizes = np.empty(len(pieces))
-    for i, piece in enumerate(pieces):
-        # Each piece on its own: a face far from every other conductor (the outer wall of a
-        # screen) carries little charge and starts coarse.
-        line = shapely.LineString(piece.points(np.linspace(0.0, 1.0, 33)))
-        h = geoms[piece.conductor_index].length / 4.0
-        for j, other in enumerate(geoms):
-            if j != piece.conductor_index:
-                h = min(h, 2.0 * float(shapely.distance(line, other)))
-        if model.ground_plane is not None:
-            h = min(h, 4.0 * (float(line.bounds[1]) - model.ground_plane.y * scale))
-        sizes[i] = h
+    sizes = piece_sizes_m(model, pieces)
     try:
         return curved_panels(pieces, sizes, MAX_SWEEP_RAD, corner_levels(tolerance), GRADING_RATIO)
     except MeshTooLargeError as e:
         raise MeshTooLargeError(
             f"The first mesh for the tolerance {tolerance:.2g} does not fit the memory budget: {e}"
         ) from None
+
+
+def piece_sizes_m(model: Model, pieces: list[Piece]) -> np.ndarray:
+    """(len(pieces),) largest panel on each piece, metres: a quarter of its conductor's outline
+    or twice its gap to the nearest other conductor (four times its height over the ground plane)."""
+    geoms = conductor_geometries(model, PIECE_ARC_STEP_RAD)
+    scale = model.metres_per_unit
+    sizes = np.empty(len(pieces))
+    others = np.array(geoms, dtype=object)
+    for i, piece in enumerate(pieces):
+        # Each piece on its own: a face far from every other conductor (the outer wall of a
+        # screen) carries little charge and starts coarse.
+        line = shapely.LineString(piece.points(np.linspace(0.0, 1.0, 33)))
+        h = geoms[piece.conductor_index].length / 4.0
+        gaps = shapely.distance(line, others)
+        gaps[piece.conductor_index] = np.inf
+        if len(gaps):
+            h = min(h, 2.0 * float(gaps.min()))
+        if model.ground_plane is not None:
+            h = min(h, 4.0 * (float(line.bounds[1]) - model.ground_plane.y * scale))
+        sizes[i] = h
+    return sizes
 
 
 def check_mesh(panels: CurvedPanels) -> CurvedPanels:

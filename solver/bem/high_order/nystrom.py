@@ -26,6 +26,7 @@ import numpy as np
 import scipy.linalg
 
 from solver.bem.blas_threads import blas_threads_for
+from solver.bem.high_order.memory import check_system_memory
 from solver.bem.high_order.operator import potential_and_field, potential_matrix
 from solver.bem.superposition import UnitSolutions, driver_columns
 from solver.bem.system import check_charge_balance
@@ -65,7 +66,8 @@ class NodalSolve:
     total : (n_nodes, 1 + n_drivers) scaled total strengths: the operating point, then one
         column per driver (see :mod:`solver.bem.superposition`).
     floating_potentials : (n_floating, 1 + n_drivers) V; phi_inf : (1 + n_drivers,) V.
-    n_unknowns : size of the linear system.
+    n_unknowns : size of the linear system; memory_bytes : its estimated peak memory
+        (:mod:`solver.bem.high_order.memory`), checked before the matrix is allocated.
     """
 
     def __init__(self, model: Model, panels: CurvedPanels) -> None:
@@ -86,9 +88,13 @@ class NodalSolve:
         self.has_phi_inf = self.plane is None
         size = n + len(self.floating) + int(self.has_phi_inf)
         self.n_unknowns = size
+        n_rhs = 1 + sum(c.role != "reference" for c in model.conductors)
+        title = f"'{model.title}'" if model.title else "the model"
+        self.memory_bytes = check_system_memory(size, n_rhs, f"{title} on {panels.n_panels:,} panels")
         try:
+            # Assembled in blocks straight into place; factorised in place as a.T (Fortran order).
             a = np.zeros((size, size))
-            a[:n, :n] = potential_matrix(self.scaled.nodes.reshape(-1, 2), self.scaled, self.plane)
+            potential_matrix(self.scaled.nodes.reshape(-1, 2), self.scaled, self.plane, out=a[:n, :n])
         except MemoryError:
             raise MeshTooLargeError(
                 f"Not enough memory for the high-order system of {size} unknowns; ask for a looser "
@@ -105,7 +111,7 @@ class NodalSolve:
             if all(r == "floating" for r in roles):
                 a[-1, :] = 0.0
                 a[-1, -1] = 1.0
-        if not np.isfinite(a).all():
+        if not all(np.isfinite(a[rows]).all() for rows in np.array_split(np.arange(size), max(1, size // 512))):
             raise NonFiniteResultError(
                 f"The high-order system of {size} unknowns holds non-finite entries (coincident outlines); "
                 "check the drawing for repeated or overlapping outlines."
@@ -131,8 +137,9 @@ class NodalSolve:
         for f, k in enumerate(self.floating):
             b[n + f] = charges[k]
         with blas_threads_for(a.shape[0]):
-            x = scipy.linalg.lu_solve(scipy.linalg.lu_factor(a, overwrite_a=True, check_finite=False), b,
-                                      check_finite=False)
+            # a.T is Fortran-ordered, so LAPACK factorises it without a copy; trans=1 then solves a x = b.
+            lu = scipy.linalg.lu_factor(a.T, overwrite_a=True, check_finite=False)
+            x = scipy.linalg.lu_solve(lu, b, trans=1, check_finite=False)
         if not np.isfinite(x).all():
             raise NonFiniteResultError(
                 "The high-order solve gave non-finite charges (the system is singular for this model); "

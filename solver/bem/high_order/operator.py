@@ -19,12 +19,18 @@ import numpy as np
 from solver.bem.high_order.product_rules import bernstein_rho, cauchy_weights, log_weights, near_rho, preimages
 from solver.mesh.curved_panels import CurvedPanels
 
-#: Targets x panels handled in one block (bounds the memory of the preimage table).
-BLOCK_PAIRS = 4_000_000
+#: Target x node entries handled in one block: bounds the temporaries of an assembly or
+#: evaluation (a few arrays of this many float64 or complex128 values, tens of megabytes).
+BLOCK_ENTRIES = 2_000_000
 
 
-def _blocks(m: int, n_panels: int):
-    step = max(1, BLOCK_PAIRS // max(n_panels, 1))
+def block_rows(n_nodes: int) -> int:
+    """Targets per block for panels with ``n_nodes`` nodes."""
+    return max(1, BLOCK_ENTRIES // max(n_nodes, 1))
+
+
+def _blocks(m: int, n_nodes: int):
+    step = block_rows(n_nodes)
     for start in range(0, m, step):
         yield slice(start, min(m, start + step))
 
@@ -36,21 +42,30 @@ def _near_pairs(targets: np.ndarray, panels: CurvedPanels) -> tuple[np.ndarray, 
     return rows, cols, z[rows, cols]
 
 
-def log_matrix(targets: np.ndarray, panels: CurvedPanels) -> np.ndarray:
-    """(m, n_nodes) matrix L with int log|x - y| q(y) ds(y) = L @ q at (m, 2) scaled targets."""
+def _log_block(x: np.ndarray, panels: CurvedPanels) -> np.ndarray:
+    """(len(x), n_nodes) rows of the log matrix at scaled targets ``x``."""
     p = panels.order
     y = panels.nodes.reshape(-1, 2)
     w = panels.weights.reshape(-1)
+    g = np.subtract.outer(x[:, 0], y[:, 0])
+    dy = np.subtract.outer(x[:, 1], y[:, 1])
+    np.hypot(g, dy, out=g)
+    del dy
+    with np.errstate(divide="ignore"):
+        np.log(g, out=g)
+    g *= w[None, :]
+    rows, cols, z = _near_pairs(x, panels)
+    if len(rows):
+        weights = log_weights(z, panels, cols) * panels.speeds[cols]
+        g.reshape(len(x), panels.n_panels, p)[rows, cols, :] = weights
+    return g
+
+
+def log_matrix(targets: np.ndarray, panels: CurvedPanels) -> np.ndarray:
+    """(m, n_nodes) matrix L with int log|x - y| q(y) ds(y) = L @ q at (m, 2) scaled targets."""
     out = np.empty((len(targets), panels.n_nodes))
-    for block in _blocks(len(targets), panels.n_panels):
-        x = targets[block]
-        with np.errstate(divide="ignore"):
-            g = np.log(np.hypot(x[:, None, 0] - y[None, :, 0], x[:, None, 1] - y[None, :, 1])) * w[None, :]
-        rows, cols, z = _near_pairs(x, panels)
-        if len(rows):
-            weights = log_weights(z, panels, cols) * panels.speeds[cols]
-            g.reshape(len(x), panels.n_panels, p)[rows, cols, :] = weights
-        out[block] = g
+    for block in _blocks(len(targets), panels.n_nodes):
+        out[block] = _log_block(targets[block], panels)
     return out
 
 
@@ -65,7 +80,7 @@ def field_sums(targets: np.ndarray, panels: CurvedPanels, q: np.ndarray) -> tupl
     wq = w[:, None] * q
     logs = np.empty((len(targets), q.shape[1]))
     cauchy = np.empty((len(targets), q.shape[1]), dtype=complex)
-    for block in _blocks(len(targets), panels.n_panels):
+    for block in _blocks(len(targets), panels.n_nodes):
         x = targets[block]
         d = (x[:, 0] + 1j * x[:, 1])[:, None] - yc[None, :]
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -96,13 +111,26 @@ def mirrored(points: np.ndarray, plane_y: float) -> np.ndarray:
     return out
 
 
-def potential_matrix(targets: np.ndarray, panels: CurvedPanels, plane_y: float | None) -> np.ndarray:
+def potential_matrix(
+    targets: np.ndarray, panels: CurvedPanels, plane_y: float | None, out: np.ndarray | None = None
+) -> np.ndarray:
     """(m, n_nodes): potential (V) at scaled targets per unit scaled strength at each node,
-    with the ground plane's image charges when ``plane_y`` is given."""
-    a = -log_matrix(targets, panels)
-    if plane_y is not None:
-        a += log_matrix(mirrored(targets, plane_y), panels)
-    return a
+    with the ground plane's image charges when ``plane_y`` is given.
+
+    Assembled in blocks of rows (:data:`BLOCK_ENTRIES` entries each) straight into ``out``
+    (an (m, n_nodes) array or view, e.g. the top-left block of the system matrix) when
+    given, so that no full-size temporary is made.
+    """
+    if out is None:
+        out = np.empty((len(targets), panels.n_nodes))
+    for block in _blocks(len(targets), panels.n_nodes):
+        x = targets[block]
+        rows = _log_block(x, panels)
+        np.negative(rows, out=rows)
+        if plane_y is not None:
+            rows += _log_block(mirrored(x, plane_y), panels)
+        out[block] = rows
+    return out
 
 
 def potential_and_field(
