@@ -23,7 +23,6 @@ the operating point is their superposition (see :mod:`solver.bem.superposition`)
 from __future__ import annotations
 
 import logging
-import os
 from collections.abc import Callable
 
 import numpy as np
@@ -45,6 +44,7 @@ from solver.bem.fast_operator import (
     fmm_available,
     near_pair_estimate,
 )
+from solver.bem.machine_memory import available_memory_bytes
 from solver.bem.solution import BACKGROUND_NAME, Solution
 from solver.bem.superposition import UnitSolutions, driver_columns, driver_weights
 from solver.errors import SolveCancelled, SolverError
@@ -85,21 +85,6 @@ MEMORY_FRACTION = 0.8
 
 class InsufficientMemoryError(SolverError):
     """A model is too large for the memory of this machine."""
-
-
-def available_memory_bytes() -> int | None:
-    """Memory the system can give without swapping (Linux MemAvailable), or None if unknown."""
-    try:
-        with open("/proc/meminfo") as f:
-            for line in f:
-                if line.startswith("MemAvailable:"):
-                    return int(line.split()[1]) * 1024
-    except OSError:
-        pass
-    try:
-        return int(os.sysconf("SC_AVPHYS_PAGES") * os.sysconf("SC_PAGE_SIZE"))
-    except (ValueError, OSError, AttributeError):
-        return None
 
 
 def dense_memory_bytes(n_unknowns: int, n_rhs: int) -> int:

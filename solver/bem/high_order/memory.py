@@ -13,9 +13,8 @@ budget, ``EDGEWISE_MAX_SYSTEM_MB``) and a fraction of the memory the system can 
 
 from __future__ import annotations
 
-import os
-
 from solver.bem.high_order.operator import BLOCK_ENTRIES
+from solver.bem.machine_memory import available_memory_bytes
 from solver.errors import MeshTooLargeError
 from solver.mesh.budget import max_system_bytes
 
@@ -47,21 +46,6 @@ def system_memory_bytes(n_unknowns: int, n_rhs: int) -> int:
     """
     n = int(n_unknowns)
     return 8 * n * n + 8 * RHS_COPIES * n * int(n_rhs) + 16 * ASSEMBLY_TEMPORARIES * BLOCK_ENTRIES
-
-
-def available_memory_bytes() -> int | None:
-    """Memory the system can give without swapping (Linux MemAvailable), or None if unknown."""
-    try:
-        with open("/proc/meminfo") as f:
-            for line in f:
-                if line.startswith("MemAvailable:"):
-                    return int(line.split()[1]) * 1024
-    except OSError:
-        pass
-    try:
-        return int(os.sysconf("SC_AVPHYS_PAGES") * os.sysconf("SC_PAGE_SIZE"))
-    except (ValueError, OSError, AttributeError):
-        return None
 
 
 def memory_limit_bytes(available_bytes: int | None = None) -> int:
