@@ -48,9 +48,12 @@ def main(argv: list[str] | None = None) -> int:
     from PySide6.QtCore import QSettings
     from PySide6.QtWidgets import QApplication
 
+    from app.gui_thread_gc import collect_on_gui_thread
+
     app = QApplication.instance() or QApplication(sys.argv[:1])
     app.setApplicationName("Edgewise")
     app.setOrganizationName("Edgewise")
+    collect_on_gui_thread(app)  # Qt objects must die on the GUI thread, never in a solver thread
     window = build_window(args.model, QSettings("Edgewise", "Edgewise"))
     window.show()
     return app.exec()

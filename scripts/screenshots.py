@@ -38,6 +38,7 @@ sys.path.insert(0, str(ROOT))
 
 from app import edits  # noqa: E402
 from app.files import project_files as files  # noqa: E402
+from app.gui_thread_gc import collect_on_gui_thread  # noqa: E402
 from app.main_window import MainWindow  # noqa: E402
 
 #: Samples in the order shown, and the results sections shown for the first of them.
@@ -93,6 +94,7 @@ class Shooter:
 def run(out: Path, width: int, height: int) -> None:
     out.mkdir(parents=True, exist_ok=True)
     app = QApplication.instance() or QApplication([])
+    collect_on_gui_thread(app)
     settings = QSettings(str(Path(tempfile.mkdtemp()) / "s.ini"), QSettings.IniFormat)
     w = MainWindow(settings)
     w.show()

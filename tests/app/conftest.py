@@ -16,6 +16,18 @@ def private_recovery(tmp_path, monkeypatch):
     return folder
 
 
+@pytest.fixture(autouse=True)
+def gui_thread_gc(qapp):
+    """Collect cyclic garbage on the GUI thread only, as the program does (app/gui_thread_gc.py);
+    at teardown collect the test's garbage here, before any leftover thread could."""
+    from app.gui_thread_gc import GuiThreadCollector
+
+    collector = GuiThreadCollector(qapp)
+    yield collector
+    collector.stop()
+    collector.deleteLater()
+
+
 def pytest_configure(config):
     config.addinivalue_line("markers", "allow_dialogs: the test shows real modal dialogs (and closes them itself)")
 
