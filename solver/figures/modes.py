@@ -61,8 +61,10 @@ def _clusters(values: np.ndarray, tolerance: float) -> list[list[int]]:
 def _normalise(vectors: np.ndarray) -> np.ndarray:
     """Each column scaled so that its entry of largest magnitude is +1 (ties: the first)."""
     n = vectors.shape[1]
-    rounded = np.round(np.abs(vectors), 9)
-    rows = np.argmax(rounded, axis=0)
+    size = np.abs(vectors)
+    # ties within round-off go to the first entry (rounding to fixed digits would split ties that
+    # straddle a rounding boundary, and the sign of a symmetric mode would follow the BLAS)
+    rows = np.argmax(size >= size.max(axis=0, keepdims=True) * (1 - 1e-9), axis=0)
     return vectors / vectors[rows, np.arange(n)][None, :]
 
 
