@@ -19,7 +19,7 @@ When the edited conductors keep clear of the others (a disc around them, R / D <
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
 multipole and local expansions (:mod:`solver.bem.far_blocks`, about 80 terms instead of
 |Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc of the expansions
-is widened (:data:`DRAG_MARGIN`) and kept while the edited panels stay inside it, so during a
+is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the edited panels stay inside it, so during a
 drag those solves are reused too and a step costs the new rows and columns in low-rank form,
 a Schur complement of |Q| unknowns and the right-hand sides; when the edited panels are the
 previous ones moved rigidly (no ground plane), their own block A_QQ is reused as well.
@@ -40,16 +40,8 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.linalg
 
-from solver.bem.assembly import single_layer_potential_matrix
 from solver.bem.blas_threads import blas_threads_for
-from solver.bem.far_blocks import (
-    Separation,
-    far_evaluation,
-    local_coefficients,
-    near_evaluation,
-    panel_moments,
-    separation,
-)
+from solver.bem.edit_blocks import FarParts, ReusedBlock, block
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -58,16 +50,6 @@ from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
-
-#: The disc of the expansions is widened by this factor around an edited group, so that a
-#: drag keeps the group inside it for a while and the terms at the unchanged panels (and
-#: their solves with A_PP) are reused from step to step.
-DRAG_MARGIN = 1.25
-
-#: Largest difference (fraction of the edited group's radius) between the panels of an edited
-#: conductor and the previous ones moved rigidly for which their own block is reused.
-TRANSLATION_TOLERANCE = 1e-13
-
 
 @dataclass(frozen=True)
 class _Previous:
@@ -113,7 +95,7 @@ class GeometryEditSolver:
         self.low_rank = low_rank
         self._previous: _Previous | None = None
         self._factor: _Factor | None = None
-        self._far: _FarParts | None = None
+        self._far: FarParts | None = None
         self._z: tuple | None = None
         self.reused_panels = 0
         self.reused_factor = False
@@ -139,7 +121,7 @@ class GeometryEditSolver:
         block = None
         if len(kept_new):
             assert self._previous is not None
-            block = _ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
+            block = ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
         system = build_system(model, mesh, block)
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
@@ -182,7 +164,7 @@ class GeometryEditSolver:
         return np.concatenate(new_parts), np.concatenate(old_parts)
 
     # ---- block elimination ---------------------------------------------------------------
-    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: _FarParts | None):
+    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: FarParts | None):
         a = system.matrix
         q = np.setdiff1d(np.arange(len(a)), p)
         starts, ends = system.sources.starts[p], system.sources.ends[p]
@@ -193,7 +175,7 @@ class GeometryEditSolver:
                 lu_pp = f.lu
                 self.reused_factor = True
             else:
-                lu_pp = scipy.linalg.lu_factor(_block(a, p, p), check_finite=False)
+                lu_pp = scipy.linalg.lu_factor(block(a, p, p), check_finite=False)
                 self._factor = _Factor(starts, ends, system.length_scale_m, system.plane, lu_pp)
             if len(q) == 0:
                 return lambda b: scipy.linalg.lu_solve(lu_pp, b, check_finite=False)
@@ -201,9 +183,9 @@ class GeometryEditSolver:
             with blas_threads_for(len(q)):
                 return self._far_solver(a, p, q, lu_pp, far)
         with blas_threads_for(len(a)):
-            a_pq, a_qp = _block(a, p, q), _block(a, q, p)
+            a_pq, a_qp = block(a, p, q), block(a, q, p)
             y = scipy.linalg.lu_solve(lu_pp, a_pq, check_finite=False)
-            lu_s = scipy.linalg.lu_factor(_block(a, q, q) - a_qp @ y, check_finite=False)
+            lu_s = scipy.linalg.lu_factor(block(a, q, q) - a_qp @ y, check_finite=False)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
             with blas_threads_for(len(a)):
@@ -216,7 +198,7 @@ class GeometryEditSolver:
 
         return linear_solve
 
-    def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, lu_pp: tuple, far: _FarParts):
+    def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, lu_pp: tuple, far: FarParts):
         """Block elimination with A_PQ and A_QP in low-rank form.
 
         Q = the edited panels E (first in ``q``, as ``far.edited``) and the extra unknowns X
@@ -227,7 +209,7 @@ class GeometryEditSolver:
         n_edit = len(far.edited)
         assert np.array_equal(q[:n_edit], far.edited)
         x_idx = q[n_edit:]
-        a_px, a_xp = _block(a, p, x_idx), _block(a, x_idx, p)
+        a_px, a_xp = block(a, p, x_idx), block(a, x_idx, p)
         u_pe, v_e = far.kept_from_edited
         u_ep, v_ep = far.edited_from_kept
         rank, n_x = u_pe.shape[1], len(x_idx)
@@ -251,7 +233,7 @@ class GeometryEditSolver:
             return np.vstack([v_e @ zq[:n_edit], zq[n_edit:]])
 
         w = from_kept(z, vz)  # A_QP Z, (|Q|, r + |X|)
-        s = np.array(_block(a, q, q))  # a copy: the block may be a view of the system matrix
+        s = np.array(block(a, q, q))  # a copy: the block may be a view of the system matrix
         s[:, :n_edit] -= w[:, :rank] @ v_e
         s[:, n_edit:] -= w[:, rank:rank + n_x]
         lu_s = scipy.linalg.lu_factor(s, check_finite=False, overwrite_a=True)
@@ -266,137 +248,3 @@ class GeometryEditSolver:
             return x
 
         return linear_solve
-
-
-def _index(idx: np.ndarray):
-    """A slice when ``idx`` is a run of consecutive indices (copies without a gather), else ``idx``."""
-    if len(idx) and idx[-1] - idx[0] == len(idx) - 1 and np.all(np.diff(idx) == 1):
-        return slice(int(idx[0]), int(idx[-1]) + 1)
-    return idx
-
-
-def _block(a: np.ndarray, rows: np.ndarray, cols: np.ndarray) -> np.ndarray:
-    r, c = _index(rows), _index(cols)
-    if isinstance(r, slice) and isinstance(c, slice):
-        return a[r, c]
-    if isinstance(r, slice):
-        return a[r][:, cols]
-    if isinstance(c, slice):
-        return a[rows, c]
-    return a[np.ix_(rows, cols)]
-
-
-@dataclass(frozen=True)
-class _FarParts:
-    """Low-rank blocks between the edited panels E and the kept panels P (scaled), as (U, V)."""
-
-    edited: np.ndarray
-    kept_from_edited: tuple[np.ndarray, np.ndarray]  # A_PE = U @ V
-    edited_from_kept: tuple[np.ndarray, np.ndarray]  # A_EP = U @ V
-    starts: np.ndarray  # of the edited panels
-    ends: np.ndarray
-    plane: float | None
-    self_block: np.ndarray  # A_EE
-    disc: Separation
-    kept_starts: np.ndarray  # of the unchanged panels
-    kept_ends: np.ndarray
-
-    def same_disc_for(self, kept_starts: np.ndarray, kept_ends: np.ndarray, starts: np.ndarray,
-                      ends: np.ndarray, plane: float | None) -> bool:
-        """True when the unchanged panels are these ones and the edited ones still lie in the
-        disc: the terms at the unchanged panels (U of A_PE, V of A_EP) are then the same."""
-        return (plane == self.plane and kept_starts.shape == self.kept_starts.shape
-                and np.array_equal(kept_starts, self.kept_starts) and np.array_equal(kept_ends, self.kept_ends)
-                and self.disc.holds(starts, ends))
-
-    def self_block_if_moved(self, starts: np.ndarray, ends: np.ndarray, plane: float | None,
-                            radius: float) -> np.ndarray | None:
-        """A_EE again when the edited panels are these ones moved rigidly (no plane: the log
-        kernel depends only on differences), else None. Positions may differ by round-off of
-        the translation (1e-13 of the group's radius)."""
-        if plane is not None or self.plane is not None or starts.shape != self.starts.shape:
-            return None
-        shift = starts[0] - self.starts[0]
-        tol = TRANSLATION_TOLERANCE * radius
-        if (np.max(np.abs(starts - self.starts - shift)) <= tol
-                and np.max(np.abs(ends - self.ends - shift)) <= tol):
-            return self.self_block
-        return None
-
-
-class _ReusedBlock:
-    """The conductor-row panel block of a system, with the unchanged conductors' mutual block
-    copied from the previous matrix and only the other rows and columns assembled: in
-    low-rank form (``far``) when the edited panels keep clear of the others, else in closed form."""
-
-    def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
-                 earlier: _FarParts | None = None, low_rank: bool = True) -> None:
-        self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
-        self.low_rank = low_rank
-        self.far: _FarParts | None = None
-        self.moved_rigidly = False
-
-    def __call__(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray,
-                 plane: float | None) -> np.ndarray:
-        n_rows, n_cols = len(targets), len(starts)
-        keep = self.kept_new
-        other = np.setdiff1d(np.arange(n_rows), keep)
-        if n_rows == n_cols and len(self.previous) >= n_rows and np.array_equal(keep, self.kept_old):
-            # the unchanged panels sit where they sat: the other rows and columns are written
-            # over the previous matrix (kept by the solver alone, and replaced after this solve)
-            out = self.previous[:n_rows, :n_cols]
-        else:
-            out = np.empty((n_rows, n_cols))
-            kept = _block(self.previous, self.kept_old, self.kept_old)
-            k = _index(keep)
-            if isinstance(k, slice):
-                out[k, k] = kept
-            else:
-                out[np.ix_(keep, keep)] = kept
-        if not len(other):
-            return out
-        if self.low_rank and n_rows == n_cols:
-            far = self._far_parts(targets, starts, ends, plane, keep, other)
-            if far is not None:
-                self.far = far
-                _put(out, keep, other, far.kept_from_edited[0] @ far.kept_from_edited[1])
-                _put(out, other, keep, far.edited_from_kept[0] @ far.edited_from_kept[1])
-                _put(out, other, other, far.self_block)
-                return out
-        out[other] = single_layer_potential_matrix(targets[other], starts, ends, plane)
-        out[np.ix_(keep, other)] = single_layer_potential_matrix(
-            targets[keep], starts[other], ends[other], plane
-        )
-        return out
-
-
-    def _far_parts(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray, plane: float | None,
-                   keep: np.ndarray, other: np.ndarray) -> _FarParts | None:
-        """The low-rank blocks, or None when the edited panels come too close to the others."""
-        e_starts, e_ends, p_starts, p_ends = starts[other], ends[other], starts[keep], ends[keep]
-        earlier = self.earlier
-        if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
-            sep = earlier.disc
-            u_pe, v_ep = earlier.kept_from_edited[0], earlier.edited_from_kept[1]
-        else:
-            sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
-            if not sep.usable:
-                return None
-            u_pe, v_ep = far_evaluation(sep, targets[keep], plane), local_coefficients(sep, p_starts, p_ends, plane)
-        a_ee = None
-        if earlier is not None:
-            a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
-        self.moved_rigidly = a_ee is not None
-        if a_ee is None:
-            a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
-        return _FarParts(other, (u_pe, panel_moments(sep, e_starts, e_ends, plane)),
-                         (near_evaluation(sep, targets[other], plane), v_ep),
-                         e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends)
-
-
-def _put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:
-    r, c = _index(rows), _index(cols)
-    if isinstance(r, slice) and isinstance(c, slice):
-        out[r, c] = values
-    else:
-        out[np.ix_(rows, cols)] = values
