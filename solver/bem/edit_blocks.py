@@ -65,6 +65,7 @@ class FarParts:
     disc: Separation
     kept_starts: np.ndarray  # of the unchanged panels
     kept_ends: np.ndarray
+    anchored: bool  # the disc also holds the anchor panels (see ReusedBlock)
 
     def same_disc_for(self, kept_starts: np.ndarray, kept_ends: np.ndarray, starts: np.ndarray,
                       ends: np.ndarray, plane: float | None) -> bool:
@@ -92,12 +93,17 @@ class FarParts:
 class ReusedBlock:
     """The conductor-row panel block of a system, with the unchanged conductors' mutual block
     copied from the previous matrix and only the other rows and columns assembled: in
-    low-rank form (``far``) when the edited panels keep clear of the others, else in closed form."""
+    low-rank form (``far``) when the edited panels keep clear of the others, else in closed form.
+
+    ``anchor`` (starts, ends): panels the expansion disc should hold as well when it can (the
+    edited conductors' panels at the last fresh solve, for :class:`solver.bem.block_solves.BorderedSolves`).
+    """
 
     def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
-                 earlier: FarParts | None = None, low_rank: bool = True) -> None:
+                 earlier: FarParts | None = None, low_rank: bool = True,
+                 anchor: tuple[np.ndarray, np.ndarray] | None = None) -> None:
         self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
-        self.low_rank = low_rank
+        self.low_rank, self.anchor = low_rank, anchor
         self.far: FarParts | None = None
         self.moved_rigidly = False
 
@@ -134,17 +140,23 @@ class ReusedBlock:
         )
         return out
 
-
     def _far_parts(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray, plane: float | None,
                    keep: np.ndarray, other: np.ndarray) -> FarParts | None:
         """The low-rank blocks, or None when the edited panels come too close to the others."""
         e_starts, e_ends, p_starts, p_ends = starts[other], ends[other], starts[keep], ends[keep]
-        earlier = self.earlier
+        earlier, anchor = self.earlier, self.anchor
         if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
             sep = earlier.disc
+            anchored = earlier.anchored and anchor is not None and sep.holds(*anchor)
             u_pe, v_ep = earlier.kept_from_edited[0], earlier.edited_from_kept[1]
         else:
-            sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
+            anchored = anchor is not None
+            if anchor is not None:
+                sep = separation(np.vstack([e_starts, anchor[0]]), np.vstack([e_ends, anchor[1]]),
+                                 p_starts, p_ends, plane, DRAG_MARGIN)
+                anchored = sep.usable
+            if not anchored:
+                sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
             if not sep.usable:
                 return None
             u_pe, v_ep = far_evaluation(sep, targets[keep], plane), local_coefficients(sep, p_starts, p_ends, plane)
@@ -155,8 +167,8 @@ class ReusedBlock:
         if a_ee is None:
             a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
         return FarParts(other, (u_pe, panel_moments(sep, e_starts, e_ends, plane)),
-                         (near_evaluation(sep, targets[other], plane), v_ep),
-                         e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends)
+                        (near_evaluation(sep, targets[other], plane), v_ep),
+                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored)
 
 
 def put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:

@@ -12,8 +12,11 @@ is then solved by block elimination (a Schur complement):
 
 where Q holds the unknowns of the edited conductors, the floating potentials and phi_inf.
 Only the rows and columns of the edited panels are assembled again; the rest of the matrix
-is copied from the previous one. The first edit of a conductor factorises A_PP (about as
-costly as a plain solve); every further edit of the same conductor reuses it, as a drag does.
+is copied from the previous one. The solves with A_PP come from the LU factors of the last
+fresh solve's whole matrix when the low-rank blocks below allow it
+(:class:`solver.bem.block_solves.BorderedSolves`: the first edit of a conductor factorises
+nothing), else from A_PP's own factors, made at the first edit and reused by every further
+edit of the same conductor, as a drag does.
 
 When the edited conductors keep clear of the others (a disc around them, R / D <= 0.6 of
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
@@ -41,11 +44,13 @@ import numpy as np
 import scipy.linalg
 
 from solver.bem.blas_threads import blas_threads_for
+from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
 from solver.bem.system import BoundarySystem, build_system
+from solver.errors import MeshTooLargeError
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
 from solver.model.model import Model
 
@@ -62,17 +67,6 @@ class _Previous:
     matrix: np.ndarray
 
 
-@dataclass(frozen=True)
-class _Factor:
-    """LU factors of A_PP for the panels (scaled starts and ends) of the unchanged conductors."""
-
-    starts: np.ndarray
-    ends: np.ndarray
-    ell: float
-    plane: float | None
-    lu: tuple
-
-
 class GeometryEditSolver:
     """Solves a sequence of models that differ by the geometry of a few conductors.
 
@@ -82,7 +76,10 @@ class GeometryEditSolver:
         they keep clear of each other (True; False assembles them in closed form, for comparison).
     reused_panels : conductor panels whose interactions were copied (not assembled) in the
         last solve; 0 when it was solved afresh.
-    reused_factor : True when the last solve reused the LU factors of the unchanged block.
+    reused_factor : True when the last solve did not factorise the block A_PP of the unchanged
+        conductors (its LU factors were reused, or ``bordered``).
+    bordered : True when the solves with A_PP came from the LU factors of the last fresh
+        solve (:class:`solver.bem.block_solves.BorderedSolves`; the first edit of a conductor).
     far_blocks : True when the blocks between the edited and the unchanged panels were taken
         in low-rank form (:mod:`solver.bem.far_blocks`; the edited parts keep clear of the rest).
     reused_self_block : True when the edited panels were the previous ones moved rigidly and
@@ -94,9 +91,10 @@ class GeometryEditSolver:
     def __init__(self, low_rank: bool = True) -> None:
         self.low_rank = low_rank
         self._previous: _Previous | None = None
-        self._factor: _Factor | None = None
+        self._solves: LUSolves | BorderedSolves | None = None
+        self._full: FullFactor | None = None
         self._far: FarParts | None = None
-        self._z: tuple | None = None
+        self.bordered = False
         self.reused_panels = 0
         self.reused_factor = False
         self.far_blocks = False
@@ -109,19 +107,21 @@ class GeometryEditSolver:
         settings = settings or MeshSettings.for_density(model.mesh_density)
         mesh = discretize_boundary(model, settings)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
-        self.reused_solves = False
+        self.reused_solves = self.bordered = False
         if model.dielectrics:
-            self._previous, self._far = None, None
+            self._previous, self._far, self._full = None, None, None
             return solve_mesh(model, mesh, cancel)
         large = solve_if_large(model, mesh, cancel)
         if large is not None:
-            self._previous, self._far = None, None
+            self._previous, self._far, self._full = None, None, None
             return large
         kept_new, kept_old = self._unchanged(model, mesh)
-        block = None
+        block, full_parts = None, None
         if len(kept_new):
             assert self._previous is not None
-            block = ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
+            full_parts = self._in_full(model, mesh, kept_new)
+            anchor = None if full_parts is None else full_parts[2]
+            block = ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank, anchor)
         system = build_system(model, mesh, block)
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
@@ -129,11 +129,53 @@ class GeometryEditSolver:
         if block is not None and self._previous is not None and system.length_scale_m == self._previous.ell:
             self.reused_panels = len(kept_new)
             self.far_blocks = block.far is not None
-            linear_solve = self._block_solver(system, kept_new, block.far)
+            linear_solve = self._block_solver(system, kept_new, block.far, full_parts)
+        if linear_solve is None:
+            linear_solve = self._fresh_solver(system)
         solution = solve_system(system, cancel, linear_solve)
         self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
                                    system.plane, system.matrix)
         return solution
+
+    def _fresh_solver(self, system: BoundarySystem):
+        """A solve with the LU factors of the whole matrix, kept for the next edit
+        (:class:`BorderedSolves`); factorised at the first call, after the system's checks."""
+        self._full = None
+
+        def linear_solve(b: np.ndarray) -> np.ndarray:
+            a, n = system.matrix, system.layout.n_panels
+            with blas_threads_for(len(a)):
+                try:
+                    lu = scipy.linalg.lu_factor(a, check_finite=False)
+                except MemoryError:
+                    raise MeshTooLargeError(
+                        f"Not enough memory to factorise the system of {len(a)} unknowns; "
+                        "choose a coarser mesh or close other programs."
+                    ) from None
+                x = scipy.linalg.lu_solve(lu, b, check_finite=False)
+            model = system.model
+            self._full = FullFactor(lu, system.sources.starts[:n], system.sources.ends[:n], system.mesh.conductor_index,
+                                    model.conductor_names, tuple(c.role for c in model.conductors),
+                                    system.length_scale_m, system.plane, np.array(a[:n, n:]))
+            return x
+
+        return linear_solve
+
+    def _in_full(self, model: Model, mesh: PanelMesh, kept_new: np.ndarray):
+        """(P in the last fresh system, its other panels, their (starts, ends)) when that
+        system's block on the unchanged panels is this one's A_PP, else None."""
+        full, prev = self._full, self._previous
+        if full is None or prev is None or not self.low_rank or full.ell != prev.ell or full.plane != prev.plane:
+            return None
+        if model.conductor_names != full.names or tuple(c.role for c in model.conductors) != full.roles:
+            return None
+        kept_conductors = np.unique(mesh.conductor_index[kept_new])
+        p_full = full.panels_of([full.names[k] for k in kept_conductors])
+        if (len(p_full) != len(kept_new) or not np.array_equal(full.starts[p_full], mesh.starts[kept_new] / full.ell)
+                or not np.array_equal(full.ends[p_full], mesh.ends[kept_new] / full.ell)):
+            return None
+        q_old = np.setdiff1d(np.arange(full.n_panels), p_full)
+        return p_full, q_old, (full.starts[q_old], full.ends[q_old])
 
     # ---- what did not change -------------------------------------------------------------
     def _unchanged(self, model: Model, mesh: PanelMesh) -> tuple[np.ndarray, np.ndarray]:
@@ -164,32 +206,35 @@ class GeometryEditSolver:
         return np.concatenate(new_parts), np.concatenate(old_parts)
 
     # ---- block elimination ---------------------------------------------------------------
-    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: FarParts | None):
+    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: FarParts | None, full_parts):
         a = system.matrix
         q = np.setdiff1d(np.arange(len(a)), p)
         starts, ends = system.sources.starts[p], system.sources.ends[p]
-        f = self._factor
+        ell, plane = system.length_scale_m, system.plane
+        known = self._solves
         with blas_threads_for(len(a)):
-            if (f is not None and f.ell == system.length_scale_m and f.plane == system.plane
-                    and np.array_equal(f.starts, starts) and np.array_equal(f.ends, ends)):
-                lu_pp = f.lu
+            if isinstance(known, LUSolves) and known.matches(starts, ends, ell, plane):
+                solves: LUSolves | BorderedSolves = known
                 self.reused_factor = True
+            elif (bordered := self._bordered(a, p, q, far, full_parts)) is not None:
+                solves = bordered
+                self.reused_factor = self.bordered = True
             else:
-                lu_pp = scipy.linalg.lu_factor(block(a, p, p), check_finite=False)
-                self._factor = _Factor(starts, ends, system.length_scale_m, system.plane, lu_pp)
+                solves = LUSolves(scipy.linalg.lu_factor(block(a, p, p), check_finite=False), starts, ends, ell, plane)
+            self._solves = solves
             if len(q) == 0:
-                return lambda b: scipy.linalg.lu_solve(lu_pp, b, check_finite=False)
+                return solves.solve
         if far is not None:
             with blas_threads_for(len(q)):
-                return self._far_solver(a, p, q, lu_pp, far)
+                return self._far_solver(a, p, q, solves, far)
         with blas_threads_for(len(a)):
             a_pq, a_qp = block(a, p, q), block(a, q, p)
-            y = scipy.linalg.lu_solve(lu_pp, a_pq, check_finite=False)
+            y = solves.solve(a_pq)
             lu_s = scipy.linalg.lu_factor(block(a, q, q) - a_qp @ y, check_finite=False)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
             with blas_threads_for(len(a)):
-                yb = scipy.linalg.lu_solve(lu_pp, b[p], check_finite=False)
+                yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - a_qp @ yb, check_finite=False)
                 x = np.empty_like(b)
                 x[p] = yb - y @ x_q
@@ -198,7 +243,24 @@ class GeometryEditSolver:
 
         return linear_solve
 
-    def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, lu_pp: tuple, far: FarParts):
+    def _bordered(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, far: FarParts | None,
+                  full_parts) -> BorderedSolves | None:
+        """Solves with A_PP from the last fresh solve's factors, when the expansion disc holds
+        the edited conductors' panels of then and now and the extra columns are the same."""
+        if far is None or not far.anchored or full_parts is None or self._full is None:
+            return None
+        p_full, q_old, _ = full_parts
+        a_px = block(a, p, q[len(far.edited):])
+        if not np.array_equal(a_px, self._full.extra_columns[p_full]):
+            return None
+        known = self._solves
+        if isinstance(known, BorderedSolves) and known.serves(far.disc, p_full, a_px):
+            return known
+        solves = BorderedSolves(self._full, p_full, q_old, far.disc, far.kept_from_edited[0], a_px)
+        return solves if solves.usable else None
+
+    def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
+                    far: FarParts):
         """Block elimination with A_PQ and A_QP in low-rank form.
 
         Q = the edited panels E (first in ``q``, as ``far.edited``) and the extra unknowns X
@@ -213,15 +275,8 @@ class GeometryEditSolver:
         u_pe, v_e = far.kept_from_edited
         u_ep, v_ep = far.edited_from_kept
         rank, n_x = u_pe.shape[1], len(x_idx)
-        cached = self._z
-        if (cached is not None and cached[0] is u_pe and cached[1] is lu_pp and cached[2].shape == a_px.shape
-                and np.array_equal(cached[2], a_px)):
-            z, vz = cached[3], cached[4]  # same disc, same unchanged panels: Z as at the last step
-            self.reused_solves = True
-        else:
-            z = scipy.linalg.lu_solve(lu_pp, np.hstack([u_pe, a_px]), check_finite=False)
-            vz = v_ep @ z
-            self._z = (u_pe, lu_pp, np.array(a_px), z, vz)
+        z, self.reused_solves = solves.z_for(u_pe, a_px)  # A_PP^-1 [U_PE | A_PX]
+        vz = v_ep @ z
 
         def from_kept(values: np.ndarray, v_values: np.ndarray | None = None) -> np.ndarray:
             """A_QP @ values for (n_p, m) values (``v_values``: V_EP @ values when known)."""
@@ -240,7 +295,7 @@ class GeometryEditSolver:
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
             with blas_threads_for(len(q)):
-                yb = scipy.linalg.lu_solve(lu_pp, b[p], check_finite=False)
+                yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - from_kept(yb), check_finite=False)
                 x = np.empty_like(b)
                 x[p] = yb - z @ to_columns(x_q)

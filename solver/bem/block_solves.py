@@ -1,0 +1,127 @@
+"""Solves with the block A_PP of the unchanged conductors, for :mod:`solver.bem.geometry_update`.
+
+Two ways, one interface (``solve(x)`` = A_PP^-1 x, ``z_for(U, A_PX)`` = A_PP^-1 [U | A_PX]):
+
+* :class:`LUSolves`: the LU factors of A_PP itself;
+* :class:`BorderedSolves`: no factorisation at all, from the LU factors of the full matrix
+  A0 of the last fresh solve, whose block on the same panels P is A_PP. Write
+  A0 = [[A_PP, B], [C, D]] with B = [U V0 | A_PX] in low-rank form (U the far terms at the
+  panels P of a disc around the edited conductor's old and new panels, V0 the moments of its
+  old panels, :mod:`solver.bem.far_blocks`). For y = A0^-1 [x; 0],
+      A_PP y_P + B y_Q = x,   so   A_PP^-1 x = y_P + A_PP^-1 [U | A_PX] (diag(V0, I) y_Q),
+  and with x = the columns of [U | A_PX] this gives T = A_PP^-1 [U | A_PX] from
+      T (I - W) = Y_P,   W = diag(V0, I) Y_Q,   Y = A0^-1 [[U | A_PX]; 0]
+  (r + |X| solves with A0's factors and an (r + |X|)-square system). The first edit of a
+  conductor after a fresh solve then costs about a tenth of factorising A_PP.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.linalg
+
+from solver.bem.far_blocks import Separation, panel_moments
+
+#: Largest condition number of I - W accepted for :class:`BorderedSolves`. I - W is singular
+#: exactly when the full matrix's block on the edited panels and extra unknowns is (for
+#: instance a floating conductor without a plane: its charge row and the neutrality row agree
+#: on its own panels); round-off in T grows with it.
+MAX_BORDER_CONDITION = 1e6
+
+
+@dataclass(frozen=True)
+class FullFactor:
+    """The LU factors of a fresh solve's full matrix, and what identifies its panels (scaled)."""
+
+    lu: tuple
+    starts: np.ndarray
+    ends: np.ndarray
+    conductor_index: np.ndarray
+    names: tuple[str, ...]
+    roles: tuple[str, ...]
+    ell: float
+    plane: float | None
+    extra_columns: np.ndarray  # A0[:n_panels, n_panels:], the floating and phi_inf columns
+
+    @property
+    def n_panels(self) -> int:
+        return len(self.starts)
+
+    def panels_of(self, names: list[str]) -> np.ndarray:
+        """Indices of the panels of the named conductors, in the given order."""
+        parts = [np.flatnonzero(self.conductor_index == self.names.index(n)) for n in names]
+        return np.concatenate(parts) if parts else np.zeros(0, dtype=int)
+
+
+class LUSolves:
+    """A_PP^-1 by the LU factors of A_PP (``starts``, ``ends``: its panels, scaled)."""
+
+    def __init__(self, lu: tuple, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> None:
+        self.lu, self.starts, self.ends, self.ell, self.plane = lu, starts, ends, ell, plane
+        self._z: tuple | None = None
+
+    def matches(self, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> bool:
+        return (ell == self.ell and plane == self.plane and starts.shape == self.starts.shape
+                and np.array_equal(starts, self.starts) and np.array_equal(ends, self.ends))
+
+    def solve(self, x: np.ndarray) -> np.ndarray:
+        return scipy.linalg.lu_solve(self.lu, x, check_finite=False)
+
+    def z_for(self, u: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:
+        """(A_PP^-1 [U | A_PX], reused): kept while U is the same array (the same disc)."""
+        z = self._z
+        if z is not None and z[0] is u and z[1].shape == a_px.shape and np.array_equal(z[1], a_px):
+            return z[2], True
+        out = self.solve(np.hstack([u, a_px]))
+        self._z = (u, np.array(a_px), out)
+        return out, False
+
+
+class BorderedSolves:
+    """A_PP^-1 from the full factors (see the module docstring).
+
+    ``p_full``: the panels P in the full system (in the order of P); ``q_old``: the other
+    panels of the full system (the edited conductors' old panels); ``disc`` must hold them.
+    ``usable`` is False (and the solves must not be used) when I - W is ill-conditioned.
+    """
+
+    def __init__(self, full: FullFactor, p_full: np.ndarray, q_old: np.ndarray, disc: Separation,
+                 u: np.ndarray, a_px: np.ndarray) -> None:
+        self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
+        size = full.lu[0].shape[0]
+        self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
+        self.v_old = panel_moments(disc, full.starts[q_old], full.ends[q_old], full.plane)
+        self.a_px = np.array(a_px)
+        columns = np.hstack([u, self.a_px])
+        y = self._full_solve(columns)
+        border = np.eye(len(columns.T)) - self._old_columns(y[self.q_full])
+        self.usable = bool(np.all(np.isfinite(border)) and np.linalg.cond(border) <= MAX_BORDER_CONDITION)
+        self.t = y[p_full]
+        if self.usable:
+            self.t = scipy.linalg.solve(border.T, y[p_full].T, check_finite=False).T
+        self._used = False
+
+    def _full_solve(self, x_p: np.ndarray) -> np.ndarray:
+        padded = np.zeros((self.full.lu[0].shape[0],) + x_p.shape[1:])
+        padded[self.p_full] = x_p
+        return scipy.linalg.lu_solve(self.full.lu, padded, check_finite=False)
+
+    def _old_columns(self, y_q: np.ndarray) -> np.ndarray:
+        """diag(V0, I) y_Q."""
+        n_old = self.v_old.shape[1]
+        return np.vstack([self.v_old @ y_q[:n_old], y_q[n_old:]])
+
+    def serves(self, disc: Separation, p_full: np.ndarray, a_px: np.ndarray) -> bool:
+        return (disc is self.disc and np.array_equal(p_full, self.p_full) and a_px.shape == self.a_px.shape
+                and np.array_equal(a_px, self.a_px))
+
+    def solve(self, x: np.ndarray) -> np.ndarray:
+        y = self._full_solve(x)
+        return y[self.p_full] + self.t @ self._old_columns(y[self.q_full])
+
+    def z_for(self, u: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:
+        assert u is self.u and np.array_equal(a_px, self.a_px)
+        reused, self._used = self._used, True
+        return self.t, reused

@@ -1,0 +1,41 @@
+"""Solves with the block of the unchanged conductors from the full matrix's factors equal
+solves with that block's own factors (the block-inverse identity in solver.bem.block_solves)."""
+
+from __future__ import annotations
+
+import numpy as np
+import scipy.linalg
+
+from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
+from solver.bem.far_blocks import far_evaluation, separation
+from solver.bem.system import build_system
+from solver.io.project_file import load_project
+from solver.mesh.panels import MeshSettings, discretize_boundary
+from solver.samples import sample_path
+
+
+def test_bordered_solves_equal_the_blocks_own_lu():
+    model = load_project(sample_path("busbar_enclosure"))
+    mesh = discretize_boundary(model, MeshSettings(0.5))
+    system = build_system(model, mesh)
+    a, n = system.matrix, system.layout.n_panels
+    s = system.sources
+    full = FullFactor(scipy.linalg.lu_factor(a), s.starts[:n], s.ends[:n], mesh.conductor_index,
+                      model.conductor_names, tuple(c.role for c in model.conductors),
+                      system.length_scale_m, system.plane, np.array(a[:n, n:]))
+    p = full.panels_of(["L2", "enclosure"])
+    q_old = full.panels_of(["L1"])
+    disc = separation(s.starts[q_old], s.ends[q_old], s.starts[p], s.ends[p], None, 1.25)
+    assert disc.usable
+    u = far_evaluation(disc, mesh.midpoints[p] / system.length_scale_m, None)
+    a_px = a[np.ix_(p, np.arange(n, len(a)))]
+    bordered = BorderedSolves(full, p, q_old, disc, u, a_px)
+    assert bordered.usable
+    own = LUSolves(scipy.linalg.lu_factor(a[np.ix_(p, p)]), s.starts[p], s.ends[p], 1.0, None)
+    x = np.random.default_rng(3).standard_normal((len(p), 3))
+    want = own.solve(x)
+    assert np.max(np.abs(bordered.solve(x) - want)) <= 1e-11 * np.max(np.abs(want))  # measured 1e-14
+    z_bordered, _ = bordered.z_for(u, a_px)
+    z_own, reused = own.z_for(u, a_px)
+    assert not reused and own.z_for(u, a_px)[1]  # kept for the same U
+    assert np.max(np.abs(z_bordered - z_own)) <= 1e-11 * np.max(np.abs(z_own))
