@@ -38,4 +38,6 @@ def test_bordered_solves_equal_the_blocks_own_lu():
     z_bordered, _ = bordered.z_for(u, a_px)
     z_own, reused = own.z_for(u, a_px)
     assert not reused and own.z_for(u, a_px)[1]  # kept for the same U
-    assert np.max(np.abs(z_bordered - z_own)) <= 1e-11 * np.max(np.abs(z_own))
+    # measured 1e-10: T takes A0's border in low-rank form (1e-14 from the closed form),
+    # which A_PP's condition number (about 1e5 here) amplifies
+    assert np.max(np.abs(z_bordered - z_own)) <= 1e-9 * np.max(np.abs(z_own))
