@@ -4,8 +4,8 @@ When the user moves or reshapes one conductor, the panels of the other conductor
 the system's block of their mutual interactions, are unchanged (the mesh of a conductor
 depends on its own outline, the mesh settings and the model's size; the test checks the
 result, not this assumption). :class:`GeometryEditSolver` keeps the previous system and, for
-the set P of unknowns on unchanged conductors, the LU factors of the block A_PP. A new model
-is then solved by block elimination (a Schur complement):
+the set P of unknowns on unchanged conductors, a way to solve with the block A_PP. A new
+model is then solved by block elimination (a Schur complement):
 
     Y = A_PP^-1 A_PQ,   S = A_QQ - A_QP Y,
     x_Q = S^-1 (b_Q - A_QP A_PP^-1 b_P),   x_P = A_PP^-1 b_P - Y x_Q,
@@ -20,10 +20,11 @@ edit of the same conductor, as a drag does.
 
 When the edited conductors keep clear of the others (a disc around them, R / D <= 0.6 of
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
-multipole and local expansions (:mod:`solver.bem.far_blocks`, about 80 terms instead of
-|Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc of the expansions
-is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the edited panels stay inside it, so during a
-drag those solves are reused too and a step costs the new rows and columns in low-rank form,
+multipole and local expansions (:mod:`solver.bem.far_blocks`, 80 to 110 terms on the busbar
+sample instead of |Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc
+of the expansions is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the
+edited panels stay inside it, so during a drag those solves are reused too and a step costs
+the new rows and columns in low-rank form,
 a Schur complement of |Q| unknowns and the right-hand sides; when the edited panels are the
 previous ones moved rigidly (no ground plane), their own block A_QQ is reused as well.
 
@@ -55,6 +56,7 @@ from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
+
 
 @dataclass(frozen=True)
 class _Previous:
@@ -143,21 +145,22 @@ class GeometryEditSolver:
         self._full = None
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
-            a, n = system.matrix, system.layout.n_panels
+            a, n, model = system.matrix, system.layout.n_panels, system.model
             with blas_threads_for(len(a)):
-                try:
-                    lu = scipy.linalg.lu_factor(a, check_finite=False)
-                except MemoryError:
-                    raise MeshTooLargeError(
-                        f"Not enough memory to factorise the system of {len(a)} unknowns; "
-                        "choose a coarser mesh or close other programs."
-                    ) from None
-                x = scipy.linalg.lu_solve(lu, b, check_finite=False)
-            model = system.model
-            self._full = FullFactor(lu, system.sources.starts[:n], system.sources.ends[:n], system.mesh.conductor_index,
-                                    model.conductor_names, tuple(c.role for c in model.conductors),
-                                    system.length_scale_m, system.plane, np.array(a[:n, n:]))
-            return x
+                if self._full is None:
+                    try:
+                        lu = scipy.linalg.lu_factor(a, check_finite=False)
+                    except MemoryError:
+                        raise MeshTooLargeError(
+                            f"Not enough memory to factorise the system of {len(a)} unknowns; "
+                            "choose a coarser mesh or close other programs."
+                        ) from None
+                    self._full = FullFactor(
+                        lu, system.sources.starts[:n], system.sources.ends[:n], system.mesh.conductor_index,
+                        model.conductor_names, tuple(c.role for c in model.conductors),
+                        system.length_scale_m, system.plane, np.array(a[:n, n:]),
+                    )
+                return scipy.linalg.lu_solve(self._full.lu, b, check_finite=False)
 
         return linear_solve
 
@@ -220,6 +223,7 @@ class GeometryEditSolver:
                 solves = bordered
                 self.reused_factor = self.bordered = True
             else:
+                self._full = None  # its unchanged block is no longer this one's: free its memory
                 solves = LUSolves(scipy.linalg.lu_factor(block(a, p, p), check_finite=False), starts, ends, ell, plane)
             self._solves = solves
             if len(q) == 0:
