@@ -86,6 +86,8 @@ class GeometryEditSolver:
         in low-rank form (:mod:`solver.bem.far_blocks`; the edited parts keep clear of the rest).
     reused_self_block : True when the edited panels were the previous ones moved rigidly and
         their own block was reused (no ground plane).
+    superposed : True when the last model differed from the one before only in potentials
+        and floating charges, and was answered by superposition (:meth:`Solution.with_potentials`).
     reused_solves : True when the edited panels stayed inside the previous expansion disc
         and A_PP^-1 [U_PE | A_PX] was reused (no solve with A_PP but the right-hand sides).
     """
@@ -96,7 +98,9 @@ class GeometryEditSolver:
         self._solves: LUSolves | BorderedSolves | None = None
         self._full: FullFactor | None = None
         self._far: FarParts | None = None
+        self._last: Solution | None = None
         self.bordered = False
+        self.superposed = False
         self.reused_panels = 0
         self.reused_factor = False
         self.far_blocks = False
@@ -107,15 +111,23 @@ class GeometryEditSolver:
               cancel: CancelCallback | None = None) -> Solution:
         """Solve ``model`` (no error estimate), reusing the previous solve where possible."""
         settings = settings or MeshSettings.for_density(model.mesh_density)
-        mesh = discretize_boundary(model, settings)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
         self.reused_solves = self.bordered = False
+        self.superposed = False
+        superposed = self._superposed(model, settings)
+        if superposed is not None:
+            self.superposed = True
+            return superposed
+        self._last = None
+        mesh = discretize_boundary(model, settings)
         if model.dielectrics:
             self._previous, self._far, self._full = None, None, None
-            return solve_mesh(model, mesh, cancel)
+            self._last = solve_mesh(model, mesh, cancel)
+            return self._last
         large = solve_if_large(model, mesh, cancel)
         if large is not None:
             self._previous, self._far, self._full = None, None, None
+            self._last = large
             return large
         kept_new, kept_old = self._unchanged(model, mesh)
         block, full_parts = None, None
@@ -137,7 +149,20 @@ class GeometryEditSolver:
         solution = solve_system(system, cancel, linear_solve)
         self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
                                    system.plane, system.matrix)
+        self._last = solution
         return solution
+
+    def _superposed(self, model: Model, settings: MeshSettings) -> Solution | None:
+        """The last solution at ``model``'s potentials and floating charges, when ``model``
+        differs from the last one in nothing else (:meth:`Solution.with_potentials`, no solve)."""
+        last = self._last
+        if (last is None or last.unit_solutions is None or last.mesh.settings != settings
+                or not last.unit_solutions.matches(model) or model.conductor_names != last.model.conductor_names):
+            return None
+        fixed = {c.name: c.potential_V for c in model.conductors if c.role == "fixed"}
+        floating = {c.name: c.charge_C_per_m for c in model.conductors if c.role == "floating"}
+        moved = last.with_potentials(fixed, floating or None)
+        return moved if moved.model == model else None
 
     def _fresh_solver(self, system: BoundarySystem):
         """A solve with the LU factors of the whole matrix, kept for the next edit

@@ -164,3 +164,16 @@ def test_dragging_one_bar_then_the_other_equals_fresh_solves():
         assert edits.reused_panels > 0 and edits.far_blocks
         _assert_same(edited, solver.solve(model, estimate_error=False))
 
+
+
+def test_a_potential_change_is_superposed_and_a_drag_goes_on_after_it():
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    assert not edits.superposed
+    other = model.with_potentials({"L1": 12e3, "L2": -6e3})
+    _assert_same(edits.solve(other), solver.solve(other, estimate_error=False))
+    assert edits.superposed and edits.reused_panels == 0
+    moved = _moved(other, "L1", 1.0, 0.0)  # geometry: not superposable
+    _assert_same(edits.solve(moved), solver.solve(moved, estimate_error=False))
+    assert not edits.superposed and edits.far_blocks and edits.bordered
