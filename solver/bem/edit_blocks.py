@@ -77,13 +77,16 @@ class FarParts:
 
     def self_block_if_moved(self, starts: np.ndarray, ends: np.ndarray, plane: float | None,
                             radius: float) -> np.ndarray | None:
-        """A_EE again when the edited panels are these ones moved rigidly (no plane: the log
-        kernel depends only on differences), else None. Positions may differ by round-off of
-        the translation (1e-13 of the group's radius)."""
-        if plane is not None or self.plane is not None or starts.shape != self.starts.shape:
+        """A_EE again when the edited panels are these ones moved rigidly (the log kernel
+        depends only on differences; with a ground plane only along it, as the images then
+        move with them), else None. Positions may differ by round-off of the translation
+        (1e-13 of the group's radius)."""
+        if plane != self.plane or starts.shape != self.starts.shape:
             return None
         shift = starts[0] - self.starts[0]
         tol = TRANSLATION_TOLERANCE * radius
+        if plane is not None and abs(shift[1]) > tol:
+            return None
         if (np.max(np.abs(starts - self.starts - shift)) <= tol
                 and np.max(np.abs(ends - self.ends - shift)) <= tol):
             return self.self_block

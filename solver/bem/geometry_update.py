@@ -26,7 +26,8 @@ of the expansions is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and ke
 edited panels stay inside it, so during a drag those solves are reused too and a step costs
 the new rows and columns in low-rank form,
 a Schur complement of |Q| unknowns and the right-hand sides; when the edited panels are the
-previous ones moved rigidly (no ground plane), their own block A_QQ is reused as well.
+previous ones moved rigidly (along the ground plane, when there is one), their own block
+A_QQ is reused as well.
 
 The capacitance matrix and conductor potentials equal a fresh :func:`solver.bem.solve.solve_mesh`
 to 1e-12 relative (tested). Single panel strengths agree to about 1e-8 of the largest with the
@@ -84,8 +85,8 @@ class GeometryEditSolver:
         solve (:class:`solver.bem.block_solves.BorderedSolves`; the first edit of a conductor).
     far_blocks : True when the blocks between the edited and the unchanged panels were taken
         in low-rank form (:mod:`solver.bem.far_blocks`; the edited parts keep clear of the rest).
-    reused_self_block : True when the edited panels were the previous ones moved rigidly and
-        their own block was reused (no ground plane).
+    reused_self_block : True when the edited panels were the previous ones moved rigidly
+        (along the ground plane, when there is one) and their own block was reused.
     superposed : True when the last model differed from the one before only in potentials
         and floating charges, and was answered by superposition (:meth:`Solution.with_potentials`).
     reused_solves : True when the edited panels stayed inside the previous expansion disc

@@ -114,7 +114,8 @@ def test_dragging_a_floating_wire_over_a_ground_plane_equals_fresh_solves():
         Conductor("lv", (Circle((-15.0, 10.0), 1.5),), potential_V=-200.0),
         Conductor("mast", (Rectangle((30.0, 16.0), 2.0, 30.0),), role="reference"),
     ))
-    _drag(model, "float", [(0.5, 0.0), (0.5, 1.0)])
+    rigid, _ = _drag(model, "float", [(0.5, 0.0), (0.5, 0.0), (0.5, 1.0)])
+    assert rigid == [False, True, False]  # along the plane the images move with the wire
 
 
 def test_floating_conductors_without_a_plane_equal_fresh_solves():
