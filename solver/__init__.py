@@ -37,27 +37,25 @@ from solver.figures.equilibrium import EquilibriumCharge, equilibrium_charge, eq
 from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
-from solver.hot_spots.air_region import AirRegionPeak
-from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
-from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
-from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
-from solver.hot_spots.margins import (
+from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,
-    ConductorMargin,
-    MarginReport,
     air_breakdown_field_V_per_m,
     air_conditions_of,
-    assess_margins,
     peek_corona_onset_field_V_per_m,
     pressure_at_altitude_Pa,
     relative_air_density,
     relative_air_density_at_altitude,
     with_air_conditions,
 )
+from solver.hot_spots.air_region import AirRegionPeak
+from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
+from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from solver.hot_spots.margins import ConductorMargin, MarginReport, assess_margins
 from solver.hot_spots.verdict import (
     LOW_VOLTAGE_THRESHOLD_V,
     CautionVerdict,
