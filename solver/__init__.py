@@ -30,6 +30,7 @@ from solver.errors import (
     ProjectFileError,
     SolveCancelled,
     SolverError,
+    SuperpositionError,
 )
 from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
@@ -75,6 +76,8 @@ from solver.hot_spots.voltage_basis import (
 )
 from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
+from solver.model import *  # noqa: F403 - the model layer's public names are the solver's own
+from solver.model import __all__ as _MODEL_NAMES
 from solver.model.materials import (
     MATERIALS,
     Material,
@@ -86,35 +89,18 @@ from solver.model.materials import (
     material_names,
     region_is_air,
 )
-from solver.model.model import (
-    LENGTH_UNITS,
-    MESH_DENSITIES,
-    ROLES,
-    Circle,
-    Conductor,
-    Dielectric,
-    GroundPlane,
-    Model,
-    Polygon,
-    Rectangle,
-    Ring,
-    Shape,
-    Strip,
-)
-from solver.model.shapes import DRAWING_ARC_STEP_RAD, SHAPE_KINDS, Arc, MeshingHints
+from solver.model.shapes import DRAWING_ARC_STEP_RAD
 from solver.samples import sample_names, sample_path, samples_dir
 
 __all__ = [
-    "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
-    "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
-    "SHAPE_KINDS", "Arc", "MeshingHints", "DRAWING_ARC_STEP_RAD",
+    *_MODEL_NAMES, "DRAWING_ARC_STEP_RAD",
     "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
     "PeakField", "Solution", "solve", "solve_mesh", "with_error_estimate", "GeometryEditSolver",
     "EquilibriumCharge", "equilibrium_charge", "equivalent_radius_m",
     "mutual_from_maxwell", "maxwell_matrix_problems",
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
-    "ProjectFileError", "SolveCancelled",
+    "ProjectFileError", "SolveCancelled", "SuperpositionError",
     "PROJECT_FORMAT_VERSION", "load_project", "save_project", "model_to_dict", "model_from_dict",
     "FieldLine", "GridField", "evaluate_at_points", "evaluate_on_grid", "trace_field_lines",
     "HotSpot", "HotSpotReport", "analyse_hot_spots", "richardson_estimate",

@@ -22,9 +22,8 @@ from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
-from solver.bem.superposition import UnitSolutions, driver_columns
+from solver.bem.superposition import UnitSolutions, solve_columns
 from solver.bem.system import BoundarySystem, build_system
-from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
 from solver.mesh.budget import max_panels
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, estimate_conductor_panels
@@ -76,17 +75,7 @@ def solve_system(
             "choose a coarser mesh or close other programs."
         ) from None
 
-    n_cond = len(model.conductors)
-    fixed, floating, unit_potentials, unit_charges = driver_columns(model)
-    potentials = np.zeros((n_cond, 1))
-    charges = np.zeros_like(potentials)
-    for k, c in enumerate(model.conductors):
-        if c.role == "fixed":
-            potentials[k, 0] = c.potential_V
-        elif c.role == "floating":
-            charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
-    potentials = np.hstack([potentials, unit_potentials])
-    charges = np.hstack([charges, unit_charges])
+    fixed, floating, potentials, charges = solve_columns(model)
     rhs = right_hand_sides(mesh, layout, potentials, charges)
     if linear_solve is not None:
         x = linear_solve(rhs)
