@@ -68,6 +68,9 @@ LABEL_FILL = (255, 255, 255, 215)
 HOT_SPOT_FILL = "#000000"
 HOT_SPOT_RIM = "#ffffff"
 
+#: Surface charge drawn as sticks over a shading (the shading holds the one colour key).
+CHARGE_STICK = "#1a1a1a"
+
 #: The probe line and its end marks.
 PROBE = "#000000"
 
