@@ -189,6 +189,8 @@ class SummaryBlock(QWidget):
     """The fixed summary above the results sections."""
 
     show_where = Signal()
+    #: The freshness state after each change (one of :data:`STATES`), for the Solve button.
+    state_changed = Signal(str)
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
@@ -274,3 +276,4 @@ class SummaryBlock(QWidget):
                 value.setStyleSheet(f"color: {colours.TEXT}; font-weight: bold;")
             self.form.addRow(name, value)
         self.caution.set_stale(dim)
+        self.state_changed.emit(self.state)
