@@ -282,13 +282,53 @@ def _count(plans: list[_RingPlan], settings: MeshSettings, why: list[str]) -> tu
     return float(by_conductor.sum()), why[worst] if why else ""
 
 
-def _signed_arc_radius(p: np.ndarray, q: np.ndarray, centre: np.ndarray, radius: float) -> float:
-    """Radius of the arc the edge p -> q is a chord of, > 0 when its centre lies on the
-    material (left) side; ``inf`` for a straight edge (NaN radius)."""
-    if not np.isfinite(radius):
-        return math.inf
-    t, c = q - p, centre - 0.5 * (p + q)
-    return float(radius if t[0] * c[1] - t[1] * c[0] > 0 else -radius)
+def _signed_arc_radii(points: np.ndarray, closed: bool, centres: np.ndarray, radii: np.ndarray) -> np.ndarray:
+    """Radius of the arc each edge p -> q of a ring is a chord of, > 0 when its centre lies on
+    the material (left) side; ``inf`` for a straight edge (NaN radius)."""
+    n_edges = len(points) if closed else len(points) - 1
+    p, q = points[:n_edges], np.roll(points, -1, axis=0)[:n_edges]
+    radii = np.asarray(radii, dtype=float).reshape(-1)[:n_edges]
+    t, c = q - p, np.asarray(centres, dtype=float).reshape(-1, 2)[:n_edges] - 0.5 * (p + q)
+    with np.errstate(invalid="ignore"):
+        left = t[:, 0] * c[:, 1] - t[:, 1] * c[:, 0] > 0
+    return np.where(np.isfinite(radii), np.where(left, radii, -radii), math.inf)
+
+
+def _ring_breaks(plan: _RingPlan, settings: MeshSettings) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Start and end (distance from the edge's first point, metres) of every panel of a ring,
+    and the edge each panel lies on, in order along the ring.
+
+    An edge that :func:`graded_panels` would give one panel (shorter than the smaller end size,
+    or overshot by more than half of the second size taken) gets it here, with the same
+    arithmetic (the size scaled to the length: ``h * (length / h)``), so those edges (the many
+    short chords of polygonised arcs) are done at once and only the others are graded one by one.
+    """
+    length, ratio, h_max = plan.edge_len, settings.growth_ratio, plan.h_max
+    h_s, h_e = np.minimum(plan.h_start, h_max), np.minimum(plan.h_end, h_max)
+    h = np.minimum(h_s, h_e)
+    # the second size the two runs would take when they meet; one panel is kept when the
+    # two overshoot the edge by more than half the second (graded_panels drops it then)
+    start_first = h_s <= h_e
+    a, b = np.where(start_first, h_s * ratio, h_s), np.where(start_first, h_e, h_e * ratio)
+    second = np.where(a <= b, a, b)
+    ends_ok = np.isfinite(plan.h_start) & (plan.h_start > 0) & np.isfinite(plan.h_end) & (plan.h_end > 0)
+    with np.errstate(invalid="ignore"):
+        fits = (length <= h) | (((h + second) >= length) & ((h + second) - length > 0.5 * second))
+        single = (ends_ok & np.isfinite(length) & (length > 0) & fits
+                  & (math.isfinite(h_max) and h_max > 0 and math.isfinite(ratio) and ratio > 1.0))
+    counts = np.ones(len(length), dtype=np.int64)
+    graded = {}
+    for e in np.flatnonzero(~single):
+        graded[e] = graded_panels(length[e], plan.h_start[e], plan.h_end[e], h_max, ratio)
+        counts[e] = len(graded[e]) - 1
+    owner = np.repeat(np.arange(len(length)), counts)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        lo, hi = np.zeros(len(owner)), np.repeat(h * (length / h), counts)
+    first = np.cumsum(counts) - counts
+    for e, breaks in graded.items():
+        lo[first[e]:first[e] + counts[e]] = breaks[:-1]
+        hi[first[e]:first[e] + counts[e]] = breaks[1:]
+    return lo, hi, owner
 
 
 def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> PanelMesh:
@@ -322,30 +362,30 @@ def discretize_boundary(model: Model, settings: MeshSettings | None = None) -> P
     corner_beta: list[float] = []
     travelled_by_conductor: dict[int, float] = {}
     for r, plan in enumerate(plans):
-        ring, h_max, is_corner = plan.ring, plan.h_max, plan.is_corner
+        ring, is_corner = plan.ring, plan.is_corner
         pts, beta, edge_len = ring.points, plan.beta, plan.edge_len
         singular = is_corner & (beta > math.pi + CORNER_TURN_RAD)
         corners.extend(pts[singular])
         corner_cond.extend([ring.conductor_index] * int(singular.sum()))
         corner_beta.extend(beta[singular])
         travelled = travelled_by_conductor.get(ring.conductor_index, 0.0)
-        for e in range(len(edge_len)):
-            p, q = pts[e], pts[(e + 1) % len(pts)]
-            h_s, h_e = plan.h_start[e], plan.h_end[e]
-            breaks = graded_panels(edge_len[e], h_s, h_e, h_max, settings.growth_ratio)
-            t = breaks / edge_len[e]
-            seg = p[None, :] + t[:, None] * (q - p)[None, :]
-            starts.append(seg[:-1])
-            ends.append(seg[1:])
-            m = len(t) - 1
-            cond.append(np.full(m, ring.conductor_index))
-            ring_idx.append(np.full(m, r))
-            strip.append(np.full(m, not ring.closed))
-            arc.append(travelled + 0.5 * (breaks[:-1] + breaks[1:]))
-            arc_r.append(np.full(m, _signed_arc_radius(p, q, ring.edge_arc_centres[e], ring.edge_arc_radii[e])))
-            arc_c.append(np.tile(ring.edge_arc_centres[e], (m, 1)))
-            travelled += edge_len[e]
-        travelled_by_conductor[ring.conductor_index] = travelled
+        lo, hi, owner = _ring_breaks(plan, settings)
+        n_edges = len(edge_len)
+        p = pts[:n_edges]
+        d = (np.roll(pts, -1, axis=0)[:n_edges] - p)[owner]
+        p = p[owner]
+        length = edge_len[owner]
+        starts.append(p + (lo / length)[:, None] * d)
+        ends.append(p + (hi / length)[:, None] * d)
+        m = len(owner)
+        cond.append(np.full(m, ring.conductor_index))
+        ring_idx.append(np.full(m, r))
+        strip.append(np.full(m, not ring.closed))
+        before = np.add.accumulate(np.r_[travelled, edge_len])  # in edge order, as a running sum
+        arc.append(before[:-1][owner] + 0.5 * (lo + hi))
+        arc_r.append(_signed_arc_radii(pts, ring.closed, ring.edge_arc_centres, ring.edge_arc_radii)[owner])
+        arc_c.append(np.asarray(ring.edge_arc_centres, dtype=float).reshape(-1, 2)[owner])
+        travelled_by_conductor[ring.conductor_index] = float(before[-1])
 
     return PanelMesh(
         starts=np.concatenate(starts),
