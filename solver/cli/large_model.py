@@ -53,8 +53,13 @@ def is_large_solution(solution: Solution) -> bool:
 
 
 def _panels_of(panels: CurvedPanels, conductors: list[int], order: int) -> CurvedPanels:
-    on = np.isin(panels.conductor_index, conductors)
-    return CurvedPanels(panels.pieces, panels.piece_index[on], panels.s0[on], panels.s1[on], order)
+    """The panels of the given conductors only (with only their pieces), ``order`` nodes each."""
+    keep = np.flatnonzero([p.conductor_index in conductors for p in panels.pieces])
+    new_index = np.full(len(panels.pieces), -1)
+    new_index[keep] = np.arange(len(keep))
+    on = np.isin(panels.piece_index, keep)
+    return CurvedPanels(tuple(panels.pieces[i] for i in keep), new_index[panels.piece_index[on]],
+                        panels.s0[on], panels.s1[on], order)
 
 
 def equivalent_radius_with_error(solution: HighOrderSolution, names: list[str]) -> tuple[float, float]:
@@ -75,9 +80,30 @@ def equivalent_radius_with_error(solution: HighOrderSolution, names: list[str]) 
     return cap, abs(cap - check) / cap
 
 
+def _shape_key(panels: CurvedPanels, k: int) -> bytes:
+    """Conductor k's nodes relative to its first node: equal for translated copies meshed alike
+    (whose logarithmic capacity is the same; it does not change under translation)."""
+    nodes = panels.nodes[panels.conductor_index == k].reshape(-1, 2)
+    relative = nodes - nodes[0]
+    scale = float(np.abs(relative).max()) or 1.0
+    return np.round(relative / scale, 12).tobytes() + np.float64(scale).tobytes()
+
+
 def equivalent_radii(solution: HighOrderSolution) -> tuple[tuple[float, ...], tuple[float, ...]]:
-    """Each conductor's equivalent radius alone (metres) and its estimated relative error."""
-    pairs = [equivalent_radius_with_error(solution, [name]) for name in solution.conductor_names]
+    """Each conductor's equivalent radius alone (metres) and its estimated relative error.
+
+    Conductors whose panels are translated copies of one already solved (the bars of a bus)
+    take its figures instead of being solved again.
+    """
+    panels = solution.panels
+    assert panels is not None
+    known: dict[bytes, tuple[float, float]] = {}
+    pairs = []
+    for k, name in enumerate(solution.conductor_names):
+        key = _shape_key(panels, k)
+        if key not in known:
+            known[key] = equivalent_radius_with_error(solution, [name])
+        pairs.append(known[key])
     return tuple(r for r, _ in pairs), tuple(e for _, e in pairs)
 
 
