@@ -70,6 +70,8 @@ class Solution:
         refine (hot spots) start from this pair instead of solving the model again.
     unit_solutions : one solution per fixed conductor at 1 V and per floating conductor at unit
         charge, for :meth:`with_potentials`; None when not kept.
+    stage_seconds : wall time of each stage of :func:`solver.solve` that made this solution
+        (e.g. ``(("meshing", 0.01), ("assembling", 0.2), ...)``), seconds; empty when unknown.
     """
 
     model: Model
@@ -99,6 +101,7 @@ class Solution:
     coarse_mesh_panels: int | None = None
     coarse: Solution | None = field(default=None, compare=False, repr=False)
     unit_solutions: UnitSolutions | None = None
+    stage_seconds: tuple[tuple[str, float], ...] = field(default=(), compare=False)
 
     #: The permittivity the scaled strengths refer to (vacuum), F/m.
     permittivity_F_per_m = EPSILON_0_F_PER_M

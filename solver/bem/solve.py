@@ -13,6 +13,7 @@ from __future__ import annotations
 import dataclasses
 import logging
 import math
+import time
 from collections.abc import Callable
 
 import numpy as np
@@ -222,13 +223,35 @@ def solve(
     settings = settings or MeshSettings.for_density(model.mesh_density)
 
     report(0.0, "Meshing boundaries")
+    stages: dict[str, float] = {}
+    tick = time.perf_counter()
     mesh = discretize_boundary(model, settings)
+    stages["meshing"] = time.perf_counter() - tick
     report(0.1, f"Solving {mesh.n_panels} panels")
-    solution = solve_mesh(model, mesh, cancel)
-    if not estimate_error:
+    solution = _timed_solve_mesh(model, mesh, cancel, stages)
+    if estimate_error:
+        tick = time.perf_counter()
+        solution = with_error_estimate(solution, settings, lambda f, m: report(0.7 + 0.3 * f, m), cancel)
+        stages["checking"] = time.perf_counter() - tick
+    else:
         report(1.0, "Done")
-        return solution
-    return with_error_estimate(solution, settings, lambda f, m: report(0.7 + 0.3 * f, m), cancel)
+    return dataclasses.replace(solution, stage_seconds=tuple((k, round(v, 6)) for k, v in stages.items()))
+
+
+def _timed_solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None, stages: dict[str, float]) -> Solution:
+    """:func:`solve_mesh`, recording seconds spent assembling and solving in ``stages`` (the fast
+    path, which assembles as it iterates, counts as solving)."""
+    tick = time.perf_counter()
+    large = solve_if_large(model, mesh, cancel)
+    if large is not None:
+        stages["solving"] = time.perf_counter() - tick
+        return large
+    system = build_system(model, mesh)
+    stages["assembling"] = time.perf_counter() - tick
+    tick = time.perf_counter()
+    solution = solve_system(system, cancel)
+    stages["solving"] = time.perf_counter() - tick
+    return solution
 
 
 def with_error_estimate(

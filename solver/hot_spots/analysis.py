@@ -36,6 +36,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from solver.bem.high_order.large_models import is_large, solve_large
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve_mesh
 from solver.errors import InvalidModelError
@@ -130,6 +132,9 @@ class HotSpotReport:
     solution : the solution on the finest mesh.
     air_region : with dielectric regions in air, the largest field in the air (e.g. on the
         outer surface of insulation), else None.
+    method : how the peaks were found: "mesh refinement" (the loop above), or "high-order
+        solution" for a large model (:mod:`solver.hot_spots.large_model_peaks`: no
+        refinement; ``levels`` is then empty and ``n_panels`` holds the unknowns solved).
     """
 
     hot_spots: tuple[HotSpot, ...]
@@ -140,6 +145,7 @@ class HotSpotReport:
     solved_model: Model = field(compare=False, repr=False)
     solution: Solution = field(compare=False, repr=False)
     air_region: AirRegionPeak | None = None
+    method: str = "mesh refinement"
 
     def for_conductor(self, name: str) -> HotSpot:
         """The hot spot of conductor ``name`` (KeyError if it was not analysed)."""
@@ -157,6 +163,7 @@ class HotSpotReport:
         """JSON-ready summary with SI keys (one entry per conductor under ``conductors``)."""
         return {
             "target_relative_error": self.target_relative_error,
+            "method": self.method,
             "corner_radius_m": self.corner_radius_m,
             "levels": list(self.levels),
             "n_panels": list(self.n_panels),
@@ -192,6 +199,12 @@ class HotSpotReport:
         }
 
 
+def _is_large_solution(source: Solution | Model) -> bool:
+    """A solution of the large-model path: its low-order meshes would not fit, so its peaks
+    come from the high-order solution itself."""
+    return isinstance(source, HighOrderSolution) and source.panels is not None and is_large(source.model)
+
+
 def _solutions_at_levels(solution: Solution) -> dict[float, Solution]:
     """The solutions a solve already made, by mesh resolution level (the solution and its coarse companion)."""
     known = {solution.mesh.settings.level: solution}
@@ -218,7 +231,9 @@ def analyse_hot_spots(
     source : Solution or Model
         A solution (from :func:`solver.solve`) to start from: its mesh and the coarser mesh of
         its error estimate are the first two levels of the refinement, so they are not solved
-        again. A Model is solved from scratch at the levels its mesh density implies.
+        again. A Model is solved from scratch at the levels its mesh density implies. A large
+        model (:func:`solver.bem.high_order.large_models.is_large`) is not refined: its peaks
+        come from its high-order solution (:mod:`solver.hot_spots.large_model_peaks`).
     target_relative_error : float
         Stop refining when every non-singular peak's Richardson estimate is at or below this.
     corner_radius_m : float, optional
@@ -253,6 +268,13 @@ def analyse_hot_spots(
     """
     if not (0 < target_relative_error < 1):
         raise InvalidModelError(f"Target relative error is {target_relative_error}; give a number between 0 and 1.")
+    if isinstance(source, Model) and is_large(source):
+        source = solve_large(source)
+    if _is_large_solution(source):
+        from solver.hot_spots.large_model_peaks import large_model_hot_spots
+
+        assert isinstance(source, HighOrderSolution)
+        return large_model_hot_spots(source, target_relative_error, corner_radius_m, conductors)
     if isinstance(source, Solution):
         model, base = source.model, source.mesh.settings.level
     else:
