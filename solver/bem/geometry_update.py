@@ -81,6 +81,8 @@ class GeometryEditSolver:
 
     Attributes
     ----------
+    low_rank : take the blocks between edited and unchanged conductors in low-rank form when
+        they keep clear of each other (True; False assembles them in closed form, for comparison).
     reused_panels : conductor panels whose interactions were copied (not assembled) in the
         last solve; 0 when it was solved afresh.
     reused_factor : True when the last solve reused the LU factors of the unchanged block.
@@ -90,7 +92,8 @@ class GeometryEditSolver:
         their own block was reused (no ground plane).
     """
 
-    def __init__(self) -> None:
+    def __init__(self, low_rank: bool = True) -> None:
+        self.low_rank = low_rank
         self._previous: _Previous | None = None
         self._factor: _Factor | None = None
         self._far: _FarParts | None = None
@@ -116,7 +119,7 @@ class GeometryEditSolver:
         block = None
         if len(kept_new):
             assert self._previous is not None
-            block = _ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far)
+            block = _ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
         system = build_system(model, mesh, block)
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
@@ -288,8 +291,9 @@ class _ReusedBlock:
     low-rank form (``far``) when the edited panels keep clear of the others, else in closed form."""
 
     def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
-                 earlier: _FarParts | None = None) -> None:
+                 earlier: _FarParts | None = None, low_rank: bool = True) -> None:
         self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
+        self.low_rank = low_rank
         self.far: _FarParts | None = None
         self.moved_rigidly = False
 
@@ -308,7 +312,7 @@ class _ReusedBlock:
         if not len(other):
             return out
         sep = separation(starts[other], ends[other], starts[keep], ends[keep], plane)
-        if n_rows == n_cols and sep.usable:
+        if self.low_rank and n_rows == n_cols and sep.usable:
             u_pe, v_e = far_potential_factors(sep, starts[other], ends[other], targets[keep], plane)
             u_ep, v_ep = near_potential_factors(sep, starts[keep], ends[keep], targets[other], plane)
             a_ee = None

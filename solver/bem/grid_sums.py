@@ -248,9 +248,13 @@ def grid_potential_and_gradient_sums(
     # 2. convolve by FFT
     shape = (scipy.fft.next_fast_len(2 * lat.ny - 1, real=True), scipy.fft.next_fast_len(2 * lat.nx - 1, real=True))
     spectra = _kernel_spectra(lat.nx, lat.ny, hx, hy, shape)
-    qhat = scipy.fft.rfft2(lattice_charge, shape)
-    fields = [scipy.fft.irfft2(qhat * k, shape)[: lat.ny, : lat.nx] for k in spectra]
-    s, sx, sy = fields
+    # rfft2 and irfft2 one axis at a time: the charge fills only the first lat.ny of the padded
+    # rows and only the first lat.ny rows of the result are wanted, so the row transforms of
+    # the padding are skipped (the same sums as the 2-D transforms, to rounding)
+    qhat = scipy.fft.fft(scipy.fft.rfft(lattice_charge, shape[1], axis=1), shape[0], axis=0)
+    s, sx, sy = (
+        scipy.fft.irfft(scipy.fft.ifft(qhat * k, axis=0)[: lat.ny], shape[1], axis=1)[:, : lat.nx] for k in spectra
+    )
 
     # 3. corrections in each occupied cell's window, and exact integrals in its core
     cell_ids, cell_of_sub = np.unique(home_j * lat.nx + home_i, return_inverse=True)
@@ -278,8 +282,7 @@ def grid_potential_and_gradient_sums(
     data = np.hstack([moments.real, moments.imag, patches.reshape(n_cells, n_patch * n_patch)])
     correction = data @ operator  # (cells, 3 window)
     size = lat.nx * lat.ny
-    layer = (np.arange(3) * size)[None, :, None]
-    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :]))[:, None, :] + layer
+    layer = (np.arange(3) * size)[:, None]
 
     core_i, core_j = ti[core], tj[core]
     pair_i = (home_i[:, None] + core_i[None, :]).ravel()
@@ -287,7 +290,8 @@ def grid_potential_and_gradient_sums(
     sub = np.repeat(np.arange(len(qs)), len(core_i))
     tgt = np.column_stack([lat.x0 + pair_i * hx, lat.y0 + pair_j * hy])
     exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
-    core_target = (pair_j * lat.nx + pair_i)[None, :] + layer[0]
+    core_target = (pair_j * lat.nx + pair_i)[None, :] + layer
+    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :]))[:, None, :] + layer[None]
     total = np.bincount(
         np.concatenate([window_target.ravel(), core_target.ravel()]),
         np.concatenate([correction.ravel(), exact.ravel()]), minlength=3 * size,

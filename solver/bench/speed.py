@@ -1,12 +1,15 @@
 """Interactive timings (run by ``python -m solver.bench``, or alone as ``python -m solver.bench.speed``).
 
-The busbar sample (sample_geometries/busbar_enclosure.json, normal density): a full solve,
-a potential-only re-solve (:meth:`Solution.with_potentials`), a geometry edit re-solved
-(L1 moved 1 mm) afresh and by :class:`GeometryEditSolver` as a drag step, the 512 x 512
-potential-and-field map (grid sums, :mod:`solver.bem.grid_sums`, and the point-by-point sums
-it replaced, for the ratio), and the solver's part of click-to-drawn in the desktop program:
-the edited model solved without the error estimate plus its 120 x 120 map (what the window
-draws first), then the figures that follow (error estimate, field lines, equivalent radii).
+* the busbar sample (sample_geometries/busbar_enclosure.json, normal density): a full solve,
+  a potential-only re-solve (:meth:`Solution.with_potentials`), a geometry edit re-solved
+  (L1 moved 1 mm) afresh and by :class:`GeometryEditSolver` (first edit, then drag steps
+  with low-rank blocks and, for the ratio, with the closed-form blocks of the earlier code),
+  the 512 x 512 potential-and-field map (grid sums, :mod:`solver.bem.grid_sums`, and the
+  point-by-point sums it replaced, for the ratio), and the solver's part of click-to-drawn in
+  the desktop program: a drag step re-solved plus its 120 x 120 map (what the window draws
+  first), the same after an edit solved afresh, then the figures that follow (error
+  estimate, field lines, equivalent radii).
+
 The 100-conductor bus is in :mod:`solver.bench.bus`.
 
 Wall-clock times on a shared machine are noisy: compare ratios and run twice.
@@ -39,8 +42,19 @@ def _best(f, repeat: int) -> float:
     return min(times)
 
 
+def _best_with_cpu(f, repeat: int) -> tuple[float, float]:
+    """Least wall-clock and least process CPU seconds of ``repeat`` calls of ``f``."""
+    walls, cpus = [], []
+    for _ in range(repeat):
+        t0, c0 = time.perf_counter(), time.process_time()
+        f()
+        walls.append(time.perf_counter() - t0)
+        cpus.append(time.process_time() - c0)
+    return min(walls), min(cpus)
+
+
 def interactive() -> None:
-    """Print the busbar-sample timings."""
+    """Print the busbar-sample timings (wall clock and process CPU; least of a few runs)."""
     model = load_project(SAMPLE)
     t0 = time.perf_counter()
     sol = solve(model, estimate_error=False)
@@ -48,47 +62,63 @@ def interactive() -> None:
     t_pot = _best(lambda: sol.with_potentials({"L1": 12e3, "L2": -6e3}), 20)
     moved = _with_l1_at(model, -39.0)
     t_edit = _best(lambda: solve(moved, estimate_error=False), 2)
-    t_drag = _drag_step(model)
+    (t_first_edit, c_first_edit), drag_low, drag_dense = _drag_steps(model)
     x = np.linspace(-0.16, 0.16, 512)
     y = np.linspace(-0.11, 0.11, 512)
     t0, c0 = time.perf_counter(), time.process_time()
     grid = evaluate_on_grid(sol, x, y)
     t_map, c_map = time.perf_counter() - t0, time.process_time() - c0
-    t_map_again = _best(lambda: evaluate_on_grid(sol, x + 1e-4, y), 1)  # lattice kernels cached
+    t_map_again, c_map_again = _best_with_cpu(lambda: evaluate_on_grid(sol, x + 1e-4, y), 3)  # kernels cached
     xx, yy = np.meshgrid(x, y)
     t0 = time.perf_counter()
     sol.potential_and_field(np.column_stack([xx.ravel(), yy.ravel()]))
     t_map_points = time.perf_counter() - t0
     t_first, t_rest = _click_to_drawn(moved)
-    print(f"\nbusbar sample, normal density ({sol.mesh.n_panels} panels, {sol.n_unknowns} unknowns)")
+    t_click_drag, c_click_drag = _click_while_dragging(model)
+    print(f"\nbusbar sample, normal density ({sol.mesh.n_panels} panels, {sol.n_unknowns} unknowns); "
+          "wall clock, CPU of this process in brackets")
     print(f"  full solve (no error estimate)      {t_solve:9.3f} s")
     print(f"  potential-only re-solve             {t_pot * 1e3:9.3f} ms  (goal < 10 ms)")
-    print(f"  geometry edit re-solved (L1 +1 mm)  {t_edit:9.3f} s   (goal < 0.1 s)")
-    print(f"    reusing the unchanged block       {t_drag:9.3f} s   (a further drag step of L1, "
-          "GeometryEditSolver)")
-    print(f"  512 x 512 potential and field map   {t_map:9.3f} s   (goal < 0.3 s; "
-          f"{np.isfinite(grid.potential_V).sum()} points outside metal; CPU {c_map:.3f} s)")
-    print(f"    again, grid shifted (same steps)  {t_map_again:9.3f} s   (the lattice kernels are reused)")
+    print(f"  geometry edit re-solved (L1 +1 mm)  {t_edit:9.3f} s   (goal < 0.1 s; a fresh solve)")
+    print(f"    first edit of L1, GeometryEdit    {t_first_edit:9.3f} s   [{c_first_edit:.3f}] (factorises the "
+          "block of the other conductors)")
+    print(f"    a further drag step of L1         {drag_low[0]:9.3f} s   [{drag_low[1]:.3f}] (goal < 0.1 s; "
+          "low-rank blocks, own block reused)")
+    print(f"      same step, closed-form blocks   {drag_dense[0]:9.3f} s   [{drag_dense[1]:.3f}] (the earlier "
+          f"code; CPU ratio {drag_dense[1] / drag_low[1]:.1f})")
+    print(f"  512 x 512 potential and field map   {t_map:9.3f} s   [{c_map:.3f}] (goal < 0.3 s; "
+          f"{np.isfinite(grid.potential_V).sum()} points outside metal)")
+    print(f"    again, grid shifted (same steps)  {t_map_again:9.3f} s   [{c_map_again:.3f}] (the lattice "
+          "kernels are reused)")
     print(f"    same nodes point by point         {t_map_points:9.3f} s   (FMM above a size; ratio "
           f"{t_map_points / t_map:.1f})")
-    print(f"  click-to-drawn, solver part         {t_first:9.3f} s   (goal < 0.3 s: edited model solved, "
-          "120 x 120 map)")
+    print(f"  click-to-drawn, solver part         {t_click_drag:9.3f} s   [{c_click_drag:.3f}] (goal < 0.3 s: "
+          "a drag step of L1 and its 120 x 120 map, as the desktop program does)")
+    print(f"    after an edit solved afresh       {t_first:9.3f} s   (edited model solved, 120 x 120 map)")
     print(f"  figures after the drawing           {t_rest:9.3f} s   (error estimate, field lines, "
           "equivalent radii)")
 
 
-def _drag_step(model) -> float:
-    """Seconds for one more 1 mm step of L1 after two earlier ones (the block of L2 and the
-    enclosure is factorised at the first step and reused after)."""
-    edits = GeometryEditSolver()
-    edits.solve(model)
-    steps = [_with_l1_at(model, -40.0 + k) for k in (1, 2, 3)]
-    edits.solve(steps[0])
-    edits.solve(steps[1])
-    t0 = time.perf_counter()
-    edits.solve(steps[2])
-    assert edits.reused_factor
-    return time.perf_counter() - t0
+def _drag_steps(model) -> tuple[tuple[float, float], tuple[float, float], tuple[float, float]]:
+    """(wall, CPU) seconds of the first edit of L1 by :class:`GeometryEditSolver`, and of a
+    further 1 mm step of a drag with low-rank blocks and with closed-form blocks (least of
+    three steps each; the block of L2 and the enclosure is factorised at the first step and
+    reused after)."""
+    out = []
+    for low_rank in (True, False):
+        edits = GeometryEditSolver(low_rank=low_rank)
+        edits.solve(model)
+        t0, c0 = time.perf_counter(), time.process_time()
+        edits.solve(_with_l1_at(model, -39.0))
+        first = (time.perf_counter() - t0, time.process_time() - c0)
+        steps = []
+        for k in range(2, 6):
+            t0, c0 = time.perf_counter(), time.process_time()
+            edits.solve(_with_l1_at(model, -40.0 + k))
+            steps.append((time.perf_counter() - t0, time.process_time() - c0))
+            assert edits.reused_factor and edits.far_blocks == low_rank
+        out.append((first, (min(w for w, _ in steps[1:]), min(c for _, c in steps[1:]))))
+    return out[0][0], out[0][1], out[1][1]
 
 
 def _with_l1_at(model, x: float):
@@ -98,19 +128,41 @@ def _with_l1_at(model, x: float):
     ))
 
 
-def _click_to_drawn(model) -> tuple[float, float]:
-    """Seconds for what the desktop program draws first after an edit (solve without the error
-    estimate, then the potential and field map on about 120 x 120 nodes over the model with a
-    35 % margin, as the window does), and for the figures it finishes after."""
-    t0 = time.perf_counter()
-    sol = solve(model, estimate_error=False)
+def _map_axes(model, n: int = 120) -> tuple[np.ndarray, np.ndarray]:
+    """About n x n nodes over the model with a 35 % margin, metres (as the window's maps)."""
     assert model.bounds() is not None
     x0, y0, x1, y1 = model.bounds()
     pad = 0.35 * max(x1 - x0, y1 - y0)
     side = max(x1 - x0, y1 - y0) + 2 * pad
     cx, cy = 0.5 * (x0 + x1), 0.5 * (y0 + y1)
-    axis = np.linspace(-0.5 * side, 0.5 * side, 120) * model.metres_per_unit
-    evaluate_on_grid(sol, cx * model.metres_per_unit + axis, cy * model.metres_per_unit + axis)
+    axis = np.linspace(-0.5 * side, 0.5 * side, n) * model.metres_per_unit
+    return cx * model.metres_per_unit + axis, cy * model.metres_per_unit + axis
+
+
+def _click_while_dragging(model) -> tuple[float, float]:
+    """(wall, CPU) seconds of what the desktop program computes before it draws a drag step:
+    :class:`GeometryEditSolver` re-solve and the 120 x 120 map (least of three steps)."""
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    edits.solve(_with_l1_at(model, -39.5))
+    walls, cpus = [], []
+    for k in range(3):
+        step = _with_l1_at(model, -39.0 + 0.5 * k)
+        t0, c0 = time.perf_counter(), time.process_time()
+        sol = edits.solve(step)
+        evaluate_on_grid(sol, *_map_axes(step))
+        walls.append(time.perf_counter() - t0)
+        cpus.append(time.process_time() - c0)
+    return min(walls), min(cpus)
+
+
+def _click_to_drawn(model) -> tuple[float, float]:
+    """Seconds for what the desktop program draws first after an edit solved afresh (solve
+    without the error estimate, then the potential and field map on about 120 x 120 nodes
+    over the model with a 35 % margin, as the window does), and for the figures it finishes after."""
+    t0 = time.perf_counter()
+    sol = solve(model, estimate_error=False)
+    evaluate_on_grid(sol, *_map_axes(model))
     t_first = time.perf_counter() - t0
     t0 = time.perf_counter()
     sol = with_error_estimate(sol)

@@ -130,3 +130,16 @@ def test_models_with_dielectrics_are_solved_afresh():
     edited = edits.solve(moved)
     assert edits.reused_panels == 0
     _assert_same(edited, solver.solve(moved, estimate_error=False))
+
+
+def test_closed_form_blocks_on_request_equal_the_low_rank_ones():
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    moved = [_moved(model, "L1", dx, 0.0) for dx in (1.0, 2.0)]
+    results = []
+    for low_rank in (True, False):
+        edits = GeometryEditSolver(low_rank=low_rank)
+        edits.solve(model)
+        results.append([edits.solve(m) for m in moved])
+        assert edits.far_blocks == low_rank and edits.reused_factor
+    for a, b in zip(*results):
+        _assert_same(a, b)
