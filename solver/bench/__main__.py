@@ -4,9 +4,11 @@
    the unit square and the equilateral triangle against their closed forms, by the high-order
    solver at a ladder of tolerances and by the plain low-order solver (straight panels, one
    dense LU) at a ladder of mesh levels.
-2. Interactive timings on the busbar sample, with the 512 x 512 potential-and-field map
+2. Dielectric cases (:mod:`solver.bench.dielectric`): microstrip and two-layer coax by the
+   low-order solver (the high-order one declines regions of other permittivity).
+3. Interactive timings on the busbar sample, with the 512 x 512 potential-and-field map
    (:func:`solver.bench.speed.interactive`).
-3. The 100-conductor bus (:mod:`solver.bench.bus`) through :func:`solver.solve` (coarse
+4. The 100-conductor bus (:mod:`solver.bench.bus`) through :func:`solver.solve` (coarse
    high-order panels): wall and CPU seconds and peak memory of a child process. As the
    baseline, a smaller bus by both that path and the plain low-order dense LU, measured alike,
    and for the full bus what the plain dense LU would need (it does not fit).
@@ -27,7 +29,8 @@ import time
 
 from solver.bench import accuracy, bus
 
-PARTS = ("accuracy", "interactive", "bus")
+PARTS = ("accuracy", "dielectric", "interactive", "bus")
+DIELECTRIC_LEVELS = (0.5, 1.0, 2.0)
 QUICK_TOLERANCES = (1e-6, 1e-10)
 QUICK_LEVELS = (1.0,)
 
@@ -36,6 +39,17 @@ def accuracy_part(tolerances: tuple[float, ...], levels: tuple[float, ...]) -> d
     """Accuracy rows of both solvers on the four closed-form cases."""
     return {"tolerances": list(tolerances), "levels": list(levels),
             "rows": accuracy.accuracy_rows(tolerances, levels)}
+
+
+def dielectric_part(levels: tuple[float, ...]) -> dict:
+    """The dielectric cases (:mod:`solver.bench.dielectric`; the high-order solver declines them,
+    so these are the low-order solver's figures) as the lines it prints."""
+    from solver.bench import dielectric
+
+    text = io.StringIO()
+    with contextlib.redirect_stdout(text):
+        dielectric.run(list(levels))
+    return {"levels": list(levels), "lines": [line for line in text.getvalue().splitlines() if line.strip()]}
 
 
 def interactive_part() -> dict:
@@ -100,8 +114,8 @@ def machine() -> dict:
             "started_utc": time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime())}
 
 
-def run(parts: tuple[str, ...], tolerances: tuple[float, ...], levels: tuple[float, ...], size: int, small: int,
-        as_json: bool) -> dict:
+def run(parts: tuple[str, ...], tolerances: tuple[float, ...], levels: tuple[float, ...],
+        dielectric_levels: tuple[float, ...], size: int, small: int, as_json: bool) -> dict:
     """Run the asked parts; print the tables as they finish (unless ``as_json``); return the document."""
     doc: dict = {"machine": machine()}
     for name in PARTS:
@@ -113,6 +127,9 @@ def run(parts: tuple[str, ...], tolerances: tuple[float, ...], levels: tuple[flo
             lines = accuracy.table_lines(doc[name]["rows"])
             lines.insert(1, "(high-order: the adaptive solver to each tolerance; low-order: straight panels and one "
                             "plain dense LU at each mesh level)")
+        elif name == "dielectric":
+            doc[name] = dielectric_part(dielectric_levels)
+            lines = ["", *doc[name]["lines"]]
         elif name == "interactive":
             doc[name] = interactive_part()
             lines = ["", *doc[name]["lines"]]
@@ -130,14 +147,16 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--quick", action="store_true", help="skip the bus and shorten the accuracy ladders")
     parser.add_argument("--only", choices=PARTS, action="append", help="run only this part (repeatable)")
     parser.add_argument("--tolerances", type=float, nargs="+", help="high-order tolerances of the accuracy part")
-    parser.add_argument("--levels", type=float, nargs="+", help="low-order mesh levels of the accuracy part (normal = 1)")
+    parser.add_argument("--levels", type=float, nargs="+",
+                        help="low-order mesh levels of the accuracy and dielectric parts (normal = 1)")
     parser.add_argument("--bus-size", type=int, default=10, help="bars per row and column of the large bus")
     parser.add_argument("--small-bus-size", type=int, default=3, help="bars per row and column of the baseline bus")
     args = parser.parse_args(argv)
     parts = tuple(args.only) if args.only else tuple(p for p in PARTS if not (args.quick and p == "bus"))
     tolerances = tuple(args.tolerances or (QUICK_TOLERANCES if args.quick else accuracy.TOLERANCES))
     levels = tuple(args.levels or (QUICK_LEVELS if args.quick else accuracy.LEVELS))
-    doc = run(parts, tolerances, levels, args.bus_size, args.small_bus_size, args.json)
+    dielectric_levels = tuple(args.levels or (QUICK_LEVELS if args.quick else DIELECTRIC_LEVELS))
+    doc = run(parts, tolerances, levels, dielectric_levels, args.bus_size, args.small_bus_size, args.json)
     if args.json:
         print(json.dumps(doc, indent=2, allow_nan=False))
     return 0

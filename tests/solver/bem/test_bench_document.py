@@ -16,7 +16,7 @@ def test_json_document_of_the_accuracy_part_has_every_key_and_small_errors(capsy
     assert main(["--json", "--only", "accuracy", "--tolerances", "1e-6", "--levels", "0.5"]) == 0
     doc = json.loads(capsys.readouterr().out)  # nothing but the document on standard output
     assert set(doc) == {"machine", *PARTS}
-    assert doc["interactive"]["skipped"] and doc["bus"]["skipped"]
+    assert doc["interactive"]["skipped"] and doc["bus"]["skipped"] and doc["dielectric"]["skipped"]
     rows = doc["accuracy"]["rows"]
     assert {r["solver"] for r in rows} == {"high-order", "low-order"}
     assert len({r["case"] for r in rows}) == 4 and len(rows) == 8
