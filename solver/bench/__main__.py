@@ -26,6 +26,7 @@ import io
 import json
 import os
 import time
+from collections.abc import Callable
 
 from solver.bench import accuracy, bus
 
@@ -57,9 +58,10 @@ def interactive_part() -> dict:
     and, when it returns them, its figures (``figures``)."""
     from solver.bench.speed import interactive
 
+    timings: Callable[[], object] = interactive  # prints its table; may also return its figures
     text = io.StringIO()
     with contextlib.redirect_stdout(text):
-        figures = interactive()
+        figures = timings()
     return {"lines": [line for line in text.getvalue().splitlines() if line.strip()],
             "figures": figures if isinstance(figures, dict) else None}
 
