@@ -146,6 +146,9 @@ def solver_words(solution: HighOrderSolution) -> str:
     """How a large model was solved, for the summary's header."""
     panels = solution.panels
     assert panels is not None
+    if solution.tolerance is not None:
+        return (f"large model: high-order solver to tolerance {solution.tolerance:.2g} on {panels.n_panels} panels "
+                f"x {panels.order} nodes, {solution.n_unknowns} unknowns")
     return (f"large model: high-order solver on {panels.n_panels} coarse panels x {panels.order} nodes, "
             f"{solution.n_unknowns} unknowns")
 
@@ -157,6 +160,10 @@ def error_words(solution: HighOrderSolution) -> str:
     err = solution.estimated_relative_error
     value = "not estimated" if err is None else f"{err:.2g}"
     what = "capacitance matrix" if solution.has_capacitance else "conductor charges"
+    if solution.tolerance is not None:
+        return (f"Estimated relative error of the {what}: {value} (large model, high-order solver, "
+                f"{solution.n_unknowns} unknowns; change against a check mesh with every panel split; "
+                f"tolerance {solution.tolerance:.2g})")
     return (f"Estimated relative error of the {what}: {value} (large model, high-order solver, "
             f"{solution.n_unknowns} unknowns; change against the same panels with {CHECK_ORDER} nodes "
             f"instead of {panels.order})")

@@ -78,7 +78,7 @@ def large_model_hot_spots(
         k = final.model.conductor_names.index(name)
         peak, where, error, opening, radius = conductor_peak(final, k, sampled)
         near_name, gap, dv = neighbours[k]
-        gap_field = None if gap is None else float(dv / gap)
+        gap_field = None if gap is None or dv is None else float(dv / gap)
         enhancement = None if not gap_field else peak / gap_field
         singular = opening is not None
         node = final.mesh.conductor_index == k
