@@ -60,6 +60,11 @@ class Separation:
     def usable(self) -> bool:
         return self.ratio <= MAX_RATIO
 
+    def holds(self, starts: np.ndarray, ends: np.ndarray) -> bool:
+        """True when every panel (its ends; the disc is convex) lies inside the disc."""
+        pts = np.vstack([starts, ends]) - self.centre
+        return bool(np.max(np.hypot(*pts.T)) <= self.radius)
+
 
 def _segment_distances(point: np.ndarray, starts: np.ndarray, ends: np.ndarray) -> np.ndarray:
     d = ends - starts
@@ -69,11 +74,21 @@ def _segment_distances(point: np.ndarray, starts: np.ndarray, ends: np.ndarray) 
 
 
 def separation(q_starts: np.ndarray, q_ends: np.ndarray, p_starts: np.ndarray, p_ends: np.ndarray,
-               plane: float | None) -> Separation:
-    """The disc around panels Q (their bounding box's centre) and its distance ratio to panels P."""
+               plane: float | None, margin: float = 1.0) -> Separation:
+    """The disc around panels Q (their bounding box's centre) and its distance ratio to panels P.
+
+    ``margin`` > 1 widens the disc (room for the group to move inside it); a widened disc
+    whose ratio would exceed :data:`MAX_RATIO` falls back to the tight one.
+    """
     pts = np.vstack([q_starts, q_ends])
     centre = 0.5 * (pts.min(axis=0) + pts.max(axis=0))
     radius = float(np.max(np.hypot(*(pts - centre).T)))
+    if margin != 1.0:
+        wide = separation(q_starts, q_ends, p_starts, p_ends, plane)
+        if wide.usable and wide.ratio * margin <= MAX_RATIO:
+            radius *= margin
+        else:
+            return wide
     if len(p_starts) == 0 or radius == 0.0:
         return Separation(centre, radius, math.inf, 0)
     gap = float(np.min(_segment_distances(centre, p_starts, p_ends)))
@@ -124,6 +139,11 @@ def far_potential_factors(sep: Separation, q_starts: np.ndarray, q_ends: np.ndar
 
     U is (n_targets, r), V is (r, n_q), r = 1 + 2 K (twice that with a plane).
     """
+    return far_evaluation(sep, targets, plane), panel_moments(sep, q_starts, q_ends, plane)
+
+
+def panel_moments(sep: Separation, q_starts: np.ndarray, q_ends: np.ndarray, plane: float | None) -> np.ndarray:
+    """V of :func:`far_potential_factors`: the multipole moments of each panel in the disc."""
     c, big_r, k_max = sep.centre, sep.radius, sep.terms
     za, zb = _relative(q_starts, c, big_r), _relative(q_ends, c, big_r)
     length = np.hypot(*(q_ends - q_starts).T)  # not |zb - za| R: that difference loses digits on short panels
@@ -131,6 +151,12 @@ def far_potential_factors(sep: Separation, q_starts: np.ndarray, q_ends: np.ndar
     h = _complete_sums(za, zb, k_max + 1)[1:]
     mu = length[None, :] * h / np.arange(2, k_max + 2)[:, None]  # (K, n_q)
     v = np.vstack([length[None, :], _real_pair(mu)])
+    return v if plane is None else np.vstack([v, v])
+
+
+def far_evaluation(sep: Separation, targets: np.ndarray, plane: float | None) -> np.ndarray:
+    """U of :func:`far_potential_factors`: the multipole terms at each far target."""
+    c, big_r, k_max = sep.centre, sep.radius, sep.terms
 
     def evaluation(points: np.ndarray, sign: float) -> np.ndarray:
         w = _relative(points, c, big_r)
@@ -140,8 +166,8 @@ def far_potential_factors(sep: Separation, q_starts: np.ndarray, q_ends: np.ndar
 
     u = evaluation(targets, 1.0)
     if plane is None:
-        return u, v
-    return np.hstack([u, evaluation(mirrored(targets, plane), -1.0)]), np.vstack([v, v])
+        return u
+    return np.hstack([u, evaluation(mirrored(targets, plane), -1.0)])
 
 
 def near_potential_factors(sep: Separation, p_starts: np.ndarray, p_ends: np.ndarray,
@@ -152,10 +178,18 @@ def near_potential_factors(sep: Separation, p_starts: np.ndarray, p_ends: np.nda
 
     U is (n_targets, r), V is (r, n_p), r = 1 + 2 K (twice that with a plane).
     """
-    k_max = sep.terms
+    return near_evaluation(sep, targets, plane), local_coefficients(sep, p_starts, p_ends, plane)
 
-    def factors(centre: np.ndarray, points: np.ndarray, sign: float) -> tuple[np.ndarray, np.ndarray]:
-        big_r = sep.radius
+
+def _image_centre(sep: Separation, plane: float) -> np.ndarray:
+    return mirrored(sep.centre[None, :], plane)[0]
+
+
+def local_coefficients(sep: Separation, p_starts: np.ndarray, p_ends: np.ndarray, plane: float | None) -> np.ndarray:
+    """V of :func:`near_potential_factors`: each far panel's local expansion about the centre."""
+    k_max, big_r = sep.terms, sep.radius
+
+    def coefficients(centre: np.ndarray) -> np.ndarray:
         sa, sb = _relative(p_starts, centre, big_r), _relative(p_ends, centre, big_r)
         step = p_ends - p_starts  # taken before the shift to the centre, which would lose digits
         length = np.hypot(*step.T)
@@ -171,14 +205,21 @@ def near_potential_factors(sep: Separation, p_starts: np.ndarray, p_ends: np.nda
             h = _complete_sums(1.0 / sa, 1.0 / sb, k_max - 1)
             lam[1:] = length[None, :] * h / (np.arange(1, k_max)[:, None] * (sa * sb)[None, :])
         g0 = log_potential_integrals(centre[None, :], p_starts, p_ends)  # (1, n_p)
-        vv = np.vstack([g0, _real_pair(lam)])
-        pw = _powers(_relative(points, centre, big_r), k_max)  # v^k / k
-        # -(G(c) - Re sum v^k lambda_k / k)
-        uu = np.hstack([-np.ones((len(points), 1)), pw.real, -pw.imag])
-        return sign * uu, vv
+        return np.vstack([g0, _real_pair(lam)])
 
-    u, v = factors(sep.centre, targets, 1.0)
+    v = coefficients(sep.centre)
+    return v if plane is None else np.vstack([v, coefficients(_image_centre(sep, plane))])
+
+
+def near_evaluation(sep: Separation, targets: np.ndarray, plane: float | None) -> np.ndarray:
+    """U of :func:`near_potential_factors`: the local terms at each target in the disc."""
+
+    def evaluation(centre: np.ndarray, points: np.ndarray, sign: float) -> np.ndarray:
+        pw = _powers(_relative(points, centre, sep.radius), sep.terms)  # v^k / k
+        # -(G(c) - Re sum v^k lambda_k / k)
+        return sign * np.hstack([-np.ones((len(points), 1)), pw.real, -pw.imag])
+
+    u = evaluation(sep.centre, targets, 1.0)
     if plane is None:
-        return u, v
-    ui, vi = factors(mirrored(sep.centre[None, :], plane)[0], mirrored(targets, plane), -1.0)
-    return np.hstack([u, ui]), np.vstack([v, vi])
+        return u
+    return np.hstack([u, evaluation(_image_centre(sep, plane), mirrored(targets, plane), -1.0)])

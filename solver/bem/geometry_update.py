@@ -18,8 +18,11 @@ costly as a plain solve); every further edit of the same conductor reuses it, as
 When the edited conductors keep clear of the others (a disc around them, R / D <= 0.6 of
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
 multipole and local expansions (:mod:`solver.bem.far_blocks`, about 80 terms instead of
-|Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|; when the edited panels are
-the previous ones moved rigidly (a drag, no ground plane), their own block A_QQ is reused.
+|Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc of the expansions
+is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the edited panels stay inside it, so during a
+drag those solves are reused too and a step costs the new rows and columns in low-rank form,
+a Schur complement of |Q| unknowns and the right-hand sides; when the edited panels are the
+previous ones moved rigidly (no ground plane), their own block A_QQ is reused as well.
 
 The capacitance matrix and conductor potentials equal a fresh :func:`solver.bem.solve.solve_mesh`
 to 1e-12 relative (tested). Single panel strengths agree to about 1e-8 of the largest with the
@@ -37,9 +40,8 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.linalg
 
-from solver.bem.assembly import single_layer_potential_matrix
 from solver.bem.blas_threads import blas_threads_for
-from solver.bem.far_blocks import far_potential_factors, near_potential_factors, separation
+from solver.bem.edit_blocks import FarParts, ReusedBlock, block
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -48,11 +50,6 @@ from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
-
-#: Largest difference (fraction of the edited group's radius) between the panels of an edited
-#: conductor and the previous ones moved rigidly for which their own block is reused.
-TRANSLATION_TOLERANCE = 1e-13
-
 
 @dataclass(frozen=True)
 class _Previous:
@@ -90,17 +87,21 @@ class GeometryEditSolver:
         in low-rank form (:mod:`solver.bem.far_blocks`; the edited parts keep clear of the rest).
     reused_self_block : True when the edited panels were the previous ones moved rigidly and
         their own block was reused (no ground plane).
+    reused_solves : True when the edited panels stayed inside the previous expansion disc
+        and A_PP^-1 [U_PE | A_PX] was reused (no solve with A_PP but the right-hand sides).
     """
 
     def __init__(self, low_rank: bool = True) -> None:
         self.low_rank = low_rank
         self._previous: _Previous | None = None
         self._factor: _Factor | None = None
-        self._far: _FarParts | None = None
+        self._far: FarParts | None = None
+        self._z: tuple | None = None
         self.reused_panels = 0
         self.reused_factor = False
         self.far_blocks = False
         self.reused_self_block = False
+        self.reused_solves = False
 
     def solve(self, model: Model, settings: MeshSettings | None = None,
               cancel: CancelCallback | None = None) -> Solution:
@@ -108,6 +109,7 @@ class GeometryEditSolver:
         settings = settings or MeshSettings.for_density(model.mesh_density)
         mesh = discretize_boundary(model, settings)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
+        self.reused_solves = False
         if model.dielectrics:
             self._previous, self._far = None, None
             return solve_mesh(model, mesh, cancel)
@@ -119,7 +121,7 @@ class GeometryEditSolver:
         block = None
         if len(kept_new):
             assert self._previous is not None
-            block = _ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
+            block = ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank)
         system = build_system(model, mesh, block)
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
@@ -162,7 +164,7 @@ class GeometryEditSolver:
         return np.concatenate(new_parts), np.concatenate(old_parts)
 
     # ---- block elimination ---------------------------------------------------------------
-    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: _FarParts | None):
+    def _block_solver(self, system: BoundarySystem, p: np.ndarray, far: FarParts | None):
         a = system.matrix
         q = np.setdiff1d(np.arange(len(a)), p)
         starts, ends = system.sources.starts[p], system.sources.ends[p]
@@ -173,17 +175,17 @@ class GeometryEditSolver:
                 lu_pp = f.lu
                 self.reused_factor = True
             else:
-                lu_pp = scipy.linalg.lu_factor(_block(a, p, p), check_finite=False)
+                lu_pp = scipy.linalg.lu_factor(block(a, p, p), check_finite=False)
                 self._factor = _Factor(starts, ends, system.length_scale_m, system.plane, lu_pp)
             if len(q) == 0:
                 return lambda b: scipy.linalg.lu_solve(lu_pp, b, check_finite=False)
         if far is not None:
             with blas_threads_for(len(q)):
-                return _far_solver(a, p, q, lu_pp, far)
+                return self._far_solver(a, p, q, lu_pp, far)
         with blas_threads_for(len(a)):
-            a_pq, a_qp = _block(a, p, q), _block(a, q, p)
+            a_pq, a_qp = block(a, p, q), block(a, q, p)
             y = scipy.linalg.lu_solve(lu_pp, a_pq, check_finite=False)
-            lu_s = scipy.linalg.lu_factor(_block(a, q, q) - a_qp @ y, check_finite=False)
+            lu_s = scipy.linalg.lu_factor(block(a, q, q) - a_qp @ y, check_finite=False)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
             with blas_threads_for(len(a)):
@@ -196,146 +198,53 @@ class GeometryEditSolver:
 
         return linear_solve
 
+    def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, lu_pp: tuple, far: FarParts):
+        """Block elimination with A_PQ and A_QP in low-rank form.
 
-def _far_solver(a: np.ndarray, p: np.ndarray, q: np.ndarray, lu_pp: tuple, far: _FarParts):
-    """Block elimination with A_PQ and A_QP in low-rank form.
-
-    Q = the edited panels E (first in ``q``, as ``far.edited``) and the extra unknowns X
-    (floating potentials, phi_inf). A_PQ = [U_PE | A_PX] diag(V_E, I) and
-    A_QP = [[U_EP V_EP], [A_XP]], so Y = A_PP^-1 A_PQ = Z diag(V_E, I) with
-    Z = A_PP^-1 [U_PE | A_PX]: r + |X| columns instead of |Q|.
-    """
-    n_edit = len(far.edited)
-    assert np.array_equal(q[:n_edit], far.edited)
-    x_idx = q[n_edit:]
-    a_px, a_xp = _block(a, p, x_idx), _block(a, x_idx, p)
-    u_pe, v_e = far.kept_from_edited
-    u_ep, v_ep = far.edited_from_kept
-    z = scipy.linalg.lu_solve(lu_pp, np.hstack([u_pe, a_px]), check_finite=False)
-    rank, n_x = u_pe.shape[1], len(x_idx)
-
-    def from_kept(values: np.ndarray) -> np.ndarray:
-        """A_QP @ values for (n_p, m) values."""
-        return np.vstack([u_ep @ (v_ep @ values), a_xp @ values])
-
-    def to_columns(zq: np.ndarray) -> np.ndarray:
-        """diag(V_E, I) @ x_Q."""
-        return np.vstack([v_e @ zq[:n_edit], zq[n_edit:]])
-
-    w = from_kept(z)  # A_QP Z, (|Q|, r + |X|)
-    s = np.array(_block(a, q, q))  # a copy: the block may be a view of the system matrix
-    s[:, :n_edit] -= w[:, :rank] @ v_e
-    s[:, n_edit:] -= w[:, rank:rank + n_x]
-    lu_s = scipy.linalg.lu_factor(s, check_finite=False, overwrite_a=True)
-
-    def linear_solve(b: np.ndarray) -> np.ndarray:
-        with blas_threads_for(len(q)):
-            yb = scipy.linalg.lu_solve(lu_pp, b[p], check_finite=False)
-            x_q = scipy.linalg.lu_solve(lu_s, b[q] - from_kept(yb), check_finite=False)
-            x = np.empty_like(b)
-            x[p] = yb - z @ to_columns(x_q)
-            x[q] = x_q
-        return x
-
-    return linear_solve
-
-
-def _index(idx: np.ndarray):
-    """A slice when ``idx`` is a run of consecutive indices (copies without a gather), else ``idx``."""
-    if len(idx) and idx[-1] - idx[0] == len(idx) - 1 and np.all(np.diff(idx) == 1):
-        return slice(int(idx[0]), int(idx[-1]) + 1)
-    return idx
-
-
-def _block(a: np.ndarray, rows: np.ndarray, cols: np.ndarray) -> np.ndarray:
-    r, c = _index(rows), _index(cols)
-    if isinstance(r, slice) and isinstance(c, slice):
-        return a[r, c]
-    if isinstance(r, slice):
-        return a[r][:, cols]
-    if isinstance(c, slice):
-        return a[rows, c]
-    return a[np.ix_(rows, cols)]
-
-
-@dataclass(frozen=True)
-class _FarParts:
-    """Low-rank blocks between the edited panels E and the kept panels P (scaled), as (U, V)."""
-
-    edited: np.ndarray
-    kept_from_edited: tuple[np.ndarray, np.ndarray]  # A_PE = U @ V
-    edited_from_kept: tuple[np.ndarray, np.ndarray]  # A_EP = U @ V
-    starts: np.ndarray  # of the edited panels
-    ends: np.ndarray
-    plane: float | None
-    self_block: np.ndarray  # A_EE
-
-    def self_block_if_moved(self, starts: np.ndarray, ends: np.ndarray, plane: float | None,
-                            radius: float) -> np.ndarray | None:
-        """A_EE again when the edited panels are these ones moved rigidly (no plane: the log
-        kernel depends only on differences), else None. Positions may differ by round-off of
-        the translation (1e-13 of the group's radius)."""
-        if plane is not None or self.plane is not None or starts.shape != self.starts.shape:
-            return None
-        shift = starts[0] - self.starts[0]
-        tol = TRANSLATION_TOLERANCE * radius
-        if (np.max(np.abs(starts - self.starts - shift)) <= tol
-                and np.max(np.abs(ends - self.ends - shift)) <= tol):
-            return self.self_block
-        return None
-
-
-class _ReusedBlock:
-    """The conductor-row panel block of a system, with the unchanged conductors' mutual block
-    copied from the previous matrix and only the other rows and columns assembled: in
-    low-rank form (``far``) when the edited panels keep clear of the others, else in closed form."""
-
-    def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
-                 earlier: _FarParts | None = None, low_rank: bool = True) -> None:
-        self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
-        self.low_rank = low_rank
-        self.far: _FarParts | None = None
-        self.moved_rigidly = False
-
-    def __call__(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray,
-                 plane: float | None) -> np.ndarray:
-        n_rows, n_cols = len(targets), len(starts)
-        keep = self.kept_new
-        other = np.setdiff1d(np.arange(n_rows), keep)
-        out = np.empty((n_rows, n_cols))
-        kept = _block(self.previous, self.kept_old, self.kept_old)
-        k = _index(keep)
-        if isinstance(k, slice):
-            out[k, k] = kept
+        Q = the edited panels E (first in ``q``, as ``far.edited``) and the extra unknowns X
+        (floating potentials, phi_inf). A_PQ = [U_PE | A_PX] diag(V_E, I) and
+        A_QP = [[U_EP V_EP], [A_XP]], so Y = A_PP^-1 A_PQ = Z diag(V_E, I) with
+        Z = A_PP^-1 [U_PE | A_PX]: r + |X| columns instead of |Q|.
+        """
+        n_edit = len(far.edited)
+        assert np.array_equal(q[:n_edit], far.edited)
+        x_idx = q[n_edit:]
+        a_px, a_xp = block(a, p, x_idx), block(a, x_idx, p)
+        u_pe, v_e = far.kept_from_edited
+        u_ep, v_ep = far.edited_from_kept
+        rank, n_x = u_pe.shape[1], len(x_idx)
+        cached = self._z
+        if (cached is not None and cached[0] is u_pe and cached[1] is lu_pp and cached[2].shape == a_px.shape
+                and np.array_equal(cached[2], a_px)):
+            z, vz = cached[3], cached[4]  # same disc, same unchanged panels: Z as at the last step
+            self.reused_solves = True
         else:
-            out[np.ix_(keep, keep)] = kept
-        if not len(other):
-            return out
-        sep = separation(starts[other], ends[other], starts[keep], ends[keep], plane)
-        if self.low_rank and n_rows == n_cols and sep.usable:
-            u_pe, v_e = far_potential_factors(sep, starts[other], ends[other], targets[keep], plane)
-            u_ep, v_ep = near_potential_factors(sep, starts[keep], ends[keep], targets[other], plane)
-            a_ee = None
-            if self.earlier is not None:
-                a_ee = self.earlier.self_block_if_moved(starts[other], ends[other], plane, sep.radius)
-            self.moved_rigidly = a_ee is not None
-            if a_ee is None:
-                a_ee = single_layer_potential_matrix(targets[other], starts[other], ends[other], plane)
-            self.far = _FarParts(other, (u_pe, v_e), (u_ep, v_ep), starts[other], ends[other], plane, a_ee)
-            _put(out, keep, other, u_pe @ v_e)
-            _put(out, other, keep, u_ep @ v_ep)
-            _put(out, other, other, a_ee)
-            return out
-        out[other] = single_layer_potential_matrix(targets[other], starts, ends, plane)
-        out[np.ix_(keep, other)] = single_layer_potential_matrix(
-            targets[keep], starts[other], ends[other], plane
-        )
-        return out
+            z = scipy.linalg.lu_solve(lu_pp, np.hstack([u_pe, a_px]), check_finite=False)
+            vz = v_ep @ z
+            self._z = (u_pe, lu_pp, np.array(a_px), z, vz)
 
+        def from_kept(values: np.ndarray, v_values: np.ndarray | None = None) -> np.ndarray:
+            """A_QP @ values for (n_p, m) values (``v_values``: V_EP @ values when known)."""
+            v_values = v_ep @ values if v_values is None else v_values
+            return np.vstack([u_ep @ v_values, a_xp @ values])
 
-def _put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:
-    r, c = _index(rows), _index(cols)
-    if isinstance(r, slice) and isinstance(c, slice):
-        out[r, c] = values
-    else:
-        out[np.ix_(rows, cols)] = values
+        def to_columns(zq: np.ndarray) -> np.ndarray:
+            """diag(V_E, I) @ x_Q."""
+            return np.vstack([v_e @ zq[:n_edit], zq[n_edit:]])
+
+        w = from_kept(z, vz)  # A_QP Z, (|Q|, r + |X|)
+        s = np.array(block(a, q, q))  # a copy: the block may be a view of the system matrix
+        s[:, :n_edit] -= w[:, :rank] @ v_e
+        s[:, n_edit:] -= w[:, rank:rank + n_x]
+        lu_s = scipy.linalg.lu_factor(s, check_finite=False, overwrite_a=True)
+
+        def linear_solve(b: np.ndarray) -> np.ndarray:
+            with blas_threads_for(len(q)):
+                yb = scipy.linalg.lu_solve(lu_pp, b[p], check_finite=False)
+                x_q = scipy.linalg.lu_solve(lu_s, b[q] - from_kept(yb), check_finite=False)
+                x = np.empty_like(b)
+                x[p] = yb - z @ to_columns(x_q)
+                x[q] = x_q
+            return x
+
+        return linear_solve

@@ -43,13 +43,13 @@ def _assert_same(edited, fresh, strength_rel=1e-9):
     assert abs(edited.phi_inf_V - fresh.phi_inf_V) <= 1e-12 * scale
 
 
-def _drag(model: Model, name: str, steps, far=True, strength_rel=1e-9):
+def _drag(model: Model, name: str, steps, far=True, strength_rel=1e-9):  # -> (rigid, solves) per step
     """Move ``name`` by each step (inside the model's extent, so the length scale is kept);
     ``far``: whether the low-rank blocks are expected at every step."""
     edits = GeometryEditSolver()
     _assert_same(edits.solve(model), solver.solve(model, estimate_error=False))
     assert edits.reused_panels == 0  # nothing to reuse yet
-    factors, fars, rigid = [], [], []
+    factors, fars, rigid, solves = [], [], [], []
     for dx, dy in steps:
         model = _moved(model, name, dx, dy)
         edited = edits.solve(model)
@@ -57,16 +57,19 @@ def _drag(model: Model, name: str, steps, far=True, strength_rel=1e-9):
         factors.append(edits.reused_factor)
         fars.append(edits.far_blocks)
         rigid.append(edits.reused_self_block)
+        solves.append(edits.reused_solves)
         _assert_same(edited, solver.solve(model, estimate_error=False), strength_rel)
     assert factors == [False] + [True] * (len(steps) - 1)  # factorised once, then reused
     assert fars == [far] * len(steps)
-    return rigid
+    assert solves[0] is False  # the first step solves with A_PP
+    return rigid, solves
 
 
 def test_dragging_a_busbar_equals_fresh_solves():
     model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
-    rigid = _drag(model, "L1", [(1.0, 0.0), (1.0, 0.5), (0.0, -2.0)])
+    rigid, solves = _drag(model, "L1", [(1.0, 0.0), (1.0, 0.5), (0.0, -2.0)])
     assert rigid == [False, True, True]  # no earlier block at the first step
+    assert solves == [False, True, True]  # the bar stays inside the widened disc
 
 
 def test_dragging_a_busbar_at_normal_density_equals_fresh_solves():
@@ -74,8 +77,8 @@ def test_dragging_a_busbar_at_normal_density_equals_fresh_solves():
     closed-form integrals of the enclosure's shortest corner panels lose digits to
     cancellation (see solver.bem.geometry_update); capacitances and potentials to 1e-12."""
     model = solver.load_project("sample_geometries/busbar_enclosure.json")
-    rigid = _drag(model, "L1", [(1.0, 0.0), (0.5, 0.0)], strength_rel=1e-7)
-    assert rigid == [False, True]
+    rigid, solves = _drag(model, "L1", [(1.0, 0.0), (0.5, 0.0)], strength_rel=1e-7)
+    assert rigid == [False, True] and solves == [False, True]
 
 
 def test_an_edit_close_to_another_conductor_is_assembled_in_closed_form():
@@ -143,3 +146,15 @@ def test_closed_form_blocks_on_request_equal_the_low_rank_ones():
         assert edits.far_blocks == low_rank and edits.reused_factor
     for a, b in zip(*results):
         _assert_same(a, b)
+
+
+def test_dragging_one_bar_then_the_other_equals_fresh_solves():
+    """The unchanged set changes from step to step (L1 dragged, then L2, then L1 again)."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    for name, dx in (("L1", 1.0), ("L1", 1.0), ("L2", -1.0), ("L2", -1.0), ("L1", 0.5)):
+        model = _moved(model, name, dx, 0.0)
+        edited = edits.solve(model)
+        assert edits.reused_panels > 0 and edits.far_blocks
+        _assert_same(edited, solver.solve(model, estimate_error=False))

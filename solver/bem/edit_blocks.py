@@ -1,0 +1,169 @@
+"""The conductor-row block of an edited model, built from the previous system's matrix.
+
+Used by :mod:`solver.bem.geometry_update`: the block between unchanged conductors is copied
+(or left in place), the rows and columns of the edited panels are assembled, in low-rank
+form from the expansions of :mod:`solver.bem.far_blocks` when the edited panels keep clear
+of the others (:class:`FarParts`), else in closed form.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from solver.bem.assembly import single_layer_potential_matrix
+from solver.bem.far_blocks import (
+    Separation,
+    far_evaluation,
+    local_coefficients,
+    near_evaluation,
+    panel_moments,
+    separation,
+)
+
+#: The disc of the expansions is widened by this factor around an edited group, so that a
+#: drag keeps the group inside it for a while and the terms at the unchanged panels (and
+#: their solves with A_PP) are reused from step to step.
+DRAG_MARGIN = 1.25
+
+#: Largest difference (fraction of the edited group's radius) between the panels of an edited
+#: conductor and the previous ones moved rigidly for which their own block is reused.
+TRANSLATION_TOLERANCE = 1e-13
+
+def index_or_slice(idx: np.ndarray):
+    """A slice when ``idx`` is a run of consecutive indices (copies without a gather), else ``idx``."""
+    if len(idx) and idx[-1] - idx[0] == len(idx) - 1 and np.all(np.diff(idx) == 1):
+        return slice(int(idx[0]), int(idx[-1]) + 1)
+    return idx
+
+
+def block(a: np.ndarray, rows: np.ndarray, cols: np.ndarray) -> np.ndarray:
+    """``a[rows][:, cols]``; a view when both are runs of consecutive indices (copy it before
+    writing), else a copy."""
+    r, c = index_or_slice(rows), index_or_slice(cols)
+    if isinstance(r, slice) and isinstance(c, slice):
+        return a[r, c]
+    if isinstance(r, slice):
+        return a[r][:, cols]
+    if isinstance(c, slice):
+        return a[rows, c]
+    return a[np.ix_(rows, cols)]
+
+
+@dataclass(frozen=True)
+class FarParts:
+    """Low-rank blocks between the edited panels E and the kept panels P (scaled), as (U, V)."""
+
+    edited: np.ndarray
+    kept_from_edited: tuple[np.ndarray, np.ndarray]  # A_PE = U @ V
+    edited_from_kept: tuple[np.ndarray, np.ndarray]  # A_EP = U @ V
+    starts: np.ndarray  # of the edited panels
+    ends: np.ndarray
+    plane: float | None
+    self_block: np.ndarray  # A_EE
+    disc: Separation
+    kept_starts: np.ndarray  # of the unchanged panels
+    kept_ends: np.ndarray
+
+    def same_disc_for(self, kept_starts: np.ndarray, kept_ends: np.ndarray, starts: np.ndarray,
+                      ends: np.ndarray, plane: float | None) -> bool:
+        """True when the unchanged panels are these ones and the edited ones still lie in the
+        disc: the terms at the unchanged panels (U of A_PE, V of A_EP) are then the same."""
+        return (plane == self.plane and kept_starts.shape == self.kept_starts.shape
+                and np.array_equal(kept_starts, self.kept_starts) and np.array_equal(kept_ends, self.kept_ends)
+                and self.disc.holds(starts, ends))
+
+    def self_block_if_moved(self, starts: np.ndarray, ends: np.ndarray, plane: float | None,
+                            radius: float) -> np.ndarray | None:
+        """A_EE again when the edited panels are these ones moved rigidly (no plane: the log
+        kernel depends only on differences), else None. Positions may differ by round-off of
+        the translation (1e-13 of the group's radius)."""
+        if plane is not None or self.plane is not None or starts.shape != self.starts.shape:
+            return None
+        shift = starts[0] - self.starts[0]
+        tol = TRANSLATION_TOLERANCE * radius
+        if (np.max(np.abs(starts - self.starts - shift)) <= tol
+                and np.max(np.abs(ends - self.ends - shift)) <= tol):
+            return self.self_block
+        return None
+
+
+class ReusedBlock:
+    """The conductor-row panel block of a system, with the unchanged conductors' mutual block
+    copied from the previous matrix and only the other rows and columns assembled: in
+    low-rank form (``far``) when the edited panels keep clear of the others, else in closed form."""
+
+    def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
+                 earlier: FarParts | None = None, low_rank: bool = True) -> None:
+        self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
+        self.low_rank = low_rank
+        self.far: FarParts | None = None
+        self.moved_rigidly = False
+
+    def __call__(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray,
+                 plane: float | None) -> np.ndarray:
+        n_rows, n_cols = len(targets), len(starts)
+        keep = self.kept_new
+        other = np.setdiff1d(np.arange(n_rows), keep)
+        if n_rows == n_cols and len(self.previous) >= n_rows and np.array_equal(keep, self.kept_old):
+            # the unchanged panels sit where they sat: the other rows and columns are written
+            # over the previous matrix (kept by the solver alone, and replaced after this solve)
+            out = self.previous[:n_rows, :n_cols]
+        else:
+            out = np.empty((n_rows, n_cols))
+            kept = block(self.previous, self.kept_old, self.kept_old)
+            k = index_or_slice(keep)
+            if isinstance(k, slice):
+                out[k, k] = kept
+            else:
+                out[np.ix_(keep, keep)] = kept
+        if not len(other):
+            return out
+        if self.low_rank and n_rows == n_cols:
+            far = self._far_parts(targets, starts, ends, plane, keep, other)
+            if far is not None:
+                self.far = far
+                put(out, keep, other, far.kept_from_edited[0] @ far.kept_from_edited[1])
+                put(out, other, keep, far.edited_from_kept[0] @ far.edited_from_kept[1])
+                put(out, other, other, far.self_block)
+                return out
+        out[other] = single_layer_potential_matrix(targets[other], starts, ends, plane)
+        out[np.ix_(keep, other)] = single_layer_potential_matrix(
+            targets[keep], starts[other], ends[other], plane
+        )
+        return out
+
+
+    def _far_parts(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray, plane: float | None,
+                   keep: np.ndarray, other: np.ndarray) -> FarParts | None:
+        """The low-rank blocks, or None when the edited panels come too close to the others."""
+        e_starts, e_ends, p_starts, p_ends = starts[other], ends[other], starts[keep], ends[keep]
+        earlier = self.earlier
+        if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
+            sep = earlier.disc
+            u_pe, v_ep = earlier.kept_from_edited[0], earlier.edited_from_kept[1]
+        else:
+            sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
+            if not sep.usable:
+                return None
+            u_pe, v_ep = far_evaluation(sep, targets[keep], plane), local_coefficients(sep, p_starts, p_ends, plane)
+        a_ee = None
+        if earlier is not None:
+            a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
+        self.moved_rigidly = a_ee is not None
+        if a_ee is None:
+            a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
+        return FarParts(other, (u_pe, panel_moments(sep, e_starts, e_ends, plane)),
+                         (near_evaluation(sep, targets[other], plane), v_ep),
+                         e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends)
+
+
+def put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:
+    """``out[rows][:, cols] = values`` (in place)."""
+    r, c = index_or_slice(rows), index_or_slice(cols)
+    if isinstance(r, slice) and isinstance(c, slice):
+        out[r, c] = values
+    else:
+        out[np.ix_(rows, cols)] = values
+
