@@ -21,11 +21,11 @@ from dataclasses import dataclass
 import numpy as np
 
 from solver.bem.high_order.adaptive import logarithmic_capacity
-from solver.bem.high_order.large_models import CHECK_ORDER, is_large
+from solver.bem.high_order.large_models import CHECK_ORDER
 from solver.bem.high_order.solution import HighOrderSolution
-from solver.bem.solution import Solution
 from solver.cli.options import ReportOptions
 from solver.figures.bundles import BundleComparison, _regular_bundle, bundle_equivalent_radius_formula_m
+from solver.hot_spots.analysis import is_large_solution
 from solver.mesh.curved_panels import CurvedPanels
 
 
@@ -45,11 +45,6 @@ class NotComputed:
     def sentence(self) -> str:
         """One line for the text summary."""
         return f"Not computed: {self.figure}. {self.reason} {self.way_out}"
-
-
-def is_large_solution(solution: Solution) -> bool:
-    """True for a solution of the large-model path (coarse high-order panels, no refinement)."""
-    return isinstance(solution, HighOrderSolution) and solution.panels is not None and is_large(solution.model)
 
 
 def _panels_of(panels: CurvedPanels, conductors: list[int], order: int) -> CurvedPanels:

@@ -199,7 +199,7 @@ class HotSpotReport:
         }
 
 
-def _is_large_solution(source: Solution | Model) -> bool:
+def is_large_solution(source: Solution | Model) -> bool:
     """A solution of the large-model path: its low-order meshes would not fit, so its peaks
     come from the high-order solution itself."""
     return isinstance(source, HighOrderSolution) and source.panels is not None and is_large(source.model)
@@ -270,7 +270,7 @@ def analyse_hot_spots(
         raise InvalidModelError(f"Target relative error is {target_relative_error}; give a number between 0 and 1.")
     if isinstance(source, Model) and is_large(source):
         source = solve_large(source)
-    if _is_large_solution(source):
+    if is_large_solution(source):
         from solver.hot_spots.large_model_peaks import large_model_hot_spots
 
         assert isinstance(source, HighOrderSolution)
