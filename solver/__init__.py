@@ -52,10 +52,11 @@ from solver.hot_spots.air_conditions import (
 )
 from solver.hot_spots.air_region import AirRegionPeak
 from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
-from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
+from solver.hot_spots.analysis import analyse_hot_spots, richardson_estimate
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
 from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from solver.hot_spots.hot_spot import HotSpot, HotSpotReport
 from solver.hot_spots.margins import ConductorMargin, MarginReport, assess_margins
 from solver.hot_spots.verdict import (
     LOW_VOLTAGE_THRESHOLD_V,

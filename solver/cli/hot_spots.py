@@ -31,8 +31,9 @@ from solver.errors import InvalidModelError
 from solver.figures.bundles import BundleComparison, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length
 from solver.hot_spots.air_conditions import THIN_MARGIN
-from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
+from solver.hot_spots.analysis import analyse_hot_spots
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.hot_spot import HotSpotReport
 from solver.hot_spots.margins import MarginReport, assess_margins
 from solver.hot_spots.verdict import solution_potential_difference_V
 
