@@ -40,6 +40,7 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
+import scipy.sparse
 
 from solver.bem.kernels import log_normal_derivative_integrals, log_potential_integrals
 from solver.mesh.interfaces import InterfaceMesh
@@ -159,26 +160,36 @@ def interface_rows(
 def free_charge_operator(
     mesh: PanelMesh, eps_plus: np.ndarray, eps_minus: np.ndarray, n_interface: int,
     sources: SourcePanels, ell: float, plane: float | None,
-) -> np.ndarray:
-    """F (n_conductor_panels x n_panels): free strengths on conductor panels = F @ total strengths."""
+) -> scipy.sparse.csr_matrix:
+    """F (n_conductor_panels x n_panels): free strengths on conductor panels = F @ total strengths.
+
+    Sparse: eps_r on the diagonal, and a dense row only for a strip between two media (a
+    dense F would be one more matrix the size of the system's).
+    """
     nc = mesh.n_panels
-    f = np.zeros((nc, nc + n_interface))
+    n = nc + n_interface
     scale = np.where(mesh.is_strip, 0.5 * (eps_plus + eps_minus), eps_plus)
-    f[np.arange(nc), np.arange(nc)] = scale
+    rows, cols, values = [np.arange(nc)], [np.arange(nc)], [np.asarray(scale, dtype=float)]
     jump = mesh.is_strip & (eps_plus != eps_minus)
     if jump.any():
-        rows = normal_derivative_matrix(
+        dense = normal_derivative_matrix(
             mesh.midpoints[jump] / ell, mesh.normals[jump], sources, plane, np.flatnonzero(jump)
         )
-        f[jump] += ((eps_plus - eps_minus)[jump] / (2.0 * np.pi))[:, None] * rows
-    return f
+        dense *= ((eps_plus - eps_minus)[jump] / (2.0 * np.pi))[:, None]
+        rows.append(np.repeat(np.flatnonzero(jump), n))
+        cols.append(np.tile(np.arange(n), int(jump.sum())))
+        values.append(dense.ravel())
+    # duplicate entries (a strip's diagonal) are summed
+    return scipy.sparse.csr_matrix(
+        (np.concatenate(values), (np.concatenate(rows), np.concatenate(cols))), shape=(nc, n)
+    )
 
 
 def assemble_system(
     mesh: PanelMesh,
     interfaces: InterfaceMesh,
     roles: Sequence[str],
-    free_charge_rows: np.ndarray,
+    free_charge_rows: scipy.sparse.csr_matrix,
     sources: SourcePanels,
     plane: float | None,
     ell: float,
@@ -208,7 +219,7 @@ def assemble_system(
     for f, k in enumerate(floating):
         on_k = mesh.conductor_index == k
         a[:nc, n + f][on_k] = -1.0
-        a[n + f, :n] = (sources.curve_lengths[:nc][on_k, None] * free_charge_rows[on_k]).sum(axis=0)
+        a[n + f, :n] = free_charge_rows[on_k].T @ sources.curve_lengths[:nc][on_k]
     if layout.has_phi_inf:
         a[:nc, -1] = 1.0
         a[-1, :n] = sources.curve_lengths

@@ -12,6 +12,7 @@ import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
+import scipy.sparse
 
 from solver.bem.assembly import (
     SourcePanels,
@@ -45,7 +46,7 @@ class BoundarySystem:
     plane : ground-plane height / length_scale_m, or None.
     sources : every charged panel, scaled.
     matrix : (size, size) system matrix; layout : where each unknown sits.
-    free_charge_rows : (n_conductor_panels, n_panels) total -> free strengths.
+    free_charge_rows : (n_conductor_panels, n_panels) total -> free strengths (sparse).
     interface_rows : (n_interface, n_panels) principal-value normal field at interfaces.
     eps_r_plus, eps_r_minus : (n_conductor_panels,) eps_r on each side of conductor panels.
     region_plus, region_minus : (n_conductor_panels,) region index on each side (-1 in metal).
@@ -60,7 +61,7 @@ class BoundarySystem:
     sources: SourcePanels
     matrix: np.ndarray
     layout: SystemLayout
-    free_charge_rows: np.ndarray
+    free_charge_rows: scipy.sparse.csr_matrix
     interface_rows: np.ndarray
     eps_r_plus: np.ndarray
     eps_r_minus: np.ndarray

@@ -158,3 +158,4 @@ def test_dragging_one_bar_then_the_other_equals_fresh_solves():
         edited = edits.solve(model)
         assert edits.reused_panels > 0 and edits.far_blocks
         _assert_same(edited, solver.solve(model, estimate_error=False))
+
