@@ -68,6 +68,9 @@ LABEL_FILL = (255, 255, 255, 215)
 HOT_SPOT_FILL = "#000000"
 HOT_SPOT_RIM = "#ffffff"
 
+#: Surface charge drawn as sticks over a shading (the shading holds the one colour key).
+CHARGE_STICK = "#1a1a1a"
+
 #: The probe line and its end marks.
 PROBE = "#000000"
 
@@ -170,3 +173,23 @@ def style_sheet(badge: Badge, *, bold: bool = False) -> str:
     """A Qt style sheet for a label showing ``badge``."""
     weight = " font-weight: bold;" if bold else ""
     return f"color: {badge.text}; background: {badge.background}; padding: 2px 6px;{weight}"
+
+
+#: The primary action (Solve) by the state of the results: (text on the button, text colour,
+#: fill, outline). It is filled when the results need it (not solved, out of date, failed) in
+#: that state's freshness colour, and drawn plain once the results are up to date.
+SOLVE_BUTTON = {
+    "none": ("\u25b6 Solve", "#ffffff", FRESHNESS["stale"].text, FRESHNESS["stale"].text),
+    "stale": ("\u25b6 Solve \u2014 out of date", "#ffffff", FRESHNESS["stale"].text, FRESHNESS["stale"].text),
+    "solving": ("\u2026 Solving", FRESHNESS["solving"].text, FRESHNESS["solving"].background,
+                FRESHNESS["solving"].text),
+    "fresh": ("\u2713 Up to date", FRESHNESS["fresh"].text, PAGE, FRESHNESS["fresh"].text),
+    "failed": ("! Cannot solve \u2014 retry", "#ffffff", FRESHNESS["failed"].text, FRESHNESS["failed"].text),
+}
+
+
+def solve_button_style(state: str) -> str:
+    """A Qt style sheet for the Solve button in ``state`` (a key of :data:`SOLVE_BUTTON`)."""
+    _, text, fill, outline = SOLVE_BUTTON[state]
+    return (f"QToolButton {{ color: {text}; background: {fill}; border: 2px solid {outline}; border-radius: 4px;"
+            " padding: 3px 12px; font-weight: bold; }")

@@ -20,6 +20,7 @@ from app.files import exports
 from app.files import project_files as files
 from app.files.report import drawing_for_report, write_report_pdf
 from app.messages import show_message
+from app.solve_button import SolveButton
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -98,7 +99,8 @@ class Commands:
         run = bar.addMenu("&Solve")
         solve_action = self._act(run, "&Solve now", window.solve, "F5")
         tools_bar.addSeparator()
-        tools_bar.addAction(solve_action)
+        self.solve_button = SolveButton(solve_action, tools_bar)
+        tools_bar.addWidget(self.solve_button)
         self._act(run, "&Cancel solve", window.runner.cancel, "Ctrl+.")
         auto = self._act(run, "Re-solve small models after each edit", self._toggle_auto)
         auto.setCheckable(True)

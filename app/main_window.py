@@ -90,6 +90,8 @@ class MainWindow(QMainWindow):
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
         self._build_status_bar()
         self.commands = Commands(self)
+        self.results_panel.summary.state_changed.connect(self.commands.solve_button.set_state)
+        self.commands.solve_button.set_state(self.results_panel.summary.state)
         self.studies = StudyMenus(self)  # drawings, sweeps, Green's function
         install_help(self)  # Help > Safety, Help > About; the hint on an empty drawing
         self.addToolBarBreak(Qt.TopToolBarArea)

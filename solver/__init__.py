@@ -30,6 +30,7 @@ from solver.errors import (
     ProjectFileError,
     SolveCancelled,
     SolverError,
+    SuperpositionError,
 )
 from solver.figures.bundles import BundleComparison, bundle_equivalent_radius_formula_m, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length, end_field_rise_estimate
@@ -37,27 +38,26 @@ from solver.figures.equilibrium import EquilibriumCharge, equilibrium_charge, eq
 from solver.figures.field_lines import FieldLine, GridField, evaluate_at_points, evaluate_on_grid, trace_field_lines
 from solver.figures.layers import truncated_layers, truncation_error, widen_until_converged
 from solver.figures.transmission_line import TransmissionLineFigures, figures_from_matrices, transmission_line_figures
-from solver.hot_spots.air_region import AirRegionPeak
-from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
-from solver.hot_spots.analysis import HotSpot, HotSpotReport, analyse_hot_spots, richardson_estimate
-from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
-from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
-from solver.hot_spots.margins import (
+from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,
-    ConductorMargin,
-    MarginReport,
     air_breakdown_field_V_per_m,
     air_conditions_of,
-    assess_margins,
     peek_corona_onset_field_V_per_m,
     pressure_at_altitude_Pa,
     relative_air_density,
     relative_air_density_at_altitude,
     with_air_conditions,
 )
+from solver.hot_spots.air_region import AirRegionPeak
+from solver.hot_spots.air_strength import AirStrength, air_strength, uniform_field_breakdown_voltage_V
+from solver.hot_spots.analysis import analyse_hot_spots, richardson_estimate
+from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
+from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
+from solver.hot_spots.curvature import local_radius_of_curvature_m, signed_radius_of_curvature_m
+from solver.hot_spots.hot_spot import HotSpot, HotSpotReport
+from solver.hot_spots.margins import ConductorMargin, MarginReport, assess_margins
 from solver.hot_spots.verdict import (
     LOW_VOLTAGE_THRESHOLD_V,
     CautionVerdict,
@@ -77,6 +77,8 @@ from solver.hot_spots.voltage_basis import (
 )
 from solver.io.project_file import PROJECT_FORMAT_VERSION, load_project, model_from_dict, model_to_dict, save_project
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, graded_panels
+from solver.model import *  # noqa: F403 - the model layer's public names are the solver's own
+from solver.model import __all__ as _MODEL_NAMES
 from solver.model.materials import (
     MATERIALS,
     Material,
@@ -88,35 +90,18 @@ from solver.model.materials import (
     material_names,
     region_is_air,
 )
-from solver.model.model import (
-    LENGTH_UNITS,
-    MESH_DENSITIES,
-    ROLES,
-    Circle,
-    Conductor,
-    Dielectric,
-    GroundPlane,
-    Model,
-    Polygon,
-    Rectangle,
-    Ring,
-    Shape,
-    Strip,
-)
-from solver.model.shapes import DRAWING_ARC_STEP_RAD, SHAPE_KINDS, Arc, MeshingHints
+from solver.model.shapes import DRAWING_ARC_STEP_RAD
 from solver.samples import sample_names, sample_path, samples_dir
 
 __all__ = [
-    "Circle", "Conductor", "Dielectric", "GroundPlane", "Model", "Polygon", "Rectangle", "Ring",
-    "Shape", "Strip", "LENGTH_UNITS", "MESH_DENSITIES", "ROLES",
-    "SHAPE_KINDS", "Arc", "MeshingHints", "DRAWING_ARC_STEP_RAD",
+    *_MODEL_NAMES, "DRAWING_ARC_STEP_RAD",
     "MeshSettings", "PanelMesh", "discretize_boundary", "graded_panels",
     "PeakField", "Solution", "solve", "solve_mesh", "with_error_estimate", "GeometryEditSolver",
     "EquilibriumCharge", "equilibrium_charge", "equivalent_radius_m",
     "mutual_from_maxwell", "maxwell_matrix_problems",
     "EPSILON_0_F_PER_M", "MU_0_H_PER_M", "SPEED_OF_LIGHT_M_PER_S",
     "SolverError", "InvalidGeometryError", "InvalidModelError", "NoReferenceError",
-    "ProjectFileError", "SolveCancelled",
+    "ProjectFileError", "SolveCancelled", "SuperpositionError",
     "PROJECT_FORMAT_VERSION", "load_project", "save_project", "model_to_dict", "model_from_dict",
     "FieldLine", "GridField", "evaluate_at_points", "evaluate_on_grid", "trace_field_lines",
     "HotSpot", "HotSpotReport", "analyse_hot_spots", "richardson_estimate",

@@ -34,6 +34,10 @@ class SolveCancelled(SolverError):
     """The caller asked the solve to stop (through its cancel callback)."""
 
 
+class SuperpositionError(SolverError):
+    """A solution cannot be carried to other potentials without a new solve."""
+
+
 class MeshTooLargeError(SolverError):
     """The mesh a model needs is larger than the memory budget allows, or cannot be graded.
 

@@ -3,7 +3,9 @@ surface charge density on the outlines, hot spots and a picked point.
 
 Every layer is switchable; all positions are in model units; every colour is from
 :mod:`app.colours`. The potential map is centred on 0 V (diverging), or sequential from 0 V
-when all potentials share a sign. The colour key keeps one place (:mod:`app.canvas.colour_key`).
+when all potentials share a sign. There is one colour key, in one place (:mod:`app.canvas.colour_key`):
+the shading's, or the surface charge's when no shading shows; over a shading, surface charge is
+drawn as sticks whose length gives σ (:mod:`app.canvas.charge_overlay`).
 :meth:`Overlays.set_stale` dims the layers and the key when the model has changed since the solve.
 """
 
@@ -15,12 +17,11 @@ from PySide6.QtCore import QPointF, QRectF
 from scipy import ndimage
 
 from app import colours
-from app.canvas import labels
+from app.canvas import charge_overlay, labels
 from app.canvas.colour_key import ColourKey, colour_map
 from app.units import format_field, format_potential, si_scale
 
 FIELD_MAP = colour_map(np.linspace(0.0, 1.0, len(colours.FIELD_STOPS)), colours.FIELD_STOPS)
-CHARGE_MAP = colour_map(np.linspace(0.0, 1.0, len(colours.POTENTIAL_STOPS)), colours.POTENTIAL_STOPS)
 
 
 SHADINGS = ("none", "potential", "field strength", "field strength (log)")
@@ -35,8 +36,8 @@ class Overlays:
         self.shading = "potential"
         self.show = {"equipotentials": True, "field lines": False, "surface charge": False, "hot spots": True}
         self._items: list = []
-        self.key = ColourKey(plot_item, 5)  # shading (or surface charge when there is no shading)
-        self._second_key: ColourKey | None = None  # surface charge beside the shading, when both show
+        self.key = ColourKey(plot_item, 5)  # the one key: shading, or surface charge when there is no shading
+        self._notes: list = []  # text fixed on the screen (the scale of the surface-charge sticks)
         self._marker = pg.ScatterPlotItem(symbol="o", size=18, pen=pg.mkPen(colours.SELECTION, width=2.5),
                                           brush=pg.mkBrush(None))
         self._marker.setZValue(90)
@@ -69,9 +70,9 @@ class Overlays:
         self.stale = stale
         for item in self._items:
             item.setOpacity(0.3 if stale else 1.0)
-        for key in (self.key, self._second_key):
-            if key is not None:
-                key.set_stale(stale)
+        for note in self._notes:
+            note.setOpacity(0.3 if stale else 1.0)
+        self.key.set_stale(stale)
 
     def mark_point(self, xy) -> None:
         self._marker.setData([xy[0]], [xy[1]])
@@ -90,11 +91,11 @@ class Overlays:
             self.plot.removeItem(item)
         self._items = []
         self.key.blank()
-        if self._second_key is not None:
-            self.plot.layout.removeItem(self._second_key.bar)
-            if self._second_key.bar.scene() is not None:
-                self._second_key.bar.scene().removeItem(self._second_key.bar)
-            self._second_key = None
+        for note in self._notes:
+            note.setParentItem(None)
+            if note.scene() is not None:
+                note.scene().removeItem(note)
+        self._notes = []
         self._label_boxes: list = []  # labels placed so far, kept apart (app.canvas.labels)
         r = self.results
         if r is None:
@@ -118,13 +119,6 @@ class Overlays:
         """Model units per screen pixel, across and up, in the current view."""
         (v0, v1), (w0, w1) = self.plot.vb.viewRange()
         return (v1 - v0) / max(self.plot.vb.width(), 1.0), (w1 - w0) / max(self.plot.vb.height(), 1.0)
-
-    def _key_for(self, layer: str) -> ColourKey:
-        """The fixed key for the shading; surface charge takes it when there is no shading."""
-        if layer == "shading" or not self.key.shown:
-            return self.key
-        self._second_key = ColourKey(self.plot, 6)
-        return self._second_key
 
     def _draw_shading(self, grid, scale: float) -> None:
         x, y = grid.x_m / scale, grid.y_m / scale
@@ -168,7 +162,7 @@ class Overlays:
         img.setColorMap(cmap)
         img.setLevels((lo, hi if hi > lo else lo + 1.0))
         self._add(img, 1)
-        self._key_for("shading").show(lo, hi, cmap, label, ticks)
+        self.key.show(lo, hi, cmap, label, ticks)
 
     def _draw_equipotentials(self, grid, scale: float, n_levels: int = 9) -> None:
         phi = grid.potential_V
@@ -234,20 +228,28 @@ class Overlays:
         connect = np.concatenate([np.r_[np.ones(len(line.points_m) - 1), 0] for line in r.field_lines])
         self._add(pg.PlotCurveItem(xs, ys, connect=connect.astype(bool), pen=pg.mkPen(colours.FIELD_LINE, width=1.2)), 12)
 
-    def _draw_surface_charge(self, r, scale: float, n_bins: int = 48) -> None:
+    def _draw_surface_charge(self, r, scale: float) -> None:
+        """Colour strips read off the one key when no shading shows; over a shading (which holds
+        the key) sticks whose length gives σ, with their scale in a note (app.canvas.charge_overlay)."""
         mesh, sigma = r.solution.mesh, r.solution.surface_charge_density_C_per_m2
-        factor, prefix = si_scale(np.max(np.abs(sigma)) or 1.0)
-        values = sigma / factor
-        limit = float(np.percentile(np.abs(values), 98)) or 1.0
-        t = np.clip(0.5 + 0.5 * values / limit, 0, 1)
-        bins = np.minimum((t * n_bins).astype(int), n_bins - 1)
-        for b in np.unique(bins):
-            sel = bins == b
-            x = np.column_stack([mesh.starts[sel, 0], mesh.ends[sel, 0]]).ravel() / scale
-            y = np.column_stack([mesh.starts[sel, 1], mesh.ends[sel, 1]]).ravel() / scale
-            color = CHARGE_MAP.map((b + 0.5) / n_bins, mode="qcolor")
-            self._add(pg.PlotCurveItem(x, y, connect="pairs", pen=pg.mkPen(color, width=5)), 30)
-        self._key_for("surface charge").show(-limit, limit, CHARGE_MAP, f"surface charge density ({prefix}C/m²)")
+        if self.key.shown:
+            items, note = charge_overlay.charge_sticks(mesh, sigma, scale, max(self._units_per_pixel()))
+            for item in items:
+                self._add(item, 30)
+            self._show_note(note)
+            return
+        items, limit, prefix = charge_overlay.charge_strips(mesh, sigma, scale)
+        for item in items:
+            self._add(item, 30)
+        self.key.show(-limit, limit, charge_overlay.CHARGE_MAP, f"surface charge density ({prefix}C/m²)")
+
+    def _show_note(self, text: str) -> None:
+        """A line of text at the top left of the drawing area, fixed on the screen."""
+        note = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL), anchor=(0, 0))
+        note.setParentItem(self.plot.vb)  # the view box itself, not its data group: pixels, not model units
+        note.setPos(6, 4)
+        note.setZValue(95)
+        self._notes.append(note)
 
     def _draw_hot_spots(self, r, scale: float) -> None:
         peaks = r.solution.peak_surface_fields

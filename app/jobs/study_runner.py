@@ -8,39 +8,27 @@ thread. :meth:`StudyRunner.cancel` asks the engine to stop between cases.
 
 from __future__ import annotations
 
-import logging
-import threading
 from collections.abc import Callable
 from typing import Any
 
-from PySide6.QtCore import QObject, QThread, Signal
+from PySide6.QtCore import QObject, Signal
 
-from solver import SolveCancelled, SolverError
-
-logger = logging.getLogger(__name__)
+from app.jobs.job_thread import JobThread, error_text
+from solver import SolveCancelled
 
 #: job(progress(done, total), cancel() -> bool) -> result
 StudyJob = Callable[[Callable[[int, int], None], Callable[[], bool]], Any]
 
 
-class _StudyThread(QThread):
+class _StudyThread(JobThread):
     progressed = Signal(int, int)
-    ended = Signal(object, object)  # (result or None, error or None)
 
     def __init__(self, job: StudyJob) -> None:
         super().__init__()
         self.job = job
-        self.stop = threading.Event()
 
-    def run(self) -> None:
-        try:
-            result = self.job(lambda done, total: self.progressed.emit(int(done), int(total)), self.stop.is_set)
-            self.ended.emit(result, None)
-        except SolverError as exc:
-            self.ended.emit(None, exc)
-        except Exception as exc:  # an unexpected failure is still reported to the user, never lost
-            logger.exception("study failed")
-            self.ended.emit(None, exc)
+    def work(self) -> Any:
+        return self.job(lambda done, total: self.progressed.emit(int(done), int(total)), self.stop.is_set)
 
 
 class StudyRunner(QObject):
@@ -66,7 +54,7 @@ class StudyRunner(QObject):
             raise RuntimeError("A study is already running; cancel it first.")
         thread = _StudyThread(job)
         thread.progressed.connect(self.progressed)
-        thread.ended.connect(self._on_ended)
+        thread.finished_with.connect(self._on_ended)
         self._thread = thread
         self.busy_changed.emit(True)
         thread.start()
@@ -91,7 +79,7 @@ class StudyRunner(QObject):
                 self.finished.emit(result)  # the cases run before the cancel are still shown
             return
         if error is not None:
-            self.failed.emit(str(error) if isinstance(error, SolverError) else f"{type(error).__name__}: {error}")
+            self.failed.emit(error_text(error))
             return
         self.finished.emit(result)
 

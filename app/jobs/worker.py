@@ -17,21 +17,16 @@ waits, so the drawing keeps up with the mouse at the rate the machine can solve.
 
 from __future__ import annotations
 
-import logging
-import threading
+from PySide6.QtCore import QObject, Signal
 
-from PySide6.QtCore import QObject, QThread, Signal
-
-from app.jobs.results import compute_first, compute_rest
-from solver import GeometryEditSolver, Model, SolveCancelled, SolverError
-
-logger = logging.getLogger(__name__)
+from app.jobs.job_thread import JobThread, error_text
+from app.jobs.results import Results, compute_first, compute_rest
+from solver import GeometryEditSolver, Model, SolveCancelled
 
 
-class _SolveThread(QThread):
+class _SolveThread(JobThread):
     progressed = Signal(float, str)
     first_ready = Signal(object)
-    finished_with = Signal(object, object)  # (results or None, error or None)
 
     def __init__(self, model: Model, options: dict, live: bool, edits: GeometryEditSolver) -> None:
         super().__init__()
@@ -39,28 +34,19 @@ class _SolveThread(QThread):
         self.model = model
         self.options = options
         self.live = live
-        self.stop = threading.Event()
 
-    def run(self) -> None:
-        try:
-            first = compute_first(
-                self.model, lambda f, m: self.progressed.emit(0.5 * f, m), self.stop.is_set,
-                grid_points=self.options.get("grid_points", 120), edits=self.edits,
-            )
-            if self.live:
-                self.finished_with.emit(first, None)
-                return
-            self.first_ready.emit(first)
-            results = compute_rest(
-                first, lambda f, m: self.progressed.emit(0.5 + 0.5 * f, m), self.stop.is_set,
-                n_field_lines=self.options.get("n_field_lines", 48),
-            )
-            self.finished_with.emit(results, None)
-        except SolverError as exc:
-            self.finished_with.emit(None, exc)
-        except Exception as exc:  # an unexpected failure is still reported to the user, never lost
-            logger.exception("solve failed")
-            self.finished_with.emit(None, exc)
+    def work(self) -> Results:
+        first = compute_first(
+            self.model, lambda f, m: self.progressed.emit(0.5 * f, m), self.stop.is_set,
+            grid_points=self.options.get("grid_points", 120), edits=self.edits,
+        )
+        if self.live:
+            return first
+        self.first_ready.emit(first)
+        return compute_rest(
+            first, lambda f, m: self.progressed.emit(0.5 + 0.5 * f, m), self.stop.is_set,
+            n_field_lines=self.options.get("n_field_lines", 48),
+        )
 
 
 class SolveRunner(QObject):
@@ -150,8 +136,7 @@ class SolveRunner(QObject):
         if isinstance(error, SolveCancelled):
             self.solve_cancelled.emit()
         elif error is not None:
-            self.solve_failed.emit(str(error) if isinstance(error, SolverError)
-                                   else f"Unexpected error in the solver: {type(error).__name__}: {error}")
+            self.solve_failed.emit(error_text(error))
         else:
             self.solution_ready.emit(results)
 

@@ -36,6 +36,7 @@ class AirConditionsBox(QGroupBox):
     def __init__(self, parent=None) -> None:
         super().__init__("Air at the site", parent)
         form = QFormLayout(self)
+        form.setRowWrapPolicy(QFormLayout.WrapLongRows)  # labels above their fields in a narrow panel
         self.mode = QComboBox()
         self.mode.addItems(["altitude (standard-atmosphere pressure)", "measured pressure and temperature"])
         self.altitude_edit = _edit("0", "m", "altitude above sea level", "m")
@@ -48,15 +49,21 @@ class AirConditionsBox(QGroupBox):
         for key, name in solver.VOLTAGE_BASES.items():
             self.basis.addItem(name, key)
         self.factor_edit = _edit("1", "", "overvoltage factor", "")
-        self.rms_box = QCheckBox("potentials are rms values (converted to crest for the check)")
+        self.rms_box = QCheckBox("potentials are rms values")
+        self.rms_box.setToolTip("Potentials typed as rms values are converted to crest (√2 × rms, a sine wave) for the check.")
         self.apply_button = QPushButton("Apply air conditions and voltage basis")
+        for combo in (self.mode, self.peek_form, self.basis):  # long entries do not widen the panel
+            combo.setSizeAdjustPolicy(QComboBox.AdjustToMinimumContentsLengthWithIcon)
+            combo.setMinimumContentsLength(14)
         self.label = QLabel()
         self.label.setWordWrap(True)
         form.addRow("air given by", self.mode)
         form.addRow("altitude above sea level", self.altitude_edit.with_unit())
         form.addRow("pressure", self.pressure_edit.with_unit())
         form.addRow("temperature", self.temperature_edit.with_unit())
-        form.addRow("Peek surface factor m (1 smooth, ~0.85 stranded)", self.surface_edit.with_unit())
+        form.addRow("Peek surface factor m", self.surface_edit.with_unit())
+        self.surface_edit.setToolTip("Peek's surface factor m: 1 for a smooth surface, about 0.85 for a stranded "
+                                     "conductor (common practice).")
         form.addRow("Peek form", self.peek_form)
         form.addRow("potentials stand for", self.basis)
         form.addRow("overvoltage factor", self.factor_edit.with_unit())

@@ -1,7 +1,7 @@
 """The "Cross-check" section: each conductor's equivalent radius by independent routes.
 
 Press the button after a solve: :func:`solver.check_each_equivalent_radius` runs in the
-background and the table shows, per conductor, the solver's equivalent radius beside the
+background and the table shows, one column per conductor, the solver's equivalent radius beside the
 Fekete and Chebyshev limits, their differences, the Robin constant, the round-wire distance and
 the verdict; the plot shows the outline of the selected conductor with its Fekete points (they
 crowd where the charge does). No physics here.
@@ -16,10 +16,19 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWi
 import solver
 from app.jobs.figure_jobs import FigureJobRunner
 from app.panels.matrices_view import CopyableTable
+from app.units import format_plain
 
 STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
-COLUMNS = ["solver radius", "Fekete limit", "Fekete diff (%)", "Chebyshev limit", "Chebyshev diff (%)",
-           "Robin constant", "round beyond", "verdict"]
+#: The table's rows (one column per conductor, so that a narrow panel shows every figure);
+#: "{unit}" is the model's length unit.
+ROWS = ["solver radius ({unit})", "Fekete limit ({unit})", "Fekete diff (%)", "Chebyshev limit ({unit})",
+        "Chebyshev diff (%)", "Robin constant (lengths in {unit})", "round wire beyond ({unit})", "verdict"]
+
+
+def _signed(value: float, digits: int = 3) -> str:
+    """A difference with its sign, e.g. "+0.012", "−0.4"."""
+    text = format_plain(value, digits)
+    return text if text.startswith("\u2212") or text == "0" else "+" + text
 
 
 class CrossCheckView(QWidget):
@@ -68,7 +77,7 @@ class CrossCheckView(QWidget):
         self.results = results
         self.checks = None
         self.runner.cancel()
-        self.table.fill([], COLUMNS, [])
+        self.table.fill(self._rows(), [], [], wrap=16)
         self._draw(None)
         self.run_button.setEnabled(True)
         self._set_status("Press the button to cross-check (a few seconds to half a minute per conductor).")
@@ -92,27 +101,32 @@ class CrossCheckView(QWidget):
     def _on_checks_ready(self, checks) -> None:
         self.checks = list(checks)
         model = self.results.model
-        unit, scale = model.unit, model.metres_per_unit
+        scale = model.metres_per_unit
 
         def length(x_m: float) -> str:
-            return f"{x_m / scale:.5g} {unit}"
+            return format_plain(x_m / scale, 5)
 
-        cells = [[length(c.equivalent_radius_m), length(c.fekete.limit_m), f"{100 * c.fekete.relative_difference:+.3g}",
-                  length(c.chebyshev.limit_m), f"{100 * c.chebyshev.relative_difference:+.3g}",
-                  f"{c.robin_constant:.5g} ({unit})", length(c.round_wire_distance_m),
-                  "agree" if c.agrees else "DISAGREE"] for c in self.checks]
-        self.table.fill([" + ".join(c.conductors) for c in self.checks], COLUMNS, cells)
+        columns = [[length(c.equivalent_radius_m), length(c.fekete.limit_m), _signed(100 * c.fekete.relative_difference),
+                    length(c.chebyshev.limit_m), _signed(100 * c.chebyshev.relative_difference),
+                    format_plain(c.robin_constant, 5), length(c.round_wire_distance_m),
+                    "agree" if c.agrees else "DISAGREE"] for c in self.checks]
+        self.table.fill(self._rows(), [" + ".join(c.conductors) for c in self.checks],
+                        [list(row) for row in zip(*columns)] if columns else [], wrap=16)
         all_agree = all(c.agrees for c in self.checks)
         self._set_status("All conductors: both routes agree with the solver within their expected convergence."
                          if all_agree else "; ".join(c.verdict for c in self.checks if not c.agrees), error=not all_agree)
         if self.checks:
-            self.table.selectRow(0)
+            self.table.selectColumn(0)
             self._draw(self.checks[0])
 
+    def _rows(self) -> list[str]:
+        unit = "" if self.results is None else self.results.model.unit
+        return [r.format(unit=unit) for r in ROWS]
+
     def _on_selection_changed(self) -> None:
-        rows = {i.row() for i in self.table.selectedIndexes()}
-        if self.checks and len(rows) == 1:
-            self._draw(self.checks[rows.pop()])
+        columns = {i.column() for i in self.table.selectedIndexes()}
+        if self.checks and len(columns) == 1:
+            self._draw(self.checks[columns.pop()])
 
     def _draw(self, check) -> None:
         for curve in self.outline_curves:

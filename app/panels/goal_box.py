@@ -1,27 +1,43 @@
 """The goal-search box of the sweep dialog: a figure, a target, Find, and the value found.
 
 Only widgets and wording; the search itself is the solver's (:func:`solver.studies.search`),
-started by :class:`app.panels.sweep_dialog.SweepDialog`.
+started by :class:`app.panels.sweep_dialog.SweepDialog`. The target is read with the figure's
+unit ("50 ohm", "110 pF/m", "6 ns/m", "2" for a margin) by the solver's
+:func:`solver.read_quantity`, and the outcome is written with the shared formatter: the value
+found to the figures the root finder's tolerance supports, the figure with an SI prefix.
 """
 
 from __future__ import annotations
 
 import html
+import math
 
 from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QLabel, QLineEdit, QPushButton
 
-from app.panels.study_views import column_scale
+from app.units import digits_for, format_measured, format_plain
+from solver import LENGTH_UNITS, read_quantity, unit_choices
+from solver.studies.plot import figure_unit
+
+#: What to show as an example target, by the figure's unit.
+EXAMPLES = {"\u03a9": "50 ohm", "F/m": "110 pF/m", "V/m": "3 kV/mm", "s/m": "6 ns/m", "m": "2 mm", "": "2"}
 
 
 class GoalBox(QGroupBox):
     """"Find the value that gives ...": ``figure``, ``target``, ``find_button``, ``apply_button``
-    and ``result`` (a label with the outcome or the reason there is none)."""
+    and ``result`` (a label with the outcome or the reason there is none).
 
-    def __init__(self, parent=None) -> None:
+    Parameters
+    ----------
+    length_unit : str
+        The model's length unit: a bare number typed for a length figure means this unit.
+    """
+
+    def __init__(self, parent=None, length_unit: str = "m") -> None:
         super().__init__("Find the value that gives ...", parent)
+        self.length_unit = length_unit
         self.figure = QComboBox()
         self.target = QLineEdit()
-        self.target.setPlaceholderText("target, SI units (e.g. 50 for 50 ohm)")
+        self.target_unit = QLabel()
         self.find_button = QPushButton("Find")
         self.apply_button = QPushButton("Use this value")
         self.apply_button.setEnabled(False)
@@ -29,19 +45,59 @@ class GoalBox(QGroupBox):
         self.result.setWordWrap(True)
         form = QFormLayout(self)
         form.addRow("Figure", self.figure)
-        form.addRow("equal to", self.target)
+        target_row = QHBoxLayout()
+        target_row.addWidget(self.target, 1)
+        target_row.addWidget(self.target_unit)
+        form.addRow("equal to", target_row)
         buttons = QHBoxLayout()
         buttons.addWidget(self.find_button)
         buttons.addWidget(self.apply_button)
         form.addRow(buttons)
         form.addRow(self.result)
+        self.figure.currentTextChanged.connect(self._on_figure_changed)
+        self._on_figure_changed(self.figure.currentText())
+
+    def _units(self) -> tuple[str, str | None]:
+        """(SI unit of the chosen figure, unit of a bare number or None for the SI unit)."""
+        unit = figure_unit(self.figure.currentText())
+        return unit, (self.length_unit if unit == "m" else None)
+
+    def _on_figure_changed(self, _text: str) -> None:
+        unit, bare = self._units()
+        shown = bare or unit
+        self.target_unit.setText(shown)
+        self.target.setPlaceholderText(f"e.g. {EXAMPLES.get(unit, '1')}")
+        self.target.setToolTip(f"A number in {shown or 'plain figures'}"
+                               + (f", or with a unit: {unit_choices(unit)}; SI prefixes are accepted." if unit else "."))
+
+    def target_si(self) -> float:
+        """The target typed, in the figure's SI unit (raises :class:`solver.QuantityError`)."""
+        unit, bare = self._units()
+        return read_quantity(self.target.text(), unit, "Target", default_unit=bare).value_si
 
     def show_found(self, found, label: str, unit: str) -> None:
         """Say what the search found: ``found`` is a SearchResult, ``label``/``unit`` the field's."""
-        scale, figure_unit = column_scale([found.target, found.figure_value], found.figure)
+        value = _parameter_text(found.value, found.parameter_tolerance, unit)
+        tolerance = _parameter_text(found.parameter_tolerance, None, unit, digits=2)
+        f_unit = figure_unit(found.figure)
+        largest = max(abs(found.target), abs(found.figure_value))
+        got = format_measured(found.figure_value, f_unit, largest=largest) if f_unit else format_plain(found.figure_value)
+        wanted = format_measured(found.target, f_unit, largest=largest) if f_unit else format_plain(found.target)
         self.result.setText(
-            f"<b>{html.escape(label)} = {found.value:.6g} {html.escape(unit)}</b> gives "
-            f"{html.escape(found.figure)} = {found.figure_value / scale:.6g} {html.escape(figure_unit)} "
-            f"(target {found.target / scale:.6g}; {found.n_solves} solves; root finder's tolerance "
-            f"{found.parameter_tolerance:.2g} {html.escape(unit)}, the figure's own error comes on top).")
+            f"<b>{html.escape(label)} = {html.escape(value)}</b> gives "
+            f"{html.escape(found.figure)} = {html.escape(got)} (target {html.escape(wanted)}; "
+            f"{found.n_solves} solves; root finder's tolerance {html.escape(tolerance)}, "
+            "the figure's own error comes on top).")
         self.apply_button.setEnabled(True)
+
+
+def _parameter_text(value: float, tolerance: float | None, unit: str, digits: int | None = None) -> str:
+    """A field value in its own unit (the model's length unit, "V" or none), to the figures
+    ``tolerance`` (same unit) supports: a last figure the tolerance can change."""
+    if digits is None:
+        relative = tolerance / abs(value) if tolerance and value and math.isfinite(value) else None
+        digits = digits_for(relative, default=6)
+    if unit in LENGTH_UNITS or not unit:
+        text = format_plain(value, digits)
+        return f"{text} {unit}" if unit else text
+    return format_measured(value, unit, digits=digits)

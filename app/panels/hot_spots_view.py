@@ -26,7 +26,8 @@ from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
-from app.panels.matrices_view import CopyableTable
+from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
+from app.units import digits_for, format_plain, true_minus
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -34,9 +35,15 @@ TARGET = 0.01
 
 
 def _margin(value: float | None) -> str:
+    """A margin or a factor to 3 figures, without exponent ("1520", not "1.52e+03")."""
     if value is None:
         return "—"
-    return "∞" if not math.isfinite(value) else f"{value:.3g}"
+    return "∞" if not math.isfinite(value) else format_plain(value, 3)
+
+
+def _peak(value: float, relative_error: float | None) -> str:
+    """A peak field (already in the column's unit) to the figures its error estimate supports."""
+    return format_plain(value, digits_for(relative_error))
 
 
 class HotSpotsView(QWidget):
@@ -90,18 +97,25 @@ class HotSpotsView(QWidget):
         layout.addWidget(self.radius_part)
         layout.addStretch(1)
 
-    def _build_corner_row(self) -> QHBoxLayout:
-        row = QHBoxLayout()
+    def _build_corner_row(self) -> QVBoxLayout:
+        """The corner radius and its two buttons, on two rows so that a narrow panel fits them."""
+        rows = QVBoxLayout()
+        row, buttons = QHBoxLayout(), QHBoxLayout()
         self.corner_label = QLabel("corner radius")
         self.corner_edit = QLineEdit()
         self.corner_edit.setPlaceholderText("round sharp corners to")
         self.corner_button = QPushButton("Analyse with sharp corners rounded")
         self.drawn_button = QPushButton("As drawn")
-        for w in (self.corner_label, self.corner_edit, self.corner_button, self.drawn_button):
-            row.addWidget(w)
+        row.addWidget(self.corner_label)
+        row.addWidget(self.corner_edit, 1)
+        buttons.addWidget(self.corner_button)
+        buttons.addWidget(self.drawn_button)
+        buttons.addStretch(1)
+        rows.addLayout(row)
+        rows.addLayout(buttons)
         self.corner_button.clicked.connect(self._on_corner_radius_applied)
         self.drawn_button.clicked.connect(lambda: self._start(None))
-        return row
+        return rows
 
     # ---- feeding -----------------------------------------------------------------------------
     def show_results(self, results) -> None:
@@ -221,14 +235,13 @@ class HotSpotsView(QWidget):
     def _fill(self) -> None:
         r, m, model = self.report, self.margins, self.results.model
         scale, unit = model.metres_per_unit, model.unit
+        size = drawing_size(self.results.solution) / scale
         factor, label = field_unit([s.field_V_per_m for s in r.hot_spots] or [0.0])
         rows, cells, statuses, notes = [], [], [], []
         for spot, margin in zip(r.hot_spots, m.margins):
             rows.append(spot.conductor)
-            x, y = spot.location_m[0] / scale, spot.location_m[1] / scale
             if spot.singular:
-                corner = (f"yes, σ ~ r^({spot.corner_exponent:.3f}); mesh-dependent"
-                          if spot.corner_exponent is not None else "yes; mesh-dependent")
+                corner = "yes" if spot.corner_exponent is None else f"yes,\nσ ~ r^{true_minus(f'{spot.corner_exponent:.3f}')}"
                 notes.append(f"'{spot.conductor}': {spot.note}")
             else:
                 corner = "no"
@@ -236,14 +249,15 @@ class HotSpotsView(QWidget):
                     notes.append(f"'{spot.conductor}': {spot.note}")
             if margin.corona_radius_basis and margin.corona_radius_basis != "round conductor":
                 notes.append(f"'{spot.conductor}': corona onset uses the {margin.corona_radius_basis} "
-                             f"({margin.corona_radius_m / scale:.3g} {unit}).")
+                             f"({format_plain(margin.corona_radius_m / scale, 3)} {unit}).")
             err = spot.estimated_relative_error
             cells.append([
-                f"{spot.field_V_per_m / factor:.4g}" + (" (mesh value)" if spot.singular else ""),
-                "— (singular)" if err is None else f"{100 * err:.2g}",
-                f"({x:.4g}, {y:.4g})", corner, _margin(spot.enhancement_factor),
-                f"{margin.air_breakdown_field_V_per_m / 1e6:.3g}", _margin(margin.air_breakdown_margin),
-                "—" if margin.corona_onset_field_V_per_m is None else f"{margin.corona_onset_field_V_per_m / 1e6:.3g}",
+                _peak(spot.field_V_per_m / factor, err) + ("\n(mesh value)" if spot.singular else ""),
+                "—\n(singular)" if err is None else format_plain(100 * err, 2),
+                format_coordinate(spot.location_m[0] / scale, size), format_coordinate(spot.location_m[1] / scale, size),
+                corner, _margin(spot.enhancement_factor),
+                format_plain(margin.air_breakdown_field_V_per_m / 1e6, 3), _margin(margin.air_breakdown_margin),
+                "—" if margin.corona_onset_field_V_per_m is None else format_plain(margin.corona_onset_field_V_per_m / 1e6, 3),
                 _margin(margin.corona_onset_margin), margin.status])
             statuses.append(margin.status)
         if r.air_region is not None:
@@ -251,18 +265,19 @@ class HotSpotsView(QWidget):
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
             rows.append(f"largest in air ({place}{', negligible' if ar.negligible else ''})")
             breakdown = m.air_region_breakdown_field_V_per_m
-            breakdown = math.nan if breakdown is None else breakdown
             error = ar.estimated_relative_error
-            cells.append([f"{ar.field_V_per_m / factor:.4g}", "—" if error is None else f"{100 * error:.2g}",
-                          f"({ar.location_m[0] / scale:.4g}, {ar.location_m[1] / scale:.4g})",
-                          "yes" if ar.at_sharp_corner else "no", "—", f"{breakdown / 1e6:.3g}",
+            cells.append([_peak(ar.field_V_per_m / factor, error), "—" if error is None else format_plain(100 * error, 2),
+                          format_coordinate(ar.location_m[0] / scale, size), format_coordinate(ar.location_m[1] / scale, size),
+                          "yes" if ar.at_sharp_corner else "no", "—",
+                          "n/a" if breakdown is None else format_plain(breakdown / 1e6, 3),
                           _margin(m.air_region_margin), "—", "—", m.air_region_status or "—"])
             statuses.append(m.air_region_status or "not assessed")
-        quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x, y ({unit})", "at a sharp corner",
-                      "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",
+        quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x ({unit})", f"place y ({unit})",
+                      "at a sharp corner", "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",
                       "corona-onset field (MV/m)", "corona-onset margin", "status"]
-        # one column per conductor, so that every figure stays in view in a narrow panel
-        self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [])
+        # one column per conductor, so that every figure stays in view in a narrow panel; long
+        # headings wrap onto two lines rather than push the table past the panel's edge
+        self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [], wrap=14)
         for j, status in enumerate(statuses):
             badge = colours.SEVERITY.get(status, colours.SEVERITY["not assessed"])
             cell = self.table.item(len(quantities) - 1, j)

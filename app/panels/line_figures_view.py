@@ -17,9 +17,11 @@ from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 import solver
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
+from app.units import digits_for, format_measured, format_percent, format_plain
+from solver.cli.formatting import ROUND_OFF
 
-MODES_CAPTION = ("Modes (slowest first): effective permittivity, velocity, modal impedance and the modal "
-                 "voltages on each line (largest +1)")
+MODES_CAPTION = ("Modes (slowest first, one column each): effective permittivity, velocity, modal impedance "
+                 "and the modal voltages on each line (largest +1)")
 QUASI_TEM_NOTE = ("Quasi-TEM figures: they hold while the cross-section is small against the wavelength; "
                   "skin effect, conductor and dielectric loss and dispersion are not modelled.")
 NO_RETURN_PATH = ("No line figures: a transmission line needs a return path. Add a reference conductor "
@@ -34,15 +36,26 @@ def inductance_unit(matrix_H_per_m: np.ndarray) -> tuple[float, str]:
     return (1e-6, "µH/m") if np.max(np.abs(matrix_H_per_m)) >= 1e-6 else (1e-9, "nH/m")
 
 
-def delay_text(delay_s_per_m: float) -> str:
-    """Delay per metre in ns/m (ps/m below 1 ns/m), with the same per millimetre."""
-    if delay_s_per_m >= 1e-9:
-        return f"{delay_s_per_m * 1e9:.4g} ns/m  ({delay_s_per_m * 1e12 / 1e3:.4g} ps/mm)"
-    return f"{delay_s_per_m * 1e12:.4g} ps/m"
+def delay_text(delay_s_per_m: float, relative_error: float | None = None) -> str:
+    """Delay per metre with an SI prefix (ns/m, ps/m), with the same per millimetre, to the
+    figures ``relative_error`` supports."""
+    return (f"{format_measured(delay_s_per_m, 's/m', relative_error)}  "
+            f"({format_measured(delay_s_per_m * 1e-3, 's/mm', relative_error)})")
 
 
-def velocity_text(velocity_m_per_s: float) -> str:
-    return f"{velocity_m_per_s / 1e8:.4g} × 10⁸ m/s  ({100 * velocity_m_per_s / LIGHT:.4g} % of c)"
+def velocity_text(velocity_m_per_s: float, relative_error: float | None = None) -> str:
+    digits = digits_for(relative_error)
+    return (f"{format_plain(velocity_m_per_s / 1e8, digits)} × 10⁸ m/s  "
+            f"({format_plain(100 * velocity_m_per_s / LIGHT, digits)} % of c)")
+
+
+def plain_cells(values, relative_error: float | None, digits: int | None = None) -> list[str]:
+    """Numbers of one table to the figures ``relative_error`` supports (or ``digits``), entries
+    below round-off of the largest shown as 0, true minus signs."""
+    values = np.asarray(values, dtype=float)
+    largest = float(np.max(np.abs(values))) if values.size else 0.0
+    n = digits or digits_for(relative_error)
+    return ["0" if abs(v) <= ROUND_OFF * largest else format_plain(float(v), n) for v in values.ravel()]
 
 
 class LineFiguresView(QWidget):
@@ -174,46 +187,53 @@ class LineFiguresView(QWidget):
 
     def _fill(self, f) -> None:
         names = list(f.signal_names)
+        err = f.estimated_relative_error
         scale, unit = inductance_unit(f.inductance_H_per_m)
         self.inductance_label.setText(f"Inductance matrix L = μ₀ε₀ C₀⁻¹ ({unit}), from the capacitance with every "
                                       "relative permittivity set to 1")
-        self.inductance.fill(names, names, [[f"{v / scale:.5g}" for v in row] for row in f.inductance_H_per_m])
+        n = len(names)
+        entries = plain_cells(np.asarray(f.inductance_H_per_m) / scale, err)
+        self.inductance.fill(names, names, [entries[i * n:(i + 1) * n] for i in range(n)], wrap=14)
         self._show(self.inductance_label, self.inductance)
         if f.characteristic_impedance_ohm is not None:
             self.line_label.setText(f"Single line '{names[0]}'")
             rows = ["characteristic impedance Z₀", "effective permittivity ε_eff", "propagation delay",
                     "phase velocity"]
-            cells = [[f"{f.characteristic_impedance_ohm:.4g} Ω"], [f"{f.effective_permittivity:.4g}"],
-                     [delay_text(f.delay_s_per_m)], [velocity_text(f.velocity_m_per_s)]]
-            self.line_table.fill(rows, ["value"], cells)
+            cells = [[format_measured(f.characteristic_impedance_ohm, "Ω", err)],
+                     plain_cells([f.effective_permittivity], err),
+                     [delay_text(f.delay_s_per_m, err)], [velocity_text(f.velocity_m_per_s, err)]]
+            self.line_table.fill(rows, ["value"], cells, wrap=18)
             self._show(self.line_label, self.line_table)
         elif f.is_symmetric_pair:
             self.line_label.setText(f"Symmetric pair '{names[0]}' and '{names[1]}'")
             rows = ["even-mode impedance Z_even", "odd-mode impedance Z_odd", "even-mode ε_eff", "odd-mode ε_eff",
                     "differential impedance 2 Z_odd", "common-mode impedance Z_even / 2"]
-            cells = [[f"{f.even_mode_impedance_ohm:.4g} Ω"], [f"{f.odd_mode_impedance_ohm:.4g} Ω"],
-                     [f"{f.even_mode_effective_permittivity:.4g}"], [f"{f.odd_mode_effective_permittivity:.4g}"],
-                     [f"{f.differential_impedance_ohm:.4g} Ω"], [f"{f.common_mode_impedance_ohm:.4g} Ω"]]
-            self.line_table.fill(rows, ["value"], cells)
+            ohms = [f.even_mode_impedance_ohm, f.odd_mode_impedance_ohm, None, None, f.differential_impedance_ohm,
+                    f.common_mode_impedance_ohm]
+            eps = plain_cells([f.even_mode_effective_permittivity, f.odd_mode_effective_permittivity], err)
+            cells = [[format_measured(z, "Ω", err)] if z is not None else [eps.pop(0)] for z in ohms]
+            self.line_table.fill(rows, ["value"], cells, wrap=18)
             self._show(self.line_label, self.line_table)
         if len(names) > 1:
-            columns = ["ε_eff", "velocity (10⁸ m/s)", "delay (ns/m)", "impedance (Ω)"] + [f"V({n})" for n in names]
-            cells = []
+            quantities = ["ε_eff", "velocity (10⁸ m/s)", "delay (ns/m)", "impedance (Ω)"] + [f"V on {n}" for n in names]
+            modes = []
             for k in range(len(names)):
                 v = float(f.modal_velocities_m_per_s[k])
-                cells.append([f"{f.modal_effective_permittivities[k]:.4g}", f"{v / 1e8:.4g}", f"{1e9 / v:.4g}",
-                              f"{f.modal_impedances_ohm[k]:.4g}"]
-                             + [f"{(0.0 if abs(x) < 5e-4 else x):+.3f}" for x in f.modal_voltages[:, k]])
-            self.modes.fill([f"mode {k + 1}" for k in range(len(names))], columns, cells)
+                modes.append(plain_cells([f.modal_effective_permittivities[k], v / 1e8, 1e9 / v,
+                                          f.modal_impedances_ohm[k]], err)
+                             + plain_cells(f.modal_voltages[:, k], None, digits=3))
+            # one column per mode: the quantities and each line's voltage read down the column
+            self.modes.fill(quantities, [f"mode {k + 1}" for k in range(len(names))],
+                            [list(row) for row in zip(*modes)], wrap=16)
             self.modes_label.setText(MODES_CAPTION + (f" — note: {f.modal_note}." if f.modal_note else ""))
             self._show(self.modes_label, self.modes)
             pairs = [(i, j) for i in range(len(names)) for j in range(i + 1, len(names))]
             self.coupling.fill([f"{names[i]} – {names[j]}" for i, j in pairs], ["capacitive k_C", "inductive k_L"],
-                               [[f"{f.capacitive_coupling[i, j]:.4g}", f"{f.inductive_coupling[i, j]:.4g}"]
-                                for i, j in pairs])
+                               [plain_cells([f.capacitive_coupling[i, j], f.inductive_coupling[i, j]], err)
+                                for i, j in pairs], wrap=14)
             self._show(self.coupling_label, self.coupling)
         err = f.estimated_relative_error
         self.error_label.setText(
             "" if err is None or not math.isfinite(err) else
-            f"Estimated relative error of the capacitances behind these figures: {100 * err:.2g} % "
+            f"Estimated relative error of the capacitances behind these figures: {format_percent(err)} "
             "(change against meshes at half the resolution).")

@@ -6,12 +6,15 @@ their estimated error supports, round-off shows as 0, minus signs are true minus
 
 from __future__ import annotations
 
+import textwrap
+
 import numpy as np
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QSize, Qt
 from PySide6.QtGui import QGuiApplication, QKeySequence, QShortcut
 from PySide6.QtWidgets import (
     QAbstractItemView,
     QHBoxLayout,
+    QHeaderView,
     QLabel,
     QPushButton,
     QTableWidget,
@@ -22,6 +25,7 @@ from PySide6.QtWidgets import (
 
 from app.units import digits_for, format_measured, format_percent, format_plain, format_point
 from solver import NoReferenceError
+from solver.cli.formatting import ROUND_OFF
 
 PF = 1e-12
 
@@ -35,6 +39,12 @@ TO_EARTH_TIP = (
     "of the mutual form; the off-diagonal entries there are the capacitances between pairs.")
 
 
+def wrap_heading(text: str, width: int) -> str:
+    """``text`` broken between words into lines of at most ``width`` characters (a longer word
+    keeps its own line), e.g. "air-breakdown field (MV/m)" -> "air-breakdown\\nfield (MV/m)"."""
+    return "\n".join(textwrap.wrap(text, width, break_long_words=False, break_on_hyphens=False)) or text
+
+
 class CopyableTable(QTableWidget):
     """A read-only table; Ctrl+C copies the selection (or everything) as tab-separated text."""
 
@@ -44,7 +54,12 @@ class CopyableTable(QTableWidget):
         self.setSelectionMode(QAbstractItemView.ExtendedSelection)
         QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
 
-    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]]) -> None:
+    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
+        """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
+        ``wrap`` characters break onto lines between words, so that a narrow panel shows them
+        whole without scrolling sideways (cells may hold line breaks too)."""
+        if wrap:
+            rows, columns = [wrap_heading(r, wrap) for r in rows], [wrap_heading(c, wrap) for c in columns]
         self.clear()
         self.setRowCount(len(rows))
         self.setColumnCount(len(columns))
@@ -56,8 +71,15 @@ class CopyableTable(QTableWidget):
                 item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 self.setItem(i, j, item)
         self.resizeColumnsToContents()
-        height = self.horizontalHeader().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
+        self.resizeRowsToContents()
+        self.horizontalHeader().resizeSections(QHeaderView.ResizeToContents)
+        height = self.horizontalHeader().sizeHint().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
         self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
+
+    def minimumSizeHint(self) -> QSize:
+        """As narrow as a scroll area may be: the panel, not the table, sets the width."""
+        hint = super().minimumSizeHint()
+        return QSize(min(hint.width(), 120), hint.height())
 
     def as_text(self) -> str:
         """The whole table with its headers as tab-separated lines (ASCII minus signs)."""
@@ -66,6 +88,7 @@ class CopyableTable(QTableWidget):
         for i in range(self.rowCount()):
             cells = [self.item(i, j).text() if self.item(i, j) else "" for j in range(self.columnCount())]
             lines.append("\t".join([self.verticalHeaderItem(i).text()] + cells))
+        lines = [line.replace("\n", " ") for line in lines]  # headings wrapped on screen are one cell
         return "\n".join(lines).replace("\u2212", "-")  # spreadsheets read an ASCII minus as a number
 
     def copy_to_clipboard(self) -> None:
@@ -116,7 +139,8 @@ class MatricesView(QWidget):
         self.error_label = QLabel()
         self.error_label.setWordWrap(True)
         layout.addWidget(self.error_label)
-        self.asymmetry_label = QLabel()  # raw asymmetry of the computed matrix (Solution.capacitance_asymmetry)
+        self.asymmetry_label = QLabel()
+        self.asymmetry_label.setWordWrap(True)  # raw asymmetry of the computed matrix (Solution.capacitance_asymmetry)
         layout.addWidget(self.asymmetry_label)
         layout.addStretch(1)
         self.maxwell.setToolTip(MAXWELL_DIAGONAL_TIP)
@@ -162,21 +186,24 @@ class MatricesView(QWidget):
         peaks = {p.conductor: p for p in sol.peak_surface_fields}
         largest_field = max((p.field_V_per_m for p in peaks.values() if np.isfinite(p.field_V_per_m)), default=None)
         largest_charge = float(np.max(np.abs(sol.conductor_charges_C_per_m))) if len(model.conductors) else None
-        rows, cells = [], []
+        names, columns = [], []
         for k, c in enumerate(model.conductors):
             p = peaks.get(c.name)
             radius = results.equivalent_radius_m.get(c.name)
-            rows.append(c.name)
-            cells.append([
+            x, y = ("", "") if p is None else (format_coordinate(p.location_m[0] / scale, size / scale),
+                                               format_coordinate(p.location_m[1] / scale, size / scale))
+            names.append(c.name)
+            columns.append([
                 format_measured(float(sol.conductor_potentials_V[k]), "V", digits=6),
                 format_measured(float(sol.conductor_charges_C_per_m[k]), "C/m", err, largest=largest_charge),
                 format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest_field) if p else "n/a",
-                (format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip()
-                 + (" sharp corner" if p.at_sharp_corner else "")) if p else "",
+                x, y, ("yes" if p.at_sharp_corner else "no") if p else "",
                 format_plain(radius / scale, digits_for(err)) if radius else "n/a",
             ])
-        self.conductors.fill(rows, ["potential", "charge/length", "peak |E| at surface",
-                                    f"peak at ({model.unit})", f"equiv. radius ({model.unit})"], cells)
+        # one column per conductor (as in the High voltage section): every figure stays in view in a narrow panel
+        quantities = ["potential", "charge/length", "peak |E| at surface", f"peak at x ({model.unit})",
+                      f"peak at y ({model.unit})", "peak at a sharp corner", f"equivalent radius ({model.unit})"]
+        self.conductors.fill(quantities, names, [list(row) for row in zip(*columns)] if columns else [], wrap=14)
 
     def _fill_regions(self, results) -> None:
         sol, model = results.solution, results.model
@@ -188,8 +215,9 @@ class MatricesView(QWidget):
         rows = [p.region for p in peaks]
         cells = [[format_plain(p.eps_r, 3), format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest),
                   format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip(),
-                  p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else "")] for p in peaks]
-        self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells)
+                  wrap_heading(p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else ""), 22)]
+                 for p in peaks]
+        self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells, wrap=14)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:
@@ -210,6 +238,12 @@ def drawing_size(solution) -> float:
     """The extent of the mesh in metres: coordinates far below it are round-off."""
     points = np.asarray(solution.mesh.midpoints)
     return float(np.max(np.ptp(points, axis=0))) if points.size else 1.0
+
+
+def format_coordinate(value: float, size: float) -> str:
+    """One coordinate in model units, round-off (below ``ROUND_OFF`` times the drawing's
+    ``size``) shown as 0."""
+    return "0" if abs(value) <= ROUND_OFF * abs(size) else format_plain(value, 4)
 
 
 def matrix_cells(matrix_F_per_m, relative_error) -> list[list[str]]:

@@ -5,12 +5,32 @@ Selecting a row selects the part on the drawing and the other way round.
 
 from __future__ import annotations
 
-from PySide6.QtGui import QColor
+from PySide6.QtGui import QColor, QIcon, QPixmap
 from PySide6.QtWidgets import QTreeWidget, QTreeWidgetItem
 
+from app import colours
 from app.document import PartRef
+from app.units import format_measured, format_plain
 
-ROLE_TEXT = {"fixed": "{v:g} V", "floating": "floating, {q:g} C/m", "reference": "reference, 0 V"}
+#: Figures of a typed value shown back: enough to show what was typed, not the round-off of a
+#: unit conversion (0.30479999999999996 reads 0.3048).
+TYPED_DIGITS = 10
+
+
+def role_text(conductor) -> str:
+    """A conductor's role and value, e.g. "9.8 kV", "floating, 2 nC/m", "reference, 0 V"."""
+    if conductor.role == "fixed":
+        return format_measured(conductor.potential_V, "V", digits=TYPED_DIGITS)
+    if conductor.role == "floating":
+        return f"floating, {format_measured(conductor.charge_C_per_m, 'C/m', digits=TYPED_DIGITS)}"
+    return "reference, 0 V"
+
+
+def swatch(colour: str) -> QIcon:
+    """A small square of a conductor's identity colour (coloured text would be too faint to read)."""
+    pixmap = QPixmap(12, 12)
+    pixmap.fill(QColor(colour))
+    return QIcon(pixmap)
 
 
 class PartsList(QTreeWidget):
@@ -31,9 +51,9 @@ class PartsList(QTreeWidget):
         self.clear()
         self._items: dict[PartRef, QTreeWidgetItem] = {}
         for i, c in enumerate(model.conductors):
-            value = ROLE_TEXT[c.role].format(v=c.potential_V, q=c.charge_C_per_m)
+            value = role_text(c)
             top = QTreeWidgetItem([c.name, value])
-            top.setForeground(0, QColor(c.color or "#555555"))
+            top.setIcon(0, swatch(colours.display_colour(c, i)))
             self.addTopLevelItem(top)
             self._items[PartRef("conductor", i, 0)] = top
             if len(c.shapes) > 1:
@@ -45,11 +65,12 @@ class PartsList(QTreeWidget):
             else:
                 top.setText(1, f"{value}  ({c.shapes[0].describe(model.unit)})")
         for i, d in enumerate(model.dielectrics):
-            item = QTreeWidgetItem([d.name, f"εr = {d.eps_r:g}"])
+            item = QTreeWidgetItem([d.name, f"εr = {format_plain(d.eps_r, TYPED_DIGITS)}"])
             self.addTopLevelItem(item)
             self._items[PartRef("dielectric", i, 0)] = item
         if model.ground_plane is not None:
-            item = QTreeWidgetItem(["ground plane", f"y = {model.ground_plane.y:g} {model.unit}, 0 V"])
+            y = format_plain(model.ground_plane.y, TYPED_DIGITS)
+            item = QTreeWidgetItem(["ground plane", f"y = {y} {model.unit}, 0 V"])
             self.addTopLevelItem(item)
             self._items[PartRef("plane")] = item
         self._updating = False

@@ -28,7 +28,7 @@ from PySide6.QtWidgets import (
 import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner
-from app.units import format_field, format_si
+from app.units import digits_for, format_field, format_measured, format_plain
 
 #: Freshness states of the results shown (keys of :data:`app.colours.FRESHNESS`).
 STATES = ("none", "fresh", "stale", "solving", "failed")
@@ -46,9 +46,10 @@ def capacitance_text(solution) -> str:
         return "no return path: no capacitance per metre"
     c = solution.capacitance_maxwell_F_per_m
     names = solution.signal_names
+    err = solution.estimated_relative_error  # the digits it supports (4 while it is being estimated)
     if len(names) == 1:
-        return f"{format_si(float(c[0, 0]), 'F/m', 4)} ('{names[0]}' to its return)"
-    shown = ", ".join(f"'{n}' {format_si(float(c[i, i]), 'F/m', 4)}" for i, n in enumerate(names[:4]))
+        return f"{format_measured(float(c[0, 0]), 'F/m', err)} ('{names[0]}' to its return)"
+    shown = ", ".join(f"'{n}' {format_measured(float(c[i, i]), 'F/m', err)}" for i, n in enumerate(names[:4]))
     more = f" and {len(names) - 4} more" if len(names) > 4 else ""
     return f"Maxwell diagonal C'ii: {shown}{more}"
 
@@ -57,19 +58,21 @@ def line_text(figures) -> str | None:
     """Z0 and eps_eff of one signal line, or the pair's impedances; None when neither applies."""
     if figures is None:
         return None
+    err = figures.estimated_relative_error
     if figures.characteristic_impedance_ohm is not None:
-        return (f"Z0 {figures.characteristic_impedance_ohm:.4g} Ω, "
-                f"εeff {figures.effective_permittivity:.4g}")
+        return (f"Z0 {format_measured(figures.characteristic_impedance_ohm, 'Ω', err)}, "
+                f"εeff {format_plain(figures.effective_permittivity, digits_for(err))}")
     if figures.differential_impedance_ohm is not None:
-        return (f"Zdiff {figures.differential_impedance_ohm:.4g} Ω, "
-                f"Zodd {figures.odd_mode_impedance_ohm:.4g} Ω, Zeven {figures.even_mode_impedance_ohm:.4g} Ω")
+        return (f"Zdiff {format_measured(figures.differential_impedance_ohm, 'Ω', err)}, "
+                f"Zodd {format_measured(figures.odd_mode_impedance_ohm, 'Ω', err)}, "
+                f"Zeven {format_measured(figures.even_mode_impedance_ohm, 'Ω', err)}")
     return None
 
 
 def _margin_text(margin: float | None) -> str:
     if margin is None:
         return "no margin"
-    return "margin ∞" if not math.isfinite(margin) else f"margin {margin:.3g}"
+    return "margin ∞" if not math.isfinite(margin) else f"margin {format_plain(margin, 3)}"
 
 
 def peak_text(verdict) -> str | None:
@@ -189,6 +192,8 @@ class SummaryBlock(QWidget):
     """The fixed summary above the results sections."""
 
     show_where = Signal()
+    #: The freshness state after each change (one of :data:`STATES`), for the Solve button.
+    state_changed = Signal(str)
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
@@ -274,3 +279,4 @@ class SummaryBlock(QWidget):
                 value.setStyleSheet(f"color: {colours.TEXT}; font-weight: bold;")
             self.form.addRow(name, value)
         self.caution.set_stale(dim)
+        self.state_changed.emit(self.state)

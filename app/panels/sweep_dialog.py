@@ -122,7 +122,7 @@ class SweepDialog(QDialog):
         buttons.addWidget(self.run_button)
         buttons.addWidget(self.cancel_button)
 
-        goal = GoalBox()
+        goal = GoalBox(length_unit=self.model.unit)
         self.goal_figure, self.goal_target, self.goal_result = goal.figure, goal.target, goal.result
         self.find_button, self.apply_button = goal.find_button, goal.apply_button
         self.find_button.clicked.connect(self.run_search)
@@ -212,8 +212,8 @@ class SweepDialog(QDialog):
         try:
             unit = self.field().unit
             start, stop = _value(self.start_edit, "From", unit), _value(self.stop_edit, "To", unit)
-            target = _value(self.goal_target, "Target")
-        except ValueError as e:
+            target = self.goal_box.target_si()
+        except (ValueError, SolverError) as e:
             self.goal_result.setText(str(e))
             return False
         job = functools.partial(_search_job, self.document.model, self.field().path, self.goal_figure.currentText(),
@@ -278,7 +278,7 @@ class SweepDialog(QDialog):
         if self.found is None:
             return False
         model = model_with_values(self.document.model, {self.found.parameter: self.found.value})
-        return self.document.apply(model, f"set {self.field().label} to {self.found.value:.6g}")
+        return self.document.apply(model, f"set {self.field().label} to {self.found.value:.10g}")
 
     def export_csv(self, path: str | Path | None = None) -> bool:
         """Write the sweep table as the solver's CSV (asks for a file without ``path``)."""

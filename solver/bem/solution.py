@@ -23,7 +23,7 @@ from solver.bem.fast_operator import potential_and_gradient_sums
 from solver.bem.peaks import PeakField, RegionPeakField, conductor_peaks, region_peaks
 from solver.bem.superposition import UnitSolutions
 from solver.constants import EPSILON_0_F_PER_M
-from solver.errors import NoReferenceError
+from solver.errors import NoReferenceError, SuperpositionError
 from solver.mesh.interfaces import InterfaceMesh
 from solver.mesh.panels import PanelMesh
 from solver.model.model import Model
@@ -70,6 +70,8 @@ class Solution:
         refine (hot spots) start from this pair instead of solving the model again.
     unit_solutions : one solution per fixed conductor at 1 V and per floating conductor at unit
         charge, for :meth:`with_potentials`; None when not kept.
+    stage_seconds : wall time of each stage of :func:`solver.solve` that made this solution
+        (e.g. ``(("meshing", 0.01), ("assembling", 0.2), ...)``), seconds; empty when unknown.
     """
 
     model: Model
@@ -99,6 +101,7 @@ class Solution:
     coarse_mesh_panels: int | None = None
     coarse: Solution | None = field(default=None, compare=False, repr=False)
     unit_solutions: UnitSolutions | None = None
+    stage_seconds: tuple[tuple[str, float], ...] = field(default=(), compare=False)
 
     #: The permittivity the scaled strengths refer to (vacuum), F/m.
     permittivity_F_per_m = EPSILON_0_F_PER_M
@@ -207,10 +210,9 @@ class Solution:
         potentials to rounding (about 1e-12 relative). Capacitance matrices and the error
         estimate are kept (they do not depend on the operating point).
 
-        Falls back to a full :func:`solver.solve` at the same mesh settings when superposition
-        is impossible: the solution kept no unit solutions, or the model has no return path
-        and carries an error estimate (that estimate is of the conductor charges, which change
-        with the potentials).
+        Without a return path the error estimate is of the conductor charges, which change with
+        the potentials: it is made again from the superposed coarser solution of the estimate
+        (the same number a fresh solve of both meshes would give).
 
         Parameters
         ----------
@@ -225,6 +227,8 @@ class Solution:
         Raises
         ------
         KeyError : a name is not a conductor of the model.
+        SuperpositionError : the solution cannot be carried to other potentials (no unit
+            solutions; or an estimate of the charges without its coarser solution); re-solve.
 
         Examples
         --------
@@ -241,19 +245,26 @@ class Solution:
             if unknown:
                 raise KeyError(f"No conductor named '{sorted(unknown)[0]}'.")
         units = self.unit_solutions
-        needs_solve = units is None or not units.matches(model) or (
-            self.estimated_relative_error is not None and not self.has_capacitance
-        )
-        if needs_solve:
-            from solver.bem.solve import solve
-
-            return solve(model, estimate_error=self.estimated_relative_error is not None,
-                         settings=self.mesh.settings)
-        assert units is not None
+        if units is None or not units.matches(model):
+            raise SuperpositionError(
+                "This solution kept no unit solutions for these conductors, so other potentials "
+                "cannot be superposed: solve the model again (solver.solve) at the new potentials."
+            )
+        estimate_moves = self.estimated_relative_error is not None and not self.has_capacitance
+        if estimate_moves and self.coarse is None:
+            raise SuperpositionError(
+                "The error estimate of this solution (no return path: it is of the conductor "
+                "charges) cannot be carried to other potentials without its coarser solution: "
+                "solve the model again (solver.solve) at the new potentials."
+            )
         # The coarser solution of the error estimate moves with the potentials too, so that
         # figures refining from the pair (hot spots) see the new operating point.
         coarse = None if self.coarse is None else self.coarse.with_potentials(potentials_V, charges_C_per_m)
-        return replace(self, model=model, coarse=coarse, **units.superposed(model))
+        moved = replace(self, model=model, coarse=coarse, **units.superposed(model))
+        if estimate_moves:
+            assert coarse is not None
+            moved = replace(moved, estimated_relative_error=relative_change(moved, coarse))
+        return moved
 
     # ---- fields ------------------------------------------------------------------------
     def _plane_scaled(self) -> float | None:

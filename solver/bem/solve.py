@@ -13,6 +13,7 @@ from __future__ import annotations
 import dataclasses
 import logging
 import math
+import time
 from collections.abc import Callable
 
 import numpy as np
@@ -22,9 +23,8 @@ from solver.bem.assembly import normal_derivative_matrix, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import BACKGROUND_NAME, Solution, relative_change
-from solver.bem.superposition import UnitSolutions, driver_columns
+from solver.bem.superposition import UnitSolutions, solve_columns
 from solver.bem.system import BoundarySystem, build_system
-from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolveCancelled
 from solver.mesh.budget import max_panels
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary, estimate_conductor_panels
@@ -76,17 +76,7 @@ def solve_system(
             "choose a coarser mesh or close other programs."
         ) from None
 
-    n_cond = len(model.conductors)
-    fixed, floating, unit_potentials, unit_charges = driver_columns(model)
-    potentials = np.zeros((n_cond, 1))
-    charges = np.zeros_like(potentials)
-    for k, c in enumerate(model.conductors):
-        if c.role == "fixed":
-            potentials[k, 0] = c.potential_V
-        elif c.role == "floating":
-            charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
-    potentials = np.hstack([potentials, unit_potentials])
-    charges = np.hstack([charges, unit_charges])
+    fixed, floating, potentials, charges = solve_columns(model)
     rhs = right_hand_sides(mesh, layout, potentials, charges)
     if linear_solve is not None:
         x = linear_solve(rhs)
@@ -233,13 +223,35 @@ def solve(
     settings = settings or MeshSettings.for_density(model.mesh_density)
 
     report(0.0, "Meshing boundaries")
+    stages: dict[str, float] = {}
+    tick = time.perf_counter()
     mesh = discretize_boundary(model, settings)
+    stages["meshing"] = time.perf_counter() - tick
     report(0.1, f"Solving {mesh.n_panels} panels")
-    solution = solve_mesh(model, mesh, cancel)
-    if not estimate_error:
+    solution = _timed_solve_mesh(model, mesh, cancel, stages)
+    if estimate_error:
+        tick = time.perf_counter()
+        solution = with_error_estimate(solution, settings, lambda f, m: report(0.7 + 0.3 * f, m), cancel)
+        stages["checking"] = time.perf_counter() - tick
+    else:
         report(1.0, "Done")
-        return solution
-    return with_error_estimate(solution, settings, lambda f, m: report(0.7 + 0.3 * f, m), cancel)
+    return dataclasses.replace(solution, stage_seconds=tuple((k, round(v, 6)) for k, v in stages.items()))
+
+
+def _timed_solve_mesh(model: Model, mesh: PanelMesh, cancel: CancelCallback | None, stages: dict[str, float]) -> Solution:
+    """:func:`solve_mesh`, recording seconds spent assembling and solving in ``stages`` (the fast
+    path, which assembles as it iterates, counts as solving)."""
+    tick = time.perf_counter()
+    large = solve_if_large(model, mesh, cancel)
+    if large is not None:
+        stages["solving"] = time.perf_counter() - tick
+        return large
+    system = build_system(model, mesh)
+    stages["assembling"] = time.perf_counter() - tick
+    tick = time.perf_counter()
+    solution = solve_system(system, cancel)
+    stages["solving"] = time.perf_counter() - tick
+    return solution
 
 
 def with_error_estimate(

@@ -101,6 +101,25 @@ def driver_columns(model: Model) -> tuple[tuple[int, ...], tuple[int, ...], np.n
     return fixed, floating, potentials, charges
 
 
+def solve_columns(model: Model) -> tuple[tuple[int, ...], tuple[int, ...], np.ndarray, np.ndarray]:
+    """The columns one solve answers: the operating point of ``model`` first, then the drivers
+    of :func:`driver_columns`.
+
+    Returns
+    -------
+    fixed, floating : conductor indices of the driver columns.
+    potentials_V : (n_conductors, 1 + n_drivers) column 0 the fixed conductors' potentials.
+    charges_scaled : (n_conductors, 1 + n_drivers) column 0 each floating conductor's charge
+        as Q / (2 pi eps0), V.
+    """
+    fixed, floating, unit_potentials, unit_charges = driver_columns(model)
+    scale = 2 * math.pi * EPSILON_0_F_PER_M
+    potentials = np.array([[c.potential_V if c.role == "fixed" else 0.0] for c in model.conductors])
+    charges = np.array([[c.charge_C_per_m / scale if c.role == "floating" else 0.0] for c in model.conductors])
+    return (fixed, floating, np.hstack([potentials.reshape(-1, 1), unit_potentials]),
+            np.hstack([charges.reshape(-1, 1), unit_charges]))
+
+
 def driver_weights(model: Model, fixed: tuple[int, ...], floating: tuple[int, ...]) -> np.ndarray:
     """(n_drivers,) weights of the unit solutions for ``model``'s potentials (V) and charges."""
     scale = 2 * math.pi * EPSILON_0_F_PER_M

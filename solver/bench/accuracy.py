@@ -90,24 +90,39 @@ def low_order_row(model: Model, exact: float, what: str, level: float) -> dict:
             "seconds": time.perf_counter() - t0}
 
 
-def run(tolerances: tuple[float, ...] = TOLERANCES, levels: tuple[float, ...] = LEVELS) -> list[dict]:
-    """Print the accuracy-per-unknown tables and return their rows."""
+def accuracy_rows(tolerances: tuple[float, ...] = TOLERANCES, levels: tuple[float, ...] = LEVELS) -> list[dict]:
+    """Every case by both solvers, as rows (``case``, ``solver``, ``unknowns``, ``true_error``,
+    ``seconds``; the high-order rows with ``tolerance`` and ``estimated_error``, the low-order
+    rows with ``level``). Nothing is printed."""
     out = []
     for title, make, exact, what in CASES:
         model = make()
-        print(f"\naccuracy per unknown: {title}")
-        print(f"{'solver':>10} {'setting':>9} {'unknowns':>9} {'est. error':>11} {'true error':>11} {'seconds':>8}")
-        for tol in tolerances:
-            r = high_order_row(model, exact, what, tol)
-            print(f"{'high-order':>10} {tol:9.0e} {r['unknowns']:9d} {r['estimated_error']:11.2e} "
-                  f"{r['true_error']:11.2e} {r['seconds']:8.2f}")
-            out.append({"case": title, "solver": "high-order", **r})
-        for level in levels:
-            r = low_order_row(model, exact, what, level)
-            print(f"{'low-order':>10} {'level ' + format(level, 'g'):>9} {r['unknowns']:9d} {'':>11} "
-                  f"{r['true_error']:11.2e} {r['seconds']:8.2f}")
-            out.append({"case": title, "solver": "low-order", **r})
+        out += [{"case": title, "solver": "high-order", **high_order_row(model, exact, what, tol)} for tol in tolerances]
+        out += [{"case": title, "solver": "low-order", **low_order_row(model, exact, what, level)} for level in levels]
     return out
+
+
+def table_lines(rows: list[dict]) -> list[str]:
+    """The accuracy-per-unknown tables of :func:`accuracy_rows`, one per case."""
+    lines = []
+    for title, *_ in CASES:
+        lines += ["", f"accuracy per unknown: {title}",
+                  f"{'solver':>10} {'setting':>9} {'unknowns':>9} {'est. error':>11} {'true error':>11} {'seconds':>8}"]
+        for r in (r for r in rows if r["case"] == title):
+            if r["solver"] == "high-order":
+                lines.append(f"{'high-order':>10} {r['tolerance']:9.0e} {r['unknowns']:9d} {r['estimated_error']:11.2e} "
+                             f"{r['true_error']:11.2e} {r['seconds']:8.2f}")
+            else:
+                lines.append(f"{'low-order':>10} {'level ' + format(r['level'], 'g'):>9} {r['unknowns']:9d} {'':>11} "
+                             f"{r['true_error']:11.2e} {r['seconds']:8.2f}")
+    return lines
+
+
+def run(tolerances: tuple[float, ...] = TOLERANCES, levels: tuple[float, ...] = LEVELS) -> list[dict]:
+    """Print the accuracy-per-unknown tables and return their rows."""
+    rows = accuracy_rows(tolerances, levels)
+    print("\n".join(table_lines(rows)))
+    return rows
 
 
 if __name__ == "__main__":

@@ -1,4 +1,5 @@
-"""The 100-conductor bus: 10 x 10 rounded bars in an earthed box (a large-model test case).
+"""The 100-conductor bus: 10 x 10 rounded bars in an earthed box (a large-model test case),
+and its benchmark runs (each solve in a child process, so that its peak memory is its own).
 
 Invented geometry for benchmarks and tests (not a real product): bars 8 mm x 24 mm with 2 mm
 edge radii on a 30 mm x 45 mm pitch, three phases at the peak of L1 (1, -1/2, -1/2 of 10 kV),
@@ -33,12 +34,28 @@ def hundred_conductor_bus(columns: int = 10, rows: int = 10) -> Model:
 
 # ---- benchmark: the bus on coarse high-order panels ---------------------------------------------
 
+def peak_resident_MB() -> float:
+    """Peak resident memory of this process, MB: ``VmHWM`` of /proc/self/status where there is
+    one (the high-water mark of this program's own memory), else ``ru_maxrss``. On Linux
+    ``ru_maxrss`` carries over the parent's peak through fork and exec, so a child started by a
+    large parent would report the parent's figure."""
+    import resource
+
+    try:
+        with open("/proc/self/status", encoding="ascii") as status:
+            for line in status:
+                if line.startswith("VmHWM:"):
+                    return float(line.split()[1]) / 1024.0
+    except OSError:
+        pass
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
+
+
 def _solve_child(columns: int, rows: int, reference: bool) -> dict:
     """Solve the bus in this process (through :func:`solver.solve` when it counts as large, else
     by :func:`~solver.bem.high_order.large_models.solve_large` directly); wall and CPU seconds, peak
     resident memory and the capacitance figures (and, with ``reference``, the same bus on twice
     the panels with 16 nodes each)."""
-    import resource
     import time
 
     import numpy as np
@@ -60,7 +77,7 @@ def _solve_child(columns: int, rows: int, reference: bool) -> dict:
         "stages_s": dict(getattr(sol, "stage_seconds", ())),
         "estimated_relative_error": sol.estimated_relative_error,
         "c11_pF_per_m": float(sol.capacitance_maxwell_F_per_m[0, 0] * 1e12),
-        "peak_MB": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0,
+        "peak_MB": peak_resident_MB(),
     }
     if reference:
         panels = sol.panels
@@ -74,13 +91,59 @@ def _solve_child(columns: int, rows: int, reference: bool) -> dict:
     return out
 
 
-def _run_child(columns: int, rows: int, reference: bool) -> dict:
+def _dense_child(columns: int, rows: int) -> dict:
+    """Solve the bus in this process the plain way: the low-order mesh at the model's density and
+    one dense LU (no fast path, no error estimate); wall and CPU seconds, peak resident memory."""
+    import time
+
+    from solver.bem.solve import solve_system
+    from solver.bem.system import build_system
+    from solver.mesh.panels import MeshSettings, discretize_boundary
+
+    model = hundred_conductor_bus(columns, rows)
+    wall, cpu = time.perf_counter(), time.process_time()
+    mesh = discretize_boundary(model, MeshSettings.for_density(model.mesh_density))
+    sol = solve_system(build_system(model, mesh))
+    return {
+        "bars": columns * rows,
+        "unknowns": int(sol.n_unknowns),
+        "wall_s": time.perf_counter() - wall,
+        "cpu_s": time.process_time() - cpu,
+        "c11_pF_per_m": float(sol.capacitance_maxwell_F_per_m[0, 0] * 1e12),
+        "peak_MB": peak_resident_MB(),
+    }
+
+
+def dense_estimate(columns: int, rows: int) -> dict:
+    """What the plain dense LU on the low-order mesh (model's density) would need for this bus:
+    panels (an upper bound, counted without meshing), peak memory in GB, and whether that fits
+    the memory budget (:mod:`solver.mesh.budget`)."""
+    from solver.bem.fast_solve import dense_memory_bytes
+    from solver.mesh.budget import max_panels
+    from solver.mesh.panels import estimate_conductor_panels
+
+    model = hundred_conductor_bus(columns, rows)
+    panels, _ = estimate_conductor_panels(model)
+    n_rhs = 1 + sum(c.role != "reference" for c in model.conductors)
+    return {"bars": columns * rows, "panels": int(panels),
+            "would_need_GB": dense_memory_bytes(int(panels) + 1, n_rhs) / 1e9,
+            "fits": panels <= max_panels()}
+
+
+def run_in_child(columns: int, rows: int, mode: str = "solve") -> dict:
+    """One bus solve in a fresh Python process (so that its peak memory is its own): ``mode``
+    "solve" (:func:`solver.solve`, coarse high-order panels), "reference" (the same and a finer
+    solve for the true error) or "dense" (low-order mesh, plain dense LU)."""
     import json
     import subprocess
     import sys
 
-    args = [sys.executable, "-m", "solver.bench.bus", "--child", str(columns), str(rows), str(int(reference))]
+    args = [sys.executable, "-m", "solver.bench.bus", "--child", mode, str(columns), str(rows)]
     return json.loads(subprocess.run(args, check=True, capture_output=True, text=True).stdout)
+
+
+def _run_child(columns: int, rows: int, reference: bool) -> dict:
+    return run_in_child(columns, rows, "reference" if reference else "solve")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -98,7 +161,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--child", nargs=3, help=argparse.SUPPRESS)
     args = parser.parse_args(argv)
     if args.child:
-        print(json.dumps(_solve_child(int(args.child[0]), int(args.child[1]), bool(int(args.child[2])))))
+        mode, columns, rows = args.child[0], int(args.child[1]), int(args.child[2])
+        result = _dense_child(columns, rows) if mode == "dense" else _solve_child(columns, rows, mode == "reference")
+        print(json.dumps(result))
         return 0
     if args.write:
         from solver.io.project_file import save_project

@@ -1,5 +1,4 @@
-"""Interactive and large-model timings (run by ``python -m solver.bench``, or alone as
-``python -m solver.bench.speed [--bus-size 10] [--bus-level 0.25]``).
+"""Interactive timings (run by ``python -m solver.bench``, or alone as ``python -m solver.bench.speed``).
 
 * the busbar sample (sample_geometries/busbar_enclosure.json, normal density): a full solve,
   a potential-only re-solve (:meth:`Solution.with_potentials`), a geometry edit re-solved
@@ -9,11 +8,9 @@
   point-by-point sums it replaced, for the ratio), and the solver's part of click-to-drawn in
   the desktop program: the first edit after a fresh solve and a drag step, each re-solved
   plus its 120 x 120 map (what the window draws first), the same after an edit solved
-  afresh, then the figures that follow (error estimate, field lines, equivalent radii);
-* the bus of :func:`solver.bench.bus.hundred_conductor_bus` through the fast path (time and
-  peak memory of a separate process, so the figure is that solve's own), and a smaller bus of
-  the same kind through both the fast path and the dense LU for the ratio; for the full bus
-  the dense path's memory is only estimated (it would not fit).
+  afresh, then the figures that follow (error estimate, field lines, equivalent radii).
+
+The 100-conductor bus is in :mod:`solver.bench.bus`.
 
 Wall-clock times on a shared machine are noisy: compare ratios and run twice.
 """
@@ -21,23 +18,16 @@ Wall-clock times on a shared machine are noisy: compare ratios and run twice.
 from __future__ import annotations
 
 import argparse
-import resource
-import subprocess
-import sys
 import time
 from pathlib import Path
 
 import numpy as np
 
-from solver.bem.fast_solve import dense_memory_bytes, fast_memory_bytes, solve_fast
 from solver.bem.geometry_update import GeometryEditSolver
-from solver.bem.solve import solve, solve_system, with_error_estimate
-from solver.bem.system import build_system
-from solver.bench.bus import hundred_conductor_bus
+from solver.bem.solve import solve, with_error_estimate
 from solver.figures.equilibrium import equivalent_radius_m
 from solver.figures.field_lines import evaluate_on_grid, trace_field_lines
 from solver.io.project_file import load_project
-from solver.mesh.panels import MeshSettings, discretize_boundary
 from solver.model.model import Rectangle
 
 SAMPLE = Path(__file__).resolve().parents[2] / "sample_geometries" / "busbar_enclosure.json"
@@ -192,65 +182,16 @@ def _click_to_drawn(model) -> tuple[float, float]:
     return t_first, time.perf_counter() - t0
 
 
-def _bus_child(size: int, level: float, dense: bool) -> None:
-    """Solve one bus in this process and print panels, unknowns, seconds and C[0, 0]."""
-    model = hundred_conductor_bus(size, size)
-    mesh = discretize_boundary(model, MeshSettings(level))
-    t0 = time.perf_counter()
-    sol = solve_system(build_system(model, mesh)) if dense else solve_fast(model, mesh)
-    elapsed = time.perf_counter() - t0
-    print(mesh.n_panels, sol.n_unknowns, elapsed, float(sol.capacitance_maxwell_F_per_m[0, 0]))
-
-
-def _run_bus(size: int, level: float, dense: bool) -> tuple[int, int, float, float, float]:
-    """(panels, unknowns, seconds, peak resident MB, C11) of one bus solve in a child process."""
-    before = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
-    args = [sys.executable, "-m", "solver.bench.speed", "--child", str(size), str(level), str(int(dense))]
-    out = subprocess.run(args, check=True, capture_output=True, text=True).stdout.split()
-    peak_kb = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
-    if peak_kb <= before:  # an earlier child used more; this one's peak is not separately known
-        peak_kb = 0
-    return int(out[0]), int(out[1]), float(out[2]), peak_kb / 1024.0, float(out[3])
-
-
-def large(bus_size: int = 10, bus_level: float = 0.25, small_size: int = 4) -> None:
-    """Print the bus timings: the small bus by both paths, then the full bus by the fast path."""
-    print(f"\n{bus_size * bus_size}-conductor bus in an earthed box (fast path: FMM + GMRES); "
-          "peak memory of the solving process")
-    print(f"{'case':>34} {'panels':>7} {'unknowns':>8} {'time s':>9} {'peak MB':>8} {'C11 pF/m':>10}")
-    rows = []
-    for size, dense in ((small_size, True), (small_size, False), (bus_size, False)):
-        n, unknowns, t, mb, c11 = _run_bus(size, bus_level, dense)
-        label = f"{size * size} bars, level {bus_level}, {'dense LU' if dense else 'fast'}"
-        print(f"{label:>34} {n:7d} {unknowns:8d} {t:9.2f} {mb:8.0f} {c11 * 1e12:10.4f}")
-        rows.append((size, dense, n, t, c11))
-    (_, _, _, t_dense, c_dense), (_, _, _, t_fast, c_fast) = rows[0], rows[1]
-    print(f"  small bus: dense / fast time {t_dense / t_fast:.2f}; C11 differs by {abs(c_fast / c_dense - 1):.1e}")
-    model = hundred_conductor_bus(bus_size, bus_size)
-    for level in (bus_level, 1.0):
-        mesh = discretize_boundary(model, MeshSettings(level))
-        n_rhs = bus_size * bus_size + 1
-        print(f"  level {level}: {mesh.n_panels} panels; dense path would need about "
-              f"{dense_memory_bytes(mesh.n_panels, n_rhs) / 1e9:.1f} GB, fast path about "
-              f"{fast_memory_bytes(mesh, False, n_rhs) / 1e9:.2f} GB (estimates)")
-
-
-def run(bus_size: int = 10, bus_level: float = 0.25) -> None:
-    """All speed cases."""
+def run() -> None:
+    """The interactive timings (the 100-conductor bus is run by ``python -m solver.bench``, see
+    :mod:`solver.bench.bus`)."""
     interactive()
-    large(bus_size, bus_level)
 
 
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(prog="python -m solver.bench.speed", description=__doc__.splitlines()[0])
-    parser.add_argument("--bus-size", type=int, default=10, help="bars per row and column of the bus")
-    parser.add_argument("--bus-level", type=float, default=0.25, help="mesh level of the bus (normal = 1)")
-    parser.add_argument("--child", nargs=3, help=argparse.SUPPRESS)
-    args = parser.parse_args(argv)
-    if args.child:
-        _bus_child(int(args.child[0]), float(args.child[1]), bool(int(args.child[2])))
-        return 0
-    run(args.bus_size, args.bus_level)
+    parser.parse_args(argv)
+    run()
     return 0
 
 

@@ -21,16 +21,20 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback
 from solver.cli.formatting import format_optional, text_table
+from solver.cli.large_model import bundle_comparison, is_large_solution
 from solver.cli.options import ReportOptions
 from solver.errors import InvalidModelError
 from solver.figures.bundles import BundleComparison, compare_bundle
 from solver.figures.end_effects import LengthCheck, check_part_length
-from solver.hot_spots.analysis import HotSpotReport, analyse_hot_spots
+from solver.hot_spots.air_conditions import THIN_MARGIN
+from solver.hot_spots.analysis import analyse_hot_spots
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
-from solver.hot_spots.margins import THIN_MARGIN, MarginReport, assess_margins
+from solver.hot_spots.hot_spot import HotSpotReport
+from solver.hot_spots.margins import MarginReport, assess_margins
 from solver.hot_spots.verdict import solution_potential_difference_V
 
 
@@ -58,8 +62,8 @@ def radius_sweep(
     solution: Solution, options: ReportOptions, cancel: CancelCallback | None = None
 ) -> CornerRadiusSweep | None:
     """The corner-radius sweep asked for with --radius-sweep (None when not asked)."""
-    if options.radius_sweep is None:
-        return None
+    if options.radius_sweep is None or is_large_solution(solution):
+        return None  # a large model's sweep is left out (solver.cli.large_model.not_computed)
     name, radii = options.radius_sweep
     if name not in solution.model.conductor_names:
         raise InvalidModelError(f"--radius-sweep: no conductor named '{name}'; the model has "
@@ -101,7 +105,11 @@ def bundle_groups(solution: Solution) -> list[tuple[str, ...]]:
 
 
 def bundle_comparisons(solution: Solution) -> tuple[BundleComparison, ...]:
-    """Equivalent radius of each group of :func:`bundle_groups`, with the bundle formula."""
+    """Equivalent radius of each group of :func:`bundle_groups`, with the bundle formula (on a
+    large model's own high-order panels, :mod:`solver.cli.large_model`)."""
+    if is_large_solution(solution):
+        assert isinstance(solution, HighOrderSolution)
+        return tuple(bundle_comparison(solution, names) for names in bundle_groups(solution))
     return tuple(compare_bundle(solution, names) for names in bundle_groups(solution))
 
 
@@ -127,9 +135,15 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
                      _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.status])
     air = margins.air
     strengths = ", ".join(f"{m.conductor} {_fmt(m.air_breakdown_field_V_per_m, 'V/m')}" for m in margins.margins)
+    if report.method == "mesh refinement":
+        head = (f"Hot spots: peak surface field, refined to an error target of {100 * report.target_relative_error:g} % "
+                f"({report.n_panels[-1]} panels{rounded})")
+    else:
+        head = (f"Hot spots: peak surface field from the high-order solution ({report.n_panels[-1]} unknowns{rounded}; "
+                "a large model is not refined); error: the larger of the solution's estimate and the unresolved "
+                f"part of the charge density at the peak (target {100 * report.target_relative_error:g} %)")
     lines = [
-        f"Hot spots: peak surface field, refined to an error target of {100 * report.target_relative_error:g} % "
-        f"({report.n_panels[-1]} panels{rounded})",
+        head,
         *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
                  "corona margin", "status"], rows),
         f"  Air: {air.description}, relative density {air.relative_air_density:.3f}, surface factor "

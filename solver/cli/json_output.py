@@ -69,15 +69,20 @@ def operating_point_json(report: Report) -> dict:
 
 
 def figures_json(report: Report) -> dict:
-    """Equivalent radii, the error estimate, the size of the linear system (``unknowns``),
-    which solver ran and its time per stage, seconds (high-order solves only)."""
+    """Equivalent radii (with their estimated errors on a large model, else None), the error
+    estimate, the size of the linear system (``unknowns``), which solver ran, its time per
+    stage in seconds, and ``not_computed``: the figures asked for but left out, each as
+    ``{"figure", "reason", "way_out"}``."""
+    errors = report.equivalent_radius_errors
     return {
         "equivalent_radius_m": list(report.equivalent_radii_m),
+        "equivalent_radius_estimated_relative_error": None if errors is None else list(errors),
         "estimated_relative_error": report.solution.estimated_relative_error,
         "coarse_mesh_panels": report.solution.coarse_mesh_panels,
         "unknowns": report.solution.n_unknowns,
         "solver": "high-order" if isinstance(report.solution, HighOrderSolution) else "low-order",
-        "stage_seconds": dict(getattr(report.solution, "stage_seconds", ())),
+        "stage_seconds": dict(report.solution.stage_seconds),
+        "not_computed": [vars(item) for item in report.not_computed],
     }
 
 

@@ -6,7 +6,7 @@ import argparse
 from dataclasses import dataclass
 
 from solver.errors import InvalidModelError
-from solver.hot_spots.margins import AirConditions, air_conditions_of
+from solver.hot_spots.air_conditions import AirConditions, air_conditions_of
 from solver.hot_spots.voltage_basis import VOLTAGE_BASES, VoltageBasis, voltage_basis_of
 from solver.model.model import Model
 

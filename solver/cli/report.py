@@ -14,6 +14,7 @@ from solver.bem.high_order.adaptive import equivalent_radius_to_tolerance
 from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve
+from solver.cli import large_model
 from solver.cli.hot_spots import HotSpotFigures, hot_spot_figures
 from solver.cli.line_figures import figures_for_solution
 from solver.cli.options import ReportOptions
@@ -41,8 +42,16 @@ def capacitance_note(solution: Solution) -> str | None:
     return None
 
 
-def _equivalent_radii(solution: Solution) -> tuple[float, ...]:
-    """Each conductor's equivalent radius; to the solution's tolerance after a high-order solve."""
+def _equivalent_radii(solution: Solution) -> tuple[tuple[float, ...], tuple[float, ...] | None]:
+    """Each conductor's equivalent radius; to the solution's tolerance after a high-order solve;
+    on the solution's own panels, with an error estimate, for a large model."""
+    if large_model.is_large_solution(solution):
+        assert isinstance(solution, HighOrderSolution)
+        return large_model.equivalent_radii(solution)
+    return _radii(solution), None
+
+
+def _radii(solution: Solution) -> tuple[float, ...]:
     tolerance = solution.tolerance if isinstance(solution, HighOrderSolution) else None
     if tolerance is None:
         return tuple(equivalent_radius_m(solution, [name]) for name in solution.conductor_names)
@@ -65,6 +74,10 @@ class Report:
     line_figures : transmission-line figures, or None without a return path or signal line.
     cross_checks : each conductor's equivalent radius by independent routes (``--cross-check``),
         or None when not asked for.
+    equivalent_radius_errors : estimated relative error of each equivalent radius (large
+        models), or None where the radii are to the mesh density or tolerance.
+    not_computed : figures asked for but left out, each with the reason and a way out (large
+        models: see :mod:`solver.cli.large_model`).
     """
 
     solution: Solution
@@ -74,6 +87,8 @@ class Report:
     hot_spots: HotSpotFigures
     line_figures: TransmissionLineFigures | None
     cross_checks: tuple[CrossCheck, ...] | None = None
+    equivalent_radius_errors: tuple[float, ...] | None = None
+    not_computed: tuple[large_model.NotComputed, ...] = ()
 
 
 def build_report(
@@ -96,11 +111,19 @@ def build_report(
     options = options or ReportOptions()
     report = progress_reporter(progress, cancel)
     report(0.0, "Equivalent radii")
-    radii = _equivalent_radii(solution)
+    radii, radius_errors = _equivalent_radii(solution)
     report(0.2, "Hot spots")
-    # Hot spots refine on the low-order meshes, level by level; a high-order solution is not one
-    # of those levels, so they start from a low-order solve of the same model.
-    hot_source = solve(solution.model) if isinstance(solution, HighOrderSolution) else solution
+    missing: tuple[large_model.NotComputed, ...] = ()
+    if large_model.is_large_solution(solution):
+        # A large model is not refined on low-order meshes (they would not fit): its peaks come
+        # from its high-order solution, and figures needing more large solves are left out.
+        assert isinstance(solution, HighOrderSolution)
+        missing = large_model.not_computed(solution, options)
+        hot_source: Solution = solution
+    else:
+        # Hot spots refine on the low-order meshes, level by level; a high-order solution is not one
+        # of those levels, so they start from a low-order solve of the same model.
+        hot_source = solve(solution.model) if isinstance(solution, HighOrderSolution) else solution
     hot_spots = hot_spot_figures(hot_source, options, lambda f, m: report(0.2 + 0.7 * f, m), cancel)
     report(0.9, "Transmission-line figures")
     line_figures = figures_for_solution(solution)
@@ -109,4 +132,5 @@ def build_report(
         report(0.95, "Cross-checking the equivalent radii")
         checks = tuple(check_each_equivalent_radius(solution.model, options.cross_check_points))
     report(1.0, "Done")
-    return Report(solution, options, capacitance_note(solution), radii, hot_spots, line_figures, checks)
+    return Report(solution, options, capacitance_note(solution), radii, hot_spots, line_figures, checks,
+                  radius_errors, missing)

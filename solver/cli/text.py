@@ -11,6 +11,7 @@ from collections.abc import Callable, Sequence
 
 import numpy as np
 
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.cli.cross_check import cross_check_lines
 from solver.cli.formatting import (
     digits_for,
@@ -21,6 +22,7 @@ from solver.cli.formatting import (
     text_table,
 )
 from solver.cli.hot_spots import caution_lines, hot_spot_section
+from solver.cli.large_model import error_words, is_large_solution, solver_words
 from solver.cli.line_figures import dielectric_section, transmission_line_section
 from solver.cli.report import Report
 
@@ -46,6 +48,9 @@ def header_section(report: Report) -> list[str]:
 def _mesh_words(report: Report) -> str:
     """How the boundary was discretised: the named density, or the high-order tolerance solve."""
     solution = report.solution
+    if is_large_solution(solution):
+        assert isinstance(solution, HighOrderSolution)
+        return solver_words(solution)
     reached = getattr(solution, "tolerance", None)
     if reached is not None:
         return f"high-order solver to tolerance {reached:.2g}, {solution.n_unknowns} unknowns"
@@ -138,6 +143,9 @@ def error_section(report: Report) -> list[str]:
     err = solution.estimated_relative_error
     if err is None:
         return ["Estimated relative error: not estimated."]
+    if is_large_solution(solution):
+        assert isinstance(solution, HighOrderSolution)
+        return [error_words(solution)]
     what = "capacitance matrix" if solution.has_capacitance else "conductor charges"
     tolerance = report.options.tolerance
     if tolerance is not None and getattr(solution, "tolerance", None) is not None:
@@ -155,10 +163,22 @@ def error_section(report: Report) -> list[str]:
 def equivalent_radius_section(report: Report) -> list[str]:
     """Each conductor's equivalent radius, in the model's unit."""
     m = report.solution.model
-    rows = [[name, f"{format_plain(r / m.metres_per_unit, 5)} {m.unit}"]
-            for name, r in zip(report.solution.conductor_names, report.equivalent_radii_m)]
-    return ["Equivalent radius (logarithmic capacity) of each conductor alone",
-            *text_table(["conductor", "radius"], rows)]
+    errors = report.equivalent_radius_errors
+    if errors is None:
+        rows = [[name, f"{format_plain(r / m.metres_per_unit, 5)} {m.unit}"]
+                for name, r in zip(report.solution.conductor_names, report.equivalent_radii_m)]
+        return ["Equivalent radius (logarithmic capacity) of each conductor alone",
+                *text_table(["conductor", "radius"], rows)]
+    rows = [[name, f"{format_plain(r / m.metres_per_unit, 5)} {m.unit}", f"{e:.1g}"]
+            for name, r, e in zip(report.solution.conductor_names, report.equivalent_radii_m, errors)]
+    return ["Equivalent radius (logarithmic capacity) of each conductor alone (on the solution's panels; "
+            "error: change against fewer nodes per panel)",
+            *text_table(["conductor", "radius", "est. error"], rows)]
+
+
+def not_computed_section(report: Report) -> list[str]:
+    """Figures asked for but left out, why, and what to do instead."""
+    return [item.sentence() for item in report.not_computed]
 
 
 def hot_spots_section(report: Report) -> list[str]:
@@ -198,6 +218,7 @@ TEXT_SECTIONS: tuple[TextSection, ...] = (
     dielectrics_section,
     line_figures_section,
     cross_check_section,
+    not_computed_section,
     high_voltage_section,
 )
 

@@ -32,16 +32,19 @@ from __future__ import annotations
 import logging
 import math
 from collections.abc import Iterable
-from dataclasses import dataclass, field
 
 import numpy as np
 
+from solver.bem.high_order.large_models import is_large, solve_large
+from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback, progress_reporter, solve_mesh
 from solver.errors import InvalidModelError
-from solver.hot_spots.air_region import AirRegionPeak, air_region_peak, medium_next_to
+from solver.hot_spots.air_region import air_region_peak, medium_next_to
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.curvature import signed_radius_of_curvature_m
+from solver.hot_spots.hot_spot import HotSpot, HotSpotReport
+from solver.hot_spots.large_model_peaks import large_model_hot_spots
 from solver.hot_spots.peak_diagnostics import (
     GROUND_PLANE_NAME,  # noqa: F401  (re-exported for callers of this module)
     corner_field_grows,
@@ -51,7 +54,6 @@ from solver.hot_spots.peak_diagnostics import (
 )
 from solver.hot_spots.weak_corners import corner_exponent, weak_corner_at_peak, weak_corner_note
 from solver.mesh.panels import DENSITY_LEVELS, MeshSettings, PanelMesh, discretize_boundary
-from solver.model.materials import Medium
 from solver.model.model import Model
 
 logger = logging.getLogger(__name__)
@@ -61,135 +63,10 @@ DEFAULT_MAX_PANELS = 5000
 
 
 
-@dataclass(frozen=True)
-class HotSpot:
-    """The peak surface field of one conductor.
-
-    Attributes
-    ----------
-    conductor : conductor name.
-    field_V_per_m : largest |E| on its surface on the finest mesh, V/m.
-    location_m : (x, y) where it occurs, metres.
-    singular : True when the conductor has a sharp corner or free edge: its 2-D peak field is
-        unbounded and ``field_V_per_m`` only reflects the mesh (give a corner radius).
-    corner_exponent : pi/beta - 1 of the most singular corner of a singular conductor, else None.
-    corner_opening_rad : opening angle beta of the field region at that corner, else None.
-    estimated_relative_error : Richardson estimate of the relative error of ``field_V_per_m``
-        (None when singular).
-    extrapolated_field_V_per_m : Richardson-extrapolated peak (None when not monotone or singular).
-    observed_order : fitted convergence order p in error ~ 2^(-p) per level doubling (or None).
-    converged : the estimate is at or below the target.
-    potential_V : the conductor's potential, V.
-    nearest_conductor : nearest conductor (or "ground plane") at a different potential, or None.
-    gap_m : shortest distance to it, metres.
-    gap_field_V_per_m : |V_k - V_j| / gap, V/m.
-    enhancement_factor : field_V_per_m / gap_field_V_per_m (None without such a neighbour).
-    peak_history_V_per_m : peak on each mesh of the refinement, coarsest first.
-    local_radius_of_curvature_m : radius of curvature of the outline at the peak where it
-        bulges into the field, metres (None on a straight run, on a hollow surface such as the
-        inside of a tube, at a sharp corner or on a strip).
-    medium_eps_r : relative permittivity of the medium next to the peak.
-    medium : the medium next to the peak (region, material, and whether it is air).
-    note : plain-words remark for the user.
-    """
-
-    conductor: str
-    field_V_per_m: float
-    location_m: tuple[float, float]
-    singular: bool
-    corner_exponent: float | None
-    corner_opening_rad: float | None
-    estimated_relative_error: float | None
-    extrapolated_field_V_per_m: float | None
-    observed_order: float | None
-    converged: bool
-    potential_V: float
-    nearest_conductor: str | None
-    gap_m: float | None
-    gap_field_V_per_m: float | None
-    enhancement_factor: float | None
-    peak_history_V_per_m: tuple[float, ...]
-    note: str
-    local_radius_of_curvature_m: float | None = None
-    medium_eps_r: float = 1.0
-    medium: Medium | None = None
-
-
-@dataclass(frozen=True)
-class HotSpotReport:
-    """Peak surface fields of a model, with the refinement that produced them.
-
-    Attributes
-    ----------
-    hot_spots : one :class:`HotSpot` per analysed conductor, model order.
-    target_relative_error : the requested error target.
-    levels : mesh resolution levels solved, coarsest first.
-    n_panels : panel count of each of those meshes.
-    corner_radius_m : radius the sharp corners were rounded to (None = not rounded).
-    solved_model : the model actually solved (rounded copy when a radius was given).
-    solution : the solution on the finest mesh.
-    air_region : with dielectric regions in air, the largest field in the air (e.g. on the
-        outer surface of insulation), else None.
-    """
-
-    hot_spots: tuple[HotSpot, ...]
-    target_relative_error: float
-    levels: tuple[float, ...]
-    n_panels: tuple[int, ...]
-    corner_radius_m: float | None
-    solved_model: Model = field(compare=False, repr=False)
-    solution: Solution = field(compare=False, repr=False)
-    air_region: AirRegionPeak | None = None
-
-    def for_conductor(self, name: str) -> HotSpot:
-        """The hot spot of conductor ``name`` (KeyError if it was not analysed)."""
-        for spot in self.hot_spots:
-            if spot.conductor == name:
-                return spot
-        raise KeyError(f"No hot spot for conductor '{name}'; analysed: {', '.join(s.conductor for s in self.hot_spots)}.")
-
-    @property
-    def all_converged(self) -> bool:
-        """Every non-singular peak met the error target (and none is singular)."""
-        return all(s.converged for s in self.hot_spots)
-
-    def as_dict(self) -> dict:
-        """JSON-ready summary with SI keys (one entry per conductor under ``conductors``)."""
-        return {
-            "target_relative_error": self.target_relative_error,
-            "corner_radius_m": self.corner_radius_m,
-            "levels": list(self.levels),
-            "n_panels": list(self.n_panels),
-            "air_region": None if self.air_region is None else {
-                "peak_field_V_per_m": self.air_region.field_V_per_m,
-                "peak_field_location_m": list(self.air_region.location_m),
-                "where": self.air_region.where,
-                "at_sharp_corner": self.air_region.at_sharp_corner,
-                "peak_field_estimated_relative_error": self.air_region.estimated_relative_error,
-            },
-            "conductors": [
-                {
-                    "conductor": s.conductor,
-                    "peak_field_V_per_m": s.field_V_per_m,
-                    "peak_field_location_m": list(s.location_m),
-                    "peak_field_estimated_relative_error": s.estimated_relative_error,
-                    "peak_field_extrapolated_V_per_m": s.extrapolated_field_V_per_m,
-                    "observed_order": s.observed_order,
-                    "singular": s.singular,
-                    "corner_exponent": s.corner_exponent,
-                    "corner_opening_rad": s.corner_opening_rad,
-                    "nearest_conductor": s.nearest_conductor,
-                    "gap_m": s.gap_m,
-                    "gap_field_V_per_m": s.gap_field_V_per_m,
-                    "enhancement_factor": s.enhancement_factor,
-                    "local_radius_of_curvature_m": s.local_radius_of_curvature_m,
-                    "medium_eps_r": s.medium_eps_r,
-                    "converged": s.converged,
-                    "note": s.note,
-                }
-                for s in self.hot_spots
-            ],
-        }
+def is_large_solution(source: Solution | Model) -> bool:
+    """A solution of the large-model path: its low-order meshes would not fit, so its peaks
+    come from the high-order solution itself."""
+    return isinstance(source, HighOrderSolution) and source.panels is not None and is_large(source.model)
 
 
 def _solutions_at_levels(solution: Solution) -> dict[float, Solution]:
@@ -218,7 +95,9 @@ def analyse_hot_spots(
     source : Solution or Model
         A solution (from :func:`solver.solve`) to start from: its mesh and the coarser mesh of
         its error estimate are the first two levels of the refinement, so they are not solved
-        again. A Model is solved from scratch at the levels its mesh density implies.
+        again. A Model is solved from scratch at the levels its mesh density implies. A large
+        model (:func:`solver.bem.high_order.large_models.is_large`) is not refined: its peaks
+        come from its high-order solution (:mod:`solver.hot_spots.large_model_peaks`).
     target_relative_error : float
         Stop refining when every non-singular peak's Richardson estimate is at or below this.
     corner_radius_m : float, optional
@@ -253,6 +132,11 @@ def analyse_hot_spots(
     """
     if not (0 < target_relative_error < 1):
         raise InvalidModelError(f"Target relative error is {target_relative_error}; give a number between 0 and 1.")
+    if isinstance(source, Model) and is_large(source):
+        source = solve_large(source)
+    if is_large_solution(source):
+        assert isinstance(source, HighOrderSolution)
+        return large_model_hot_spots(source, target_relative_error, corner_radius_m, conductors)
     if isinstance(source, Solution):
         model, base = source.model, source.mesh.settings.level
     else:

@@ -45,30 +45,45 @@ def richardson_estimate(values: Sequence[float] | np.ndarray) -> tuple[float, fl
 
 
 def nearest_other_potential(model: Model, solution: Solution) -> list[tuple[str | None, float | None, float | None]]:
-    """(name, gap_m, |dV|) of the nearest conductor at a different potential, per conductor."""
+    """(name, gap_m, |dV|) of the nearest conductor at a different potential, per conductor.
+
+    Exact distances are computed only for the conductors whose bounding boxes are no farther
+    than the nearest gap found (a box distance never exceeds the true one), so a model of many
+    conductors costs about one distance per neighbour instead of one per pair.
+    """
     geoms = conductor_geometries(model, MeshSettings(1.0).arc_step_rad)
-    potentials = solution.conductor_potentials_V
+    potentials = np.asarray(solution.conductor_potentials_V, dtype=float)
     vscale = max(1e-300, float(np.abs(potentials).max()))
     plane_y = None if model.ground_plane is None else model.ground_plane.y * model.metres_per_unit
+    bounds = np.array([g.bounds for g in geoms], dtype=float).reshape(-1, 4)
     out = []
     for k, g in enumerate(geoms):
+        dv = np.abs(potentials[k] - potentials)
+        dx = np.maximum(0.0, np.maximum(bounds[:, 0] - bounds[k, 2], bounds[k, 0] - bounds[:, 2]))
+        dy = np.maximum(0.0, np.maximum(bounds[:, 1] - bounds[k, 3], bounds[k, 1] - bounds[:, 3]))
+        lower = np.hypot(dx, dy)  # bounding-box distance: a lower bound of the true gap
+        other = (np.arange(len(geoms)) != k) & (dv > 1e-9 * vscale)
+        gaps = np.full(len(geoms), np.inf)
+        candidates = [(GROUND_PLANE_NAME, float(g.bounds[1] - plane_y), abs(float(potentials[k])))] if plane_y is not None else []
+        bound = min((gap for _, gap, v in candidates if v > 1e-9 * vscale and gap > 0), default=np.inf)
+        order = np.flatnonzero(other)[np.argsort(lower[other], kind="stable")]
+        for j in order:
+            if lower[j] > bound * (1.0 + 1e-9):
+                break
+            gaps[j] = float(shapely.distance(g, geoms[j]))
+            if gaps[j] > 0:
+                bound = min(bound, gaps[j])
+        candidates += [(model.conductors[j].name, float(gaps[j]), float(dv[j])) for j in order if np.isfinite(gaps[j])]
         best: tuple[str | None, float | None, float | None] = (None, None, None)
-        candidates = [
-            (model.conductors[j].name, float(shapely.distance(g, other)), abs(potentials[k] - potentials[j]))
-            for j, other in enumerate(geoms)
-            if j != k
-        ]
-        if plane_y is not None:
-            candidates.append((GROUND_PLANE_NAME, float(g.bounds[1] - plane_y), abs(potentials[k])))
-        usable = [(name, gap, dv) for name, gap, dv in candidates if dv > 1e-9 * vscale and gap > 0]
+        usable = [(name, gap, v) for name, gap, v in candidates if v > 1e-9 * vscale and gap > 0]
         if usable:
             # Gaps equal to within round-off (1e-9 of the smallest) are a tie, decided by the
             # larger potential difference and then by name, never by round-off: the choice must
             # not change when the drawing is scaled or moved.
             smallest = min(gap for _, gap, _ in usable)
             tied = [c for c in usable if c[1] <= smallest * (1.0 + 1e-9)]
-            name, _, dv = min(tied, key=lambda c: (-c[2], str(c[0])))
-            best = (name, smallest, dv)
+            name, _, v = min(tied, key=lambda c: (-c[2], str(c[0])))
+            best = (name, smallest, v)
         out.append(best)
     return out
 

@@ -45,21 +45,25 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from typing import Any
 
-from solver.hot_spots.air_strength import air_strength
-from solver.hot_spots.margins import (
+from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
+    REFERENCE_AIR,
     THIN_MARGIN,
     AirConditions,
+    corona_radius_m,
+    peek_corona_onset_field_V_per_m,
 )
-from solver.hot_spots.voltage_basis import OPERATING_CREST, VOLTAGE_BASES, VoltageBasis
+from solver.hot_spots.air_region import largest_air_field, medium_next_to
+from solver.hot_spots.air_strength import air_strength
+from solver.hot_spots.curvature import signed_radius_of_curvature_m
+from solver.hot_spots.peak_diagnostics import nearest_other_potential
+from solver.hot_spots.voltage_basis import OPERATING_CREST, VOLTAGE_BASES, VoltageBasis, voltage_basis_of
+from solver.hot_spots.weak_corners import weak_corner_at
 from solver.model.materials import Medium
 
 #: Largest potential difference (V) below which no breakdown caution is given; a choice of
 #: this program, under the Paschen minimum of air (about 327 V, from memory).
 LOW_VOLTAGE_THRESHOLD_V = 300.0
-
-#: The standard reference atmosphere and a smooth surface (the default air conditions).
-REFERENCE_AIR = AirConditions()
 
 #: Statuses from the most to the least severe (the order a summary uses).
 STATUSES = ("exceeded", "thin", "not assessed", "ample")
@@ -346,16 +350,6 @@ def judge_solution(solution, air: AirConditions = REFERENCE_AIR, thin_margin: fl
     -------
     CautionVerdict or None (no conductors)
     """
-    from solver.hot_spots.air_region import largest_air_field, medium_next_to
-    from solver.hot_spots.curvature import signed_radius_of_curvature_m
-    from solver.hot_spots.margins import (
-        corona_radius_m,
-        peek_corona_onset_field_V_per_m,
-    )
-    from solver.hot_spots.peak_diagnostics import nearest_other_potential
-    from solver.hot_spots.voltage_basis import voltage_basis_of
-    from solver.hot_spots.weak_corners import weak_corner_at
-
     model = solution.model
     basis = voltage_basis_of(model) if voltage_basis is None else voltage_basis
     dv = solution_potential_difference_V(solution)

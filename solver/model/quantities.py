@@ -4,7 +4,8 @@ Pure unit handling, no physics: a typed text becomes a value in SI units, checke
 the unit the field expects. The desktop program, the command line and project files share it.
 
 A unit is a prefixed symbol, or two joined by "/" ("pF/m", "kV/mm"). SI prefixes from
-atto to tera are accepted (micro as "u", "µ" or "μ"); a few trade units carry their own
+atto to tera are accepted (micro as "u", "µ" or "μ"); ohms as "Ω", "ohm" or "ohms" (for
+impedance targets: "50 ohm"), seconds as "s" (delays: "6 ns/m"); a few trade units carry their own
 size (mil, thou, inch, ft, bar, atm, °C). Case matters: "kv" is refused, because "mV" and
 "MV" differ by a factor of 10^9.
 """
@@ -27,7 +28,8 @@ PREFIXES: dict[str, float] = {
 
 #: Symbols that take SI prefixes, with the dimension they measure.
 PREFIXED_SYMBOLS: dict[str, str] = {"m": "length", "V": "potential", "C": "charge", "F": "capacitance",
-                                    "Pa": "pressure", "K": "temperature"}
+                                    "Pa": "pressure", "K": "temperature", "s": "time",
+                                    "\u03a9": "resistance", "ohm": "resistance", "ohms": "resistance"}
 
 #: Trade units (no prefixes): (dimension, size in SI, offset in SI) — value_SI = x * size + offset.
 PLAIN_SYMBOLS: dict[str, tuple[str, float, float]] = {
@@ -52,6 +54,8 @@ SUGGESTIONS: dict[str, str] = {
     "V/m": "V/m, kV/m, kV/mm, MV/m",
     "Pa": "Pa, kPa, bar, mbar, atm",
     "K": "K, °C",
+    "\u03a9": "ohm, \u03a9, kohm",
+    "s/m": "s/m, ns/m, ps/m",
     "": "a plain number",
 }
 

@@ -5,7 +5,8 @@
 6
 """
 
-from solver.studies.engine import NOT_RUN, run_case, run_cases
+from solver.studies.cases import NOT_RUN, run_case
+from solver.studies.engine import run_cases
 from solver.studies.figures import (
     FIGURE_WORDS,
     FigureCache,

@@ -26,7 +26,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from solver.errors import SolverError
-from solver.studies.engine import as_model
+from solver.studies.cases import as_model
 from solver.studies.figures import FIGURE_WORDS
 from solver.studies.plot import histogram_svg, table_plot_svg
 from solver.studies.search import search

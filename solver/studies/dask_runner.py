@@ -12,7 +12,7 @@
 - a :class:`distributed.Client` you already hold (left open).
 
 The base project is sent to the workers once; each case is one task running
-:func:`solver.studies.engine.run_case`. Results come back in case order; a case whose task
+:func:`solver.studies.cases.run_case`. Results come back in case order; a case whose task
 fails (even a lost worker) becomes a row naming the error, and the others go on. ``cancel()``
 is polled as results arrive; it cancels every task not yet finished.
 """
@@ -26,7 +26,7 @@ from collections.abc import Mapping, Sequence
 from typing import Any
 
 from solver.errors import SolverError
-from solver.studies.engine import StudyCancel, StudyProgress, not_run_row, run_case
+from solver.studies.cases import StudyCancel, StudyProgress, not_run_row, run_case
 
 logger = logging.getLogger(__name__)
 

@@ -20,7 +20,7 @@ import scipy.optimize
 from solver.errors import SolverError
 from solver.io.project_file import model_to_dict
 from solver.model.model import Model
-from solver.studies.engine import (
+from solver.studies.cases import (
     StudyCancel,
     StudyProgress,
     as_model,

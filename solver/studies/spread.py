@@ -20,13 +20,8 @@ import numpy as np
 from solver.errors import SolverError
 from solver.io.project_file import model_to_dict
 from solver.model.model import Model
-from solver.studies.engine import (
-    StudyCancel,
-    StudyProgress,
-    as_model,
-    check_parameters,
-    run_cases,
-)
+from solver.studies.cases import StudyCancel, StudyProgress, as_model, check_parameters
+from solver.studies.engine import run_cases
 from solver.studies.paths import get_value, split_parameter
 from solver.studies.table import StudyTable
 

@@ -10,7 +10,8 @@ from typing import Any
 import numpy as np
 
 from solver.model.model import Model
-from solver.studies.engine import StudyCancel, StudyProgress, run_cases
+from solver.studies.cases import StudyCancel, StudyProgress
+from solver.studies.engine import run_cases
 from solver.studies.table import StudyTable
 
 

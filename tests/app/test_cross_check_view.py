@@ -8,7 +8,7 @@ from solver import Circle, Conductor, Model, Rectangle
 
 
 def test_cross_check_table_and_points(qtbot, monkeypatch):
-    from app.panels.cross_check_view import COLUMNS, CrossCheckView
+    from app.panels.cross_check_view import ROWS, CrossCheckView
 
     # fewer points than the default keep the test short; the routes are tested in tests/solver
     original = solver.check_each_equivalent_radius
@@ -24,12 +24,15 @@ def test_cross_check_table_and_points(qtbot, monkeypatch):
     assert view.run_button.isEnabled()
     view.run_button.click()
     wait_until(lambda: view.checks is not None or "No cross-check" in view.status.text())
-    assert view.table.rowCount() == 2 and view.table.columnCount() == len(COLUMNS)
-    assert view.table.verticalHeaderItem(1).text() == "bar"
-    assert view.table.item(0, COLUMNS.index("verdict")).text() == "agree"
-    assert view.table.item(0, 0).text().endswith(" mm")
+    # one column per conductor, the unit in the row headings
+    assert view.table.columnCount() == 2 and view.table.rowCount() == len(ROWS)
+    assert view.table.horizontalHeaderItem(1).text() == "bar"
+    assert view.table.item(ROWS.index("verdict"), 0).text() == "agree"
+    assert view.table.verticalHeaderItem(0).text().replace("\n", " ") == "solver radius (mm)"
+    assert abs(float(view.table.item(0, 0).text()) - view.checks[0].equivalent_radius_m * 1e3) < 1e-3
+    assert view.table.item(2, 0).text()[0] in "+\u22120"  # a difference carries its sign
     assert len(view.points_item.data) == 24
-    view.table.selectRow(1)
+    view.table.selectColumn(1)
     assert view.plot.plotItem.titleLabel.text.startswith("Fekete points, N = 24")
     view.mark_stale(True)
     assert not view.run_button.isEnabled() and "OUT OF DATE" in view.status.text()

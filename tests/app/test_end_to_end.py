@@ -37,9 +37,10 @@ def test_busbar_pair_over_ground_end_to_end(window, qtbot, tmp_path):
     assert "-" in table.as_text() and "\u2212" not in table.as_text()  # an ASCII one for spreadsheets
     assert c[0, 0] > 0 and c[1, 1] > 0 and c[0, 1] < 0
     assert abs(c[0, 1] - c[1, 0]) <= 1e-9 * abs(c[0, 0])
-    per = window.results_panel.numbers.conductors
-    assert "V/m" in per.item(0, 2).text()  # peak surface field
-    assert "sharp corner" in per.item(0, 3).text()  # the square bar peaks at a corner
+    per = window.results_panel.numbers.conductors  # one column per conductor
+    rows = [per.verticalHeaderItem(i).text().replace("\n", " ") for i in range(per.rowCount())]
+    assert "V/m" in per.item(rows.index("peak |E| at surface"), 0).text()
+    assert per.item(rows.index("peak at a sharp corner"), 0).text() == "yes"  # the square bar peaks at a corner
 
     report = tmp_path / "busbars.pdf"
     assert window.commands.export_report(report)

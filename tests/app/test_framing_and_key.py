@@ -3,6 +3,7 @@ coordinates were typed, keeps labels apart, and keeps its colour key in one plac
 
 import math
 
+import numpy as np
 import pytest
 from app_helpers import wait_for_solve
 from hypothesis import given
@@ -112,3 +113,67 @@ def test_a_return_plane_drawn_as_a_wide_strip_frames_with_its_height_only():
     upper = next(c for c in model.conductors if c.name == "upper plane").shapes[0].bounds()
     assert y1 >= upper[3]  # the upper plane is in view above the trace ...
     assert (x1 - x0) < 0.25 * (upper[2] - upper[0])  # ... but its 8 mm width does not set the zoom
+
+
+def test_one_colour_key_in_one_place_with_surface_charge_over_a_shading(window, qtbot):
+    import pyqtgraph as pg
+
+    window.commands.open(files.SAMPLES_DIR / "twin_lead.json")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    overlays, plot = window.canvas.overlays, window.canvas.plotItem
+    place = overlays.key.bar.sceneBoundingRect()
+
+    def bars():
+        return [i for i in plot.scene().items() if isinstance(i, pg.ColorBarItem) and i.opacity() > 0]
+
+    window.shading_combo.setCurrentText("potential")
+    window.layer_boxes["surface charge"].setChecked(True)
+    qtbot.wait(20)
+    assert bars() == [overlays.key.bar] and "potential" in overlays.key.bar.axis.labelText
+    assert overlays.key.bar.sceneBoundingRect() == place
+    # The charge is drawn as sticks along the normals, its scale in a note: no second key.
+    assert len(overlays._notes) == 1 and "Surface charge" in overlays._notes[0].toPlainText()
+    sigma = window.results.solution.surface_charge_density_C_per_m2
+    assert "C/m²" in overlays._notes[0].toPlainText() and sigma.size > 0
+    window.shading_combo.setCurrentText("none")
+    qtbot.wait(20)
+    assert bars() == [overlays.key.bar] and "surface charge" in overlays.key.bar.axis.labelText
+    assert overlays.key.bar.sceneBoundingRect() == place and overlays._notes == []
+    window.layer_boxes["surface charge"].setChecked(False)
+    qtbot.wait(20)
+    assert bars() == []
+
+
+def test_charge_sticks_point_out_for_positive_charge_and_are_cut_at_the_percentile():
+    import types
+
+    from app.canvas.charge_overlay import STICK_PX, charge_sticks
+
+    # Two panels 1 unit long, far apart on the x axis, outward normal +y: one charge +1 uC/m2,
+    # one -4 uC/m2 (cut to the 98th percentile of |sigma|).
+    mesh = types.SimpleNamespace(midpoints=np.array([[0.0, 0.0], [100.0, 0.0]]), lengths=np.array([1.0, 1.0]),
+                                 normals=np.array([[0.0, 1.0], [0.0, 1.0]]), conductor_index=np.array([0, 1]))
+    sigma = np.array([1.0e-6, -4.0e-6])
+    items, note = charge_sticks(mesh, sigma, 1.0, 0.1)
+    x, y = items[0].getData()
+    level = np.percentile(np.abs(sigma), 98)
+    assert y[1] == pytest.approx(STICK_PX * 0.1 * 1.0e-6 / level)  # out of the surface
+    assert y[3] == pytest.approx(-STICK_PX * 0.1)                    # into it, cut at full length
+    assert len(items) == 2 and "cut" in note                          # the cut one is marked
+
+
+def test_charge_sticks_stand_apart_on_a_fine_mesh_and_keep_the_charge():
+    import types
+
+    from app.canvas.charge_overlay import STICK_GAP_PX, charge_sticks
+
+    # 1000 panels of 0.01 unit on one outline; at 0.01 unit per pixel a stick stands for 5 panels.
+    n = 1000
+    mid = np.column_stack([np.arange(n) * 0.01, np.zeros(n)])
+    mesh = types.SimpleNamespace(midpoints=mid, lengths=np.full(n, 0.01), normals=np.tile([0.0, 1.0], (n, 1)),
+                                 conductor_index=np.zeros(n, dtype=int))
+    items, _ = charge_sticks(mesh, np.full(n, 2e-6), 1.0, 0.01)
+    x, _ = items[0].getData()
+    assert len(x) // 2 == n // STICK_GAP_PX
+    assert np.min(np.diff(x[::2])) >= STICK_GAP_PX * 0.01 * 0.999

@@ -13,6 +13,7 @@ from PySide6.QtWidgets import (
     QLabel,
     QLineEdit,
     QProgressBar,
+    QTableWidget,
     QWidget,
 )
 
@@ -51,10 +52,35 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
             need = a.heightForWidth(a.width())
             if need > a.height() + 1:
                 found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
+        if isinstance(a, QLabel) and not a.wordWrap() and a.text() and a.sizeHint().width() > a.width() + 1:
+            found.append(f"{where}: label '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
+        if isinstance(a, QAbstractScrollArea) and a.horizontalScrollBar().maximum() > 0:
+            # sideways scrolling hides columns or the ends of headings at this width
+            found.append(f"{where}: {name(a)} scrolls sideways by {a.horizontalScrollBar().maximum()} px")
+        if isinstance(a, QTableWidget):
+            found += _cut_headers(a, where)
         if isinstance(a, QAbstractScrollArea) and hasattr(a, "widget") and a.widget() is not None:
             found += problems_in(a.widget(), where)
         elif not isinstance(a, LEAVES) and (type(a) in (QWidget, QFrame, QGroupBox) or a.layout() is not None):
             found += problems_in(a, where)
+    return found
+
+
+def _cut_headers(table: QTableWidget, where: str) -> list[str]:
+    """Header texts (every line of them) wider than their header section."""
+    found = []
+    metrics = table.horizontalHeader().fontMetrics()
+    for j in range(table.columnCount()):
+        item = table.horizontalHeaderItem(j)
+        need = max((metrics.horizontalAdvance(line) for line in (item.text() if item else "").split("\n")), default=0)
+        if need > table.columnWidth(j):
+            found.append(f"{where}: column heading '{item.text()[:30]}' needs {need} px, has {table.columnWidth(j)}")
+    vertical = table.verticalHeader()
+    for i in range(table.rowCount()):
+        item = table.verticalHeaderItem(i)
+        need = max((metrics.horizontalAdvance(line) for line in (item.text() if item else "").split("\n")), default=0)
+        if vertical.isVisible() and need > vertical.width():
+            found.append(f"{where}: row heading '{item.text()[:30]}' needs {need} px, has {vertical.width()}")
     return found
 
 
@@ -100,6 +126,28 @@ def test_every_section_fits_at_every_size(hv_twin, qtbot, size):
         settle(qtbot)
         assert panel.current_section() == title
         found = problems_in(panel, f"{size} {title}")
+        assert found == [], "\n".join(found)
+
+
+@pytest.mark.parametrize(("sample", "size"), [("busbar_enclosure.json", (1366, 768)),
+                                            ("three_traces_over_ground.json", (1366, 768)),
+                                            ("busbar_enclosure.json", (1920, 1080))])
+def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(window, qtbot, sample, size):
+    """Three conductors and an enclosure (or a ground plane): the High voltage table, the
+    per-conductor figures and the modes still show every column and heading whole."""
+    window.commands.open(files.SAMPLES_DIR / sample)
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    window.resize(*size)
+    panel = window.results_panel
+    for title in panel.section_titles():
+        panel.show_section(title)
+        runner = getattr(panel.sections[title], "runner", None)
+        if runner is not None:
+            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
+        settle(qtbot)
+        found = problems_in(panel, f"{sample} {size} {title}")
         assert found == [], "\n".join(found)
 
 

@@ -11,6 +11,7 @@ from app import colours, edits
 from app.files import project_files as files
 from app.panels.plots import SPIKE_CLIP, clip_spikes
 from app.panels.summary_block import summary_rows
+from solver.cli.formatting import digits_for
 
 
 def test_rows_before_a_solve_say_only_the_state():
@@ -30,9 +31,12 @@ def test_microstrip_rows_give_c_z0_and_the_low_voltage_verdict(window, qtbot):
     sol = window.results.solution
     figures = solver.transmission_line_figures(sol)
     assert rows["Results"] == "up to date"
-    assert rows["C' per metre"].startswith(f"{sol.capacitance_maxwell_F_per_m[0, 0] * 1e12:.4g} pF/m")
-    assert rows["Line"] == (f"Z0 {figures.characteristic_impedance_ohm:.4g} Ω, "
-                            f"εeff {figures.effective_permittivity:.4g}")
+    # Each figure to the digits its error estimate supports (solver.cli.formatting.digits_for).
+    digits_c, digits_z = digits_for(sol.estimated_relative_error), digits_for(figures.estimated_relative_error)
+    assert rows["C' per metre"].startswith(f"{sol.capacitance_maxwell_F_per_m[0, 0] * 1e12:.{digits_c}g} pF/m")
+    assert rows["Line"] == (f"Z0 {figures.characteristic_impedance_ohm:.{digits_z}g} Ω, "
+                            f"εeff {figures.effective_permittivity:.{digits_z}g}")
+    assert 2 <= digits_z <= 6
     assert rows["High voltage"].startswith("not assessed: low voltage")
     assert not summary.caution.isVisible()  # 1 V on a trace: no breakdown caution
 

@@ -80,13 +80,23 @@ def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_
     dialog.start_edit.setText("3")
     dialog.stop_edit.setText("12")
     dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
-    dialog.goal_target.setText(repr(target))
+    dialog.goal_target.setText(f"{target * 1e12:.12g} pF/m")  # the target may carry its unit
     with qtbot.waitSignal(dialog.runner.finished, timeout=120000):
         assert dialog.run_search()
     found = dialog.found
+    assert found.target == pytest.approx(target, rel=1e-11)
     assert found.value == pytest.approx(7.0, rel=2e-3)  # the solver's error on C is well under 1e-3
-    assert f"wire: centre y = {found.value:.6g} mm</b> gives C_F_per_m.wire.wire = {target * 1e12:.6g} pF/m" in \
-        dialog.goal_result.text()
+    text = html.unescape(re.sub("<[^>]+>", "", dialog.goal_result.text()))
+    shown = re.search(r"wire: centre y = ([0-9.]+) mm gives C_F_per_m\.wire\.wire = ([0-9.]+) pF/m \(target "
+                      r"([0-9.]+) pF/m", text)
+    assert shown, text
+    # The value is shown to the figures the root finder's tolerance supports: rounding it moved it
+    # by less than the tolerance, and one figure fewer would move it by more than a tenth of it.
+    value_shown = float(shown.group(1))
+    assert abs(value_shown - found.value) <= found.parameter_tolerance
+    assert len(shown.group(1).replace(".", "").lstrip("0")) <= 7
+    assert float(shown.group(3)) == pytest.approx(target * 1e12, rel=1e-3)
+    assert float(shown.group(2)) == pytest.approx(found.figure_value * 1e12, rel=1e-3)
     assert dialog.apply_found()
     assert window.document.model.conductor("wire").shapes[0].center[1] == pytest.approx(found.value, rel=1e-12)
     window.document.undo()
@@ -146,3 +156,31 @@ def test_a_target_out_of_reach_is_said_in_the_search_box(dialog, qtbot):
         assert dialog.run_search()
     assert "does not cross 1e-09" in dialog.goal_result.text()
     assert dialog.status.text() == status_before and not dialog.apply_button.isEnabled()
+
+
+@pytest.mark.parametrize(("figure", "typed", "expected"), [
+    ("Z0_ohm", "50 ohm", 50.0),
+    ("Z0_ohm", "50 \u03a9", 50.0),
+    ("Z0_ohm", "50", 50.0),                # a bare number is in the figure's unit, shown beside the field
+    ("Z0_ohm", "0.05 kohm", 50.0),
+    ("margin.wire", "2", 2.0),
+    ("C_F_per_m.wire.wire", "110 pF/m", 110e-12),
+    ("peak_field_V_per_m.wire", "3 kV/mm", 3e6),
+    ("delay_s_per_m", "6 ns/m", 6e-9),
+    ("equivalent_radius_m.wire", "2", 2e-3),   # a length: a bare number is in the model's mm
+])
+def test_the_goal_target_is_read_with_the_figures_unit(dialog, figure, typed, expected):
+    dialog.goal_figure.setCurrentText(figure)
+    dialog.goal_target.setText(typed)
+    assert dialog.goal_box.target_si() == pytest.approx(expected, rel=1e-12)
+    assert dialog.goal_box.target_unit.text() == {"Z0_ohm": "\u03a9", "margin.wire": "", "delay_s_per_m": "s/m",
+                                                  "equivalent_radius_m.wire": "mm"}.get(figure, dialog.goal_box.target_unit.text())
+
+
+def test_a_target_of_the_wrong_kind_is_said_and_nothing_runs(dialog):
+    dialog.select_field(WIRE_R)
+    dialog.goal_figure.setCurrentText("Z0_ohm")
+    dialog.goal_target.setText("50 pF/m")
+    assert not dialog.run_search()
+    assert "'50 pF/m'" in dialog.goal_result.text() and "Target" in dialog.goal_result.text()
+    assert "ohm" in dialog.goal_result.text() and not dialog.runner.is_busy

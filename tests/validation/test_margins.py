@@ -22,18 +22,18 @@ import math
 import pytest
 
 from solver import Circle, Conductor, GroundPlane, Model
-from solver.hot_spots.air_strength import air_strength
-from solver.hot_spots.analysis import analyse_hot_spots
-from solver.hot_spots.margins import (
+from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
     AirConditions,
     air_breakdown_field_V_per_m,
-    assess_margins,
     peek_corona_onset_field_V_per_m,
     pressure_at_altitude_Pa,
     relative_air_density,
     relative_air_density_at_altitude,
 )
+from solver.hot_spots.air_strength import air_strength
+from solver.hot_spots.analysis import analyse_hot_spots
+from solver.hot_spots.margins import assess_margins
 
 
 def test_peek_parallel_wires_one_centimetre():  # Peek 1929

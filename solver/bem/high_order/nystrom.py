@@ -28,7 +28,7 @@ import scipy.linalg
 from solver.bem.blas_threads import blas_threads_for
 from solver.bem.high_order.memory import check_system_memory
 from solver.bem.high_order.operator import potential_and_field, potential_matrix
-from solver.bem.superposition import UnitSolutions, driver_columns
+from solver.bem.superposition import UnitSolutions, solve_columns
 from solver.bem.system import check_charge_balance
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolverError
@@ -120,17 +120,8 @@ class NodalSolve:
 
     def _solve(self, a: np.ndarray) -> None:
         model, n = self.model, self.panels.n_nodes
-        fixed, floating, unit_potentials, unit_charges = driver_columns(model)
+        fixed, floating, potentials, charges = solve_columns(model)
         self.fixed = fixed
-        potentials = np.zeros((len(model.conductors), 1))
-        charges = np.zeros_like(potentials)
-        for k, c in enumerate(model.conductors):
-            if c.role == "fixed":
-                potentials[k, 0] = c.potential_V
-            elif c.role == "floating":
-                charges[k, 0] = c.charge_C_per_m / (2 * math.pi * EPSILON_0_F_PER_M)
-        potentials = np.hstack([potentials, unit_potentials])
-        charges = np.hstack([charges, unit_charges])
         b = np.zeros((a.shape[0], potentials.shape[1]))
         fixed_rows = ~np.isin(self.node_conductor, self.floating)
         b[:n][fixed_rows] = potentials[self.node_conductor[fixed_rows]]

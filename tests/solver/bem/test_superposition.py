@@ -18,6 +18,7 @@ from solver import (
     solve,
     solve_mesh,
 )
+from solver.errors import SuperpositionError
 from solver.mesh.panels import MeshSettings, discretize_boundary
 
 SAMPLES = Path(__file__).resolve().parents[3] / "sample_geometries"
@@ -94,16 +95,28 @@ def test_ground_plane_without_reference():
     _assert_same(sol.with_potentials({"w2": 7.0}), _solve(model.with_potentials({"w2": 7.0})))
 
 
-def test_falls_back_to_a_solve_without_return_path_and_with_error_estimate():
+def test_without_return_path_the_charge_estimate_is_made_again_at_the_new_potentials():
+    model = Model(unit="mm", conductors=(
+        Conductor("a", (Circle((-2.0, 0.0), 0.5),), potential_V=1.0),
+        Conductor("b", (Rectangle((2.0, 0.0), 1.5, 0.4),), potential_V=-1.0),
+        Conductor("c", (Circle((0.0, 2.5), 0.3),), potential_V=0.0)))
+    sol = solve(model, settings=MeshSettings(0.5))
+    quick = sol.with_potentials({"a": 3.0})
+    assert quick.unit_solutions is sol.unit_solutions  # superposed, not solved again
+    full = solve(model.with_potentials({"a": 3.0}), settings=MeshSettings(0.5))
+    assert quick.estimated_relative_error != pytest.approx(sol.estimated_relative_error, rel=1e-3)
+    assert quick.estimated_relative_error == pytest.approx(full.estimated_relative_error, rel=1e-6)
+    _assert_same(quick, full)
+
+
+def test_a_charge_estimate_without_its_coarser_solution_is_not_carried_silently():
     model = Model(unit="mm", conductors=(
         Conductor("a", (Circle((-2.0, 0.0), 0.5),), potential_V=1.0),
         Conductor("b", (Circle((2.0, 0.0), 0.5),), potential_V=-1.0)))
-    sol = solve(model, settings=MeshSettings(0.5))
-    quick = sol.with_potentials({"a": 3.0})
-    assert quick.unit_solutions is not sol.unit_solutions  # a new solve
-    full = solve(model.with_potentials({"a": 3.0}), settings=MeshSettings(0.5))
-    assert quick.estimated_relative_error == pytest.approx(full.estimated_relative_error, rel=1e-9)
-    _assert_same(quick, full)
+    sol = solve(model, tolerance=1e-8)  # the high-order estimate keeps no coarser solution
+    assert sol.coarse is None and sol.estimated_relative_error is not None
+    with pytest.raises(SuperpositionError, match="solve the model again"):
+        sol.with_potentials({"a": 3.0})
 
 
 def test_unknown_name_is_refused():

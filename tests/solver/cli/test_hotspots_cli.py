@@ -9,8 +9,8 @@ import pytest
 
 from solver import Conductor, GroundPlane, Model, Rectangle, save_project
 from solver.cli.command import main
+from solver.hot_spots.air_conditions import HIGH_VOLTAGE_CAUTION, relative_air_density_at_altitude
 from solver.hot_spots.air_strength import air_strength
-from solver.hot_spots.margins import HIGH_VOLTAGE_CAUTION, relative_air_density_at_altitude
 
 ROOT = Path(__file__).resolve().parents[3]
 HV = ROOT / "sample_geometries" / "hv_electrode_over_earth.json"

@@ -9,17 +9,17 @@ import pytest
 
 from solver import Circle, Conductor, Model, Rectangle
 from solver.errors import InvalidModelError
-from solver.hot_spots.air_strength import air_strength
-from solver.hot_spots.margins import (
+from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
     THIN_MARGIN,
     AirConditions,
-    assess_margins,
     peek_corona_onset_field_V_per_m,
     pressure_at_altitude_Pa,
     relative_air_density,
     round_radius_m,
 )
+from solver.hot_spots.air_strength import air_strength
+from solver.hot_spots.margins import assess_margins
 from solver.model.materials import Medium
 
 ROOT = Path(__file__).resolve().parents[3]

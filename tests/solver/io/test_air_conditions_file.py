@@ -6,7 +6,7 @@ import pytest
 
 import solver
 from solver import AirConditions, Circle, Conductor, Model, ProjectFileError
-from solver.hot_spots import margins
+from solver.hot_spots import air_conditions
 from solver.io import project_reading
 
 WIRE = Model(unit="mm", conductors=(Conductor("w", (Circle((0, 0), 1.0),), potential_V=1.0),))
@@ -57,9 +57,9 @@ def test_bad_air_conditions_are_refused_naming_the_field(air, field):
 
 
 def test_the_file_reader_and_the_solver_agree_on_key_and_altitude_range():
-    assert project_reading.AIR_CONDITIONS_KEY == margins.AIR_CONDITIONS_KEY
+    assert project_reading.AIR_CONDITIONS_KEY == air_conditions.AIR_CONDITIONS_KEY
     low, high = project_reading.ALTITUDE_RANGE_M
-    margins.pressure_at_altitude_Pa(low)
-    margins.pressure_at_altitude_Pa(high)
+    air_conditions.pressure_at_altitude_Pa(low)
+    air_conditions.pressure_at_altitude_Pa(high)
     with pytest.raises(solver.InvalidModelError):
-        margins.pressure_at_altitude_Pa(high + 1.0)
+        air_conditions.pressure_at_altitude_Pa(high + 1.0)

@@ -30,6 +30,10 @@ from solver.model.quantities import QuantityError, parse_quantity, read_quantity
     ("20 C", "K", 293.15),
     ("4.4", "", 4.4),
     ("+7", "V", 7.0),
+    ("50 ohm", "\u03a9", 50.0),     # goal targets of impedance figures
+    ("50 ohms", "\u03a9", 50.0),
+    ("0.1 k\u03a9", "\u03a9", 100.0),
+    ("6 ns/m", "s/m", 6e-9),       # a delay per length
 ])
 def test_engineering_values_are_read_into_si(text, unit, expected):
     assert parse_quantity(text, unit, "a field") == pytest.approx(expected, rel=1e-12)
