@@ -77,20 +77,26 @@ class FarParts:
 
     def self_block_if_moved(self, starts: np.ndarray, ends: np.ndarray, plane: float | None,
                             radius: float) -> np.ndarray | None:
-        """A_EE again when the edited panels are these ones moved rigidly (the log kernel
-        depends only on differences; with a ground plane only along it, as the images then
-        move with them), else None. Positions may differ by round-off of the translation
-        (1e-13 of the group's radius)."""
-        if plane != self.plane or starts.shape != self.starts.shape:
-            return None
-        shift = starts[0] - self.starts[0]
-        tol = TRANSLATION_TOLERANCE * radius
-        if plane is not None and abs(shift[1]) > tol:
-            return None
-        if (np.max(np.abs(starts - self.starts - shift)) <= tol
-                and np.max(np.abs(ends - self.ends - shift)) <= tol):
+        """A_EE again when the edited panels are these ones moved rigidly (see
+        :func:`moved_rigidly`), else None."""
+        if plane == self.plane and moved_rigidly(starts, ends, self.starts, self.ends, plane, radius):
             return self.self_block
         return None
+
+
+def moved_rigidly(starts: np.ndarray, ends: np.ndarray, old_starts: np.ndarray, old_ends: np.ndarray,
+                  plane: float | None, radius: float) -> bool:
+    """True when panels (starts, ends) are the old ones shifted by one vector, along the ground
+    plane when there is one (the log kernel depends only on differences, and the images then
+    move with the panels): their mutual block is the old one. Positions may differ by
+    round-off of the shift (:data:`TRANSLATION_TOLERANCE` of the group's radius)."""
+    if starts.shape != old_starts.shape or len(starts) == 0:
+        return False
+    shift = starts[0] - old_starts[0]
+    tol = TRANSLATION_TOLERANCE * radius
+    if plane is not None and abs(shift[1]) > tol:
+        return False
+    return bool(np.max(np.abs(starts - old_starts - shift)) <= tol and np.max(np.abs(ends - old_ends - shift)) <= tol)
 
 
 class ReusedBlock:
@@ -100,13 +106,17 @@ class ReusedBlock:
 
     ``anchor`` (starts, ends): panels the expansion disc should hold as well when it can (the
     edited conductors' panels at the last fresh solve, for :class:`solver.bem.block_solves.BorderedSolves`).
+    ``previous_panels`` (starts, ends): the previous system's panels (scaled), so that a
+    conductor moved rigidly since then keeps its own block even at its first edit.
     """
 
     def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
                  earlier: FarParts | None = None, low_rank: bool = True,
-                 anchor: tuple[np.ndarray, np.ndarray] | None = None) -> None:
+                 anchor: tuple[np.ndarray, np.ndarray] | None = None,
+                 previous_panels: tuple[np.ndarray, np.ndarray] | None = None) -> None:
         self.previous, self.kept_new, self.kept_old, self.earlier = previous, kept_new, kept_old, earlier
-        self.low_rank, self.anchor = low_rank, anchor
+        self.low_rank, self.anchor, self.previous_panels = low_rank, anchor, previous_panels
+        self._old_self: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
         self.far: FarParts | None = None
         self.moved_rigidly = False
 
@@ -115,6 +125,12 @@ class ReusedBlock:
         n_rows, n_cols = len(targets), len(starts)
         keep = self.kept_new
         other = np.setdiff1d(np.arange(n_rows), keep)
+        if self.previous_panels is not None:
+            old_starts, old_ends = self.previous_panels
+            other_old = np.setdiff1d(np.arange(len(old_starts)), self.kept_old)
+            if len(other_old) == len(other):  # taken before the previous matrix is written over
+                self._old_self = (old_starts[other_old], old_ends[other_old],
+                                  np.array(block(self.previous, other_old, other_old)))
         if n_rows == n_cols and len(self.previous) >= n_rows and np.array_equal(keep, self.kept_old):
             # the unchanged panels sit where they sat: the other rows and columns are written
             # over the previous matrix (kept by the solver alone, and replaced after this solve)
@@ -166,6 +182,9 @@ class ReusedBlock:
         a_ee = None
         if earlier is not None:
             a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
+        if a_ee is None and self._old_self is not None and moved_rigidly(e_starts, e_ends, *self._old_self[:2],
+                                                                         plane, sep.radius):
+            a_ee = self._old_self[2]
         self.moved_rigidly = a_ee is not None
         if a_ee is None:
             a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)

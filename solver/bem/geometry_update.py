@@ -136,7 +136,9 @@ class GeometryEditSolver:
             assert self._previous is not None
             full_parts = self._in_full(model, mesh, kept_new)
             anchor = None if full_parts is None else full_parts[2]
-            block = ReusedBlock(self._previous.matrix, kept_new, kept_old, self._far, self.low_rank, anchor)
+            prev = self._previous
+            block = ReusedBlock(prev.matrix, kept_new, kept_old, self._far, self.low_rank, anchor,
+                                (prev.mesh.starts / prev.ell, prev.mesh.ends / prev.ell))
         system = build_system(model, mesh, block)
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
