@@ -419,6 +419,7 @@ class MainWindow(QMainWindow):
             return
         self.runner.cancel()
         self.runner.wait()
+        self.canvas.overlays.detail_runner.cancel()
         self.studies.close()
         files.discard_recovery()
         if self.settings is not None:

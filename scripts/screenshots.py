@@ -62,7 +62,8 @@ class Shooter:
 
     def _jobs_busy(self) -> bool:
         panel = self.w.results_panel
-        runners = [panel.summary.runner] + [getattr(s, "runner", None) for s in panel.sections.values()]
+        runners = [panel.summary.runner, self.w.canvas.overlays.detail_runner]
+        runners += [getattr(s, "runner", None) for s in panel.sections.values()]
         return any(r is not None and r.is_busy for r in runners)
 
     def shoot(self, name: str, widget=None) -> None:

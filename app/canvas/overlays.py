@@ -13,18 +13,20 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QPointF, QRectF
+from PySide6.QtCore import QPointF
 from scipy import ndimage
 
+import solver
 from app import colours
 from app.canvas import charge_overlay, labels
-from app.canvas.colour_key import ColourKey, colour_map
-from app.units import format_field, format_potential, si_scale
+from app.canvas.colour_key import ColourKey
+from app.canvas.detail_map import detail_axes
+from app.canvas.shading import SHADINGS, shading_of
+from app.jobs.figure_jobs import FigureJobRunner
+from app.units import format_field, format_potential
 
-FIELD_MAP = colour_map(np.linspace(0.0, 1.0, len(colours.FIELD_STOPS)), colours.FIELD_STOPS)
+__all__ = ["SHADINGS", "Overlays"]
 
-
-SHADINGS = ("none", "potential", "field strength", "field strength (log)")
 
 
 class Overlays:
@@ -45,16 +47,41 @@ class Overlays:
         self.stale = False
         self._label_boxes: list = []
         self._mask: labels.PartMask | None = None
+        self._detail = None  # a finer map of the framed view (app.canvas.detail_map), for self.results
+        self.detail_runner = FigureJobRunner(plot_item)
+        self.detail_runner.result_ready.connect(self._on_detail_ready)
+        self._detail_for = None  # the results the running detail job belongs to
 
     # ---- public ----------------------------------------------------------------------------
     def set_results(self, results) -> None:
         self.results = results
         self.stale = False
+        self._detail = None
+        self._start_detail(results)
         self.redraw()
 
     def clear(self) -> None:
         self.results = None
+        self._detail = None
+        self.detail_runner.cancel()
         self.redraw()
+
+    def _start_detail(self, results) -> None:
+        """A finer map over the framed view when the parts there are small against the map's
+        cells, computed in the background once the solve is complete (not while dragging)."""
+        self.detail_runner.cancel()
+        self._detail_for = None
+        if results.grid is None or not results.complete:
+            return
+        axes = detail_axes(results.model, results.grid.x_m, results.grid.y_m)
+        if axes is not None:
+            self._detail_for = results
+            self.detail_runner.start(solver.evaluate_on_grid, results.solution, *axes)
+
+    def _on_detail_ready(self, grid) -> None:
+        if self._detail_for is self.results and self.results is not None:
+            self._detail = grid
+            self.redraw()
 
     def set_shading(self, name: str) -> None:
         if name != self.shading:
@@ -121,48 +148,13 @@ class Overlays:
         return (v1 - v0) / max(self.plot.vb.width(), 1.0), (w1 - w0) / max(self.plot.vb.height(), 1.0)
 
     def _draw_shading(self, grid, scale: float) -> None:
-        x, y = grid.x_m / scale, grid.y_m / scale
-        dx, dy = x[1] - x[0], y[1] - y[0]
-        ticks = None
-        if self.shading == "potential":
-            data = grid.potential_V
-            if not np.isfinite(data).any():
-                return
-            potentials = [float(v) for v in self.results.solution.conductor_potentials_V] + [0.0]
-            lo_v = min(potentials + [float(np.nanmin(data))])
-            hi_v = max(potentials + [float(np.nanmax(data))])
-            positions, stops, lo_v, hi_v = colours.potential_stops(lo_v, hi_v)
-            factor, prefix = si_scale(max(abs(lo_v), abs(hi_v)))
-            data, lo, hi = data / factor, lo_v / factor, hi_v / factor
-            cmap = colour_map(positions, stops)
-            label = f"potential ({prefix}V), 0 V neutral"
-        else:
-            e = grid.field_V_per_m
-            cmap = FIELD_MAP
-            if not np.isfinite(e).any():
-                return
-            if self.shading == "field strength (log)":
-                data = np.log10(np.where(e > 0, e, np.nan))
-                hi = float(np.nanmax(data))
-                lo = max(float(np.nanmin(data)), hi - 3.0)  # three decades; weaker fields share the lightest colour
-                data = np.clip(data, lo, None)
-                marks = [m * 10.0 ** k for k in range(int(np.floor(lo)), int(np.ceil(hi)) + 1) for m in (1, 2, 5)]
-                marks = [v for v in marks if lo <= np.log10(v) <= hi]
-                if len(marks) > 7:
-                    marks = [v for v in marks if f"{v:.0e}".startswith("1")]
-                ticks = [(float(np.log10(v)), format_field(v)) for v in marks]
-                label = "field strength |E| (log scale, three decades)"
-            else:
-                top = float(np.percentile(e[np.isfinite(e)], 99.5))  # corners would wash out the rest of the map
-                factor, prefix = si_scale(top or 1.0)
-                data, lo, hi = e / factor, 0.0, top / factor
-                label = f"|E| ({prefix}V/m); darkest: 99.5th percentile and above"
-        img = pg.ImageItem(data)
-        img.setRect(QRectF(x[0] - dx / 2, y[0] - dy / 2, dx * len(x), dy * len(y)))
-        img.setColorMap(cmap)
-        img.setLevels((lo, hi if hi > lo else lo + 1.0))
-        self._add(img, 1)
-        self.key.show(lo, hi, cmap, label, ticks)
+        shading = shading_of(self.shading, grid, self.results.solution.conductor_potentials_V)
+        if shading is None:
+            return
+        self._add(shading.image(grid, scale), 1)
+        if self._detail is not None:  # the finer map over the framed view, on the same levels
+            self._add(shading.image(self._detail, scale), 1.5)
+        self.key.show(shading.lo, shading.hi, shading.cmap, shading.label, shading.ticks)
 
     def _draw_equipotentials(self, grid, scale: float, n_levels: int = 9) -> None:
         phi = grid.potential_V

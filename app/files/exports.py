@@ -5,14 +5,17 @@ from __future__ import annotations
 import csv
 import json
 import re
+from contextlib import ExitStack
 from pathlib import Path
 
 import numpy as np
+import pyqtgraph as pg
 from PySide6.QtCore import QPoint, QRect, QSize
 from PySide6.QtGui import QPainter
 from PySide6.QtSvg import QSvgGenerator
 from PySide6.QtWidgets import QWidget
 
+from app.canvas.export_clip import clipped_to_plot_area
 from solver.cli.csv_output import capacitance_csv_rows, write_capacitance_rows
 
 PF = 1e-12
@@ -76,6 +79,12 @@ def write_widget_png(widget, path: Path) -> None:
         raise OSError(f"Could not write the picture to {path}.")
 
 
+def plot_items_in(widget) -> list:
+    """Every plot (pyqtgraph PlotItem) shown in ``widget`` or its children."""
+    views = ([widget] if isinstance(widget, pg.GraphicsView) else []) + widget.findChildren(pg.GraphicsView)
+    return [item for view in views for item in view.scene().items() if isinstance(item, pg.PlotItem)]
+
+
 def write_widget_svg(widget, path: Path, title: str = "Edgewise") -> None:
     """A picture of the widget as SVG: the widget as drawn on screen (children included), in
     vectors where Qt paints them so, at the widget's size and screen resolution so text, lines
@@ -93,9 +102,13 @@ def write_widget_svg(widget, path: Path, title: str = "Edgewise") -> None:
     if not painter.begin(gen):
         raise OSError(f"Could not write the picture to {path}.")
     try:
-        # QWidget.render, not a graphics view's own render(): the latter paints the scene
-        # stretched to the page, without axes and labels in their places.
-        QWidget.render(widget, painter, QPoint(0, 0))
+        with ExitStack() as cut:
+            # plot areas cut in geometry: readers that ignore clip paths show the screen too
+            for plot in plot_items_in(widget):
+                cut.enter_context(clipped_to_plot_area(plot))
+            # QWidget.render, not a graphics view's own render(): the latter paints the scene
+            # stretched to the page, without axes and labels in their places.
+            QWidget.render(widget, painter, QPoint(0, 0))
     finally:
         painter.end()
     if not Path(path).is_file() or Path(path).stat().st_size == 0:

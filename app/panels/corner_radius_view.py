@@ -17,7 +17,8 @@ from PySide6.QtWidgets import QComboBox, QFileDialog, QHBoxLayout, QLabel, QLine
 
 import solver
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
-from app.panels.matrices_view import CopyableTable
+from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
+from app.units import digits_for, format_percent, format_plain, true_minus
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
 DEFAULT_RADIUS_FRACTIONS = (0.02, 0.05, 0.1, 0.2, 0.35)
@@ -191,23 +192,25 @@ class CornerRadiusPart(QWidget):
         self.curve.setData(x, y)
         self.error_bars.setData(x=x, y=y, height=2.0 * errors)
         self.plot.enableAutoRange()
+        size = drawing_size(self.results.solution) / scale
         rows, cells = [], []
         for k, r in enumerate(x):
             err = sweep.estimated_relative_error[k]
             enh = sweep.enhancement_factor[k]
-            rows.append(f"{r:g}")
-            cells.append([f"{y[k]:.5g}", "n/a" if math.isnan(err) else f"{100 * err:.2g}",
-                          "n/a" if math.isnan(enh) else f"{enh:.4g}",
-                          f"({sweep.location_m[k, 0] / scale:.4g}, {sweep.location_m[k, 1] / scale:.4g})"])
+            rows.append(f"r = {format_plain(r, 6)} {model.unit}")
+            cells.append([format_plain(y[k], digits_for(None if math.isnan(err) else err)),
+                          "n/a" if math.isnan(err) else format_plain(100 * err, 2),
+                          "n/a" if math.isnan(enh) else format_plain(enh, 3),
+                          format_coordinate(sweep.location_m[k, 0] / scale, size),
+                          format_coordinate(sweep.location_m[k, 1] / scale, size)])
         self.table.fill(rows, [f"peak |E| ({label})", "est. error (%)", "enhancement factor",
-                               f"peak at x, y ({model.unit})"], cells)
-        self.table.setVerticalHeaderLabels([f"r = {r} {model.unit}" for r in rows])
+                               f"peak at x ({model.unit})", f"peak at y ({model.unit})"], cells, wrap=10)
         self.export_button.setEnabled(True)
         trend = ("" if sweep.fitted_exponent is None else
-                 f" Over this range the peak goes like radius^{sweep.fitted_exponent:.3f}.")
-        largest = 100 * np.nanmax(sweep.estimated_relative_error)
+                 f" Over this range the peak goes like radius^{true_minus(f'{sweep.fitted_exponent:.3f}')}.")
+        largest = format_percent(float(np.nanmax(sweep.estimated_relative_error)))
         self._set_status(f"Peak surface field of '{sweep.conductor}' for {len(x)} corner radii; the error bars span "
-                         f"± the estimated error of each peak (largest {largest:.2g} %, so they may hide behind "
+                         f"± the estimated error of each peak (largest {largest}, so they may hide behind "
                          f"the markers).{trend}")
 
     # ---- export ------------------------------------------------------------------------------

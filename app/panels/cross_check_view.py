@@ -14,6 +14,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 import solver
+from app import colours
 from app.jobs.figure_jobs import FigureJobRunner
 from app.panels.matrices_view import CopyableTable
 from app.units import format_plain
@@ -145,4 +146,4 @@ class CrossCheckView(QWidget):
 
     def _set_status(self, text: str, *, error: bool = False) -> None:
         self.status.setText(text)
-        self.status.setStyleSheet("color: #7a0000; font-weight: bold;" if error else "")
+        self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"], bold=True) if error else "")

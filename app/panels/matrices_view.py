@@ -23,6 +23,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from app import colours
 from app.units import digits_for, format_measured, format_percent, format_plain, format_point
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
@@ -222,7 +223,7 @@ class MatricesView(QWidget):
     def mark_stale(self, stale: bool) -> None:
         if stale:
             self.status.setText("OUT OF DATE: the drawing changed after this solve. Solve again (F5).")
-            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+            self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["stale"], bold=True))
         else:
             self.status.setText(self._status_text)
             self.status.setStyleSheet("")
