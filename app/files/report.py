@@ -94,10 +94,11 @@ def _margins_html(margins) -> str:
         f"<td align='right'>{'—' if m.air_breakdown_margin is None else format_plain(m.air_breakdown_margin, 3)}</td>"
         f"<td align='right'>{format_measured(m.corona_onset_field_V_per_m, 'V/m', digits=3)}</td>"
         f"<td align='right'>{'—' if m.corona_onset_margin is None else format_plain(m.corona_onset_margin, 3)}</td>"
-        f"<td>{html.escape(m.status)}</td></tr>" for m in margins.margins)
+        f"<td>{html.escape(m.deciding_margin or '—')}</td><td>{html.escape(m.status)}</td></tr>"
+        for m in margins.margins)
     return ("<p><b>Refined margins</b> (peak fields refined to 1 %; margin = threshold / peak)</p>" + TABLE +
             "<tr><th>conductor</th><th>peak |E|</th><th>error</th><th>air breakdown</th><th>margin</th>"
-            f"<th>corona onset</th><th>margin</th><th>status</th></tr>{rows}</table>")
+            f"<th>corona onset</th><th>margin</th><th>decided by</th><th>status</th></tr>{rows}</table>")
 
 
 def _stress_html(sol, model) -> str:

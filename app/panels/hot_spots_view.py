@@ -258,7 +258,7 @@ class HotSpotsView(QWidget):
                 corner, _margin(spot.enhancement_factor),
                 format_plain(margin.air_breakdown_field_V_per_m / 1e6, 3), _margin(margin.air_breakdown_margin),
                 "—" if margin.corona_onset_field_V_per_m is None else format_plain(margin.corona_onset_field_V_per_m / 1e6, 3),
-                _margin(margin.corona_onset_margin), margin.status])
+                _margin(margin.corona_onset_margin), margin.deciding_margin or "—", margin.status])
             statuses.append(margin.status)
         if r.air_region is not None:
             ar = r.air_region
@@ -270,11 +270,12 @@ class HotSpotsView(QWidget):
                           format_coordinate(ar.location_m[0] / scale, size), format_coordinate(ar.location_m[1] / scale, size),
                           "yes" if ar.at_sharp_corner else "no", "—",
                           "n/a" if breakdown is None else format_plain(breakdown / 1e6, 3),
-                          _margin(m.air_region_margin), "—", "—", m.air_region_status or "—"])
+                          _margin(m.air_region_margin), "—", "—",
+                          "air breakdown" if m.air_region_margin is not None else "—", m.air_region_status or "—"])
             statuses.append(m.air_region_status or "not assessed")
         quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x ({unit})", f"place y ({unit})",
                       "at a sharp corner", "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",
-                      "corona-onset field (MV/m)", "corona-onset margin", "status"]
+                      "corona-onset field (MV/m)", "corona-onset margin", "status decided by", "status"]
         # one column per conductor, so that every figure stays in view in a narrow panel; long
         # headings wrap onto two lines rather than push the table past the panel's edge
         self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [], wrap=14)

@@ -69,10 +69,11 @@ def line_text(figures) -> str | None:
     return None
 
 
-def _margin_text(margin: float | None) -> str:
+def _margin_text(margin: float | None, deciding: str | None = None) -> str:
     if margin is None:
         return "no margin"
-    return "margin ∞" if not math.isfinite(margin) else f"margin {format_plain(margin, 3)}"
+    by = f" ({deciding})" if deciding else ""
+    return f"margin ∞{by}" if not math.isfinite(margin) else f"margin {format_plain(margin, 3)}{by}"
 
 
 def peak_text(verdict) -> str | None:
@@ -81,7 +82,7 @@ def peak_text(verdict) -> str | None:
         return None
     worst = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
                  verdict.verdicts[0])
-    return (f"{format_field(worst.peak_field_V_per_m)} on {worst.where}, {_margin_text(worst.margin)}, "
+    return (f"{format_field(worst.peak_field_V_per_m)} on {worst.where}, {_margin_text(worst.margin, worst.deciding)}, "
             f"{colours.SEVERITY[worst.status].word}")
 
 

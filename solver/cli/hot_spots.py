@@ -9,7 +9,8 @@ JSON keys (lists follow the order of ``conductors``): ``peak_field_V_per_m``,
 ``peak_field_estimated_relative_error``, ``peak_field_singular``, ``enhancement_factor``,
 ``air_breakdown_field_V_per_m`` (the strength of air for each conductor's gap, ``air_gap_m``),
 ``air_breakdown_margin``, ``corona_onset_field_V_per_m``,
-``corona_onset_margin``, ``margin_status``, ``margin_reason``, ``relative_air_density``,
+``corona_onset_margin``, ``margin_status``, ``deciding_margin`` (which margin set the status:
+"corona onset" or "air breakdown"), ``margin_reason``, ``relative_air_density``,
 ``thin_margin_threshold``, ``voltage_basis`` (its project-file form), ``voltage_basis_text``,
 ``field_factor`` (what the peaks were multiplied by for the margins), ``caution_status``, ``caution_headline``, ``high_voltage_caution``
 (the full caution, word for word, whenever the model is not low-voltage) and the details
@@ -132,7 +133,8 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
             error = f"{100 * spot.estimated_relative_error:.2g} %"
         rows.append([spot.conductor, _fmt(spot.field_V_per_m, "V/m"), error, f"({x:.4g}, {y:.4g}) {model.unit}",
                      _fmt(spot.enhancement_factor), _fmt(m.air_breakdown_margin),
-                     _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.status])
+                     _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.deciding_margin or "-",
+                     m.status])
     air = margins.air
     strengths = ", ".join(f"{m.conductor} {_fmt(m.air_breakdown_field_V_per_m, 'V/m')}" for m in margins.margins)
     if report.method == "mesh refinement":
@@ -145,7 +147,7 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
     lines = [
         head,
         *_table(["conductor", "peak |E|", "error", "at", "enhancement", "air margin", "corona onset",
-                 "corona margin", "status"], rows),
+                 "corona margin", "decided by", "status"], rows),
         f"  Air: {air.description}, relative density {air.relative_air_density:.3f}, surface factor "
         f"{air.surface_factor:g}; breakdown: uniform-field strength of air for each conductor's gap "
         f"(Kuffel, Zaengl & Kuffel 2000) x density x surface factor, "
@@ -156,6 +158,8 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
            if margins.voltage_basis.field_factor != 1.0 else "; margins compare the thresholds with the peaks as shown."),
         f"  Enhancement = peak / (potential difference / gap) to the nearest conductor at another potential. "
         f"Margin = threshold / peak; below {margins.thin_margin:g} is thin. Fields are crest values.",
+        "  Decided by: corona onset on a round conductor; the smaller margin where Peek's radius is only the "
+        "outline's local radius of curvature; air breakdown where there is no radius.",
     ]
     for spot, m in zip(report.hot_spots, margins.margins):
         if m.corona_radius_basis and m.corona_radius_basis != "round conductor":
@@ -230,6 +234,7 @@ def hot_spot_json(solution: Solution, figures: HotSpotFigures) -> dict:
         "corona_onset_field_V_per_m": [m["corona_onset_field_V_per_m"] for m in per],
         "corona_onset_margin": [m["corona_onset_margin"] for m in per],
         "margin_status": [m["status"] for m in per],
+        "deciding_margin": [m["deciding_margin"] for m in per],
         "air_region_peak_field_V_per_m": margin_dict["air_region_peak_field_V_per_m"],
         "air_region_margin": margin_dict["air_region_margin"],
         "relative_air_density": margins.air.relative_air_density,

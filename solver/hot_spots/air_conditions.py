@@ -273,6 +273,8 @@ def round_radius_m(model: Model, conductor: str, location_m: tuple[float, float]
     return None if radius is None else radius * scale
 
 
+#: Where a corona radius came from: the conductor is one circle or ring (Peek's own case).
+ROUND_CONDUCTOR_BASIS = "round conductor"
 #: How a corona radius taken from the outline's curvature is described.
 LOCAL_RADIUS_BASIS = "local radius of curvature at the peak (approximation: Peek's formula is for round conductors)"
 
@@ -286,7 +288,7 @@ def corona_radius_m(model: Model, conductor: str, location_m: tuple[float, float
     """
     radius = round_radius_m(model, conductor, location_m) if conductor in model.conductor_names else None
     if radius is not None:
-        return radius, "round conductor"
+        return radius, ROUND_CONDUCTOR_BASIS
     if local_radius_of_curvature_m is not None and not at_sharp_corner:
         return float(local_radius_of_curvature_m), LOCAL_RADIUS_BASIS
     return None, None

@@ -23,7 +23,14 @@ from solver.hot_spots.air_conditions import (
     corona_radius_m,
     peek_corona_onset_field_V_per_m,
 )
-from solver.hot_spots.verdict import CautionVerdict, judge_peak, judges_air_region, summarise_verdicts
+from solver.hot_spots.verdict import (
+    BY_AIR_BREAKDOWN,
+    BY_CORONA_ONSET,
+    CautionVerdict,
+    judge_peak,
+    judges_air_region,
+    summarise_verdicts,
+)
 from solver.hot_spots.verdict import largest_potential_difference_V as spread
 from solver.hot_spots.voltage_basis import OPERATING_CREST, VoltageBasis, voltage_basis_of
 from solver.model.materials import medium_of_region
@@ -44,7 +51,9 @@ class ConductorMargin:
     round conductor, else the local radius of curvature of the outline at the peak (an
     approximation, said in ``corona_radius_basis``); ``corona_*`` are None when there is
     neither (peak on a straight run or at a corner). ``status``, ``reason``, ``headline`` and
-    ``caution`` are the verdict of :func:`solver.judge_peak` (the one caution rule).
+    ``caution`` are the verdict of :func:`solver.judge_peak` (the one caution rule);
+    ``deciding_margin`` says which margin set the status ("corona onset" or "air breakdown",
+    None when not graded) and ``margin`` is that margin.
     """
 
     conductor: str
@@ -63,6 +72,14 @@ class ConductorMargin:
     gap_m: float | None = None
     air_strength_basis: str = ""
     field_factor: float = 1.0
+    deciding_margin: str | None = None
+
+    @property
+    def margin(self) -> float | None:
+        """The margin that set the status (None when the peak was not graded)."""
+        if self.deciding_margin == BY_CORONA_ONSET:
+            return self.corona_onset_margin
+        return self.air_breakdown_margin if self.deciding_margin == BY_AIR_BREAKDOWN else None
 
 
 @dataclass(frozen=True)
@@ -175,7 +192,8 @@ def assess_margins(model: Model, hot_spots: Sequence, air: AirConditions = REFER
         verdicts.append(v)
         out.append(ConductorMargin(spot.conductor, peak, spot.estimated_relative_error, v.air_breakdown_field_V_per_m,
                                    v.air_breakdown_margin, radius, basis_text, corona, v.corona_onset_margin, v.status,
-                                   v.caution, v.reason, v.headline, v.gap_m, v.air_strength_basis, v.field_factor))
+                                   v.caution, v.reason, v.headline, v.gap_m, v.air_strength_basis, v.field_factor,
+                                   v.deciding))
     region_peak = region_margin = region_status = region_strength = None
     if air_region is not None and judges_air_region(air_region.where):
         region_peak = float(air_region.field_V_per_m)

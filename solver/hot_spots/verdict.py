@@ -17,16 +17,27 @@ The rule, in order (the first that applies decides):
    refinement), so it is never graded: "not assessed", give a corner radius.
 4. **Not in air**: the peak sits in a region whose material is not air
    (:func:`solver.model.materials.region_is_air`): the air thresholds do not apply.
-5. **Graded**: margin = threshold / peak. On a conductor with a corona-onset radius (round, or
-   a local radius of curvature) the threshold is Peek's corona-onset field (F. W. Peek,
-   Dielectric Phenomena in High-Voltage Engineering, 1929), which already contains the
-   uniform-field strength of air and the help of the field's decay away from a curved
-   surface; elsewhere it is the uniform-field strength of air for the gap to the nearest
+5. **Graded**: margin = threshold / peak, with two thresholds. The air-breakdown margin
+   compares the peak with the uniform-field strength of air for the gap to the nearest
    conductor at another potential, corrected for air density and multiplied by the surface
    factor (:mod:`solver.hot_spots.air_strength`: the empirical relation of E. Kuffel,
-   W. S. Zaengl & J. Kuffel, High Voltage Engineering Fundamentals, 2000). Below 1:
-   "exceeded"; below :data:`THIN_MARGIN` (1.5, a choice of this program): "thin"; else
-   "ample". Only "exceeded" says "expect corona or flashover".
+   W. S. Zaengl & J. Kuffel, High Voltage Engineering Fundamentals, 2000). The corona-onset
+   margin compares it with Peek's corona-onset field (F. W. Peek, Dielectric Phenomena in
+   High-Voltage Engineering, 1929) for a corona radius, which already contains the strength
+   of air and the help of the field's decay away from a curved surface. Which one decides
+   (:attr:`PeakVerdict.deciding`):
+
+   - a round conductor (one circle or ring, the shape Peek's formula was made for): the
+     corona-onset margin;
+   - a peak where the corona radius is only the local radius of curvature of the outline (a
+     rounded corner of a bar, say): the smaller of the two, because carrying Peek's formula
+     over to a curved piece of a larger outline is an approximation and may not make the
+     verdict more lenient than the uniform-field strength of air (a choice of this program);
+   - no corona radius (a straight run): the air-breakdown margin.
+
+   Below 1: "exceeded"; below :data:`THIN_MARGIN` (1.5, a choice of this program): "thin";
+   else "ample". Only "exceeded" says "expect corona or flashover". Every view shows which
+   margin decided, beside both margins.
 
 The voltage basis (:mod:`solver.hot_spots.voltage_basis`) says what the potentials stand for
 (operating, power-frequency withstand, lightning impulse or an overvoltage factor; crest or
@@ -48,6 +59,7 @@ from typing import Any
 from solver.hot_spots.air_conditions import (
     HIGH_VOLTAGE_CAUTION,
     REFERENCE_AIR,
+    ROUND_CONDUCTOR_BASIS,
     THIN_MARGIN,
     AirConditions,
     corona_radius_m,
@@ -71,6 +83,9 @@ STATUSES = ("exceeded", "thin", "not assessed", "ample")
 #: The part of every reason that says why a peak was not graded (the first words).
 NON_FINITE, LOW_VOLTAGE, SHARP_CORNER, NOT_IN_AIR = "non-finite value", "low voltage", "at a sharp corner", "not in air"
 
+#: The two margins a graded verdict can be decided by (:attr:`PeakVerdict.deciding`).
+BY_CORONA_ONSET, BY_AIR_BREAKDOWN = "corona onset", "air breakdown"
+
 
 @dataclass(frozen=True)
 class PeakVerdict:
@@ -92,6 +107,8 @@ class PeakVerdict:
         without a corona radius or when not graded).
     margin : the margin that set the status (None when not graded).
     threshold : what ``margin`` compares with, in words (None when not graded).
+    deciding : which margin set the status, in short: :data:`BY_CORONA_ONSET` or
+        :data:`BY_AIR_BREAKDOWN` (None when not graded).
     gap_m : the gap the strength of air was taken for, metres (None: none known).
     air_strength_basis : how the strength of air was found, in words.
     voltage_basis : the voltage basis in words (:meth:`VoltageBasis.describe`).
@@ -114,6 +131,7 @@ class PeakVerdict:
     air_strength_basis: str = ""
     voltage_basis: str = ""
     field_factor: float = 1.0
+    deciding: str | None = None
 
     @property
     def graded(self) -> bool:
@@ -139,16 +157,22 @@ def largest_potential_difference_V(potentials_V: Iterable[float], has_zero_volt_
     return max(values) - min(values)
 
 
-def _graded(where: str, peak: float, breakdown: float, corona: float | None, corona_basis: str | None,
-            thin_margin: float) -> tuple[str, str, float, float | None, float, str]:
+def _graded(peak: float, breakdown: float, corona: float | None, corona_basis: str | None,
+            thin_margin: float) -> tuple[str, str, float, float | None, float, str, str]:
     m_air = breakdown / peak if peak > 0 else math.inf
     m_cor = None if corona is None else (corona / peak if peak > 0 else math.inf)
-    if m_cor is not None:
-        margin, threshold = m_cor, f"corona onset (Peek 1929, {corona_basis or 'round conductor'})"
+    air_threshold = "the uniform-field strength of air for its gap"
+    round_conductor = corona_basis is None or corona_basis == ROUND_CONDUCTOR_BASIS
+    if m_cor is not None and (round_conductor or m_cor <= m_air):
+        margin, threshold, deciding = m_cor, f"corona onset (Peek 1929, {corona_basis or ROUND_CONDUCTOR_BASIS})", BY_CORONA_ONSET
     else:
-        margin, threshold = m_air, "the uniform-field strength of air for its gap"
+        margin, threshold, deciding = m_air, air_threshold, BY_AIR_BREAKDOWN
     status = "exceeded" if margin < 1 else "thin" if margin < thin_margin else "ample"
-    return status, f"graded against {threshold}", m_air, m_cor, margin, threshold
+    reason = f"graded against {threshold}"
+    if m_cor is not None and deciding == BY_AIR_BREAKDOWN:
+        reason += (", the smaller margin: the corona-onset margin is larger but rests on the local radius of "
+                   "curvature, an approximation (Peek's formula is for round conductors)")
+    return status, reason, m_air, m_cor, margin, threshold, deciding
 
 
 def judge_peak(
@@ -232,16 +256,19 @@ def judge_peak(
                   "apply; judge the insulation by its material's own rating, and mind air gaps and voids in "
                   "series with it")
     else:
-        graded = _graded(where, peak, breakdown, corona_onset_field_V_per_m, corona_radius_basis, thin_margin)
+        graded = _graded(peak, breakdown, corona_onset_field_V_per_m, corona_radius_basis, thin_margin)
     if graded is None:
         status, headline = "not assessed", f"No margin for {where}: {reason}."
         caution = f"{headline} {HIGH_VOLTAGE_CAUTION}" if caution_applies else ""
         return PeakVerdict(where, status, reason, headline, caution, peak, breakdown, **extra)
-    status, reason, m_air, m_cor, margin, threshold = graded
+    status, reason, m_air, m_cor, margin, threshold, deciding = graded
     at = basis_phrase(voltage_basis)
     basis_text = f"Voltage basis: {voltage_basis.describe()}."
     advice = voltage_basis.advice()
     tail = f"{basis_text} {advice + ' ' if advice else ''}{HIGH_VOLTAGE_CAUTION}"
+    if m_cor is not None and deciding == BY_AIR_BREAKDOWN:
+        tail = ("The corona-onset margin is larger but does not decide: its radius is the local radius of curvature "
+                f"of the outline, an approximation. {tail}")
     if status == "exceeded":
         headline = f"CAUTION: the peak surface field on {where} exceeds {threshold} {at}."
         caution = f"{headline} Expect corona or flashover in air at these potentials. {tail}"
@@ -253,7 +280,7 @@ def judge_peak(
         caution = f"{headline} {tail}"
     return PeakVerdict(where, status, reason, headline, caution, peak, breakdown, m_air,
                        corona_onset_field_V_per_m if m_cor is not None else None, m_cor, margin, threshold,
-                       **extra)
+                       deciding=deciding, **extra)
 
 
 def basis_phrase(voltage_basis: VoltageBasis) -> str:

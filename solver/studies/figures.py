@@ -12,8 +12,9 @@ A figure name is one word, optionally followed by dotted conductor names:
 ``Z_diff_ohm``, ``Z_common_ohm``,  (2 Z_odd) and common (Z_even / 2) impedance, and the
 ``eps_eff_even``, ``eps_eff_odd``  even/odd effective permittivities
 ``peak_field_V_per_m.<a>``         largest surface field on conductor a at the set potentials
-``margin.<a>``                     smallest of the air-breakdown and corona-onset margins of a
-                                   (refined hot-spot analysis; needs a rounded conductor)
+``margin.<a>``                     the margin that sets conductor a's high-voltage status (its
+                                   verdict's deciding margin, solver.judge_peak; refined hot-spot
+                                   analysis; needs a rounded conductor)
 ``equivalent_radius_m.<a>[.<b>]``  equivalent radius (logarithmic capacity) of the named
                                    conductors tied together
 ``relative_error``                 estimated relative error of C (two-mesh estimate)
@@ -50,7 +51,7 @@ FIGURE_WORDS: dict[str, str] = {
     "eps_eff_even": "even-mode effective permittivity",
     "eps_eff_odd": "odd-mode effective permittivity",
     "peak_field_V_per_m": "largest surface field on a conductor, peak_field_V_per_m.<a>, V/m",
-    "margin": "smallest air-breakdown / corona-onset margin of a conductor, margin.<a>",
+    "margin": "the margin that sets a conductor's high-voltage status, margin.<a>",
     "equivalent_radius_m": "equivalent radius of conductors tied together, equivalent_radius_m.<a>[.<b>...], m",
     "relative_error": "estimated relative error of the capacitance matrix",
 }
@@ -190,8 +191,7 @@ class FigureCache:
         report = assess_margins(self.model, self.hot_spots.hot_spots)
         for m in report.margins:
             if m.conductor == name:
-                values = [v for v in (m.air_breakdown_margin, m.corona_onset_margin) if v is not None]
-                return float(min(values)) if values else math.nan
+                return math.nan if m.margin is None else float(m.margin)  # the margin that sets the status
         return math.nan
 
 

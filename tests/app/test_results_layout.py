@@ -227,7 +227,8 @@ def test_old_section_names_still_lead_to_their_section(hv_twin):
 @pytest.mark.parametrize("size", ((1366, 768), (1024, 640)))
 def test_a_long_caution_headline_is_never_clipped(window, qtbot, size):
     model = solver.load_project(files.SAMPLES_DIR / "hv_electrode_over_earth.json").with_mesh_density("coarse")
-    window.load(edits.update_conductor(model, 0, potential_V=700e3), None)
+    # a long conductor name makes the headline long enough to need wrapping at both sizes
+    window.load(edits.update_conductor(model, 0, potential_V=700e3, name="upper electrode of the test cell"), None)
     window.solve()
     wait_for_solve(qtbot, window)
     window.resize(*size)

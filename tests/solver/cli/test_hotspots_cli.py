@@ -48,11 +48,12 @@ def test_json_has_margins_and_peak_error_in_si_keys(capsys):
 
 
 def test_summary_shows_thin_margin_with_the_caution(tmp_path, capsys):
-    # A sharp-cornered bar at 110 kV, 100 mm above earth, rounded to 5 mm on the command line:
-    # peak about 3.6 MV/m; Peek's onset for the 5 mm corner radius (about 4.3 MV/m) governs,
-    # corona margin about 1.2.
+    # A sharp-cornered bar at 80 kV, 100 mm above earth, rounded to 5 mm on the command line:
+    # peak about 2.6 MV/m. Peek's onset for the 5 mm corner radius (about 4.3 MV/m, corona margin
+    # about 1.6) rests on a local radius of curvature, so the smaller air-breakdown margin (the
+    # uniform-field strength of air for the 100 mm gap, about 2.7 MV/m: margin about 1.02) decides.
     bar = Model(unit="mm", ground_plane=GroundPlane(0.0), title="Bar", conductors=(
-        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=1.1e5),))
+        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0),), potential_V=8.0e4),))
     path = tmp_path / "bar.json"
     save_project(bar, path)
     assert main([str(path), "--corner-radius-m", "0.005"]) == 0
@@ -67,6 +68,9 @@ def test_summary_shows_thin_margin_with_the_caution(tmp_path, capsys):
     assert data["high_voltage_caution"].endswith(HIGH_VOLTAGE_CAUTION) and data["caution_status"] == "thin"
     assert data["high_voltage_caution"].startswith(data["caution_headline"]) and "flashover" not in out
     assert data["caution_headline"] in out and data["high_voltage_caution"] in " ".join(out.split())
+    assert 1.0 < data["air_breakdown_margin"][0] < 1.5 < data["corona_onset_margin"][0]
+    assert data["deciding_margin"] == ["air breakdown"]
+    assert "does not decide" in data["high_voltage_caution"]
 
 
 def test_sharp_corner_without_radius_is_not_assessed(tmp_path, capsys):

@@ -93,6 +93,44 @@ def test_a_rounded_conductor_within_its_corona_onset_is_not_told_to_expect_flash
     v = _judge(peak, dv=150e3, corona=1.47 * peak, corona_radius_basis="round conductor")
     assert v.air_breakdown_margin < 1 and v.margin == pytest.approx(1.47)
     assert v.status == "thin" and "flashover" not in v.caution.lower()
+    assert v.deciding == "corona onset"
+
+
+def test_a_radius_from_the_outline_curvature_never_makes_the_verdict_more_lenient_than_air():
+    # Peek's formula (F. W. Peek, Dielectric Phenomena in High-Voltage Engineering, 1929) is made
+    # for round conductors; with only a local radius of curvature the smaller margin decides, so
+    # the status agrees with every margin the tables show.
+    local = solver.hot_spots.air_conditions.LOCAL_RADIUS_BASIS
+    air_strength_1cm = 3.1447e6  # 1 cm gap (Kuffel, Zaengl & Kuffel, 2000), as in the first test
+    peak = air_strength_1cm / 1.48  # the 100-bar bus's air margin: 1.48, corona margin 2.54
+    v = _judge(peak, dv=150e3, corona=2.54 * peak, corona_radius_basis=local, gap_m=0.01)
+    assert v.deciding == "air breakdown" and v.margin == pytest.approx(1.48, rel=1e-4)
+    assert v.status == "thin" and v.corona_onset_margin == pytest.approx(2.54)
+    assert "the uniform-field strength of air" in v.headline and "does not decide" in v.caution
+    # where the curvature's corona margin is the smaller one, it decides (and no note is needed)
+    v = _judge(peak, dv=150e3, corona=1.2 * peak, corona_radius_basis=local, gap_m=0.01)
+    assert v.deciding == "corona onset" and v.margin == pytest.approx(1.2) and v.status == "thin"
+    assert "does not decide" not in v.caution
+    # on a round conductor Peek's onset decides even above the uniform-field strength
+    v = _judge(peak, dv=150e3, corona=2.54 * peak, corona_radius_basis="round conductor", gap_m=0.01)
+    assert v.deciding == "corona onset" and v.status == "ample"
+    # without a radius: air breakdown
+    assert _judge(peak, dv=150e3, gap_m=0.01).deciding == "air breakdown"
+    # not graded: nothing decided
+    assert _judge(peak, dv=150e3, corner=True).deciding is None
+
+
+def test_the_sweep_figure_margin_is_the_deciding_margin(tmp_path):
+    # the margin a sweep or goal search reads is the one the status was graded on
+    from solver.studies.figures import figure_function
+
+    bar = Model(unit="mm", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("bar", (Rectangle((0.0, 120.0), 60.0, 40.0, corner_radius=5.0),), potential_V=8.0e4),))
+    figures = figure_function(("margin.bar",))(bar)
+    report = assess_margins(bar, analyse_hot_spots(bar).hot_spots)
+    (m,) = report.margins
+    assert m.deciding_margin == "air breakdown" and m.margin == m.air_breakdown_margin < m.corona_onset_margin
+    assert figures["margin.bar"] == pytest.approx(m.margin, rel=1e-6)
 
 
 def test_the_model_verdict_is_the_most_severe_and_ample_still_carries_the_full_caution():
