@@ -1,5 +1,5 @@
 """Hot spots of a large model: one :class:`~solver.hot_spots.hot_spot.HotSpotReport` from its
-high-order solution (:mod:`solver.hot_spots.nodal_peaks`), with no low-order refinement.
+high-order solution (:mod:`solver.bem.high_order.nodal_peaks`), with no low-order refinement.
 
 :func:`solver.analyse_hot_spots` comes here for a solution of the large-model path
 (:func:`solver.bem.high_order.large_models.is_large`): its low-order meshes would not fit in
@@ -15,11 +15,11 @@ import math
 from collections.abc import Iterable
 
 from solver.bem.high_order.large_models import solve_large
+from solver.bem.high_order.nodal_peaks import conductor_peak, interpolated_surface_field
 from solver.bem.high_order.solution import HighOrderSolution
 from solver.hot_spots.air_region import medium_next_to
 from solver.hot_spots.corner_rounding import conductors_with_sharp_corners, round_sharp_corners
 from solver.hot_spots.hot_spot import HotSpot, HotSpotReport
-from solver.hot_spots.nodal_peaks import conductor_peak, interpolated_surface_field
 from solver.hot_spots.peak_diagnostics import nearest_other_potential
 
 logger = logging.getLogger(__name__)

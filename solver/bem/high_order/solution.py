@@ -14,12 +14,15 @@ fields at points come from the exact panels with the product rules near the outl
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
+from functools import cached_property
 
 import numpy as np
 
+from solver.bem.high_order.nodal_peaks import conductor_peak, interpolated_surface_field
 from solver.bem.high_order.nystrom import NodalSolve
 from solver.bem.high_order.operator import potential_and_field
+from solver.bem.peaks import PeakField, conductor_peaks
 from solver.bem.solution import BACKGROUND_NAME, Solution
 from solver.mesh.curved_panels import CurvedPanels
 from solver.mesh.interfaces import InterfaceMesh
@@ -45,6 +48,27 @@ class HighOrderSolution(Solution):
         scaled = self.panels.scaled(1.0 / ell)
         phi, e = potential_and_field(pts, scaled, np.asarray(self.total_strengths, dtype=float)[:, None], self._plane_scaled())
         return phi[:, 0] + self.phi_inf_V, e[:, :, 0] / ell
+
+    @cached_property
+    def peak_surface_fields(self) -> tuple[PeakField, ...]:
+        """Largest surface field on each conductor, in model order, from the interpolated
+        charge density between the nodes (:func:`~solver.bem.high_order.nodal_peaks.conductor_peak`),
+        the value the hot spots of a large model show too. ``panel_index`` is the node nearest
+        the peak; a peak at a sharp corner keeps its node's (mesh-made) value."""
+        nodal = conductor_peaks(self.model, self.mesh, self.surface_field_V_per_m)
+        if self.panels is None:
+            return nodal
+        sampled = interpolated_surface_field(self)
+        out = []
+        for k, peak in enumerate(nodal):
+            if peak.at_sharp_corner:
+                out.append(peak)
+                continue
+            field, where, *_ = conductor_peak(self, k, sampled)
+            on_k = np.flatnonzero(self.mesh.conductor_index == k)
+            node = int(on_k[np.argmin(np.hypot(*(self.mesh.midpoints[on_k] - np.asarray(where)).T))])
+            out.append(replace(peak, field_V_per_m=field, location_m=where, panel_index=node))
+        return tuple(out)
 
     def potential_V(self, points_m: np.ndarray) -> np.ndarray:
         """Potential at (m, 2) points in metres, volts, shape (m,)."""

@@ -1,4 +1,9 @@
-"""Peak surface fields of a large model from its high-order solution, without re-solving.
+"""Peak surface fields from a high-order solution, between its nodes, without re-solving.
+
+Every high-order solution's operating-point peaks
+(:attr:`~solver.bem.high_order.solution.HighOrderSolution.peak_surface_fields`) and the hot
+spots of a large model (:mod:`solver.hot_spots.large_model_peaks`) read the same values here,
+so a peak shows one value everywhere.
 
 A large model (:mod:`solver.bem.high_order.large_models`, e.g. the 100-conductor bus) is
 solved once on coarse high-order panels; its low-order meshes would not fit in memory, so
@@ -27,11 +32,27 @@ carries its own share of charge, which the nodal field already holds).
 from __future__ import annotations
 
 import math
+from typing import Protocol
 
 import numpy as np
 
-from solver.bem.high_order.solution import HighOrderSolution
-from solver.mesh.curved_panels import gauss_legendre
+from solver.mesh.curved_panels import CurvedPanels, gauss_legendre
+
+
+class NodalSolution(Protocol):
+    """What the peaks read of a high-order solution (:class:`~solver.bem.high_order.solution.HighOrderSolution`;
+    named by its parts so that the solution can ask this module for its own peaks)."""
+
+    @property
+    def panels(self) -> CurvedPanels | None: ...
+    @property
+    def length_scale_m(self) -> float: ...
+    @property
+    def total_strengths(self) -> np.ndarray: ...
+    @property
+    def surface_field_V_per_m(self) -> np.ndarray: ...
+    @property
+    def estimated_relative_error(self) -> float | None: ...
 
 #: Points per panel at which the interpolated surface field is sampled (ends included).
 SAMPLES_PER_PANEL = 65
@@ -41,7 +62,7 @@ SAMPLES_PER_PANEL = 65
 NEGLIGIBLE_CORNER_FRACTION = 1e-3
 
 
-def _convex_corner_panels(solution: HighOrderSolution) -> tuple[np.ndarray, np.ndarray]:
+def _convex_corner_panels(solution: NodalSolution) -> tuple[np.ndarray, np.ndarray]:
     """(P,) bool: the panel touches a convex corner or strip end; (P,) its opening angle (rad, 0 if none)."""
     panels = solution.panels
     assert panels is not None
@@ -53,7 +74,7 @@ def _convex_corner_panels(solution: HighOrderSolution) -> tuple[np.ndarray, np.n
     return at_start | at_end, beta
 
 
-def interpolated_surface_field(solution: HighOrderSolution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def interpolated_surface_field(solution: NodalSolution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Surface field |E| sampled along every panel of a high-order solution.
 
     Returns
@@ -87,7 +108,7 @@ def interpolated_surface_field(solution: HighOrderSolution) -> tuple[np.ndarray,
 
 
 def conductor_peak(
-    solution: HighOrderSolution, k: int, sampled: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
+    solution: NodalSolution, k: int, sampled: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
 ) -> tuple[float, tuple[float, float], float, float | None, float | None]:
     """Peak surface field of conductor ``k`` from the interpolated density.
 
