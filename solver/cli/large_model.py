@@ -24,7 +24,7 @@ from solver.bem.high_order.adaptive import logarithmic_capacity
 from solver.bem.high_order.large_models import CHECK_ORDER
 from solver.bem.high_order.solution import HighOrderSolution
 from solver.cli.options import ReportOptions
-from solver.figures.bundles import BundleComparison, _regular_bundle, bundle_equivalent_radius_formula_m
+from solver.figures.bundles import BundleComparison, bundle_comparison_of
 from solver.hot_spots.analysis import is_large_solution
 from solver.mesh.curved_panels import CurvedPanels
 
@@ -105,19 +105,7 @@ def equivalent_radii(solution: HighOrderSolution) -> tuple[tuple[float, ...], tu
 def bundle_comparison(solution: HighOrderSolution, names: tuple[str, ...]) -> BundleComparison:
     """:class:`BundleComparison` of conductors tied together, on the solution's own panels."""
     radius, error = equivalent_radius_with_error(solution, list(names))
-    bundle = _regular_bundle(solution.model, list(names))
-    formula = None if bundle is None else bundle_equivalent_radius_formula_m(*bundle)
-    return BundleComparison(
-        conductors=tuple(names),
-        equivalent_radius_m=radius,
-        estimated_relative_error=error,
-        is_regular_bundle=bundle is not None,
-        n_subconductors=None if bundle is None else bundle[0],
-        subconductor_radius_m=None if bundle is None else bundle[1],
-        bundle_radius_m=None if bundle is None else bundle[2],
-        formula_equivalent_radius_m=formula,
-        relative_difference=None if formula is None else radius / formula - 1.0,
-    )
+    return bundle_comparison_of(solution.model, names, radius, error)
 
 
 def not_computed(solution: HighOrderSolution, options: ReportOptions) -> tuple[NotComputed, ...]:

@@ -14,7 +14,7 @@ limit: it includes the crowding of charge toward the outside of the bundle.
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -129,16 +129,24 @@ def compare_bundle(
     report(0.7, "Equivalent radius on a mesh at half the resolution")
     coarse = equivalent_radius_m(model, names, MeshSettings(level / 2.0))
     report(1.0, "Done")
-    bundle = _regular_bundle(model, names)
+    return bundle_comparison_of(model, names, fine, abs(fine - coarse) / fine)
+
+
+def bundle_comparison_of(model: Model, names: Sequence[str], equivalent_radius_m: float,
+                         estimated_relative_error: float) -> BundleComparison:
+    """:class:`BundleComparison` of conductors ``names`` tied together, whose equivalent radius
+    (metres) and its estimated relative error were computed elsewhere: adds the bundle formula
+    when the conductors form a regular bundle."""
+    bundle = _regular_bundle(model, list(names))
     formula = None if bundle is None else bundle_equivalent_radius_formula_m(*bundle)
     return BundleComparison(
         conductors=tuple(names),
-        equivalent_radius_m=fine,
-        estimated_relative_error=abs(fine - coarse) / fine,
+        equivalent_radius_m=equivalent_radius_m,
+        estimated_relative_error=estimated_relative_error,
         is_regular_bundle=bundle is not None,
         n_subconductors=None if bundle is None else bundle[0],
         subconductor_radius_m=None if bundle is None else bundle[1],
         bundle_radius_m=None if bundle is None else bundle[2],
         formula_equivalent_radius_m=formula,
-        relative_difference=None if formula is None else fine / formula - 1.0,
+        relative_difference=None if formula is None else equivalent_radius_m / formula - 1.0,
     )
