@@ -82,8 +82,10 @@ def peak_text(verdict) -> str | None:
         return None
     worst = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
                  verdict.verdicts[0])
-    return (f"{format_field(worst.peak_field_V_per_m)} on {worst.where}, {_margin_text(worst.margin, worst.deciding)}, "
-            f"{colours.SEVERITY[worst.status].word}")
+    # a corner's peak grows with every refinement: never shown as if it were a real figure
+    mesh_made = " (mesh value at a sharp corner)" if worst.at_sharp_corner else ""
+    return (f"{format_field(worst.peak_field_V_per_m)}{mesh_made} on {worst.where}, "
+            f"{_margin_text(worst.margin, worst.deciding)}, {colours.SEVERITY[worst.status].word}")
 
 
 def summary_rows(state: str, solution=None, verdict=None, line_figures=None,

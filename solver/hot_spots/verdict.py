@@ -109,6 +109,8 @@ class PeakVerdict:
     threshold : what ``margin`` compares with, in words (None when not graded).
     deciding : which margin set the status, in short: :data:`BY_CORONA_ONSET` or
         :data:`BY_AIR_BREAKDOWN` (None when not graded).
+    at_sharp_corner : the peak sits at a sharp corner or free edge, so its value is mesh-made
+        (whatever decided the status: a low-voltage model's corner peak is one too).
     gap_m : the gap the strength of air was taken for, metres (None: none known).
     air_strength_basis : how the strength of air was found, in words.
     voltage_basis : the voltage basis in words (:meth:`VoltageBasis.describe`).
@@ -132,6 +134,7 @@ class PeakVerdict:
     voltage_basis: str = ""
     field_factor: float = 1.0
     deciding: str | None = None
+    at_sharp_corner: bool = False
 
     @property
     def graded(self) -> bool:
@@ -237,7 +240,8 @@ def judge_peak(
     peak = float(peak_field_V_per_m) * k
     dv = float(largest_potential_difference_V) * k
     extra: dict[str, Any] = dict(gap_m=strength.gap_m, air_strength_basis=strength.basis,
-                                 voltage_basis=voltage_basis.describe(), field_factor=k)
+                                 voltage_basis=voltage_basis.describe(), field_factor=k,
+                                 at_sharp_corner=bool(at_sharp_corner))
     caution_applies = True
     graded: tuple | None = None
     if not (math.isfinite(peak) and math.isfinite(dv)):

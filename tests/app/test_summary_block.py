@@ -39,6 +39,9 @@ def test_microstrip_rows_give_c_z0_and_the_low_voltage_verdict(window, qtbot):
     assert 2 <= digits_z <= 6
     assert rows["High voltage"].startswith("not assessed: low voltage")
     assert not summary.caution.isVisible()  # 1 V on a trace: no breakdown caution
+    # the trace's peak sits at its sharp edge: a mesh value, and the row says so
+    assert sol.peak_surface_fields[0].at_sharp_corner
+    assert "(mesh value at a sharp corner) on 'trace'" in rows["Peak |E| (solve mesh)"]
 
 
 def test_show_where_marks_the_judged_peak_and_brings_it_into_view(window, qtbot):
