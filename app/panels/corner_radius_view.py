@@ -16,6 +16,8 @@ import pyqtgraph as pg
 from PySide6.QtWidgets import QComboBox, QFileDialog, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
+from app import colours
+from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.units import digits_for, format_percent, format_plain, true_minus
@@ -83,15 +85,12 @@ class CornerRadiusPart(QWidget):
         self.progress = JobProgress(self.runner)
         layout.addWidget(self.progress)
         self.runner.job_cancelled.connect(lambda: self._set_status("Sweep cancelled: press Run sweep to start again."))
-        self.plot = pg.PlotWidget(background="w")
+        self.plot = plot_widget(grid_alpha=0.3)  # no SI multiplier on the axes: the unit is in the label
         self.plot.setMinimumHeight(230)
-        self.plot.showGrid(x=True, y=True, alpha=0.3)
-        for side in ("bottom", "left"):
-            self.plot.getAxis(side).enableAutoSIPrefix(False)  # the unit is in the label
-        self.curve = self.plot.plot([], [], pen=pg.mkPen("#1f4e9a", width=2), symbol="o", symbolSize=7,
-                                    symbolBrush="#1f4e9a")
+        self.curve = self.plot.plot([], [], pen=pg.mkPen(colours.PLOT_DATA, width=2), symbol="o", symbolSize=7,
+                                    symbolBrush=colours.PLOT_DATA)
         self.error_bars = pg.ErrorBarItem(x=np.zeros(0), y=np.zeros(0), height=np.zeros(0), beam=0.0,
-                                          pen=pg.mkPen("#b03a2e"))
+                                          pen=pg.mkPen(colours.PLOT_GUIDE, width=1.5))
         self.plot.addItem(self.error_bars)
         layout.addWidget(self.plot)
         self.table = CopyableTable()
@@ -158,8 +157,7 @@ class CornerRadiusPart(QWidget):
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
         self.status.setText(text)
-        self.status.setStyleSheet("color: #7a0000; font-weight: bold;" if error else
-                                  "color: #9a5b00; font-weight: bold;" if stale else "")
+        self.status.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_busy_changed(self, busy: bool) -> None:
         self.run_button.setText("Running…" if busy else "Run sweep")

@@ -13,16 +13,8 @@ from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 from app import colours
-from app.canvas.drawing import style_axes
+from app.canvas.drawing import plot_widget, style_axes
 from app.units import si_scale
-
-
-def _plot(parent=None) -> pg.PlotWidget:
-    w = pg.PlotWidget(parent, background="w")
-    w.showGrid(x=True, y=True, alpha=0.2)
-    style_axes(w.plotItem)
-    return w
-
 
 #: A corner spike is clipped above this many times the 95th percentile of |sigma| on its conductor.
 SPIKE_CLIP = 1.6
@@ -66,7 +58,7 @@ class BoundaryPlot(QWidget):
         row.addWidget(self.choice, 1)
         layout.addLayout(row)
         self.plot = pg.GraphicsLayoutWidget()
-        self.plot.setBackground("w")
+        self.plot.setBackground(colours.PAGE)
         layout.addWidget(self.plot, 1)
         self.results = None
         self._marker = pg.ScatterPlotItem(symbol="o", size=12, pen=pg.mkPen(colours.SELECTION, width=2),
@@ -220,8 +212,8 @@ class ProbePlot(QWidget):
         self.note = QLabel("Choose the Probe line tool (L) and drag a line on the drawing.")
         self.note.setWordWrap(True)
         layout.addWidget(self.note)
-        self.potential_plot = _plot()
-        self.field_plot = _plot()
+        self.potential_plot = plot_widget()
+        self.field_plot = plot_widget()
         layout.addWidget(self.potential_plot)
         layout.addWidget(self.field_plot)
         row = QHBoxLayout()
