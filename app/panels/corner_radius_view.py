@@ -191,17 +191,16 @@ class CornerRadiusPart(QWidget):
         self.error_bars.setData(x=x, y=y, height=2.0 * errors)
         self.plot.enableAutoRange()
         size = drawing_size(self.results.solution) / scale
-        rows, cells = [], []
+        cells = []  # the radius in a column of its own: narrower than a row heading "r = 0.2 mm"
         for k, r in enumerate(x):
             err = sweep.estimated_relative_error[k]
             enh = sweep.enhancement_factor[k]
-            rows.append(f"r = {format_plain(r, 6)} {model.unit}")
-            cells.append([format_plain(y[k], digits_for(None if math.isnan(err) else err)),
+            cells.append([format_plain(r, 6), format_plain(y[k], digits_for(None if math.isnan(err) else err)),
                           "n/a" if math.isnan(err) else format_plain(100 * err, 2),
                           "n/a" if math.isnan(enh) else format_plain(enh, 3),
                           format_coordinate(sweep.location_m[k, 0] / scale, size),
                           format_coordinate(sweep.location_m[k, 1] / scale, size)])
-        self.table.fill(rows, [f"peak |E| ({label})", "est. error (%)", "enhancement factor",
+        self.table.fill([], [f"corner radius ({model.unit})", f"peak |E| ({label})", "est. error (%)", "enhancement factor",
                                f"peak at x ({model.unit})", f"peak at y ({model.unit})"], cells, wrap=10)
         self.export_button.setEnabled(True)
         trend = ("" if sweep.fitted_exponent is None else

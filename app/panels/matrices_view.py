@@ -58,14 +58,16 @@ class CopyableTable(QTableWidget):
     def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
         """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
         ``wrap`` characters break onto lines between words, so that a narrow panel shows them
-        whole without scrolling sideways (cells may hold line breaks too)."""
+        whole without scrolling sideways (cells may hold line breaks too). With no ``rows`` the
+        table has no row headings (its first column says what each row is)."""
         if wrap:
             rows, columns = [wrap_heading(r, wrap) for r in rows], [wrap_heading(c, wrap) for c in columns]
         self.clear()
-        self.setRowCount(len(rows))
+        self.setRowCount(len(rows) or len(cells))
         self.setColumnCount(len(columns))
         self.setHorizontalHeaderLabels(columns)
         self.setVerticalHeaderLabels(rows)
+        self.verticalHeader().setVisible(bool(rows) or not cells)
         for i, row in enumerate(cells):
             for j, text in enumerate(row):
                 item = QTableWidgetItem(text)
@@ -85,10 +87,12 @@ class CopyableTable(QTableWidget):
     def as_text(self) -> str:
         """The whole table with its headers as tab-separated lines (ASCII minus signs)."""
         cols = [self.horizontalHeaderItem(j).text() for j in range(self.columnCount())]
-        lines = ["\t".join([""] + cols)]
+        headed = not self.verticalHeader().isHidden()
+        lines = ["\t".join([""] * headed + cols)]
         for i in range(self.rowCount()):
             cells = [self.item(i, j).text() if self.item(i, j) else "" for j in range(self.columnCount())]
-            lines.append("\t".join([self.verticalHeaderItem(i).text()] + cells))
+            head = self.verticalHeaderItem(i)
+            lines.append("\t".join([head.text() if head is not None else ""] * headed + cells))
         lines = [line.replace("\n", " ") for line in lines]  # headings wrapped on screen are one cell
         return "\n".join(lines).replace("\u2212", "-")  # spreadsheets read an ASCII minus as a number
 

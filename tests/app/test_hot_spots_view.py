@@ -139,6 +139,9 @@ def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
     assert y[0] > y[1] > y[2]  # the peak falls as the radius grows
     assert part.table.rowCount() == 3
     assert "corner radius (m)" in part.plot.getAxis("bottom").labelText
+    copied = part.table.as_text().splitlines()  # the radius is the first column; no row headings
+    assert copied[0].startswith("corner radius (m)\t") and [line.split("\t")[0] for line in copied[1:]] == [
+        "0.01", "0.02", "0.03"]
     path = tmp_path / "sweep.csv"
     part.write_csv(str(path))
     rows = list(csv.DictReader(io.StringIO(path.read_text())))
