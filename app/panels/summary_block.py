@@ -76,13 +76,21 @@ def _margin_text(margin: float | None) -> str:
 
 
 def peak_text(verdict) -> str | None:
-    """The most severe peak: |E|, where, its margin and status (None without a verdict)."""
+    """The largest peak |E| and where, with the margin and status of the peak that decides the
+    verdict; when that is another peak (a smaller field with a smaller margin), it is named too.
+    Peaks that are not graded (no margin) are never shown in place of a larger field. None
+    without a verdict."""
     if verdict is None or not verdict.verdicts:
         return None
-    worst = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
-                 verdict.verdicts[0])
-    return (f"{format_field(worst.peak_field_V_per_m)} on {worst.where}, {_margin_text(worst.margin)}, "
-            f"{colours.SEVERITY[worst.status].word}")
+    largest = max(verdict.verdicts, key=lambda v: v.peak_field_V_per_m)
+    deciding = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
+                    largest)
+    if deciding.margin is None and largest.status == deciding.status:
+        deciding = largest  # nothing graded: the largest field says the most
+    text = f"{format_field(largest.peak_field_V_per_m)} on {largest.where}"
+    if deciding is not largest:
+        text += f"; deciding: {format_field(deciding.peak_field_V_per_m)} on {deciding.where}"
+    return f"{text}, {_margin_text(deciding.margin)}, {colours.SEVERITY[deciding.status].word}"
 
 
 def summary_rows(state: str, solution=None, verdict=None, line_figures=None,
