@@ -214,8 +214,10 @@ class ProbePlot(QWidget):
         layout.addWidget(self.note)
         self.potential_plot = plot_widget()
         self.field_plot = plot_widget()
-        layout.addWidget(self.potential_plot)
-        layout.addWidget(self.field_plot)
+        layout.addWidget(self.potential_plot, 1)
+        layout.addWidget(self.field_plot, 1)
+        self._filler = QWidget()  # holds the place of the plots while there is no profile
+        layout.addWidget(self._filler, 1)
         row = QHBoxLayout()
         self.export_button = QPushButton("Export profile (CSV)…")
         self.export_button.setEnabled(False)
@@ -224,6 +226,13 @@ class ProbePlot(QWidget):
         row.addWidget(self.export_button)
         layout.addLayout(row)
         self.profile = None
+        self._show_plots(False)
+
+    def _show_plots(self, shown: bool) -> None:
+        """Plots only for a profile: no empty axes without units before a probe line exists."""
+        self.potential_plot.setVisible(shown)
+        self.field_plot.setVisible(shown)
+        self._filler.setVisible(not shown)
 
     def show_profile(self, distance: np.ndarray, potential_V: np.ndarray, field_V_per_m: np.ndarray,
                      unit: str, ends: tuple) -> None:
@@ -243,6 +252,7 @@ class ProbePlot(QWidget):
         for p in (self.potential_plot, self.field_plot):
             p.setLabel("bottom", f"distance along probe ({unit})")
         self.export_button.setEnabled(True)
+        self._show_plots(True)
 
     def mark_stale(self, stale: bool) -> None:
         """Dim the profile while the drawing has changed since the solve."""
@@ -256,3 +266,4 @@ class ProbePlot(QWidget):
         self.field_plot.clear()
         self.note.setText("Choose the Probe line tool (L) and drag a line on the drawing.")
         self.export_button.setEnabled(False)
+        self._show_plots(False)
