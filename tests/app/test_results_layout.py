@@ -180,6 +180,8 @@ def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
     assert panel.summary.state == "stale" and panel.stale_strip.isVisible()
     assert dict(panel.summary.rows())["Results"] == "out of date"
     assert "out of date: APPROACHING" in line.headline.text()  # the verdict no longer speaks at full strength
+    assert hv_twin.live_figures.text().endswith("(out of date)")  # the status bar's C' and peak too
+    assert colours.STALE_TEXT in hv_twin.live_figures.styleSheet()
     for title, page in panel._pages.items():
         assert dimmed(page), title
     for plot in (panel.boundary.rows[0][0], panel.probe.potential_plot.plotItem):
@@ -188,6 +190,7 @@ def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
     settle(qtbot)
     assert panel.summary.state == "fresh" and not any(dimmed(page) for page in panel._pages.values())
     assert "out of date" not in line.headline.text() and panel.boundary.rows[0][0].opacity() == 1.0
+    assert "out of date" not in hv_twin.live_figures.text() and hv_twin.live_figures.text().startswith("C'(")
 
 
 def test_a_new_drawing_does_not_show_the_old_results_as_current(hv_twin, qtbot):
