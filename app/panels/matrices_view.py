@@ -136,10 +136,12 @@ class MatricesView(QWidget):
         layout.addWidget(self.regions_label)
         layout.addWidget(self.regions)
         buttons = QHBoxLayout()
+        self.copy_buttons = []
         for text, table in (("Copy Maxwell", self.maxwell), ("Copy mutual", self.mutual), ("Copy per conductor", self.conductors)):
             b = QPushButton(text)
             b.clicked.connect(table.copy_to_clipboard)
             buttons.addWidget(b)
+            self.copy_buttons.append(b)
         layout.addLayout(buttons)
         self.error_label = QLabel()
         self.error_label.setWordWrap(True)
@@ -154,6 +156,15 @@ class MatricesView(QWidget):
             table.fill([], [], [])  # compact until there is something to show
         self.regions_label.setVisible(False)
         self.regions.setVisible(False)
+        self._show_matrices(False, False)  # no empty frames before a solve
+
+    def _show_matrices(self, solved: bool, has_capacitance: bool) -> None:
+        """The matrices (with a capacitance) and the per-conductor table (after a solve) with their
+        headings and copy buttons; nothing of them before there is something to show."""
+        for w in (self.maxwell_label, self.maxwell, self.mutual_label, self.mutual, *self.copy_buttons[:2]):
+            w.setVisible(has_capacitance)
+        for w in (self.conductors_label, self.conductors, self.conductors_note, self.copy_buttons[2]):
+            w.setVisible(solved)
 
     def show_results(self, results) -> None:
         sol, model = results.solution, results.model
@@ -177,6 +188,7 @@ class MatricesView(QWidget):
             "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else "")
         self._fill_conductors(results)
         self._fill_regions(results)
+        self._show_matrices(True, sol.has_capacitance)
         err = sol.estimated_relative_error
         self.error_label.setText(
             "Estimated relative error of the matrix: n/a" if err is None else
