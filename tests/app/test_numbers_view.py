@@ -56,4 +56,4 @@ def test_no_empty_table_frames_before_a_solve(qtbot, results):
     assert not any(t.isVisible() for t in tables) and not any(b.isVisible() for b in v.copy_buttons)
     assert v.status.isVisible() and "Solve" in v.status.text()
     v.show_results(results)
-    assert all(t.isVisible() and t.rowCount() == 3 for t in tables) and all(b.isVisible() for b in v.copy_buttons)
+    assert all(t.isVisible() and t.columnCount() == 3 for t in tables) and all(b.isVisible() for b in v.copy_buttons)
