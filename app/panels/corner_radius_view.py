@@ -21,6 +21,7 @@ from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.units import digits_for, format_percent, format_plain, true_minus
+from solver.hot_spots.corner_limits import largest_corner_radius_m
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
 DEFAULT_RADIUS_FRACTIONS = (0.02, 0.05, 0.1, 0.2, 0.35)
@@ -33,11 +34,10 @@ def field_unit(values_V_per_m) -> tuple[float, str]:
 
 
 def default_radii(model, conductor: str) -> list[float]:
-    """Sensible corner radii (model unit) for ``conductor``: fractions of its smaller side."""
-    boxes = [s.bounds() for s in model.conductor(conductor).shapes]
-    x0, y0 = min(b[0] for b in boxes), min(b[1] for b in boxes)
-    x1, y1 = max(b[2] for b in boxes), max(b[3] for b in boxes)
-    side = min(x1 - x0, y1 - y0) or max(x1 - x0, y1 - y0)
+    """Sensible corner radii (model unit) for ``conductor``: fractions of its thickness, twice the
+    largest radius the solver's rounding accepts (the smaller side of a bar; the wall of an
+    enclosure, not its box)."""
+    side = 2.0 * largest_corner_radius_m(model, conductor) / model.metres_per_unit
     return [float(f"{side * f:.2g}") for f in DEFAULT_RADIUS_FRACTIONS]
 
 
