@@ -59,7 +59,7 @@ POTENTIAL_STOPS = ("#364b9a", "#4a7bb7", "#6ea6cd", "#98cae1", "#c2e4ef", "#eaec
 FIELD_STOPS = ("#ffffe5", "#fff7bc", "#fee391", "#fec44f", "#fb9a29", "#ec7014",
                "#cc4c02", "#993404", "#662506")
 
-#: Equipotential lines, field lines and their labels.
+#: Equipotential lines, field lines and their labels (text in :data:`TEXT` on this fill).
 EQUIPOTENTIAL = (20, 20, 20, 190)
 FIELD_LINE = (20, 20, 20, 150)
 LABEL_FILL = (255, 255, 255, 215)
@@ -77,6 +77,16 @@ PROBE = "#000000"
 #: Curves of the probe plots (potential, field strength).
 POTENTIAL_CURVE = "#0072b2"
 FIELD_CURVE = "#d55e00"
+
+#: Plots of studies and checks (the corner-radius sweep, the sweep dialog, the cross-check's
+#: points): the data in the text colour, guides (error bars, targets, outlines) muted, so a plot
+#: never borrows a conductor's, a severity's or a freshness colour.
+PLOT_DATA = TEXT
+PLOT_GUIDE = TEXT_MUTED
+
+#: Construction lines over the drawing (the Green's-function contours, the equivalent round
+#: wire, the 1 % circle): dark, told apart by line style, labelled on :data:`LABEL_FILL`.
+CONSTRUCTION = (20, 20, 20, 200)
 
 
 @dataclass(frozen=True)
@@ -106,6 +116,11 @@ FRESHNESS = {
     "failed": Badge("!", "cannot solve", "#5c1a66", "#f3e4f5"),
     "none": Badge("○", "not solved", TEXT_MUTED, "#ffffff"),
 }
+
+
+#: A hint laid over the empty drawing: text on a nearly opaque page, a light frame.
+HINT_FILL = (255, 255, 255, 225)
+HINT_BORDER = PREVIEW
 
 
 def conductor_colour(index: int, role: str = "signal") -> str:
@@ -173,6 +188,23 @@ def style_sheet(badge: Badge, *, bold: bool = False) -> str:
     """A Qt style sheet for a label showing ``badge``."""
     weight = " font-weight: bold;" if bold else ""
     return f"color: {badge.text}; background: {badge.background}; padding: 2px 6px;{weight}"
+
+
+def status_style(*, error: bool = False, stale: bool = False) -> str:
+    """A Qt style sheet for a section's status line: "cannot solve" for an error, "out of date"
+    for stale results, else plain text."""
+    if error:
+        return style_sheet(FRESHNESS["failed"], bold=True)
+    if stale:
+        return style_sheet(FRESHNESS["stale"], bold=True)
+    return ""
+
+
+def rgba(colour: str | tuple, alpha: int | None = None) -> str:
+    """A Qt style-sheet colour ``rgba(r, g, b, a)`` of a '#rrggbb' colour or an (r, g, b[, a]) tuple."""
+    r, g, b, *rest = hex_to_rgb(colour) if isinstance(colour, str) else colour
+    a = alpha if alpha is not None else (rest[0] if rest else 255)
+    return f"rgba({r}, {g}, {b}, {a})"
 
 
 #: The primary action (Solve) by the state of the results: (text on the button, text colour,

@@ -16,7 +16,7 @@ from PySide6.QtCore import QEvent, QObject, Qt
 from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QDialog, QDialogButtonBox, QLabel, QMenu, QTextBrowser, QVBoxLayout
 
-from app import cautions
+from app import cautions, colours
 
 ROOT = Path(__file__).resolve().parents[1]
 SAFETY_FILE = ROOT / "SAFETY.md"
@@ -128,8 +128,8 @@ class EmptyCanvasHint(QObject):
         self.label.setAlignment(Qt.AlignCenter)
         self.label.setWordWrap(True)
         self.label.setAttribute(Qt.WA_TransparentForMouseEvents)
-        self.label.setStyleSheet("background: rgba(255, 255, 255, 225); color: #202020; padding: 14px; "
-                                 "border: 1px solid #8c8c8c; border-radius: 6px;")
+        self.label.setStyleSheet(f"background: {colours.rgba(colours.HINT_FILL)}; color: {colours.TEXT}; padding: 14px; "
+                                 f"border: 1px solid {colours.HINT_BORDER}; border-radius: 6px;")
         canvas.installEventFilter(self)
         document.events.connect("model_changed", self._on_model_changed)
         self._on_model_changed(document.model)

@@ -242,6 +242,14 @@ class MainWindow(QMainWindow):
     def _set_stale(self, stale: bool) -> None:
         self.canvas.overlays.set_stale(stale)
         self.results_panel.mark_stale(stale)
+        self._show_live_figures()
+
+    def _show_live_figures(self) -> None:
+        """The status bar's C' and peak |E|, marked and dimmed while the drawing has changed."""
+        text = live_figures_text(self.results.solution) if self.results is not None else ""
+        stale = bool(text) and self.results_panel.stale
+        self.live_figures.setText(text + (" (out of date)" if stale else ""))
+        self.live_figures.setStyleSheet(f"color: {colours.STALE_TEXT};" if stale else "")
 
     def _write_recovery(self) -> None:
         """Keep the recovery file in step: the unsaved model, or nothing once all is saved."""
@@ -315,7 +323,7 @@ class MainWindow(QMainWindow):
         self._update_verdict()
         if self._probe_ends is not None:
             self._show_probe_profile(*self._probe_ends)  # the profile follows the new solution
-        self.live_figures.setText(live_figures_text(results.solution))
+        self._show_live_figures()
         if live:
             self.statusBar().showMessage("Live solve while dragging; release to finish the figures.", 2000)
         elif results.complete:

@@ -39,6 +39,7 @@ sys.path.insert(0, str(ROOT))
 from app import edits  # noqa: E402
 from app.files import project_files as files  # noqa: E402
 from app.gui_thread_gc import collect_on_gui_thread  # noqa: E402
+from app.jobs.figure_jobs import FigureJobRunner  # noqa: E402
 from app.main_window import MainWindow  # noqa: E402
 
 #: Samples in the order shown, and the results sections shown for the first of them.
@@ -64,6 +65,7 @@ class Shooter:
         panel = self.w.results_panel
         runners = [panel.summary.runner, self.w.canvas.overlays.detail_runner]
         runners += [getattr(s, "runner", None) for s in panel.sections.values()]
+        runners += self.w.findChildren(FigureJobRunner)  # parts inside sections (the corner-radius sweep)
         return any(r is not None and r.is_busy for r in runners)
 
     def shoot(self, name: str, widget=None) -> None:
@@ -117,6 +119,20 @@ def run(out: Path, width: int, height: int) -> None:
         w.results_panel.show_section(title)
         s.settle(0.5)
         s.shoot(f"section_{title.replace(' ', '_').replace('-', '').lower()}")
+    # the sections that fill on demand: a corner-radius sweep and a cross-check run
+    panel = w.results_panel
+    part = panel.hot_spots.sweep_part
+    part.conductor_box.setCurrentText("L1")
+    part.run_sweep()
+    panel.show_section("High voltage")
+    s.settle(0.5)
+    panel._pages["High voltage"].ensureWidgetVisible(part.table)
+    s.settle(0.3)
+    s.shoot("section_high_voltage_corner_radius_sweep")
+    panel.show_section("Cross-check")
+    panel.cross_check.compute()
+    s.settle(0.5)
+    s.shoot("section_crosscheck_run")
     for shading in ("field strength", "field strength (log)", "none"):
         w.shading_combo.setCurrentText(shading)
         s.settle(0.2)

@@ -51,7 +51,7 @@ class Canvas(pg.PlotWidget):
     drag_finished = Signal()
 
     def __init__(self, document, parent=None) -> None:
-        super().__init__(parent, background="w")
+        super().__init__(parent, background=colours.PAGE)
         self.document = document
         self.snap_enabled = True
         self.results = None

@@ -5,6 +5,7 @@ Colours come from :mod:`app.colours` (one table, one meaning per colour).
 
 from __future__ import annotations
 
+import pyqtgraph as pg
 from PySide6.QtCore import QPointF, Qt
 from PySide6.QtGui import QBrush, QColor, QPainterPath, QPen
 from PySide6.QtWidgets import QGraphicsPathItem
@@ -93,3 +94,13 @@ def style_axes(plot_item) -> None:
         axis.setTextPen(QPen(QColor(colours.TEXT)))
         axis.setPen(QPen(QColor(colours.TEXT_MUTED)))
         axis.enableAutoSIPrefix(False)
+
+
+def plot_widget(parent=None, *, grid_alpha: float | None = 0.2) -> pg.PlotWidget:
+    """A plot on the page colour with legible axes (:func:`style_axes`) and, unless
+    ``grid_alpha`` is None, a light grid. Every plot the program shows is made here."""
+    widget = pg.PlotWidget(parent, background=colours.PAGE)
+    style_axes(widget.plotItem)
+    if grid_alpha is not None:
+        widget.showGrid(x=True, y=True, alpha=grid_alpha)
+    return widget

@@ -1,4 +1,5 @@
-"""Solver errors shown on the drawing: the parts concerned outlined in red, the message beside them."""
+"""Solver errors shown on the drawing: the parts concerned outlined in the colour of a rejected shape,
+the message beside them in the colours of "cannot solve" (both from :mod:`app.colours`)."""
 
 from __future__ import annotations
 
@@ -7,11 +8,12 @@ import textwrap
 import pyqtgraph as pg
 from PySide6.QtCore import QPointF, Qt
 
+from app import colours
 from app.canvas.drawing import cosmetic_pen, shape_item
 
 
 class ErrorMarks:
-    """Red outlines and a note on a PlotItem, for the conductors an error names."""
+    """Outlines of rejected shapes and a note on a PlotItem, for the conductors an error names."""
 
     def __init__(self, plot_item: pg.PlotItem, document) -> None:
         self.plot = plot_item
@@ -25,8 +27,8 @@ class ErrorMarks:
             if name not in model.conductor_names:
                 continue
             for s in model.conductor(name).shapes:
-                item = shape_item(s, "#ff0000", alpha=0, dashed=True)
-                item.setPen(cosmetic_pen("#e00000", 3, Qt.DashLine))
+                item = shape_item(s, colours.INVALID, alpha=0, dashed=True)
+                item.setPen(cosmetic_pen(colours.INVALID, 3, Qt.DashLine))
                 self._add(item, 70)
         anchor = None
         if names and names[0] in model.conductor_names:
@@ -36,8 +38,10 @@ class ErrorMarks:
             x0, y0, x1, y1 = model.bounds()
             anchor = (x0, y1)
         if anchor is not None:
-            text = pg.TextItem("\n".join(textwrap.wrap(message, 60)), color="#7a0000",
-                               fill=pg.mkBrush(255, 235, 235, 235), border=pg.mkPen("#e00000"), anchor=(0, 1))
+            failed = colours.FRESHNESS["failed"]
+            text = pg.TextItem("\n".join(textwrap.wrap(message, 60)), color=failed.text,
+                               fill=pg.mkBrush(*colours.hex_to_rgb(failed.background), 235),
+                               border=pg.mkPen(colours.INVALID), anchor=(0, 1))
             text.setPos(QPointF(*anchor))
             self._add(text, 80)
 

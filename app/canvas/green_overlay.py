@@ -26,13 +26,12 @@ import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import QObject, QPointF, Qt, Signal
 
+from app import colours
 from app.jobs.study_runner import StudyRunner
 from solver import Model, equilibrium_charge
 from solver.cross_check import green_function_on_grid, robin_constant, round_wire_distance_m
 from solver.cross_check.robin import ROUND_WIRE_TOLERANCE, charge_centre_m
 
-#: Colours of the overlay (Okabe & Ito's colour-blind-safe set): contours, round wire, 1 % circle.
-CONTOUR_COLOUR, WIRE_COLOUR, REACH_COLOUR = "#009E73", "#0072B2", "#D55E00"
 #: The map extends this far beyond the 1 % circle.
 MARGIN = 1.25
 #: Contour labels: along the ray at this angle from the charge centre (rad), at least this
@@ -170,7 +169,7 @@ class GreenOverlay(QObject):
         dx, dy = m.x[1] - m.x[0], m.y[1] - m.y[0]
         inside = ~np.isfinite(m.g)
         filled = np.where(inside, 0.0, m.g)  # g is 0 on and inside the conductor
-        pen = pg.mkPen(CONTOUR_COLOUR, width=1.2)
+        pen = pg.mkPen(colours.CONSTRUCTION, width=1.2)  # solid: contours
         min_gap = LABEL_GAP * (m.x[-1] - m.x[0])
         placed: list[np.ndarray] = []
         for level in contour_levels(m.g):
@@ -188,19 +187,20 @@ class GreenOverlay(QObject):
             at = np.array([longest[0][k], longest[1][k]])
             if all(np.hypot(*(at - p)) >= min_gap for p in placed):
                 placed.append(at)
-                label = pg.TextItem(f"g = {level:g}", color=CONTOUR_COLOUR, anchor=(0, 1),
-                                    fill=pg.mkBrush(255, 255, 255, 190))
+                label = pg.TextItem(f"g = {level:g}", color=colours.TEXT, anchor=(0, 1),
+                                    fill=pg.mkBrush(*colours.LABEL_FILL))
                 label.setPos(QPointF(*at))
                 self._add(label, 31)
         wx, wy = _circle(m.centre, m.equivalent_radius)
-        self._add(pg.PlotCurveItem(wx, wy, pen=pg.mkPen(WIRE_COLOUR, width=1.5, style=Qt.DotLine)), 32)
+        self._add(pg.PlotCurveItem(wx, wy, pen=pg.mkPen(colours.CONSTRUCTION, width=1.5, style=Qt.DotLine)), 32)
         self._add(pg.ScatterPlotItem([m.centre[0]], [m.centre[1]], symbol="+", size=12,
-                                     pen=pg.mkPen(WIRE_COLOUR, width=1.5)), 32)
+                                     pen=pg.mkPen(colours.CONSTRUCTION, width=1.5)), 32)
         if math.isfinite(m.round_wire_distance):
             rx, ry = _circle(m.centre, m.round_wire_distance)
-            self._add(pg.PlotCurveItem(rx, ry, pen=pg.mkPen(REACH_COLOUR, width=2, style=Qt.DashLine)), 33)
+            self._add(pg.PlotCurveItem(rx, ry, pen=pg.mkPen(colours.CONSTRUCTION, width=2, style=Qt.DashLine)), 33)
             text = f"round wire within {m.tolerance:.0%} beyond {m.round_wire_distance:.4g} {m.unit}"
-            label = pg.TextItem(text, color=REACH_COLOUR, anchor=(0.5, 1.0), fill=pg.mkBrush(255, 255, 255, 200))
+            label = pg.TextItem(text, color=colours.TEXT, anchor=(0.5, 1.0), fill=pg.mkBrush(*colours.LABEL_FILL),
+                                border=pg.mkPen(colours.TEXT_MUTED))
             label.setPos(QPointF(m.centre[0], m.centre[1] + m.round_wire_distance))
             self._add(label, 34)
         self.shown.emit(m)

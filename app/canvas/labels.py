@@ -48,22 +48,29 @@ def anchor_point(box, anchor) -> tuple[float, float]:
     return (x0 if anchor[0] == 0.0 else x1, y1 if anchor[1] == 0.0 else y0)
 
 
+#: Besides the four places beside the point, a label may stand this many label heights
+#: farther up or down (labels of close points stack instead of covering each other).
+STACK_STEPS = 4
+
+
 def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None):
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
-    places, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
-    possible (ties go to the outward side, then upwards)."""
+    places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
+    down, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
+    possible (ties go to the nearest place, then the outward side, then upwards)."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
-    for order, (right, up) in enumerate(((outward_right, True), (outward_right, False),
-                                         (not outward_right, True), (not outward_right, False))):
-        x0 = x + gap_x if right else x - gap_x - w
-        y0 = y + gap_y if up else y - gap_y - h
-        box = (x0, y0, x0 + w, y0 + h)
-        inside = v0 <= box[0] and box[2] <= v1 and w0 <= box[1] and box[3] <= w1
-        clashes = sum(overlap(box, other) for other in placed)
-        on_part = mask is not None and mask.covers(box)
-        candidates.append((clashes + on_part + (0 if inside else 2), order, (0.0 if right else 1.0, 1.0 if up else 0.0),
-                           box))
-    best = min(candidates, key=lambda c: (c[0], c[1]))
-    return best[2], best[3]
+    for step in range(STACK_STEPS + 1):
+        for order, (right, up) in enumerate(((outward_right, True), (outward_right, False),
+                                             (not outward_right, True), (not outward_right, False))):
+            x0 = x + gap_x if right else x - gap_x - w
+            y0 = y + gap_y + step * h if up else y - gap_y - h - step * h
+            box = (x0, y0, x0 + w, y0 + h)
+            inside = v0 <= box[0] and box[2] <= v1 and w0 <= box[1] and box[3] <= w1
+            clashes = sum(overlap(box, other) for other in placed)
+            on_part = mask is not None and mask.covers(box)
+            candidates.append((clashes + on_part + (0 if inside else 2), step, order,
+                               (0.0 if right else 1.0, 1.0 if up else 0.0), box))
+    best = min(candidates, key=lambda c: c[:3])
+    return best[3], best[4]

@@ -14,7 +14,6 @@ from __future__ import annotations
 from dataclasses import replace
 from pathlib import Path
 
-import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
     QComboBox,
@@ -31,7 +30,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.canvas.drawing import dielectric_item, shape_item
+from app import colours
+from app.canvas.drawing import dielectric_item, plot_widget, shape_item
 from app.edits import PALETTE
 from solver import LENGTH_UNITS, Model, SolverError
 from solver.cli.drawing_input import parse_voltage
@@ -120,7 +120,7 @@ class ImportDrawingDialog(QDialog):
         unit_row.addWidget(QLabel("Length unit of the drawing:"))
         unit_row.addWidget(self.unit_combo)
         unit_row.addStretch(1)
-        self.preview = pg.PlotWidget(background="w")
+        self.preview = plot_widget(grid_alpha=None)
         self.preview.setAspectLocked(True)
         self.preview.hideAxis("left")
         self.preview.hideAxis("bottom")
@@ -228,19 +228,19 @@ class ImportDrawingDialog(QDialog):
         self.add_button.setEnabled(self.drawn is not None)
         if self.drawn is None:
             self.message.setText(problem)
-            self.message.setStyleSheet("color: #7a0000;")
+            self.message.setStyleSheet(colours.status_style(error=True))
             return
         for d in self.drawn.dielectrics:
             for shape in d.shapes:
                 self.preview.addItem(dielectric_item(shape, d.eps_r))
         for k, c in enumerate(self.drawn.conductors):
             for shape in c.shapes:
-                self.preview.addItem(shape_item(shape, c.color or PALETTE[k % len(PALETTE)]))
+                self.preview.addItem(shape_item(shape, colours.display_colour(c, k)))
         self.preview.autoRange()
         parts = [f"{c.name} ({c.role}{f', {c.potential_V:g} V' if c.role == 'fixed' else ''})"
                  for c in self.drawn.conductors] + [f"{d.name} (eps_r {d.eps_r:g})" for d in self.drawn.dielectrics]
         self.message.setText(f"Reads as {', '.join(parts)}; unit {self.drawn.unit}.")
-        self.message.setStyleSheet("color: #1f1f1f;")
+        self.message.setStyleSheet(f"color: {colours.TEXT};")
 
     def add_to_drawing(self) -> bool:
         """Add the parts read to the document (one undoable edit) and close."""

@@ -18,7 +18,7 @@ from PySide6.QtCore import QMarginsF, QUrl
 from PySide6.QtGui import QPageLayout, QPageSize, QPainter, QPdfWriter, QTextDocument
 
 import solver
-from app import cautions
+from app import cautions, colours
 from app.help_menu import program_version
 from app.panels.matrices_view import drawing_size, matrix_cells
 from app.panels.safety_views import PART_LENGTH_KEY, caution_for
@@ -189,7 +189,7 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
     parts.append("<p><b>What 2-D cannot tell.</b> "
                  + html.escape(cautions.length_text(model, length)) + " "
                  + " ".join(html.escape(t) for t in cautions.TWO_D_LIMITS) + "</p>")
-    parts.append(f"<p style='border:1px solid #8a6d00'><b>{html.escape(cautions.STANDING_STATEMENT)}</b></p>")
+    parts.append(f"<p style='border:1px solid {colours.TEXT_MUTED}'><b>{html.escape(cautions.STANDING_STATEMENT)}</b></p>")
     return "<html><body style='font-size:7pt'>" + "".join(parts) + "</body></html>"
 
 
@@ -235,7 +235,7 @@ def report_preview(results, drawing_image, document_name: str, width_px: int = 1
 
     height_px = int(width_px * 297 / 210)
     image = QImage(width_px, height_px, QImage.Format_RGB32)
-    image.fill(QColor("white"))
+    image.fill(QColor(colours.PAGE))
     painter = QPainter(image)
     try:
         margin = width_px * 12 / 210

@@ -17,6 +17,7 @@ from PySide6.QtCore import Signal
 from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton
 
 import solver
+from app import colours
 from app.panels.quantity_edit import QuantityEdit
 from solver import AirConditions, VoltageBasis
 
@@ -150,7 +151,7 @@ class AirConditionsBox(QGroupBox):
             long_gap = solver.air_strength(None, air.relative_air_density, air.surface_factor).field_V_per_m
         except (ValueError, solver.SolverError) as exc:
             self.label.setText(f"Air conditions or voltage basis not applied: {exc}")
-            self.label.setStyleSheet("color: #7a0000; font-weight: bold;")
+            self.label.setStyleSheet(colours.status_style(error=True))
             return None, None
         self.label.setStyleSheet("")
         self.label.setText(

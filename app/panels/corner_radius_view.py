@@ -16,9 +16,12 @@ import pyqtgraph as pg
 from PySide6.QtWidgets import QComboBox, QFileDialog, QHBoxLayout, QLabel, QLineEdit, QPushButton, QVBoxLayout, QWidget
 
 import solver
+from app import colours
+from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.units import digits_for, format_percent, format_plain, true_minus
+from solver.hot_spots.corner_limits import largest_corner_radius_m
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
 DEFAULT_RADIUS_FRACTIONS = (0.02, 0.05, 0.1, 0.2, 0.35)
@@ -31,11 +34,10 @@ def field_unit(values_V_per_m) -> tuple[float, str]:
 
 
 def default_radii(model, conductor: str) -> list[float]:
-    """Sensible corner radii (model unit) for ``conductor``: fractions of its smaller side."""
-    boxes = [s.bounds() for s in model.conductor(conductor).shapes]
-    x0, y0 = min(b[0] for b in boxes), min(b[1] for b in boxes)
-    x1, y1 = max(b[2] for b in boxes), max(b[3] for b in boxes)
-    side = min(x1 - x0, y1 - y0) or max(x1 - x0, y1 - y0)
+    """Sensible corner radii (model unit) for ``conductor``: fractions of its thickness, twice the
+    largest radius the solver's rounding accepts (the smaller side of a bar; the wall of an
+    enclosure, not its box)."""
+    side = 2.0 * largest_corner_radius_m(model, conductor) / model.metres_per_unit
     return [float(f"{side * f:.2g}") for f in DEFAULT_RADIUS_FRACTIONS]
 
 
@@ -83,15 +85,12 @@ class CornerRadiusPart(QWidget):
         self.progress = JobProgress(self.runner)
         layout.addWidget(self.progress)
         self.runner.job_cancelled.connect(lambda: self._set_status("Sweep cancelled: press Run sweep to start again."))
-        self.plot = pg.PlotWidget(background="w")
+        self.plot = plot_widget(grid_alpha=0.3)  # no SI multiplier on the axes: the unit is in the label
         self.plot.setMinimumHeight(230)
-        self.plot.showGrid(x=True, y=True, alpha=0.3)
-        for side in ("bottom", "left"):
-            self.plot.getAxis(side).enableAutoSIPrefix(False)  # the unit is in the label
-        self.curve = self.plot.plot([], [], pen=pg.mkPen("#1f4e9a", width=2), symbol="o", symbolSize=7,
-                                    symbolBrush="#1f4e9a")
+        self.curve = self.plot.plot([], [], pen=pg.mkPen(colours.PLOT_DATA, width=2), symbol="o", symbolSize=7,
+                                    symbolBrush=colours.PLOT_DATA)
         self.error_bars = pg.ErrorBarItem(x=np.zeros(0), y=np.zeros(0), height=np.zeros(0), beam=0.0,
-                                          pen=pg.mkPen("#b03a2e"))
+                                          pen=pg.mkPen(colours.PLOT_GUIDE, width=1.5))
         self.plot.addItem(self.error_bars)
         layout.addWidget(self.plot)
         self.table = CopyableTable()
@@ -158,8 +157,7 @@ class CornerRadiusPart(QWidget):
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
         self.status.setText(text)
-        self.status.setStyleSheet("color: #7a0000; font-weight: bold;" if error else
-                                  "color: #9a5b00; font-weight: bold;" if stale else "")
+        self.status.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_busy_changed(self, busy: bool) -> None:
         self.run_button.setText("Running…" if busy else "Run sweep")
@@ -193,17 +191,16 @@ class CornerRadiusPart(QWidget):
         self.error_bars.setData(x=x, y=y, height=2.0 * errors)
         self.plot.enableAutoRange()
         size = drawing_size(self.results.solution) / scale
-        rows, cells = [], []
+        cells = []  # the radius in a column of its own: narrower than a row heading "r = 0.2 mm"
         for k, r in enumerate(x):
             err = sweep.estimated_relative_error[k]
             enh = sweep.enhancement_factor[k]
-            rows.append(f"r = {format_plain(r, 6)} {model.unit}")
-            cells.append([format_plain(y[k], digits_for(None if math.isnan(err) else err)),
+            cells.append([format_plain(r, 6), format_plain(y[k], digits_for(None if math.isnan(err) else err)),
                           "n/a" if math.isnan(err) else format_plain(100 * err, 2),
                           "n/a" if math.isnan(enh) else format_plain(enh, 3),
                           format_coordinate(sweep.location_m[k, 0] / scale, size),
                           format_coordinate(sweep.location_m[k, 1] / scale, size)])
-        self.table.fill(rows, [f"peak |E| ({label})", "est. error (%)", "enhancement factor",
+        self.table.fill([], [f"corner radius ({model.unit})", f"peak |E| ({label})", "est. error (%)", "enhancement factor",
                                f"peak at x ({model.unit})", f"peak at y ({model.unit})"], cells, wrap=10)
         self.export_button.setEnabled(True)
         trend = ("" if sweep.fitted_exponent is None else

@@ -15,6 +15,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWi
 
 import solver
 from app import colours
+from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner
 from app.panels.matrices_view import CopyableTable
 from app.units import format_plain
@@ -65,11 +66,11 @@ class CrossCheckView(QWidget):
         self.table = CopyableTable()
         self.table.itemSelectionChanged.connect(self._on_selection_changed)
         layout.addWidget(self.table, 1)
-        self.plot = pg.PlotWidget(background="w")
+        self.plot = plot_widget(grid_alpha=None)
         self.plot.setAspectLocked(True)
         self.plot.setMinimumHeight(220)
         self.outline_curves: list = []
-        self.points_item = pg.ScatterPlotItem(size=7, pen=pg.mkPen("#7a1f1f"), brush=pg.mkBrush("#d0453a"))
+        self.points_item = pg.ScatterPlotItem(size=7, pen=pg.mkPen(colours.PAGE), brush=pg.mkBrush(colours.PLOT_DATA))
         self.plot.addItem(self.points_item)
         layout.addWidget(self.plot, 1)
 
@@ -86,7 +87,7 @@ class CrossCheckView(QWidget):
     def mark_stale(self, stale: bool) -> None:
         if stale:
             self.runner.cancel()
-            self._set_status(STALE_TEXT, error=True)
+            self._set_status(STALE_TEXT, stale=True)
         self.run_button.setEnabled(not stale and self.results is not None)
 
     # ---- work -----------------------------------------------------------------------------
@@ -139,11 +140,11 @@ class CrossCheckView(QWidget):
         scale = check.metres_per_unit
         for piece in check.outline_m:
             self.outline_curves.append(self.plot.plot(piece[:, 0] / scale, piece[:, 1] / scale,
-                                                      pen=pg.mkPen("#333", width=1.5)))
+                                                      pen=pg.mkPen(colours.PLOT_GUIDE, width=1.5)))
         pts = check.fekete_points.points_m / scale
         self.points_item.setData(pts[:, 0], pts[:, 1])
-        self.plot.setTitle(f"Fekete points, N = {check.fekete_points.n_points} ({check.unit})", color="#222")
+        self.plot.setTitle(f"Fekete points, N = {check.fekete_points.n_points} ({check.unit})", color=colours.TEXT)
 
-    def _set_status(self, text: str, *, error: bool = False) -> None:
+    def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
         self.status.setText(text)
-        self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"], bold=True) if error else "")
+        self.status.setStyleSheet(colours.status_style(error=error, stale=stale))

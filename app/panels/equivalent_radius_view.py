@@ -11,6 +11,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QListWidget, QListWidgetItem, QPushButton, QVBoxLayout, QWidget
 
 import solver
+from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.units import digits_for, format_percent, format_plain
 
@@ -102,8 +103,7 @@ class EquivalentRadiusPart(QWidget):
 
     def _set_result(self, text: str, *, error: bool = False, stale: bool = False) -> None:
         self.result.setText(text)
-        self.result.setStyleSheet("color: #7a0000; font-weight: bold;" if error else
-                                  "color: #9a5b00; font-weight: bold;" if stale else "")
+        self.result.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_comparison_ready(self, b) -> None:
         self.comparison = b

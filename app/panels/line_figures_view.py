@@ -15,6 +15,7 @@ import numpy as np
 from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
 
 import solver
+from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
 from app.units import digits_for, format_measured, format_percent, format_plain
@@ -81,7 +82,7 @@ class LineFiguresView(QWidget):
         self.runner.job_cancelled.connect(self._on_job_cancelled)
         self.note = QLabel(QUASI_TEM_NOTE)
         self.note.setWordWrap(True)
-        self.note.setStyleSheet("color: #444;")
+        self.note.setStyleSheet(f"color: {colours.TEXT_MUTED};")
         layout.addWidget(self.note)
         self.line_label = QLabel()
         self.line_table = CopyableTable()
@@ -112,7 +113,7 @@ class LineFiguresView(QWidget):
         model = results.model
         if not model.has_return_path or not model.signal_names:
             self._pending = False
-            self._set_status(NO_RETURN_PATH, "color: #7a0000; font-weight: bold;")
+            self._set_status(NO_RETURN_PATH, colours.status_style(error=True))
             return
         self._pending = True
         self._set_status("Line figures are computed when this tab is shown.")
@@ -127,7 +128,7 @@ class LineFiguresView(QWidget):
                 self._pending = True  # started again if the drawing returns to the solved state
                 self.runner.cancel()
             self.status.setText(STALE_TEXT)
-            self.status.setStyleSheet("color: #9a5b00; font-weight: bold;")
+            self.status.setStyleSheet(colours.status_style(stale=True))
             return
         self._set_status(*self._last_status)
         if self._pending and self.isVisible():
@@ -154,7 +155,7 @@ class LineFiguresView(QWidget):
         self._set_status("Line figures cancelled; they are computed again when this tab is shown.")
 
     def _on_job_failed(self, message: str) -> None:
-        self._set_status(f"No line figures: {message}", "color: #7a0000; font-weight: bold;")
+        self._set_status(f"No line figures: {message}", colours.status_style(error=True))
 
     def _on_figures_ready(self, figures) -> None:
         self.figures = figures

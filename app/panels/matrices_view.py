@@ -58,14 +58,16 @@ class CopyableTable(QTableWidget):
     def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
         """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
         ``wrap`` characters break onto lines between words, so that a narrow panel shows them
-        whole without scrolling sideways (cells may hold line breaks too)."""
+        whole without scrolling sideways (cells may hold line breaks too). With no ``rows`` the
+        table has no row headings (its first column says what each row is)."""
         if wrap:
             rows, columns = [wrap_heading(r, wrap) for r in rows], [wrap_heading(c, wrap) for c in columns]
         self.clear()
-        self.setRowCount(len(rows))
+        self.setRowCount(len(rows) or len(cells))
         self.setColumnCount(len(columns))
         self.setHorizontalHeaderLabels(columns)
         self.setVerticalHeaderLabels(rows)
+        self.verticalHeader().setVisible(bool(rows) or not cells)
         for i, row in enumerate(cells):
             for j, text in enumerate(row):
                 item = QTableWidgetItem(text)
@@ -85,10 +87,12 @@ class CopyableTable(QTableWidget):
     def as_text(self) -> str:
         """The whole table with its headers as tab-separated lines (ASCII minus signs)."""
         cols = [self.horizontalHeaderItem(j).text() for j in range(self.columnCount())]
-        lines = ["\t".join([""] + cols)]
+        headed = not self.verticalHeader().isHidden()
+        lines = ["\t".join([""] * headed + cols)]
         for i in range(self.rowCount()):
             cells = [self.item(i, j).text() if self.item(i, j) else "" for j in range(self.columnCount())]
-            lines.append("\t".join([self.verticalHeaderItem(i).text()] + cells))
+            head = self.verticalHeaderItem(i)
+            lines.append("\t".join([head.text() if head is not None else ""] * headed + cells))
         lines = [line.replace("\n", " ") for line in lines]  # headings wrapped on screen are one cell
         return "\n".join(lines).replace("\u2212", "-")  # spreadsheets read an ASCII minus as a number
 
@@ -132,10 +136,12 @@ class MatricesView(QWidget):
         layout.addWidget(self.regions_label)
         layout.addWidget(self.regions)
         buttons = QHBoxLayout()
+        self.copy_buttons = []
         for text, table in (("Copy Maxwell", self.maxwell), ("Copy mutual", self.mutual), ("Copy per conductor", self.conductors)):
             b = QPushButton(text)
             b.clicked.connect(table.copy_to_clipboard)
             buttons.addWidget(b)
+            self.copy_buttons.append(b)
         layout.addLayout(buttons)
         self.error_label = QLabel()
         self.error_label.setWordWrap(True)
@@ -150,6 +156,15 @@ class MatricesView(QWidget):
             table.fill([], [], [])  # compact until there is something to show
         self.regions_label.setVisible(False)
         self.regions.setVisible(False)
+        self._show_matrices(False, False)  # no empty frames before a solve
+
+    def _show_matrices(self, solved: bool, has_capacitance: bool) -> None:
+        """The matrices (with a capacitance) and the per-conductor table (after a solve) with their
+        headings and copy buttons; nothing of them before there is something to show."""
+        for w in (self.maxwell_label, self.maxwell, self.mutual_label, self.mutual, *self.copy_buttons[:2]):
+            w.setVisible(has_capacitance)
+        for w in (self.conductors_label, self.conductors, self.conductors_note, self.copy_buttons[2]):
+            w.setVisible(solved)
 
     def show_results(self, results) -> None:
         sol, model = results.solution, results.model
@@ -173,6 +188,7 @@ class MatricesView(QWidget):
             "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else "")
         self._fill_conductors(results)
         self._fill_regions(results)
+        self._show_matrices(True, sol.has_capacitance)
         err = sol.estimated_relative_error
         self.error_label.setText(
             "Estimated relative error of the matrix: n/a" if err is None else

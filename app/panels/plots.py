@@ -13,16 +13,8 @@ from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 from app import colours
-from app.canvas.drawing import style_axes
+from app.canvas.drawing import plot_widget, style_axes
 from app.units import si_scale
-
-
-def _plot(parent=None) -> pg.PlotWidget:
-    w = pg.PlotWidget(parent, background="w")
-    w.showGrid(x=True, y=True, alpha=0.2)
-    style_axes(w.plotItem)
-    return w
-
 
 #: A corner spike is clipped above this many times the 95th percentile of |sigma| on its conductor.
 SPIKE_CLIP = 1.6
@@ -66,7 +58,7 @@ class BoundaryPlot(QWidget):
         row.addWidget(self.choice, 1)
         layout.addLayout(row)
         self.plot = pg.GraphicsLayoutWidget()
-        self.plot.setBackground("w")
+        self.plot.setBackground(colours.PAGE)
         layout.addWidget(self.plot, 1)
         self.results = None
         self._marker = pg.ScatterPlotItem(symbol="o", size=12, pen=pg.mkPen(colours.SELECTION, width=2),
@@ -220,10 +212,12 @@ class ProbePlot(QWidget):
         self.note = QLabel("Choose the Probe line tool (L) and drag a line on the drawing.")
         self.note.setWordWrap(True)
         layout.addWidget(self.note)
-        self.potential_plot = _plot()
-        self.field_plot = _plot()
-        layout.addWidget(self.potential_plot)
-        layout.addWidget(self.field_plot)
+        self.potential_plot = plot_widget()
+        self.field_plot = plot_widget()
+        layout.addWidget(self.potential_plot, 1)
+        layout.addWidget(self.field_plot, 1)
+        self._filler = QWidget()  # holds the place of the plots while there is no profile
+        layout.addWidget(self._filler, 1)
         row = QHBoxLayout()
         self.export_button = QPushButton("Export profile (CSV)…")
         self.export_button.setEnabled(False)
@@ -232,6 +226,13 @@ class ProbePlot(QWidget):
         row.addWidget(self.export_button)
         layout.addLayout(row)
         self.profile = None
+        self._show_plots(False)
+
+    def _show_plots(self, shown: bool) -> None:
+        """Plots only for a profile: no empty axes without units before a probe line exists."""
+        self.potential_plot.setVisible(shown)
+        self.field_plot.setVisible(shown)
+        self._filler.setVisible(not shown)
 
     def show_profile(self, distance: np.ndarray, potential_V: np.ndarray, field_V_per_m: np.ndarray,
                      unit: str, ends: tuple) -> None:
@@ -251,6 +252,7 @@ class ProbePlot(QWidget):
         for p in (self.potential_plot, self.field_plot):
             p.setLabel("bottom", f"distance along probe ({unit})")
         self.export_button.setEnabled(True)
+        self._show_plots(True)
 
     def mark_stale(self, stale: bool) -> None:
         """Dim the profile while the drawing has changed since the solve."""
@@ -264,3 +266,4 @@ class ProbePlot(QWidget):
         self.field_plot.clear()
         self.note.setText("Choose the Probe line tool (L) and drag a line on the drawing.")
         self.export_button.setEnabled(False)
+        self._show_plots(False)

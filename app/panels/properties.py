@@ -23,7 +23,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app import edits
+from app import colours, edits
 from app.panels.quantity_edit import QuantityEdit, TypedTexts
 from app.panels.shape_fields import parse_points, points_text, shape_fields, shape_from_values, shape_lengths
 from solver import LENGTH_UNITS, MESH_DENSITIES, SolverError, material, material_names
@@ -62,7 +62,7 @@ class PropertiesPanel(QWidget):
         layout.addWidget(self.part_box)
         self.problem_label = QLabel()
         self.problem_label.setWordWrap(True)
-        self.problem_label.setStyleSheet("color: #b00000;")
+        self.problem_label.setStyleSheet(f"color: {colours.FRESHNESS['failed'].text};")
         layout.addWidget(self.problem_label)
         self.note_label = QLabel()  # how a typed value was taken, e.g. an rms voltage as its crest
         self.note_label.setWordWrap(True)
@@ -138,7 +138,7 @@ class PropertiesPanel(QWidget):
             self.member_combo.addItems(list(model.conductor_names) + ["(a new conductor)"])
             self.member_combo.setCurrentText(c.name)
             self.member_combo.blockSignals(False)
-            self.color_button.setStyleSheet(f"background: {c.color or '#808080'};")
+            self.color_button.setStyleSheet(f"background: {colours.display_colour(c, ref.index)};")
             self.fields["potential"].setEnabled(c.role == "fixed")
             self.fields["charge"].setEnabled(c.role == "floating")
         if ref.kind == "dielectric":
@@ -304,7 +304,7 @@ class PropertiesPanel(QWidget):
 
     def _on_color_clicked(self) -> None:
         ref = self.document.selection
-        color = QColorDialog.getColor(QColor(self.document.model.conductors[ref.index].color or "#808080"), self)
+        color = QColorDialog.getColor(QColor(colours.display_colour(self.document.model.conductors[ref.index], ref.index)), self)
         if color.isValid():
             self._edit_conductor(color=color.name())
 

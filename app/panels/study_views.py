@@ -18,7 +18,9 @@ import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget
 
-from solver.studies.plot import SERIES_COLOURS, figure_unit, unit_scale
+from app import colours
+from app.canvas.drawing import plot_widget
+from solver.studies.plot import figure_unit, unit_scale
 
 
 def column_scale(values, figure: str) -> tuple[float, str]:
@@ -70,11 +72,7 @@ class StudyPlot(QWidget):
         self.x_label = ""
         self.figure_combo = QComboBox()
         self.figure_combo.currentTextChanged.connect(lambda _: self.redraw())
-        self.plot = pg.PlotWidget(background="w")
-        self.plot.showGrid(x=True, y=True, alpha=0.25)
-        for axis in ("left", "bottom"):
-            self.plot.getAxis(axis).setTextPen("#222")
-            self.plot.getAxis(axis).setPen("#444")
+        self.plot = plot_widget(grid_alpha=0.25)
         top = QHBoxLayout()
         top.addWidget(QLabel("Plot:"))
         top.addWidget(self.figure_combo, 1)
@@ -128,14 +126,14 @@ class StudyPlot(QWidget):
         self.plot.setLabel("bottom", self.x_label)
         x, y = self.curve_data()
         if len(x):
-            self.plot.plot(x, y, pen=pg.mkPen(SERIES_COLOURS[0], width=2), symbol="o", symbolSize=7,
-                           symbolBrush=SERIES_COLOURS[0], symbolPen=None, name="sweep")
+            self.plot.plot(x, y, pen=pg.mkPen(colours.PLOT_DATA, width=2), symbol="o", symbolSize=7,
+                           symbolBrush=colours.PLOT_DATA, symbolPen=None, name="sweep")
         s = self.search
         if s is not None and figure == s.figure:
             ev = s.evaluations
             self.plot.plot(np.array(ev.column(s.parameter), float), np.array(ev.column(figure), float) / scale,
-                           pen=None, symbol="x", symbolSize=10, symbolPen=pg.mkPen(SERIES_COLOURS[1], width=2))
-            target_pen = pg.mkPen(SERIES_COLOURS[1], width=1, style=Qt.DashLine)
+                           pen=None, symbol="x", symbolSize=10, symbolPen=pg.mkPen(colours.PLOT_DATA, width=2))
+            target_pen = pg.mkPen(colours.PLOT_GUIDE, width=1, style=Qt.DashLine)
             self.plot.addItem(pg.InfiniteLine(s.target / scale, angle=0, pen=target_pen))
             self.plot.addItem(pg.InfiniteLine(s.value, angle=90, pen=target_pen))
 
@@ -149,7 +147,7 @@ class CautionLine(QLabel):
         self.full = False
         self.setWordWrap(True)
         self.setTextFormat(Qt.RichText)
-        self.setStyleSheet("color: #5a3a00; background: #fdf3dc; padding: 4px;")
+        self.setStyleSheet(colours.style_sheet(colours.SEVERITY["not assessed"]))
         self.setToolTip(text)
         self.linkActivated.connect(lambda _: self.set_full(not self.full))
         self.setVisible(False)

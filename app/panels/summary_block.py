@@ -77,15 +77,26 @@ def _margin_text(margin: float | None, deciding: str | None = None) -> str:
 
 
 def peak_text(verdict) -> str | None:
-    """The most severe peak: |E|, where, its margin and status (None without a verdict)."""
+    """The largest peak |E| and where, with the margin and status of the peak that decides the
+    verdict; when that is another peak (a smaller field with a smaller margin), it is named too.
+    Peaks that are not graded (no margin) are never shown in place of a larger field. None
+    without a verdict."""
     if verdict is None or not verdict.verdicts:
         return None
-    worst = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
-                 verdict.verdicts[0])
-    # a corner's peak grows with every refinement: never shown as if it were a real figure
-    mesh_made = " (mesh value at a sharp corner)" if worst.at_sharp_corner else ""
-    return (f"{format_field(worst.peak_field_V_per_m)}{mesh_made} on {worst.where}, "
-            f"{_margin_text(worst.margin, worst.deciding)}, {colours.SEVERITY[worst.status].word}")
+    largest = max(verdict.verdicts, key=lambda v: v.peak_field_V_per_m)
+    deciding = next((v for v in verdict.verdicts if v.status == verdict.status and v.headline == verdict.headline),
+                    largest)
+    if deciding.margin is None and largest.status == deciding.status:
+        deciding = largest  # nothing graded: the largest field says the most
+
+    def field(v) -> str:
+        # a corner's peak grows with every refinement: never shown as if it were a real figure
+        return format_field(v.peak_field_V_per_m) + (" (mesh value at a sharp corner)" if v.at_sharp_corner else "")
+
+    text = f"{field(largest)} on {largest.where}"
+    if deciding is not largest:
+        text += f"; deciding: {field(deciding)} on {deciding.where}"
+    return f"{text}, {_margin_text(deciding.margin, deciding.deciding)}, {colours.SEVERITY[deciding.status].word}"
 
 
 def summary_rows(state: str, solution=None, verdict=None, line_figures=None,

@@ -8,12 +8,14 @@ import pytest
 
 from app import colours
 
-#: Modules that show results or the drawing; every colour they use must come from app.colours.
-DRAWING_MODULES = ("app/main_window.py", "app/panels/results_panel.py", "app/panels/hot_spots_view.py",
-                   "app/panels/safety_views.py", "app/panels/plots.py", "app/panels/summary_block.py",
-                   "app/cautions.py", "app/canvas/drawing.py", "app/canvas/overlays.py",
-                   "app/canvas/colour_key.py", "app/canvas/labels.py", "app/canvas/canvas.py",
-                   "app/framing.py")
+#: A colour written inline: a hex literal, rgb()/rgba(), QColor/mkPen/mkBrush of numbers, a tuple or
+#: a name, a colour keyword argument or style-sheet property given as a literal, a Qt colour constant.
+INLINE_COLOUR = re.compile(
+    r"""#[0-9a-fA-F]{6}\b|#[0-9a-fA-F]{3}\b(?!\w)|(?<![.\w])rgba?\s*\("""
+    r"""|QColor\(\s*(?:\d|["'])|mk(?:Pen|Brush)\(\s*(?:\(|\d|["'])"""
+    r"""|(?:background|color|colour|symbolBrush|symbolPen|brush|pen)\s*=\s*["']|setBackground\(\s*["']"""
+    r"""|(?:color|background(?:-color)?|border(?:-\w+)?)\s*:\s*(?:[^;{"']*\s)?[a-z]+\s*[;"']"""
+    r"""|Qt\.(?:GlobalColor\.)?(?:red|green|blue|black|white|gray|darkGray|lightGray|yellow|cyan|magenta|dark[A-Z]\w*)\b""")
 
 ROOT = Path(__file__).resolve().parents[2]
 
@@ -63,11 +65,39 @@ def test_potential_map_is_centred_on_zero_volts():
     assert (lo, hi) == (-10.0, 0.0) and stops[-1] == neutral and stops[0] == colours.POTENTIAL_STOPS[0]
 
 
-@pytest.mark.parametrize("module", DRAWING_MODULES)
+def app_modules():
+    """Every module of the program but the colour table itself."""
+    return sorted(p.relative_to(ROOT).as_posix() for p in (ROOT / "app").rglob("*.py")
+                  if p != ROOT / "app" / "colours.py")
+
+
+def test_the_walk_finds_the_program():
+    modules = app_modules()
+    assert "app/main_window.py" in modules and "app/canvas/error_marks.py" in modules and len(modules) > 40
+
+
+@pytest.mark.parametrize("module", app_modules())
 def test_no_inline_colours_outside_the_colour_table(module):
     source = (ROOT / module).read_text(encoding="utf-8")
-    inline = re.findall(r"#[0-9a-fA-F]{6}\b|#[0-9a-fA-F]{3}\b(?!\w)|QColor\(\s*\d|mkPen\(\s*\(|mkBrush\(\s*\d", source)
-    assert inline == [], f"{module} writes colours inline: {inline}"
+    inline = [m.group(0) for m in INLINE_COLOUR.finditer(source)]
+    assert inline == [], f"{module} writes colours inline (take them from app.colours): {inline}"
+
+
+@pytest.mark.parametrize("line", [
+    'item = shape_item(s, "#ff0000", alpha=0)', 'pen=pg.mkPen("#333", width=1.5)', "fill=pg.mkBrush(255, 235, 235)",
+    'pg.PlotWidget(background="w")', 'label.setStyleSheet("color: #7a0000;")', 'image.fill(QColor("white"))',
+    '"background: rgba(255, 255, 255, 225);"', 'setStyleSheet("color: red;")', "painter.setPen(Qt.darkGray)",
+    'self.plot.plot(x, y, symbolBrush="b")', 'TextItem("g", color="k")', 'self.plot.setBackground("w")',
+    "pg.mkPen((200, 0, 0))", "QColor(255, 0, 0)"])
+def test_the_inline_colour_pattern_sees_each_way_of_writing_a_colour(line):
+    assert INLINE_COLOUR.search(line)
+
+
+@pytest.mark.parametrize("line", [
+    "pen=pg.mkPen(colours.TEXT, width=2)", 'f"color: {colours.TEXT}; font-weight: bold;"', "# issue 11, item 4",
+    'self.setStyleSheet(colours.style_sheet(badge))', 'pg.PlotWidget(background=colours.PAGE)', 'f"background: {colours.rgba(colours.HINT_FILL)};"'])
+def test_the_inline_colour_pattern_passes_colours_from_the_table(line):
+    assert not INLINE_COLOUR.search(line)
 
 
 def test_noise_near_zero_volts_does_not_make_the_map_diverging():
@@ -79,9 +109,12 @@ def test_noise_near_zero_volts_does_not_make_the_map_diverging():
 
 
 def test_axis_text_on_the_drawing_and_the_plots_is_legible(window):
-    # the axes used to be rgb(150,150,150) on white (2.96:1)
-    plots = [window.canvas.plotItem, window.results_panel.probe.potential_plot.plotItem,
-             window.results_panel.probe.field_plot.plotItem]
+    # the axes used to be rgb(150,150,150) on white (2.96:1); every plot in the window, sections included
+    import pyqtgraph as pg
+
+    plots = [w.plotItem for w in window.findChildren(pg.PlotWidget)]
+    assert window.canvas.plotItem in plots and window.results_panel.probe.field_plot.plotItem in plots
+    assert len(plots) >= 5  # drawing, probe (2), corner radius, cross-check (charge rows come with results)
     for plot in plots:
         for side in ("left", "bottom"):
             text = plot.getAxis(side).textPen().color().name()

@@ -51,10 +51,12 @@ def test_drawing_png_and_svg(solved, tmp_path):
 def test_probe_profile_csv(solved, tmp_path, qtbot):
     from app_helpers import drag
 
+    probe = solved.results_panel.probe
+    assert not probe.potential_plot.isVisibleTo(probe) and not probe.field_plot.isVisibleTo(probe)  # no empty axes
     solved.canvas.set_tool("probe line")
     m = solved.results.model
     drag(solved.canvas, (-0.9 * 10, 2.0), (0.9 * 10, 2.0))
-    assert solved.results_panel.probe.profile is not None
+    assert probe.profile is not None and probe.potential_plot.isVisibleTo(probe) and probe.field_plot.isVisibleTo(probe)
     path = tmp_path / "p.csv"
     assert solved.commands.export_profile_csv(path)
     rows = list(csv.reader(path.open()))

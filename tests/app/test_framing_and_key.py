@@ -75,6 +75,18 @@ def test_labels_take_a_free_place():
     assert box[2] <= 100.0 and anchor[0] == 1.0
 
 
+def test_labels_of_close_points_stack_instead_of_covering_each_other():
+    # three traces side by side, each label wider than the gap between them (the labels of the
+    # three-trace sample once covered each other and ran out of the view)
+    view = (0.0, 100.0, 0.0, 100.0)
+    placed = []
+    for x in (40.0, 50.0, 60.0):
+        anchor, box = labels.free_place(x, 50.0, 45.0, 5.0, 1.0, 1.0, placed, view)
+        assert not any(labels.overlap(box, other) for other in placed), (x, box, placed)
+        assert 0.0 <= box[0] and box[2] <= 100.0 and 0.0 <= box[1] and box[3] <= 100.0
+        placed.append(box)
+
+
 @given(st.floats(-1e6, 1e6), st.floats(1e-6, 1e6))
 def test_colour_key_ticks_are_few_and_round(lo, span):
     ticks = round_ticks(lo, lo + span)

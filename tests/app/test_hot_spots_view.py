@@ -139,6 +139,9 @@ def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
     assert y[0] > y[1] > y[2]  # the peak falls as the radius grows
     assert part.table.rowCount() == 3
     assert "corner radius (m)" in part.plot.getAxis("bottom").labelText
+    copied = part.table.as_text().splitlines()  # the radius is the first column; no row headings
+    assert copied[0].startswith("corner radius (m)\t") and [line.split("\t")[0] for line in copied[1:]] == [
+        "0.01", "0.02", "0.03"]
     path = tmp_path / "sweep.csv"
     part.write_csv(str(path))
     rows = list(csv.DictReader(io.StringIO(path.read_text())))
@@ -190,3 +193,16 @@ def test_window_runs_the_section_when_its_tab_is_shown_and_marks_it_stale(window
     assert column(view, "electrode")["status"] == "ample"
     window.document.apply(window.document.model.with_potentials({"electrode": 50e3}), "Lower the potential")
     assert view.status.text() == STALE_TEXT and not view.table.isEnabled()
+
+
+def test_default_radii_of_every_sample_conductor_with_corners_are_accepted():
+    # the busbar's enclosure once got 4.1 ... 72 mm from its 206 mm box; its wall refused them all
+    from app.files import project_files as files
+    from app.panels.corner_radius_view import default_radii
+
+    model = solver.load_project(files.SAMPLES_DIR / "busbar_enclosure.json")
+    for name in ("enclosure", "L1"):
+        radii = default_radii(model, name)
+        assert len(radii) == 5 and radii == sorted(radii)
+        for r in radii:
+            solver.round_sharp_corners(model, r * model.metres_per_unit, [name], replace_radius=True)

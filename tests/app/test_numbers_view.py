@@ -46,3 +46,14 @@ def test_figures_carry_the_digits_their_error_supports_and_no_exponents(view, re
     assert max(figures) == digits_for(err)  # no more figures than the error supports
     assert f"{digits_for(err)} significant digits" in view.error_label.text()
     assert "%" in view.error_label.text() and "e-" not in view.error_label.text()
+
+
+def test_no_empty_table_frames_before_a_solve(qtbot, results):
+    v = MatricesView()
+    qtbot.addWidget(v)
+    v.show()
+    tables = (v.maxwell, v.mutual, v.conductors)
+    assert not any(t.isVisible() for t in tables) and not any(b.isVisible() for b in v.copy_buttons)
+    assert v.status.isVisible() and "Solve" in v.status.text()
+    v.show_results(results)
+    assert all(t.isVisible() and t.columnCount() == 3 for t in tables) and all(b.isVisible() for b in v.copy_buttons)

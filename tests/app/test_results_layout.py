@@ -180,6 +180,8 @@ def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
     assert panel.summary.state == "stale" and panel.stale_strip.isVisible()
     assert dict(panel.summary.rows())["Results"] == "out of date"
     assert "out of date: APPROACHING" in line.headline.text()  # the verdict no longer speaks at full strength
+    assert hv_twin.live_figures.text().endswith("(out of date)")  # the status bar's C' and peak too
+    assert colours.STALE_TEXT in hv_twin.live_figures.styleSheet()
     for title, page in panel._pages.items():
         assert dimmed(page), title
     for plot in (panel.boundary.rows[0][0], panel.probe.potential_plot.plotItem):
@@ -188,6 +190,7 @@ def test_every_section_is_marked_when_the_drawing_changes(hv_twin, qtbot):
     settle(qtbot)
     assert panel.summary.state == "fresh" and not any(dimmed(page) for page in panel._pages.values())
     assert "out of date" not in line.headline.text() and panel.boundary.rows[0][0].opacity() == 1.0
+    assert "out of date" not in hv_twin.live_figures.text() and hv_twin.live_figures.text().startswith("C'(")
 
 
 def test_a_new_drawing_does_not_show_the_old_results_as_current(hv_twin, qtbot):
@@ -237,3 +240,61 @@ def test_a_long_caution_headline_is_never_clipped(window, qtbot, size):
     assert line.isVisible() and "EXCEEDED" in line.headline.text() and len(line.headline.text()) > 150
     assert line.headline.height() >= line.headline.heightForWidth(line.headline.width())
     assert problems_in(window.results_panel.summary, f"{size} summary") == []
+
+
+
+def fill_on_demand_views(window, qtbot, *, cross_check: bool) -> None:
+    """The busbar with the views that fill on demand filled: a corner-radius sweep of L1 (five
+    radii: plot, table and status) and, with ``cross_check``, a cross-check of every conductor."""
+    window.commands.open(files.SAMPLES_DIR / "busbar_enclosure.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    panel = window.results_panel
+    part = panel.hot_spots.sweep_part
+    part.conductor_box.setCurrentText("L1")
+    part.run_sweep()
+    runners = [part.runner]
+    if cross_check:
+        panel.cross_check.compute()
+        runners.append(panel.cross_check.runner)
+    for runner in runners:
+        qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=180000)
+    settle(qtbot)
+    assert part.sweep is not None and part.table.isVisibleTo(panel.hot_spots) and part.table.rowCount() == 5
+    if cross_check:
+        assert panel.cross_check.checks and panel.cross_check.table.columnCount() == 3
+
+
+def filled_problems(window, qtbot, size, titles) -> list[str]:
+    """The walk over the filled sections at ``size``, each scrolled to its filled table."""
+    panel = window.results_panel
+    shown = {"High voltage": panel.hot_spots.sweep_part.table, "Cross-check": panel.cross_check.table}
+    window.resize(*size)
+    settle(qtbot)
+    found = []
+    for title in titles:
+        panel.show_section(title)
+        settle(qtbot)
+        panel._pages[title].ensureWidgetVisible(shown[title])
+        settle(qtbot)
+        found += problems_in(panel, f"filled {size} {title}")
+    return found
+
+
+@pytest.mark.parametrize("size", ((1366, 768), (1024, 640)))
+def test_a_filled_corner_radius_sweep_fits(window, qtbot, size):
+    """After a sweep (plot, five-row table, status): no overlap, no sideways scrolling (the table
+    was 1 px too wide with the radius as a row heading), no clipped heading."""
+    fill_on_demand_views(window, qtbot, cross_check=False)
+    found = filled_problems(window, qtbot, size, ["High voltage"])
+    assert found == [], "\n".join(found)
+
+
+@pytest.mark.slow
+def test_filled_sweep_and_cross_check_fit_at_every_size(window, qtbot):
+    """After a corner-radius sweep and a cross-check run (about 15 s): both filled sections at
+    every window size."""
+    fill_on_demand_views(window, qtbot, cross_check=True)
+    found = [p for size in SIZES for p in filled_problems(window, qtbot, size, ["High voltage", "Cross-check"])]
+    assert found == [], "\n".join(found)

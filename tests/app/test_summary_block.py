@@ -11,6 +11,7 @@ from app import colours, edits
 from app.files import project_files as files
 from app.panels.plots import SPIKE_CLIP, clip_spikes
 from app.panels.summary_block import summary_rows
+from app.units import format_field
 from solver.cli.formatting import digits_for
 
 
@@ -102,3 +103,21 @@ def test_charge_plot_has_one_row_per_conductor_in_its_colour(window, qtbot):
     assert len(colours_used) == 3
     plot.choice.setCurrentIndex(2)  # one conductor alone
     assert len(plot.rows) == 1
+
+
+def test_the_peak_row_gives_the_largest_field_even_when_no_peak_is_graded():
+    # three traces at 1 V: every peak "not assessed"; the row once named the first trace's 488 kV/m
+    # while the middle trace carries 1.06 MV/m (and the status bar said so)
+    model = solver.load_project(files.SAMPLES_DIR / "three_traces_over_ground.json").with_mesh_density("coarse")
+    solution = solver.solve(model)
+    verdict = solver.judge_solution(solution, solver.air_conditions_of(model))
+    assert {v.status for v in verdict.verdicts} == {"not assessed"}
+    largest = max(verdict.verdicts, key=lambda v: v.peak_field_V_per_m)
+    assert largest.where == "'trace_mid'" and largest is not verdict.verdicts[0]
+    rows = dict(summary_rows("fresh", solution, verdict))
+    peak = rows["Peak |E| (solve mesh)"]
+    # the traces' peaks sit at their sharp edges: mesh values, and the row says so
+    assert largest.at_sharp_corner
+    assert peak.startswith(f"{format_field(largest.peak_field_V_per_m)} (mesh value at a sharp corner) on 'trace_mid', "
+                           "no margin, not assessed")
+    assert "deciding" not in peak  # one peak, named once
