@@ -39,13 +39,14 @@ Models with dielectric regions, and models large enough for the fast path, are s
 
 from __future__ import annotations
 
+import contextlib
 import logging
 from dataclasses import dataclass
 
 import numpy as np
 import scipy.linalg
 
-from solver.bem.blas_threads import blas_threads_for
+from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
 from solver.bem.fast_solve import solve_if_large
@@ -110,7 +111,18 @@ class GeometryEditSolver:
 
     def solve(self, model: Model, settings: MeshSettings | None = None,
               cancel: CancelCallback | None = None) -> Solution:
-        """Solve ``model`` (no error estimate), reusing the previous solve where possible."""
+        """Solve ``model`` (no error estimate), reusing the previous solve where possible.
+
+        A solve that raises (cancelled, an invalid model) forgets what was kept, as the
+        previous matrix may be partly written over: the next model is solved afresh.
+        """
+        try:
+            return self._solve(model, settings, cancel)
+        except BaseException:
+            self._previous, self._far, self._full, self._solves, self._last = None, None, None, None, None
+            raise
+
+    def _solve(self, model: Model, settings: MeshSettings | None, cancel: CancelCallback | None) -> Solution:
         settings = settings or MeshSettings.for_density(model.mesh_density)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
         self.reused_solves = self.bordered = False
@@ -139,7 +151,8 @@ class GeometryEditSolver:
             prev = self._previous
             block = ReusedBlock(prev.matrix, kept_new, kept_old, self._far, self.low_rank, anchor,
                                 (prev.mesh.starts / prev.ell, prev.mesh.ends / prev.ell))
-        system = build_system(model, mesh, block)
+        with one_blas_thread() if block is not None else contextlib.nullcontext():
+            system = build_system(model, mesh, block)  # thin products U @ V of the low-rank blocks
         self._far = None if block is None else block.far
         self.reused_self_block = block is not None and block.moved_rigidly
         linear_solve = None
@@ -243,21 +256,25 @@ class GeometryEditSolver:
         starts, ends = system.sources.starts[p], system.sources.ends[p]
         ell, plane = system.length_scale_m, system.plane
         known = self._solves
-        with blas_threads_for(len(a)):
-            if isinstance(known, LUSolves) and known.matches(starts, ends, ell, plane):
-                solves: LUSolves | BorderedSolves = known
-                self.reused_factor = True
-            elif (bordered := self._bordered(a, p, q, far, full_parts)) is not None:
+        if isinstance(known, LUSolves) and known.matches(starts, ends, ell, plane):
+            solves: LUSolves | BorderedSolves = known
+            self.reused_factor = True
+        else:
+            with one_blas_thread():  # solves with the full factors, no factorisation
+                bordered = self._bordered(a, p, q, far, full_parts)
+            if bordered is not None:
                 solves = bordered
                 self.reused_factor = self.bordered = True
             else:
                 self._full = None  # its unchanged block is no longer this one's: free its memory
-                solves = LUSolves(scipy.linalg.lu_factor(block(a, p, p), check_finite=False), starts, ends, ell, plane)
-            self._solves = solves
-            if len(q) == 0:
-                return solves.solve
+                with blas_threads_for(len(a)):
+                    lu = scipy.linalg.lu_factor(block(a, p, p), check_finite=False)
+                solves = LUSolves(lu, starts, ends, ell, plane)
+        self._solves = solves
+        if len(q) == 0:
+            return solves.solve
         if far is not None:
-            with blas_threads_for(len(q)):
+            with one_blas_thread():
                 return self._far_solver(a, p, q, solves, far)
         with blas_threads_for(len(a)):
             a_pq, a_qp = block(a, p, q), block(a, q, p)
@@ -265,7 +282,7 @@ class GeometryEditSolver:
             lu_s = scipy.linalg.lu_factor(block(a, q, q) - a_qp @ y, check_finite=False)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
-            with blas_threads_for(len(a)):
+            with one_blas_thread():
                 yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - a_qp @ yb, check_finite=False)
                 x = np.empty_like(b)
@@ -326,7 +343,7 @@ class GeometryEditSolver:
         lu_s = scipy.linalg.lu_factor(s, check_finite=False, overwrite_a=True)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
-            with blas_threads_for(len(q)):
+            with one_blas_thread():
                 yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - from_kept(yb), check_finite=False)
                 x = np.empty_like(b)

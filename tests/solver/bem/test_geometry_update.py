@@ -178,3 +178,39 @@ def test_a_potential_change_is_superposed_and_a_drag_goes_on_after_it():
     moved = _moved(other, "L1", 1.0, 0.0)  # geometry: not superposable
     _assert_same(edits.solve(moved), solver.solve(moved, estimate_error=False))
     assert not edits.superposed and edits.far_blocks and edits.bordered
+
+
+def test_editing_another_conductor_after_a_drag_equals_a_fresh_solve():
+    """A drag step leaves its low-rank blocks multiplied out later (``far.deferred``); an edit
+    of another conductor reads them from the matrix, so they must be written first."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    model = _moved(model, "L1", 1.0, 0.0)
+    edits.solve(model)
+    assert edits.far_blocks and edits._far is not None and edits._far.deferred
+    model = _moved(model, "L2", -1.0, 0.5)
+    edited = edits.solve(model)
+    assert edits.reused_panels > 0 and edits.far_blocks
+    _assert_same(edited, solver.solve(model, estimate_error=False))
+    model = _moved(model, "L1", 0.5, 0.0)
+    edited = edits.solve(model)
+    _assert_same(edited, solver.solve(model, estimate_error=False))
+
+
+def test_a_cancelled_edit_leaves_the_next_solve_right():
+    """The cancelled solve has written over part of the previous matrix: the solver forgets it."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    moved = _moved(model, "L1", 1.0, 0.0)
+    try:
+        edits.solve(moved, cancel=lambda: True)  # asked first after the matrix is assembled
+    except solver.errors.SolveCancelled:
+        pass
+    else:
+        raise AssertionError("the solve was not cancelled")
+    again = _moved(model, "L1", 1.0, 1.0)
+    edited = edits.solve(again)
+    assert edits.reused_panels == 0  # solved afresh
+    _assert_same(edited, solver.solve(again, estimate_error=False))
