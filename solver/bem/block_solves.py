@@ -85,14 +85,18 @@ class BorderedSolves:
     ``p_full``: the panels P in the full system (in the order of P); ``q_old``: the other
     panels of the full system (the edited conductors' old panels); ``disc`` must hold them.
     ``usable`` is False (and the solves must not be used) when I - W is ill-conditioned.
+    ``moment_map``: C when ``u`` is compressed (U = Q, moments C @ V; see
+    :func:`solver.bem.far_blocks.compressed_far_evaluation`).
     """
 
     def __init__(self, full: FullFactor, p_full: np.ndarray, q_old: np.ndarray, disc: Separation,
-                 u: np.ndarray, a_px: np.ndarray) -> None:
+                 u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None) -> None:
         self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
         size = full.lu[0].shape[0]
         self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
         self.v_old = panel_moments(disc, full.starts[q_old], full.ends[q_old], full.plane)
+        if moment_map is not None:  # U is compressed (far_blocks.compressed_far_evaluation)
+            self.v_old = moment_map @ self.v_old
         self.a_px = np.array(a_px)
         columns = np.hstack([u, self.a_px])
         y = self._full_solve(columns)

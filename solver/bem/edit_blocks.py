@@ -15,7 +15,7 @@ import numpy as np
 from solver.bem.assembly import single_layer_potential_matrix
 from solver.bem.far_blocks import (
     Separation,
-    far_evaluation,
+    compressed_far_evaluation,
     local_coefficients,
     near_evaluation,
     panel_moments,
@@ -68,6 +68,7 @@ class FarParts:
     anchored: bool  # the disc also holds the anchor panels (see ReusedBlock)
     kept: np.ndarray  # indices of the unchanged panels
     deferred: bool  # A_PE and A_EP are not yet written into the matrix (see ReusedBlock)
+    moment_map: np.ndarray  # C of far_blocks.compressed_far_evaluation: V_E = C @ panel moments
 
     def write_into(self, matrix: np.ndarray) -> None:
         """Write A_PE and A_EP (the products of the low-rank factors) into ``matrix``."""
@@ -195,7 +196,7 @@ class ReusedBlock:
         if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
             sep = earlier.disc
             anchored = earlier.anchored and anchor is not None and sep.holds(*anchor)
-            u_pe, v_ep = earlier.kept_from_edited[0], earlier.edited_from_kept[1]
+            u_pe, v_ep, moment_map = earlier.kept_from_edited[0], earlier.edited_from_kept[1], earlier.moment_map
         else:
             anchored = anchor is not None
             if anchor is not None:
@@ -206,7 +207,8 @@ class ReusedBlock:
                 sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
             if not sep.usable:
                 return None
-            u_pe, v_ep = far_evaluation(sep, targets[keep], plane), local_coefficients(sep, p_starts, p_ends, plane)
+            u_pe, moment_map = compressed_far_evaluation(sep, targets[keep], plane)
+            v_ep = local_coefficients(sep, p_starts, p_ends, plane)
         a_ee = None
         if earlier is not None:
             a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
@@ -216,9 +218,10 @@ class ReusedBlock:
         self.moved_rigidly = a_ee is not None
         if a_ee is None:
             a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
-        return FarParts(other, (u_pe, panel_moments(sep, e_starts, e_ends, plane)),
+        return FarParts(other, (u_pe, moment_map @ panel_moments(sep, e_starts, e_ends, plane)),
                         (near_evaluation(sep, targets[other], plane), v_ep),
-                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored, keep, deferred)
+                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored, keep, deferred,
+                        moment_map)
 
 
 def put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:

@@ -305,7 +305,8 @@ class GeometryEditSolver:
         known = self._solves
         if isinstance(known, BorderedSolves) and known.serves(far.disc, p_full, a_px):
             return known
-        solves = BorderedSolves(self._full, p_full, q_old, far.disc, far.kept_from_edited[0], a_px)
+        solves = BorderedSolves(self._full, p_full, q_old, far.disc, far.kept_from_edited[0], a_px,
+                                far.moment_map)
         return solves if solves.usable else None
 
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
