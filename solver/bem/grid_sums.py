@@ -100,20 +100,46 @@ def _lagrange_weights(f: np.ndarray) -> np.ndarray:
     return w
 
 
-def _wrapped(n: int, size: int, step: float) -> np.ndarray:
-    """Offsets (in length units) of a circular axis of ``size`` holding offsets -(n-1) ... n-1;
-    NaN where no offset is held."""
-    idx = np.arange(size)
-    off = np.where(idx < n, idx, idx - size).astype(float)
-    off[(idx >= n) & (idx <= size - n)] = np.nan
+def _held(n: int, size: int, step: float) -> np.ndarray:
+    """Offsets 0 ... size / 2 (length units) of a circular axis of even ``size`` holding
+    offsets -(n-1) ... n-1; NaN where no offset is held."""
+    off = np.arange(size // 2 + 1, dtype=float)
+    off[off >= n] = np.nan
     return off * step
+
+
+def _even_length(n: int) -> int:
+    """The least fast FFT length >= 2 n - 1 that is even (the symmetric transforms below)."""
+    size = scipy.fft.next_fast_len(2 * n - 1, real=True)
+    while size % 2:
+        size = scipy.fft.next_fast_len(size + 1, real=True)
+    return size
+
+
+def _symmetric_transform(values: np.ndarray, axis: int, odd: bool) -> np.ndarray:
+    """The DFT along ``axis`` of the circular sequence of even length 2 (m - 1) whose first m
+    entries are ``values`` (entry m - 1 zero), extended evenly (v[N - k] = v[k]) or oddly
+    (v[N - k] = -v[k]): the first m frequencies, real for an even sequence (a DCT-I) and
+    -i times a real DST-I for an odd one (entry 0 unused, zero)."""
+    if not odd:
+        return scipy.fft.dct(values, type=1, axis=axis)
+    inner = np.take(values, np.arange(1, values.shape[axis] - 1), axis=axis)
+    out = np.zeros(values.shape)
+    index = [slice(None)] * values.ndim
+    index[axis] = slice(1, values.shape[axis] - 1)
+    out[tuple(index)] = scipy.fft.dst(inner, type=1, axis=axis)
+    return out
 
 
 @lru_cache(maxsize=4)
 def _kernel_spectra(nx: int, ny: int, hx: float, hy: float, shape: tuple[int, int]):
     """rfft2 of ln r, d/dx ln r and d/dy ln r at the lattice offsets (0 at the origin and where
-    no offset is held), laid out circularly on ``shape`` for a linear convolution."""
-    dx, dy = np.meshgrid(_wrapped(nx, shape[1], hx), _wrapped(ny, shape[0], hy))
+    no offset is held), laid out circularly on ``shape`` (even sides) for a linear convolution.
+
+    ln r is even in x and y, d/dx ln r odd in x and even in y (d/dy the other way), so each
+    spectrum is a real cosine or sine transform of the quarter of offsets >= 0 (a quarter of
+    the kernel values and of the transform work; the lattice kernels are the same)."""
+    dx, dy = np.meshgrid(_held(nx, shape[1], hx), _held(ny, shape[0], hy))
     r2 = dx * dx + dy * dy
     unused = ~np.isfinite(r2) | (r2 == 0)
     r2[unused] = 1.0
@@ -121,7 +147,17 @@ def _kernel_spectra(nx: int, ny: int, hx: float, hy: float, shape: tuple[int, in
     dy[unused] = 0.0
     log = 0.5 * np.log(r2)
     log[unused] = 0.0
-    return tuple(scipy.fft.rfft2(k) for k in (log, dx / r2, dy / r2))
+    rows = shape[0] // 2
+
+    def spectrum(kernel: np.ndarray, odd_x: bool, odd_y: bool) -> np.ndarray:
+        half = _symmetric_transform(_symmetric_transform(kernel, 1, odd_x), 0, odd_y)
+        sign = -1.0 if odd_y else 1.0
+        full = np.concatenate([half, sign * half[rows - 1:0:-1]], axis=0)  # frequencies N - k
+        if odd_x != odd_y:
+            return -1j * full  # one sine transform: -i times real
+        return full if not odd_x else -full + 0j
+
+    return spectrum(log, False, False), spectrum(dx / r2, True, False), spectrum(dy / r2, False, True)
 
 
 @lru_cache(maxsize=4)
@@ -246,7 +282,7 @@ def grid_potential_and_gradient_sums(
     ).reshape(lat.ny, lat.nx)
 
     # 2. convolve by FFT
-    shape = (scipy.fft.next_fast_len(2 * lat.ny - 1, real=True), scipy.fft.next_fast_len(2 * lat.nx - 1, real=True))
+    shape = (_even_length(lat.ny), _even_length(lat.nx))
     spectra = _kernel_spectra(lat.nx, lat.ny, hx, hy, shape)
     # rfft2 and irfft2 one axis at a time: the charge fills only the first lat.ny of the padded
     # rows and only the first lat.ny rows of the result are wanted, so the row transforms of
