@@ -229,7 +229,8 @@ def is_regular(axis: np.ndarray) -> bool:
 
 
 def grid_potential_and_gradient_sums(
-    x: np.ndarray, y: np.ndarray, starts: np.ndarray, ends: np.ndarray, strengths: np.ndarray
+    x: np.ndarray, y: np.ndarray, starts: np.ndarray, ends: np.ndarray, strengths: np.ndarray,
+    skip: np.ndarray | None = None,
 ) -> tuple[np.ndarray, np.ndarray] | None:
     """S and grad S at the nodes of the grid x (nx,) by y (ny,), or None when the lattice
     covering the grid and the sources would be too large (sum another way then).
@@ -239,6 +240,8 @@ def grid_potential_and_gradient_sums(
     x, y : evenly spaced axes (length unit of the panels).
     starts, ends : (n, 2) panel ends.
     strengths : (n,) density on each panel (any unit).
+    skip : (ny, nx) bool, optional. Nodes whose values are not wanted (inside metal, masked
+        by the caller): they get no exact near-field terms, and their values are not the sums.
 
     Returns
     -------
@@ -318,22 +321,28 @@ def grid_potential_and_gradient_sums(
     data = np.hstack([moments.real, moments.imag, patches.reshape(n_cells, n_patch * n_patch)])
     correction = data @ operator  # (cells, 3 window)
     size = lat.nx * lat.ny
-    layer = (np.arange(3) * size)[:, None]
 
-    core_i, core_j = ti[core], tj[core]
-    pair_i = (home_i[:, None] + core_i[None, :]).ravel()
-    pair_j = (home_j[:, None] + core_j[None, :]).ravel()
-    sub = np.repeat(np.arange(len(qs)), len(core_i))
-    tgt = np.column_stack([lat.x0 + pair_i * hx, lat.y0 + pair_j * hy])
-    exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
-    core_target = (pair_j * lat.nx + pair_i)[None, :] + layer
-    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :]))[:, None, :] + layer[None]
-    total = np.bincount(
-        np.concatenate([window_target.ravel(), core_target.ravel()]),
-        np.concatenate([correction.ravel(), exact.ravel()]), minlength=3 * size,
-    ).reshape(3, lat.ny, lat.nx)
-    s, sx, sy = s + total[0], sx + total[1], sy + total[2]
-
+    # corrections and exact terms only at wanted grid nodes (not at lattice nodes outside the
+    # grid, nor at skipped ones): fewer terms to compute and to add up
+    wanted = np.zeros((lat.ny, lat.nx), dtype=bool)
     rows = slice(lat.grid_j0, lat.grid_j0 + len(y))
     cols = slice(lat.grid_i0, lat.grid_i0 + len(x))
-    return s[rows, cols], np.stack([sx[rows, cols], sy[rows, cols]], axis=-1)
+    wanted[rows, cols] = True if skip is None else ~np.asarray(skip, dtype=bool).reshape(len(y), len(x))
+    wanted = wanted.ravel()
+    core_i, core_j = ti[core], tj[core]
+    core_target = ((home_j[:, None] + core_j[None, :]) * lat.nx + (home_i[:, None] + core_i[None, :])).ravel()
+    sub = np.repeat(np.arange(len(qs)), len(core_i))
+    kept = wanted[core_target]
+    core_target, sub = core_target[kept], sub[kept]
+    tgt = np.column_stack([lat.x0 + (core_target % lat.nx) * hx, lat.y0 + (core_target // lat.nx) * hy])
+    exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
+    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :])).ravel()
+    kept = wanted[window_target]
+    per_layer = correction.reshape(n_cells, 3, len(ti)).transpose(1, 0, 2).reshape(3, -1)[:, kept]
+    target = np.concatenate([window_target[kept], core_target])
+    s, sx, sy = (
+        layer[rows, cols] + np.bincount(target, np.concatenate([per_layer[k], exact[k]]), minlength=size)
+        .reshape(lat.ny, lat.nx)[rows, cols]
+        for k, layer in enumerate((s, sx, sy))
+    )
+    return s, np.stack([sx, sy], axis=-1)
