@@ -101,6 +101,7 @@ class GeometryEditSolver:
         self._full: FullFactor | None = None
         self._far: FarParts | None = None
         self._last: Solution | None = None
+        self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
         self.reused_panels = 0
@@ -113,13 +114,17 @@ class GeometryEditSolver:
               cancel: CancelCallback | None = None) -> Solution:
         """Solve ``model`` (no error estimate), reusing the previous solve where possible.
 
-        A solve that raises (cancelled, an invalid model) forgets what was kept, as the
-        previous matrix may be partly written over: the next model is solved afresh.
+        A solve cancelled (or failing) after its system is assembled keeps that system as the
+        previous one (the next edit reuses it, as a drag released while its last position is
+        being solved does); one that raises while the previous matrix is being written over
+        forgets what was kept, and the next model is solved afresh.
         """
+        self._consistent = True
         try:
             return self._solve(model, settings, cancel)
         except BaseException:
-            self._previous, self._far, self._full, self._solves, self._last = None, None, None, None, None
+            if not self._consistent:
+                self._previous, self._far, self._full, self._solves, self._last = None, None, None, None, None
             raise
 
     def _solve(self, model: Model, settings: MeshSettings | None, cancel: CancelCallback | None) -> Solution:
@@ -143,28 +148,29 @@ class GeometryEditSolver:
             self._last = large
             return large
         kept_new, kept_old = self._unchanged(model, mesh)
-        block, full_parts = None, None
+        block, full_parts, prev = None, None, self._previous
         if len(kept_new):
-            assert self._previous is not None
+            assert prev is not None
             full_parts = self._in_full(model, mesh, kept_new)
             anchor = None if full_parts is None else full_parts[2]
-            prev = self._previous
             block = ReusedBlock(prev.matrix, kept_new, kept_old, self._far, self.low_rank, anchor,
                                 (prev.mesh.starts / prev.ell, prev.mesh.ends / prev.ell))
+            self._consistent = False  # the previous matrix is being written over
         with one_blas_thread() if block is not None else contextlib.nullcontext():
             system = build_system(model, mesh, block)  # thin products U @ V of the low-rank blocks
         self._far = None if block is None else block.far
+        self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
+                                   system.plane, system.matrix)
+        self._consistent = True
         self.reused_self_block = block is not None and block.moved_rigidly
         linear_solve = None
-        if block is not None and self._previous is not None and system.length_scale_m == self._previous.ell:
+        if block is not None and prev is not None and system.length_scale_m == prev.ell:
             self.reused_panels = len(kept_new)
             self.far_blocks = block.far is not None
             linear_solve = self._block_solver(system, kept_new, block.far, full_parts)
         if linear_solve is None:
             linear_solve = self._fresh_solver(system)
         solution = solve_system(system, cancel, linear_solve)
-        self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
-                                   system.plane, system.matrix)
         self._last = solution
         return solution
 
