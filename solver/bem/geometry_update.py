@@ -49,6 +49,7 @@ import scipy.linalg
 from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
+from solver.bem.far_blocks import compressed_far_evaluation, separation
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -267,7 +268,7 @@ class GeometryEditSolver:
             self.reused_factor = True
         else:
             with one_blas_thread():  # solves with the full factors, no factorisation
-                bordered = self._bordered(a, p, q, far, full_parts)
+                bordered = self._bordered(system, p, q, far, full_parts)
             if bordered is not None:
                 solves = bordered
                 self.reused_factor = self.bordered = True
@@ -298,21 +299,31 @@ class GeometryEditSolver:
 
         return linear_solve
 
-    def _bordered(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, far: FarParts | None,
+    def _bordered(self, system: BoundarySystem, p: np.ndarray, q: np.ndarray, far: FarParts | None,
                   full_parts) -> BorderedSolves | None:
-        """Solves with A_PP from the last fresh solve's factors, when the expansion disc holds
-        the edited conductors' panels of then and now and the extra columns are the same."""
-        if far is None or not far.anchored or full_parts is None or self._full is None:
+        """Solves with A_PP from the last fresh solve's factors, when the extra columns are the
+        same: on the expansion disc when it holds the edited conductors' panels of then and
+        now, else on a disc around those of then alone."""
+        if far is None or full_parts is None or self._full is None:
             return None
-        p_full, q_old, _ = full_parts
+        a = system.matrix
+        p_full, q_old, (old_starts, old_ends) = full_parts
         a_px = block(a, p, q[len(far.edited):])
         if not np.array_equal(a_px, self._full.extra_columns[p_full]):
             return None
         known = self._solves
-        if isinstance(known, BorderedSolves) and known.serves(far.disc, p_full, a_px):
+        if isinstance(known, BorderedSolves) and known.serves(self._full, p_full, a_px):
             return known
-        solves = BorderedSolves(self._full, p_full, q_old, far.disc, far.kept_from_edited[0], a_px,
-                                far.moment_map)
+        if far.anchored:
+            disc, u, moment_map = far.disc, far.kept_from_edited[0], far.moment_map
+        else:  # the conductor went far from where it was: a disc of its own for its old panels
+            p_starts, p_ends = system.sources.starts[p], system.sources.ends[p]
+            disc = separation(old_starts, old_ends, p_starts, p_ends, system.plane)
+            if not disc.usable:
+                return None
+            u, moment_map = compressed_far_evaluation(disc, system.mesh.midpoints[p] / system.length_scale_m,
+                                                      system.plane)
+        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map)
         return solves if solves.usable else None
 
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,

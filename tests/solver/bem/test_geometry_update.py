@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 import solver
-from solver import Circle, Conductor, GroundPlane, Model, Rectangle
+from solver import Circle, Conductor, GroundPlane, Model, Rectangle, Ring
 from solver.bem.geometry_update import GeometryEditSolver
 
 
@@ -216,3 +216,21 @@ def test_a_cancelled_edit_leaves_the_next_solve_right():
         edited = edits.solve(again)
         assert edits.reused_panels > 0
         _assert_same(edited, solver.solve(again, estimate_error=False))
+
+
+def test_a_conductor_dragged_far_from_where_it_was_still_uses_the_fresh_factors():
+    """The disc around the wire's panels of then and now would reach the other wire: the
+    solves with A_PP come from the fresh solve's factors on a disc around its old panels
+    alone, and serve the next steps too (no factorisation)."""
+    model = Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("a", (Circle((-10.0, 0.0), 1.0),), potential_V=100.0),
+        Conductor("b", (Circle((10.0, 0.0), 1.0),), role="reference"),
+        Conductor("shield", (Ring((0.0, 5.0), 28.0, 30.0),), potential_V=-20.0),
+    ))
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    for dx, dy in ((20.0, 18.0), (0.5, 0.0), (-3.0, 2.0)):
+        model = _moved(model, "a", dx, dy)
+        edited = edits.solve(model)
+        assert edits.far_blocks and edits.bordered and not edits._far.anchored
+        _assert_same(edited, solver.solve(model, estimate_error=False))
