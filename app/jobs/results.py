@@ -13,6 +13,7 @@ that conductor's radius.
 from __future__ import annotations
 
 import logging
+import time
 from collections import OrderedDict
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -39,6 +40,8 @@ class Results:
     equivalent_radius_m : conductor name -> equivalent radius, metres.
     complete : False for the first stage (solution and maps; no error estimate, field lines
         or radii yet).
+    seconds : the first stage's wall-clock seconds ("solve", "map") and when it began and
+        ended ("began", "ended": :func:`time.perf_counter` readings), for :mod:`app.bench_window`.
     """
 
     model: Model
@@ -47,6 +50,7 @@ class Results:
     field_lines: tuple = ()
     equivalent_radius_m: dict = field(default_factory=dict)
     complete: bool = True
+    seconds: dict = field(default_factory=dict)
 
 
 def view_box(model: Model, margin: float = 0.35) -> tuple[float, float, float, float]:
@@ -146,6 +150,7 @@ def compute_first(
     Raises the solver's errors (SolverError subclasses) unchanged; SolveCancelled on cancel.
     """
     report = _reporter(progress, cancel, 0.0, 1.0)
+    started = time.perf_counter()
     if edits is None:
         solution = solver.solve(
             model, estimate_error=False, progress=lambda f, m: report(0.6 * f, m), cancel=cancel,
@@ -153,13 +158,16 @@ def compute_first(
     else:
         report(0.0, "Solving (reusing the parts that did not change)")
         solution = edits.solve(model, cancel=cancel)
+    solved = time.perf_counter()
     report(0.6, "Computing the potential and field maps")
     grid = None
     if grid_points > 0:
         x_m, y_m = grid_axes(model, grid_points)
         grid = solver.evaluate_on_grid(solution, x_m, y_m)
+    ended = time.perf_counter()
+    seconds = {"solve": solved - started, "map": ended - solved, "began": started, "ended": ended}
     report(1.0, "Solution and maps ready")
-    return Results(model, solution, grid, complete=False)
+    return Results(model, solution, grid, complete=False, seconds=seconds)
 
 
 def compute_rest(
@@ -188,7 +196,7 @@ def compute_rest(
         except solver.SolverError as exc:  # shown as "n/a" with the reason logged
             logger.warning("equivalent radius of %s: %s", conductor.name, exc)
     report(1.0, "Done")
-    return Results(first.model, solution, first.grid, lines, found, complete=True)
+    return Results(first.model, solution, first.grid, lines, found, complete=True, seconds=first.seconds)
 
 
 def compute_results(

@@ -201,15 +201,26 @@ def assemble_system(
     strengths on conductor panels (see :func:`free_charge_operator`); ``plane`` is the
     ground-plane height divided by ``ell`` (metres), or None. ``panel_block`` replaces
     :func:`single_layer_potential_matrix` for the conductor rows (same arguments and values;
-    :mod:`solver.bem.geometry_update` passes one that reuses blocks of an earlier matrix).
+    :mod:`solver.bem.geometry_update` passes one that reuses blocks of an earlier matrix); when
+    it has a ``writable_matrix(size)`` method returning a (size, size) array (or None), the
+    system is assembled in that array and the block may be its top-left corner, written in
+    place (no copy of the matrix).
     """
     nc, ni = mesh.n_panels, interfaces.n_panels
     floating = tuple(k for k, role in enumerate(roles) if role == "floating")
     layout = SystemLayout(nc, ni, floating, plane is None)
     n = layout.n_panels
-    a = np.zeros((layout.size, layout.size))
+    writable = getattr(panel_block, "writable_matrix", None)
+    a = None if writable is None else writable(layout.size)
+    if a is None:
+        a = np.zeros((layout.size, layout.size))
+    else:  # an earlier matrix the block is written into: clear what the block does not write
+        a[nc:, :] = 0.0
+        a[:nc, n:] = 0.0
     mids = mesh.midpoints / ell
-    a[:nc, :n] = (panel_block or single_layer_potential_matrix)(mids, sources.starts, sources.ends, plane)
+    conductor_rows = (panel_block or single_layer_potential_matrix)(mids, sources.starts, sources.ends, plane)
+    if not _is_corner_view(conductor_rows, a):
+        a[:nc, :n] = conductor_rows
     if ni:
         a[:nc, :n] *= sources.weights[None, :]
     d_int = interface_rows(interfaces, sources, nc, ell, plane) if ni else np.zeros((0, n))
@@ -224,6 +235,11 @@ def assemble_system(
         a[:nc, -1] = 1.0
         a[-1, :n] = sources.curve_lengths
     return a, layout, d_int
+
+
+def _is_corner_view(block: np.ndarray, a: np.ndarray) -> bool:
+    """True when ``block`` is ``a[:rows, :cols]`` itself (the same memory, nothing to copy)."""
+    return (block.base is a and block.ctypes.data == a.ctypes.data and block.strides == a.strides)
 
 
 def right_hand_sides(

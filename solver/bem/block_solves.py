@@ -12,7 +12,10 @@ Two ways, one interface (``solve(x)`` = A_PP^-1 x, ``z_for(U, A_PX)`` = A_PP^-1 
   and with x = the columns of [U | A_PX] this gives T = A_PP^-1 [U | A_PX] from
       T (I - W) = Y_P,   W = diag(V0, I) Y_Q,   Y = A0^-1 [[U | A_PX]; 0]
   (r + |X| solves with A0's factors and an (r + |X|)-square system). The first edit of a
-  conductor after a fresh solve then costs about a tenth of factorising A_PP.
+  conductor after a fresh solve then costs about a tenth of factorising A_PP. The disc needs
+  to hold only the edited conductor's panels of the fresh solve: once made, the solves serve
+  wherever the conductor is dragged (for a disc that does not hold its new panels,
+  A_PP^-1 [U' | A_PX] of the new disc costs r' + |X| more solves).
 """
 
 from __future__ import annotations
@@ -85,14 +88,18 @@ class BorderedSolves:
     ``p_full``: the panels P in the full system (in the order of P); ``q_old``: the other
     panels of the full system (the edited conductors' old panels); ``disc`` must hold them.
     ``usable`` is False (and the solves must not be used) when I - W is ill-conditioned.
+    ``moment_map``: C when ``u`` is compressed (U = Q, moments C @ V; see
+    :func:`solver.bem.far_blocks.compressed_far_evaluation`).
     """
 
     def __init__(self, full: FullFactor, p_full: np.ndarray, q_old: np.ndarray, disc: Separation,
-                 u: np.ndarray, a_px: np.ndarray) -> None:
+                 u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None) -> None:
         self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
         size = full.lu[0].shape[0]
         self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
         self.v_old = panel_moments(disc, full.starts[q_old], full.ends[q_old], full.plane)
+        if moment_map is not None:  # U is compressed (far_blocks.compressed_far_evaluation)
+            self.v_old = moment_map @ self.v_old
         self.a_px = np.array(a_px)
         columns = np.hstack([u, self.a_px])
         y = self._full_solve(columns)
@@ -102,6 +109,7 @@ class BorderedSolves:
         if self.usable:
             self.t = scipy.linalg.solve(border.T, y[p_full].T, check_finite=False).T
         self._used = False
+        self._z: tuple | None = None
 
     def _full_solve(self, x_p: np.ndarray) -> np.ndarray:
         padded = np.zeros((self.full.lu[0].shape[0],) + x_p.shape[1:])
@@ -113,8 +121,10 @@ class BorderedSolves:
         n_old = self.v_old.shape[1]
         return np.vstack([self.v_old @ y_q[:n_old], y_q[n_old:]])
 
-    def serves(self, disc: Separation, p_full: np.ndarray, a_px: np.ndarray) -> bool:
-        return (disc is self.disc and np.array_equal(p_full, self.p_full) and a_px.shape == self.a_px.shape
+    def serves(self, full: FullFactor, p_full: np.ndarray, a_px: np.ndarray) -> bool:
+        """True when these solves are A_PP^-1 for that system (wherever the edited panels
+        are now: the disc holds their panels of the fresh solve, which is all it needs)."""
+        return (full is self.full and np.array_equal(p_full, self.p_full) and a_px.shape == self.a_px.shape
                 and np.array_equal(a_px, self.a_px))
 
     def solve(self, x: np.ndarray) -> np.ndarray:
@@ -122,6 +132,14 @@ class BorderedSolves:
         return y[self.p_full] + self.t @ self._old_columns(y[self.q_full])
 
     def z_for(self, u: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:
-        assert u is self.u and np.array_equal(a_px, self.a_px)
-        reused, self._used = self._used, True
-        return self.t, reused
+        """A_PP^-1 [U | A_PX] and whether it was reused: T itself for this disc's U, else
+        solved (and kept while U is the same array, as :meth:`LUSolves.z_for`)."""
+        if u is self.u and np.array_equal(a_px, self.a_px):
+            reused, self._used = self._used, True
+            return self.t, reused
+        z = self._z
+        if z is not None and z[0] is u and z[1].shape == a_px.shape and np.array_equal(z[1], a_px):
+            return z[2], True
+        out = self.solve(np.hstack([u, a_px]))
+        self._z = (u, np.array(a_px), out)
+        return out, False

@@ -15,7 +15,7 @@ import numpy as np
 from solver.bem.assembly import single_layer_potential_matrix
 from solver.bem.far_blocks import (
     Separation,
-    far_evaluation,
+    compressed_far_evaluation,
     local_coefficients,
     near_evaluation,
     panel_moments,
@@ -66,6 +66,14 @@ class FarParts:
     kept_starts: np.ndarray  # of the unchanged panels
     kept_ends: np.ndarray
     anchored: bool  # the disc also holds the anchor panels (see ReusedBlock)
+    kept: np.ndarray  # indices of the unchanged panels
+    deferred: bool  # A_PE and A_EP are not yet written into the matrix (see ReusedBlock)
+    moment_map: np.ndarray  # C of far_blocks.compressed_far_evaluation: V_E = C @ panel moments
+
+    def write_into(self, matrix: np.ndarray) -> None:
+        """Write A_PE and A_EP (the products of the low-rank factors) into ``matrix``."""
+        put(matrix, self.kept, self.edited, self.kept_from_edited[0] @ self.kept_from_edited[1])
+        put(matrix, self.edited, self.kept, self.edited_from_kept[0] @ self.edited_from_kept[1])
 
     def same_disc_for(self, kept_starts: np.ndarray, kept_ends: np.ndarray, starts: np.ndarray,
                       ends: np.ndarray, plane: float | None) -> bool:
@@ -108,6 +116,12 @@ class ReusedBlock:
     edited conductors' panels at the last fresh solve, for :class:`solver.bem.block_solves.BorderedSolves`).
     ``previous_panels`` (starts, ends): the previous system's panels (scaled), so that a
     conductor moved rigidly since then keeps its own block even at its first edit.
+
+    When the unchanged panels sit where they sat, the system is assembled in the previous
+    matrix itself (:meth:`writable_matrix`), and low-rank blocks A_PE and A_EP are not
+    multiplied out into it (``far.deferred``: the solver uses the factors, and the next drag
+    step of the same conductor writes over the same places); an edit that reads them (another
+    conductor edited, panels no longer in place) writes them first (:meth:`FarParts.write_into`).
     """
 
     def __init__(self, previous: np.ndarray, kept_new: np.ndarray, kept_old: np.ndarray,
@@ -125,13 +139,17 @@ class ReusedBlock:
         n_rows, n_cols = len(targets), len(starts)
         keep = self.kept_new
         other = np.setdiff1d(np.arange(n_rows), keep)
+        in_place = self._in_place(n_rows, n_cols)
+        earlier = self.earlier
+        if earlier is not None and earlier.deferred and not (in_place and np.array_equal(other, earlier.edited)):
+            earlier.write_into(self.previous)  # its blocks are read, not all written over, below
         if self.previous_panels is not None:
             old_starts, old_ends = self.previous_panels
             other_old = np.setdiff1d(np.arange(len(old_starts)), self.kept_old)
             if len(other_old) == len(other):  # taken before the previous matrix is written over
                 self._old_self = (old_starts[other_old], old_ends[other_old],
                                   np.array(block(self.previous, other_old, other_old)))
-        if n_rows == n_cols and len(self.previous) >= n_rows and np.array_equal(keep, self.kept_old):
+        if in_place:
             # the unchanged panels sit where they sat: the other rows and columns are written
             # over the previous matrix (kept by the solver alone, and replaced after this solve)
             out = self.previous[:n_rows, :n_cols]
@@ -146,11 +164,11 @@ class ReusedBlock:
         if not len(other):
             return out
         if self.low_rank and n_rows == n_cols:
-            far = self._far_parts(targets, starts, ends, plane, keep, other)
+            far = self._far_parts(targets, starts, ends, plane, keep, other, deferred=in_place)
             if far is not None:
                 self.far = far
-                put(out, keep, other, far.kept_from_edited[0] @ far.kept_from_edited[1])
-                put(out, other, keep, far.edited_from_kept[0] @ far.edited_from_kept[1])
+                if not far.deferred:
+                    far.write_into(out)
                 put(out, other, other, far.self_block)
                 return out
         out[other] = single_layer_potential_matrix(targets[other], starts, ends, plane)
@@ -159,15 +177,26 @@ class ReusedBlock:
         )
         return out
 
+    def _in_place(self, n_rows: int, n_cols: int) -> bool:
+        return n_rows == n_cols and len(self.previous) >= n_rows and np.array_equal(self.kept_new, self.kept_old)
+
+    def writable_matrix(self, size: int) -> np.ndarray | None:
+        """The previous matrix, for the new system to be assembled in (see
+        :func:`solver.bem.assembly.assemble_system`), when it has the new system's size and
+        the unchanged panels sit where they sat; else None (the system gets a new array)."""
+        if self.previous.shape == (size, size) and np.array_equal(self.kept_new, self.kept_old):
+            return self.previous
+        return None
+
     def _far_parts(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray, plane: float | None,
-                   keep: np.ndarray, other: np.ndarray) -> FarParts | None:
+                   keep: np.ndarray, other: np.ndarray, deferred: bool) -> FarParts | None:
         """The low-rank blocks, or None when the edited panels come too close to the others."""
         e_starts, e_ends, p_starts, p_ends = starts[other], ends[other], starts[keep], ends[keep]
         earlier, anchor = self.earlier, self.anchor
         if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
             sep = earlier.disc
             anchored = earlier.anchored and anchor is not None and sep.holds(*anchor)
-            u_pe, v_ep = earlier.kept_from_edited[0], earlier.edited_from_kept[1]
+            u_pe, v_ep, moment_map = earlier.kept_from_edited[0], earlier.edited_from_kept[1], earlier.moment_map
         else:
             anchored = anchor is not None
             if anchor is not None:
@@ -178,7 +207,8 @@ class ReusedBlock:
                 sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
             if not sep.usable:
                 return None
-            u_pe, v_ep = far_evaluation(sep, targets[keep], plane), local_coefficients(sep, p_starts, p_ends, plane)
+            u_pe, moment_map = compressed_far_evaluation(sep, targets[keep], plane)
+            v_ep = local_coefficients(sep, p_starts, p_ends, plane)
         a_ee = None
         if earlier is not None:
             a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
@@ -188,9 +218,10 @@ class ReusedBlock:
         self.moved_rigidly = a_ee is not None
         if a_ee is None:
             a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
-        return FarParts(other, (u_pe, panel_moments(sep, e_starts, e_ends, plane)),
+        return FarParts(other, (u_pe, moment_map @ panel_moments(sep, e_starts, e_ends, plane)),
                         (near_evaluation(sep, targets[other], plane), v_ep),
-                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored)
+                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored, keep, deferred,
+                        moment_map)
 
 
 def put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:

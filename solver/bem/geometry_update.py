@@ -39,15 +39,17 @@ Models with dielectric regions, and models large enough for the fast path, are s
 
 from __future__ import annotations
 
+import contextlib
 import logging
 from dataclasses import dataclass
 
 import numpy as np
 import scipy.linalg
 
-from solver.bem.blas_threads import blas_threads_for
+from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
+from solver.bem.far_blocks import compressed_far_evaluation, separation
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -100,6 +102,7 @@ class GeometryEditSolver:
         self._full: FullFactor | None = None
         self._far: FarParts | None = None
         self._last: Solution | None = None
+        self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
         self.reused_panels = 0
@@ -110,7 +113,22 @@ class GeometryEditSolver:
 
     def solve(self, model: Model, settings: MeshSettings | None = None,
               cancel: CancelCallback | None = None) -> Solution:
-        """Solve ``model`` (no error estimate), reusing the previous solve where possible."""
+        """Solve ``model`` (no error estimate), reusing the previous solve where possible.
+
+        A solve cancelled (or failing) after its system is assembled keeps that system as the
+        previous one (the next edit reuses it, as a drag released while its last position is
+        being solved does); one that raises while the previous matrix is being written over
+        forgets what was kept, and the next model is solved afresh.
+        """
+        self._consistent = True
+        try:
+            return self._solve(model, settings, cancel)
+        except BaseException:
+            if not self._consistent:
+                self._previous, self._far, self._full, self._solves, self._last = None, None, None, None, None
+            raise
+
+    def _solve(self, model: Model, settings: MeshSettings | None, cancel: CancelCallback | None) -> Solution:
         settings = settings or MeshSettings.for_density(model.mesh_density)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
         self.reused_solves = self.bordered = False
@@ -131,27 +149,29 @@ class GeometryEditSolver:
             self._last = large
             return large
         kept_new, kept_old = self._unchanged(model, mesh)
-        block, full_parts = None, None
+        block, full_parts, prev = None, None, self._previous
         if len(kept_new):
-            assert self._previous is not None
+            assert prev is not None
             full_parts = self._in_full(model, mesh, kept_new)
             anchor = None if full_parts is None else full_parts[2]
-            prev = self._previous
             block = ReusedBlock(prev.matrix, kept_new, kept_old, self._far, self.low_rank, anchor,
                                 (prev.mesh.starts / prev.ell, prev.mesh.ends / prev.ell))
-        system = build_system(model, mesh, block)
+            self._consistent = False  # the previous matrix is being written over
+        with one_blas_thread() if block is not None else contextlib.nullcontext():
+            system = build_system(model, mesh, block)  # thin products U @ V of the low-rank blocks
         self._far = None if block is None else block.far
+        self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
+                                   system.plane, system.matrix)
+        self._consistent = True
         self.reused_self_block = block is not None and block.moved_rigidly
         linear_solve = None
-        if block is not None and self._previous is not None and system.length_scale_m == self._previous.ell:
+        if block is not None and prev is not None and system.length_scale_m == prev.ell:
             self.reused_panels = len(kept_new)
             self.far_blocks = block.far is not None
             linear_solve = self._block_solver(system, kept_new, block.far, full_parts)
         if linear_solve is None:
             linear_solve = self._fresh_solver(system)
         solution = solve_system(system, cancel, linear_solve)
-        self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
-                                   system.plane, system.matrix)
         self._last = solution
         return solution
 
@@ -243,21 +263,25 @@ class GeometryEditSolver:
         starts, ends = system.sources.starts[p], system.sources.ends[p]
         ell, plane = system.length_scale_m, system.plane
         known = self._solves
-        with blas_threads_for(len(a)):
-            if isinstance(known, LUSolves) and known.matches(starts, ends, ell, plane):
-                solves: LUSolves | BorderedSolves = known
-                self.reused_factor = True
-            elif (bordered := self._bordered(a, p, q, far, full_parts)) is not None:
+        if isinstance(known, LUSolves) and known.matches(starts, ends, ell, plane):
+            solves: LUSolves | BorderedSolves = known
+            self.reused_factor = True
+        else:
+            with one_blas_thread():  # solves with the full factors, no factorisation
+                bordered = self._bordered(system, p, q, far, full_parts)
+            if bordered is not None:
                 solves = bordered
                 self.reused_factor = self.bordered = True
             else:
                 self._full = None  # its unchanged block is no longer this one's: free its memory
-                solves = LUSolves(scipy.linalg.lu_factor(block(a, p, p), check_finite=False), starts, ends, ell, plane)
-            self._solves = solves
-            if len(q) == 0:
-                return solves.solve
+                with blas_threads_for(len(a)):
+                    lu = scipy.linalg.lu_factor(block(a, p, p), check_finite=False)
+                solves = LUSolves(lu, starts, ends, ell, plane)
+        self._solves = solves
+        if len(q) == 0:
+            return solves.solve
         if far is not None:
-            with blas_threads_for(len(q)):
+            with one_blas_thread():
                 return self._far_solver(a, p, q, solves, far)
         with blas_threads_for(len(a)):
             a_pq, a_qp = block(a, p, q), block(a, q, p)
@@ -265,7 +289,7 @@ class GeometryEditSolver:
             lu_s = scipy.linalg.lu_factor(block(a, q, q) - a_qp @ y, check_finite=False)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
-            with blas_threads_for(len(a)):
+            with one_blas_thread():
                 yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - a_qp @ yb, check_finite=False)
                 x = np.empty_like(b)
@@ -275,20 +299,31 @@ class GeometryEditSolver:
 
         return linear_solve
 
-    def _bordered(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, far: FarParts | None,
+    def _bordered(self, system: BoundarySystem, p: np.ndarray, q: np.ndarray, far: FarParts | None,
                   full_parts) -> BorderedSolves | None:
-        """Solves with A_PP from the last fresh solve's factors, when the expansion disc holds
-        the edited conductors' panels of then and now and the extra columns are the same."""
-        if far is None or not far.anchored or full_parts is None or self._full is None:
+        """Solves with A_PP from the last fresh solve's factors, when the extra columns are the
+        same: on the expansion disc when it holds the edited conductors' panels of then and
+        now, else on a disc around those of then alone."""
+        if far is None or full_parts is None or self._full is None:
             return None
-        p_full, q_old, _ = full_parts
+        a = system.matrix
+        p_full, q_old, (old_starts, old_ends) = full_parts
         a_px = block(a, p, q[len(far.edited):])
         if not np.array_equal(a_px, self._full.extra_columns[p_full]):
             return None
         known = self._solves
-        if isinstance(known, BorderedSolves) and known.serves(far.disc, p_full, a_px):
+        if isinstance(known, BorderedSolves) and known.serves(self._full, p_full, a_px):
             return known
-        solves = BorderedSolves(self._full, p_full, q_old, far.disc, far.kept_from_edited[0], a_px)
+        if far.anchored:
+            disc, u, moment_map = far.disc, far.kept_from_edited[0], far.moment_map
+        else:  # the conductor went far from where it was: a disc of its own for its old panels
+            p_starts, p_ends = system.sources.starts[p], system.sources.ends[p]
+            disc = separation(old_starts, old_ends, p_starts, p_ends, system.plane)
+            if not disc.usable:
+                return None
+            u, moment_map = compressed_far_evaluation(disc, system.mesh.midpoints[p] / system.length_scale_m,
+                                                      system.plane)
+        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map)
         return solves if solves.usable else None
 
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
@@ -326,7 +361,7 @@ class GeometryEditSolver:
         lu_s = scipy.linalg.lu_factor(s, check_finite=False, overwrite_a=True)
 
         def linear_solve(b: np.ndarray) -> np.ndarray:
-            with blas_threads_for(len(q)):
+            with one_blas_thread():
                 yb = solves.solve(b[p])
                 x_q = scipy.linalg.lu_solve(lu_s, b[q] - from_kept(yb), check_finite=False)
                 x = np.empty_like(b)

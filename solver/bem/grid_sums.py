@@ -100,20 +100,46 @@ def _lagrange_weights(f: np.ndarray) -> np.ndarray:
     return w
 
 
-def _wrapped(n: int, size: int, step: float) -> np.ndarray:
-    """Offsets (in length units) of a circular axis of ``size`` holding offsets -(n-1) ... n-1;
-    NaN where no offset is held."""
-    idx = np.arange(size)
-    off = np.where(idx < n, idx, idx - size).astype(float)
-    off[(idx >= n) & (idx <= size - n)] = np.nan
+def _held(n: int, size: int, step: float) -> np.ndarray:
+    """Offsets 0 ... size / 2 (length units) of a circular axis of even ``size`` holding
+    offsets -(n-1) ... n-1; NaN where no offset is held."""
+    off = np.arange(size // 2 + 1, dtype=float)
+    off[off >= n] = np.nan
     return off * step
+
+
+def _even_length(n: int) -> int:
+    """The least fast FFT length >= 2 n - 1 that is even (the symmetric transforms below)."""
+    size = scipy.fft.next_fast_len(2 * n - 1, real=True)
+    while size % 2:
+        size = scipy.fft.next_fast_len(size + 1, real=True)
+    return size
+
+
+def _symmetric_transform(values: np.ndarray, axis: int, odd: bool) -> np.ndarray:
+    """The DFT along ``axis`` of the circular sequence of even length 2 (m - 1) whose first m
+    entries are ``values`` (entry m - 1 zero), extended evenly (v[N - k] = v[k]) or oddly
+    (v[N - k] = -v[k]): the first m frequencies, real for an even sequence (a DCT-I) and
+    -i times a real DST-I for an odd one (entry 0 unused, zero)."""
+    if not odd:
+        return scipy.fft.dct(values, type=1, axis=axis)
+    inner = np.take(values, np.arange(1, values.shape[axis] - 1), axis=axis)
+    out = np.zeros(values.shape)
+    index = [slice(None)] * values.ndim
+    index[axis] = slice(1, values.shape[axis] - 1)
+    out[tuple(index)] = scipy.fft.dst(inner, type=1, axis=axis)
+    return out
 
 
 @lru_cache(maxsize=4)
 def _kernel_spectra(nx: int, ny: int, hx: float, hy: float, shape: tuple[int, int]):
     """rfft2 of ln r, d/dx ln r and d/dy ln r at the lattice offsets (0 at the origin and where
-    no offset is held), laid out circularly on ``shape`` for a linear convolution."""
-    dx, dy = np.meshgrid(_wrapped(nx, shape[1], hx), _wrapped(ny, shape[0], hy))
+    no offset is held), laid out circularly on ``shape`` (even sides) for a linear convolution.
+
+    ln r is even in x and y, d/dx ln r odd in x and even in y (d/dy the other way), so each
+    spectrum is a real cosine or sine transform of the quarter of offsets >= 0 (a quarter of
+    the kernel values and of the transform work; the lattice kernels are the same)."""
+    dx, dy = np.meshgrid(_held(nx, shape[1], hx), _held(ny, shape[0], hy))
     r2 = dx * dx + dy * dy
     unused = ~np.isfinite(r2) | (r2 == 0)
     r2[unused] = 1.0
@@ -121,7 +147,17 @@ def _kernel_spectra(nx: int, ny: int, hx: float, hy: float, shape: tuple[int, in
     dy[unused] = 0.0
     log = 0.5 * np.log(r2)
     log[unused] = 0.0
-    return tuple(scipy.fft.rfft2(k) for k in (log, dx / r2, dy / r2))
+    rows = shape[0] // 2
+
+    def spectrum(kernel: np.ndarray, odd_x: bool, odd_y: bool) -> np.ndarray:
+        half = _symmetric_transform(_symmetric_transform(kernel, 1, odd_x), 0, odd_y)
+        sign = -1.0 if odd_y else 1.0
+        full = np.concatenate([half, sign * half[rows - 1:0:-1]], axis=0)  # frequencies N - k
+        if odd_x != odd_y:
+            return -1j * full  # one sine transform: -i times real
+        return full if not odd_x else -full + 0j
+
+    return spectrum(log, False, False), spectrum(dx / r2, True, False), spectrum(dy / r2, False, True)
 
 
 @lru_cache(maxsize=4)
@@ -193,7 +229,8 @@ def is_regular(axis: np.ndarray) -> bool:
 
 
 def grid_potential_and_gradient_sums(
-    x: np.ndarray, y: np.ndarray, starts: np.ndarray, ends: np.ndarray, strengths: np.ndarray
+    x: np.ndarray, y: np.ndarray, starts: np.ndarray, ends: np.ndarray, strengths: np.ndarray,
+    skip: np.ndarray | None = None,
 ) -> tuple[np.ndarray, np.ndarray] | None:
     """S and grad S at the nodes of the grid x (nx,) by y (ny,), or None when the lattice
     covering the grid and the sources would be too large (sum another way then).
@@ -203,6 +240,8 @@ def grid_potential_and_gradient_sums(
     x, y : evenly spaced axes (length unit of the panels).
     starts, ends : (n, 2) panel ends.
     strengths : (n,) density on each panel (any unit).
+    skip : (ny, nx) bool, optional. Nodes whose values are not wanted (inside metal, masked
+        by the caller): they get no exact near-field terms, and their values are not the sums.
 
     Returns
     -------
@@ -246,7 +285,7 @@ def grid_potential_and_gradient_sums(
     ).reshape(lat.ny, lat.nx)
 
     # 2. convolve by FFT
-    shape = (scipy.fft.next_fast_len(2 * lat.ny - 1, real=True), scipy.fft.next_fast_len(2 * lat.nx - 1, real=True))
+    shape = (_even_length(lat.ny), _even_length(lat.nx))
     spectra = _kernel_spectra(lat.nx, lat.ny, hx, hy, shape)
     # rfft2 and irfft2 one axis at a time: the charge fills only the first lat.ny of the padded
     # rows and only the first lat.ny rows of the result are wanted, so the row transforms of
@@ -282,22 +321,28 @@ def grid_potential_and_gradient_sums(
     data = np.hstack([moments.real, moments.imag, patches.reshape(n_cells, n_patch * n_patch)])
     correction = data @ operator  # (cells, 3 window)
     size = lat.nx * lat.ny
-    layer = (np.arange(3) * size)[:, None]
 
-    core_i, core_j = ti[core], tj[core]
-    pair_i = (home_i[:, None] + core_i[None, :]).ravel()
-    pair_j = (home_j[:, None] + core_j[None, :]).ravel()
-    sub = np.repeat(np.arange(len(qs)), len(core_i))
-    tgt = np.column_stack([lat.x0 + pair_i * hx, lat.y0 + pair_j * hy])
-    exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
-    core_target = (pair_j * lat.nx + pair_i)[None, :] + layer
-    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :]))[:, None, :] + layer[None]
-    total = np.bincount(
-        np.concatenate([window_target.ravel(), core_target.ravel()]),
-        np.concatenate([correction.ravel(), exact.ravel()]), minlength=3 * size,
-    ).reshape(3, lat.ny, lat.nx)
-    s, sx, sy = s + total[0], sx + total[1], sy + total[2]
-
+    # corrections and exact terms only at wanted grid nodes (not at lattice nodes outside the
+    # grid, nor at skipped ones): fewer terms to compute and to add up
+    wanted = np.zeros((lat.ny, lat.nx), dtype=bool)
     rows = slice(lat.grid_j0, lat.grid_j0 + len(y))
     cols = slice(lat.grid_i0, lat.grid_i0 + len(x))
-    return s[rows, cols], np.stack([sx[rows, cols], sy[rows, cols]], axis=-1)
+    wanted[rows, cols] = True if skip is None else ~np.asarray(skip, dtype=bool).reshape(len(y), len(x))
+    wanted = wanted.ravel()
+    core_i, core_j = ti[core], tj[core]
+    core_target = ((home_j[:, None] + core_j[None, :]) * lat.nx + (home_i[:, None] + core_i[None, :])).ravel()
+    sub = np.repeat(np.arange(len(qs)), len(core_i))
+    kept = wanted[core_target]
+    core_target, sub = core_target[kept], sub[kept]
+    tgt = np.column_stack([lat.x0 + (core_target % lat.nx) * hx, lat.y0 + (core_target // lat.nx) * hy])
+    exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
+    window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :])).ravel()
+    kept = wanted[window_target]
+    per_layer = correction.reshape(n_cells, 3, len(ti)).transpose(1, 0, 2).reshape(3, -1)[:, kept]
+    target = np.concatenate([window_target[kept], core_target])
+    s, sx, sy = (
+        layer[rows, cols] + np.bincount(target, np.concatenate([per_layer[k], exact[k]]), minlength=size)
+        .reshape(lat.ny, lat.nx)[rows, cols]
+        for k, layer in enumerate((s, sx, sy))
+    )
+    return s, np.stack([sx, sy], axis=-1)

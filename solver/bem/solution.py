@@ -317,7 +317,7 @@ class Solution:
         return phi + self.phi_inf_V, e / ell
 
     def potential_and_field_on_grid(
-        self, x_m: np.ndarray, y_m: np.ndarray
+        self, x_m: np.ndarray, y_m: np.ndarray, skip: np.ndarray | None = None
     ) -> tuple[np.ndarray, np.ndarray]:
         """Potential (V, shape (ny, nx)) and field E = -grad(phi) (V/m, shape (ny, nx, 2)) at
         the nodes of the grid ``x_m`` x ``y_m`` (metres), for maps.
@@ -326,7 +326,9 @@ class Solution:
         exact near-field corrections; about 1e-6 of the largest |phi| and 2e-5 of the
         largest |E| from the direct sums, tested), other axes point by point as
         :meth:`potential_and_field`. Values inside conductors are not meaningful here (the
-        caller masks them).
+        caller masks them); ``skip`` ((ny, nx) bool, optional) marks nodes the caller masks,
+        which the grid sums then spend no exact near-field terms on (their values are not
+        the sums).
         """
         from solver.bem.grid_sums import grid_potential_and_gradient_sums, is_regular
 
@@ -340,7 +342,7 @@ class Solution:
                 starts = np.vstack([starts, mirrored(starts, plane)])
                 ends = np.vstack([ends, mirrored(ends, plane)])
                 q = np.concatenate([q, -q])
-            summed = grid_potential_and_gradient_sums(x_m / ell, y_m / ell, starts, ends, q)
+            summed = grid_potential_and_gradient_sums(x_m / ell, y_m / ell, starts, ends, q, skip)
         if summed is None:
             xx, yy = np.meshgrid(x_m, y_m)
             phi, e = self.potential_and_field(np.column_stack([xx.ravel(), yy.ravel()]))

@@ -134,7 +134,7 @@ def evaluate_on_grid(solution: Solution, x_m: np.ndarray, y_m: np.ndarray) -> Gr
     xx, yy = np.meshgrid(x_m, y_m)
     solid, _ = _solid_and_strip_geometry(solution)
     blocked = _blocked(solution, solid, np.column_stack([xx.ravel(), yy.ravel()])).reshape(xx.shape)
-    phi, field = solution.potential_and_field_on_grid(x_m, y_m)
+    phi, field = solution.potential_and_field_on_grid(x_m, y_m, skip=blocked)
     e = np.hypot(field[..., 0], field[..., 1])
     phi[blocked] = np.nan
     e[blocked] = np.nan

@@ -2,7 +2,7 @@
 
 from threadpoolctl import threadpool_info
 
-from solver.bem.blas_threads import SINGLE_THREAD_BELOW, blas_threads_for
+from solver.bem.blas_threads import SINGLE_THREAD_BELOW, blas_threads_for, one_blas_thread
 
 
 def _blas_threads() -> list[int]:
@@ -16,3 +16,10 @@ def test_one_thread_below_the_crossover_and_the_default_above():
     assert _blas_threads() == default
     with blas_threads_for(SINGLE_THREAD_BELOW):
         assert _blas_threads() == default
+
+
+def test_one_thread_for_memory_bound_work_of_any_size():
+    default = _blas_threads()
+    with one_blas_thread():
+        assert _blas_threads() and all(n == 1 for n in _blas_threads())
+    assert _blas_threads() == default

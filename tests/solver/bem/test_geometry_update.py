@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 import solver
-from solver import Circle, Conductor, GroundPlane, Model, Rectangle
+from solver import Circle, Conductor, GroundPlane, Model, Rectangle, Ring
 from solver.bem.geometry_update import GeometryEditSolver
 
 
@@ -178,3 +178,59 @@ def test_a_potential_change_is_superposed_and_a_drag_goes_on_after_it():
     moved = _moved(other, "L1", 1.0, 0.0)  # geometry: not superposable
     _assert_same(edits.solve(moved), solver.solve(moved, estimate_error=False))
     assert not edits.superposed and edits.far_blocks and edits.bordered
+
+
+def test_editing_another_conductor_after_a_drag_equals_a_fresh_solve():
+    """A drag step leaves its low-rank blocks multiplied out later (``far.deferred``); an edit
+    of another conductor reads them from the matrix, so they must be written first."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    model = _moved(model, "L1", 1.0, 0.0)
+    edits.solve(model)
+    assert edits.far_blocks and edits._far is not None and edits._far.deferred
+    model = _moved(model, "L2", -1.0, 0.5)
+    edited = edits.solve(model)
+    assert edits.reused_panels > 0 and edits.far_blocks
+    _assert_same(edited, solver.solve(model, estimate_error=False))
+    model = _moved(model, "L1", 0.5, 0.0)
+    edited = edits.solve(model)
+    _assert_same(edited, solver.solve(model, estimate_error=False))
+
+
+def test_a_cancelled_edit_leaves_the_next_solve_right():
+    """The cancelled solve has written over the previous matrix: its system is kept as the
+    previous one (a drag released while its last position is solved), and the next edit
+    reuses it and still equals a fresh solve."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    moved = _moved(model, "L1", 1.0, 0.0)
+    try:
+        edits.solve(moved, cancel=lambda: True)  # asked first after the matrix is assembled
+    except solver.errors.SolveCancelled:
+        pass
+    else:
+        raise AssertionError("the solve was not cancelled")
+    for again in (moved, _moved(model, "L1", 1.0, 1.0)):
+        edited = edits.solve(again)
+        assert edits.reused_panels > 0
+        _assert_same(edited, solver.solve(again, estimate_error=False))
+
+
+def test_a_conductor_dragged_far_from_where_it_was_still_uses_the_fresh_factors():
+    """The disc around the wire's panels of then and now would reach the other wire: the
+    solves with A_PP come from the fresh solve's factors on a disc around its old panels
+    alone, and serve the next steps too (no factorisation)."""
+    model = Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("a", (Circle((-10.0, 0.0), 1.0),), potential_V=100.0),
+        Conductor("b", (Circle((10.0, 0.0), 1.0),), role="reference"),
+        Conductor("shield", (Ring((0.0, 5.0), 28.0, 30.0),), potential_V=-20.0),
+    ))
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    for dx, dy in ((20.0, 18.0), (0.5, 0.0), (-3.0, 2.0)):
+        model = _moved(model, "a", dx, dy)
+        edited = edits.solve(model)
+        assert edits.far_blocks and edits.bordered and not edits._far.anchored
+        _assert_same(edited, solver.solve(model, estimate_error=False))

@@ -90,3 +90,20 @@ def test_uneven_axes_are_summed_point_by_point():
     phi_ref, e_ref = sol.potential_and_field(np.column_stack([xx.ravel(), yy.ravel()]))
     assert np.array_equal(phi.ravel(), phi_ref)
     assert np.array_equal(e.reshape(-1, 2), e_ref)
+
+
+def test_skipped_nodes_leave_the_other_nodes_unchanged():
+    """Nodes marked ``skip`` (inside metal, masked by the caller) get no exact near-field
+    terms; every other node keeps its value (to rounding of the summation order)."""
+    rng = np.random.default_rng(5)
+    x, y = np.linspace(-1.0, 1.0, 41), np.linspace(-0.8, 0.8, 33)
+    starts = rng.uniform(-0.9, 0.9, (60, 2))
+    ends = starts + rng.uniform(-0.2, 0.2, (60, 2))
+    q = rng.normal(size=60)
+    skip = rng.random((len(y), len(x))) < 0.5
+    s_all, g_all = grid_potential_and_gradient_sums(x, y, starts, ends, q)
+    s_some, g_some = grid_potential_and_gradient_sums(x, y, starts, ends, q, skip)
+    scale = np.max(np.abs(s_all))
+    assert np.max(np.abs(s_some - s_all)[~skip]) <= 1e-13 * scale
+    assert np.max(np.abs(g_some - g_all)[~skip]) <= 1e-13 * np.max(np.abs(g_all))
+    assert np.max(np.abs(s_some - s_all)[skip]) > 1e-6 * scale  # the exact terms were left out there
