@@ -15,48 +15,31 @@ swallowed. :class:`JobProgress` is the small progress bar with a Cancel button e
 from __future__ import annotations
 
 import atexit
-import logging
-import threading
 from collections.abc import Callable
 
-from PySide6.QtCore import QObject, QThread, Signal
+from PySide6.QtCore import QObject, Signal
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QPushButton, QWidget
 
-from solver import SolveCancelled, SolverError
-
-logger = logging.getLogger(__name__)
+from app.jobs.job_thread import JobThread, error_text
+from solver import SolveCancelled
 
 #: Threads still running, kept alive here so that a closed view never destroys a running thread.
 _LIVE_THREADS: set = set()
 
 
-def error_text(error: BaseException) -> str:
-    """The message shown to the user for a failed job."""
-    if isinstance(error, SolverError):
-        return str(error)
-    return f"Unexpected error in the solver: {type(error).__name__}: {error}"
+class _JobThread(JobThread):
+    """One solver call (``function(*args, **kwargs)``), with progress and cancel hooks when asked."""
 
-
-class _JobThread(QThread):
-    finished_with = Signal(object, object)  # (result or None, error or None)
     progressed = Signal(float, str)
 
     def __init__(self, function: Callable, args: tuple, kwargs: dict, with_progress: bool) -> None:
         super().__init__()
-        self.stop = threading.Event()
         if with_progress:
             kwargs = {**kwargs, "progress": self.progressed.emit, "cancel": self.stop.is_set}
         self.function, self.args, self.kwargs = function, args, kwargs
 
-    def run(self) -> None:
-        try:
-            result = self.function(*self.args, **self.kwargs)
-        except Exception as exc:  # reported to the user on the GUI thread
-            if not isinstance(exc, SolverError):
-                logger.exception("figure job %s failed", getattr(self.function, "__name__", self.function))
-            self.finished_with.emit(None, exc)
-            return
-        self.finished_with.emit(result, None)
+    def work(self) -> object:
+        return self.function(*self.args, **self.kwargs)
 
 
 class FigureJobRunner(QObject):
