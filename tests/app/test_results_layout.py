@@ -131,6 +131,7 @@ def test_every_section_fits_at_every_size(hv_twin, qtbot, size):
 
 @pytest.mark.parametrize(("sample", "size"), [("busbar_enclosure.json", (1366, 768)),
                                             ("three_traces_over_ground.json", (1366, 768)),
+                                            ("shielded_three_core_cable.json", (1366, 768)),
                                             ("busbar_enclosure.json", (1920, 1080))])
 def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(window, qtbot, sample, size):
     """Three conductors and an enclosure (or a ground plane): the High voltage table, the
@@ -297,3 +298,25 @@ def test_filled_sweep_and_cross_check_fit_at_every_size(window, qtbot):
     fill_on_demand_views(window, qtbot, cross_check=True)
     found = [p for size in SIZES for p in filled_problems(window, qtbot, size, ["High voltage", "Cross-check"])]
     assert found == [], "\n".join(found)
+
+
+def test_a_table_wider_than_its_place_wraps_narrower_and_keeps_its_colours(qtbot):
+    # the High voltage table of the shielded three-core cable (four columns of "not assessed")
+    # scrolled sideways at 1366 x 768; the table now wraps its headings and worded cells narrower
+    from PySide6.QtGui import QColor
+
+    from app.panels.matrices_view import CopyableTable
+
+    table = CopyableTable()
+    qtbot.addWidget(table)
+    table.resize(380, 200)  # room for the wrapped table, not for "not assessed" on one line
+    table.show()
+    rows = ["air-breakdown field (MV/m)", "corona-onset margin", "status"]
+    table.fill(rows, ["L1", "L2", "L3", "screen"], [["3.9"] * 4, ["—"] * 4, ["not assessed"] * 4], wrap=14)
+    table.item(2, 0).setBackground(QColor("#e8e8e8"))  # a colour a view sets after filling
+    before = table.horizontalScrollBar()
+    settle(qtbot)
+    assert table._needed_width() <= table.width() - 2 * table.frameWidth()
+    assert before.maximum() == 0 and table.item(2, 0).text() == "not\nassessed"
+    assert table.item(2, 0).background().color().name() == "#e8e8e8"
+    assert table.as_text().splitlines()[3].split("\t")[:2] == ["status", "not assessed"]  # copied whole
