@@ -57,7 +57,8 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
     places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
     down, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
-    possible (ties go to the nearest place, then the outward side, then upwards)."""
+    possible (ties go to the nearest place, then the outward side, then upwards). A label that
+    has no place in view is moved into it (a label wider than the view still starts at its left)."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
@@ -73,4 +74,7 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
             candidates.append((clashes + on_part + (0 if inside else 2), step, order,
                                (0.0 if right else 1.0, 1.0 if up else 0.0), box))
     best = min(candidates, key=lambda c: c[:3])
-    return best[3], best[4]
+    x0, y0, x1, y1 = best[4]
+    dx = max(v0 - x0, 0.0) - max(x1 - v1, 0.0)  # no place in view: moved into it, never cut off
+    dy = max(w0 - y0, 0.0) - max(y1 - w1, 0.0)
+    return best[3], (x0 + dx, y0 + dy, x1 + dx, y1 + dy)

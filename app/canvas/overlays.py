@@ -258,13 +258,15 @@ class Overlays:
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")
-            w, h = labels.label_size(text, px, py)
+            bold = p.field_V_per_m == top
+            label = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL),
+                                border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
+            rect = label.textItem.boundingRect()  # the text as drawn, not a guess from its length
+            w, h = (rect.width() + 4) * px, (rect.height() + 2) * py
             anchor, box = labels.free_place(x, y, w, h, 10 * px, 10 * py, self._label_boxes, (v0, v1, w0, w1),
                                             self._mask)
             self._label_boxes.append(box)
-            bold = p.field_V_per_m == top
-            label = pg.TextItem(text, color=colours.TEXT, anchor=anchor, fill=pg.mkBrush(*colours.LABEL_FILL),
-                                border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
+            label.setAnchor(anchor)
             label.setPos(QPointF(*labels.anchor_point(box, anchor)))
             self._add(label, 36)
 

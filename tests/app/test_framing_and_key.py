@@ -189,3 +189,30 @@ def test_charge_sticks_stand_apart_on_a_fine_mesh_and_keep_the_charge():
     x, _ = items[0].getData()
     assert len(x) // 2 == n // STICK_GAP_PX
     assert np.min(np.diff(x[::2])) >= STICK_GAP_PX * 0.01 * 0.999
+
+
+def test_a_label_with_no_place_in_view_is_moved_into_it():
+    view = (0.0, 100.0, 0.0, 100.0)
+    anchor, box = labels.free_place(50.0, 50.0, 60.0, 5.0, 1.0, 1.0, [], view)  # wider than either side
+    assert 0.0 <= box[0] and box[2] <= 100.0
+
+
+def test_hot_spot_labels_of_the_three_traces_stay_apart_and_in_view(window, qtbot):
+    import pyqtgraph as pg
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / "three_traces_over_ground.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    qtbot.wait(50)
+    vb = window.canvas.plotItem.vb
+    view = vb.mapRectToScene(vb.boundingRect())
+    spots = [i for i in window.canvas.overlays._items if isinstance(i, pg.TextItem) and "V/m" in i.toPlainText()]
+    assert len(spots) == 3
+    rects = [s.mapRectToScene(s.boundingRect()) for s in spots]
+    for k, r in enumerate(rects):
+        assert view.adjusted(-1, -1, 1, 1).contains(r), spots[k].toPlainText()
+        for other in rects[k + 1:]:
+            overlap = r.intersected(other)
+            assert overlap.width() < 2 or overlap.height() < 2
