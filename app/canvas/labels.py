@@ -53,12 +53,22 @@ def anchor_point(box, anchor) -> tuple[float, float]:
 STACK_STEPS = 4
 
 
+def _moved_into_view(box, view):
+    """``box`` moved the least distance that puts it in ``view`` (its left and bottom edges win
+    when it is larger than the view)."""
+    v0, v1, w0, w1 = view
+    x0, y0, x1, y1 = box
+    dx = max(v0 - x0, 0.0) or -max(x1 - v1, 0.0)
+    dy = max(w0 - y0, 0.0) or -max(y1 - w1, 0.0)
+    return x0 + dx, y0 + dy, x1 + dx, y1 + dy
+
+
 def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None):
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
     places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
-    down, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
-    possible (ties go to the nearest place, then the outward side, then upwards). A label that
-    has no place in view is moved into it (a label wider than the view still starts at its left)."""
+    down, the one with the fewest clashes with ``placed`` boxes and conductors. A place that
+    leaves the view is moved into it (never cut off) and counts half a clash; ties go to the
+    nearest place, then the outward side, then upwards."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
@@ -68,13 +78,10 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
             x0 = x + gap_x if right else x - gap_x - w
             y0 = y + gap_y + step * h if up else y - gap_y - h - step * h
             box = (x0, y0, x0 + w, y0 + h)
-            inside = v0 <= box[0] and box[2] <= v1 and w0 <= box[1] and box[3] <= w1
-            clashes = sum(overlap(box, other) for other in placed)
-            on_part = mask is not None and mask.covers(box)
-            candidates.append((clashes + on_part + (0 if inside else 2), step, order,
-                               (0.0 if right else 1.0, 1.0 if up else 0.0), box))
+            moved = _moved_into_view(box, view)
+            clashes = sum(overlap(moved, other) for other in placed)
+            on_part = mask is not None and mask.covers(moved)
+            candidates.append((clashes + on_part + (0.5 if moved != box else 0.0), step, order,
+                               (0.0 if right else 1.0, 1.0 if up else 0.0), moved))
     best = min(candidates, key=lambda c: c[:3])
-    x0, y0, x1, y1 = best[4]
-    dx = max(v0 - x0, 0.0) - max(x1 - v1, 0.0)  # no place in view: moved into it, never cut off
-    dy = max(w0 - y0, 0.0) - max(y1 - w1, 0.0)
-    return best[3], (x0 + dx, y0 + dy, x1 + dx, y1 + dy)
+    return best[3], best[4]

@@ -255,6 +255,8 @@ class Overlays:
         (v0, v1), (w0, w1) = self.plot.vb.viewRange()
         px, py = self._units_per_pixel()
         order = sorted(range(len(peaks)), key=lambda k: -peaks[k].field_V_per_m)
+        star = 18  # px: no label, of any layer, covers a star
+        self._label_boxes += [labels.centred_box(x, y, star * px, star * py) for x, y in zip(xs, ys)]
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")

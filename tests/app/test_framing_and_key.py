@@ -216,3 +216,27 @@ def test_hot_spot_labels_of_the_three_traces_stay_apart_and_in_view(window, qtbo
         for other in rects[k + 1:]:
             overlap = r.intersected(other)
             assert overlap.width() < 2 or overlap.height() < 2
+
+
+def test_no_label_covers_a_hot_spot_star(window, qtbot):
+    # the three-phase line's "−11.3 kV" equipotential label sat on the star of L3
+    import pyqtgraph as pg
+    from PySide6.QtCore import QPointF
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / "three_phase_line.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    qtbot.wait(50)
+    overlays = window.canvas.overlays
+    scale = overlays.results.model.metres_per_unit
+    stars = [QPointF(p.location_m[0] / scale, p.location_m[1] / scale)
+             for p in overlays.results.solution.peak_surface_fields]
+    texts = [i for i in overlays._items if isinstance(i, pg.TextItem)]
+    assert len(texts) > len(stars)  # equipotential labels and hot-spot labels
+    vb = window.canvas.plotItem.vb
+    for item in texts:
+        rect = item.mapRectToScene(item.boundingRect())
+        for star in stars:
+            assert not rect.contains(vb.mapViewToScene(star)), item.toPlainText()
