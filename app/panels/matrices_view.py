@@ -283,7 +283,7 @@ class MatricesView(QWidget):
         # one unit per row, in its heading (cells hold numbers only: no row mixes kV and V)
         potential_unit, potentials = cells_in_one_unit(list(sol.conductor_potentials_V), "V", 6)
         charge_unit, charges = cells_in_one_unit(list(sol.conductor_charges_C_per_m), "C/m", digits_for(err),
-                                                 largest_charge)
+                                                 largest_charge, err)
         field_unit, fields = cells_in_one_unit([peaks[c.name].field_V_per_m if c.name in peaks else None
                                                 for c in model.conductors], "V/m", 3, largest_field)
         columns = [[a, b, c, *rest] for a, b, c, rest in zip(potentials, charges, fields, columns)]
@@ -316,10 +316,12 @@ class MatricesView(QWidget):
             self.status.setStyleSheet("")
 
 
-def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = None) -> tuple[str, list[str]]:
+def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = None,
+                      relative_error: float | None = None) -> tuple[str, list[str]]:
     """(prefixed unit, cells): ``values`` (SI; None for none) shown in one unit with the SI prefix
     of the largest of them, to ``digits`` figures; round-off below ``ROUND_OFF`` x ``largest``
-    reads 0. E.g. [5091.2, -2545.6, 0.0] V -> ("kV", ["5.0912", "−2.5456", "0"])."""
+    reads 0, and so does a value below ``relative_error`` x ``largest`` (the solve cannot tell it
+    from 0). E.g. [5091.2, -2545.6, 0.0] V -> ("kV", ["5.0912", "−2.5456", "0"])."""
     finite = [abs(v) for v in values if v is not None and np.isfinite(v)]
     top = max(finite, default=0.0)
     factor, prefix = si_scale(top)
@@ -327,7 +329,7 @@ def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = No
     for v in values:
         if v is None or not np.isfinite(v):
             cells.append("n/a")
-        elif v == 0 or (largest is not None and abs(v) <= ROUND_OFF * abs(largest)):
+        elif v == 0 or (largest is not None and abs(v) <= max(ROUND_OFF, relative_error or 0.0) * abs(largest)):
             cells.append("0")
         else:
             cells.append(format_plain(v / factor, digits))
