@@ -49,8 +49,10 @@ def anchor_point(box, anchor) -> tuple[float, float]:
 
 
 #: Besides the four places beside the point, a label may stand this many label heights
-#: farther up or down (labels of close points stack instead of covering each other).
-STACK_STEPS = 4
+#: farther up or down (labels of close points stack instead of covering each other); each
+#: step away counts this fraction of a clash, so a label stays near its point when it can.
+STACK_STEPS = 3
+STEP_COST = 0.3
 
 
 def _moved_into_view(box, view):
@@ -67,8 +69,8 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
     places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
     down, the one with the fewest clashes with ``placed`` boxes and conductors. A place that
-    leaves the view is moved into it (never cut off) and counts half a clash; ties go to the
-    nearest place, then the outward side, then upwards."""
+    leaves the view is moved into it (never cut off) and counts half a clash, each step away
+    :data:`STEP_COST` of one; ties go to the nearest place, then the outward side, then upwards."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
@@ -81,7 +83,7 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
             moved = _moved_into_view(box, view)
             clashes = sum(overlap(moved, other) for other in placed)
             on_part = mask is not None and mask.covers(moved)
-            candidates.append((clashes + on_part + (0.5 if moved != box else 0.0), step, order,
+            candidates.append((clashes + on_part + (0.5 if moved != box else 0.0) + STEP_COST * step, step, order,
                                (0.0 if right else 1.0, 1.0 if up else 0.0), moved))
     best = min(candidates, key=lambda c: c[:3])
     return best[3], best[4]

@@ -240,3 +240,11 @@ def test_no_label_covers_a_hot_spot_star(window, qtbot):
         rect = item.mapRectToScene(item.boundingRect())
         for star in stars:
             assert not rect.contains(vb.mapViewToScene(star)), item.toPlainText()
+
+
+def test_a_label_stays_near_its_point_rather_than_wander_off():
+    # the busbar's "L2: 496 kV/m" once stood five label heights below its star, outside the enclosure
+    view = (0.0, 100.0, 0.0, 100.0)
+    crowd = (20.0, 50.0 - 21.0, 80.0, 50.0 + 21.0)  # one box around the point, 4 label heights each way
+    anchor, box = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [crowd], view)
+    assert abs(0.5 * (box[1] + box[3]) - 50.0) <= 1.0 + 5.0  # beside the point, at the price of one clash
