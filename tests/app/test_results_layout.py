@@ -21,6 +21,9 @@ import solver
 from app import edits
 from app.files import project_files as files
 
+#: Room a drop-down list takes beside its text (frame and arrow), pixels.
+COMBO_ARROW_PX = 28
+
 SIZES = ((1366, 768), (1500, 900), (1920, 1080), (1024, 640))
 
 #: Widgets whose inside is their own business (scroll areas clip by design; plots draw themselves).
@@ -54,6 +57,9 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
                 found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
         if isinstance(a, QLabel) and not a.wordWrap() and a.text() and a.sizeHint().width() > a.width() + 1:
             found.append(f"{where}: label '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
+        if isinstance(a, QComboBox) and a.currentText() and (
+                a.fontMetrics().horizontalAdvance(a.currentText()) > a.width() - COMBO_ARROW_PX):
+            found.append(f"{where}: choice '{a.currentText()[:40]}' is cut off at {a.width()} px")
         if isinstance(a, QAbstractScrollArea) and a.horizontalScrollBar().maximum() > 0:
             # sideways scrolling hides columns or the ends of headings at this width
             found.append(f"{where}: {name(a)} scrolls sideways by {a.horizontalScrollBar().maximum()} px")
