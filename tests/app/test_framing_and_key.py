@@ -248,3 +248,28 @@ def test_a_label_stays_near_its_point_rather_than_wander_off():
     crowd = (20.0, 50.0 - 21.0, 80.0, 50.0 + 21.0)  # one box around the point, 4 label heights each way
     anchor, box = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [crowd], view)
     assert abs(0.5 * (box[1] + box[3]) - 50.0) <= 1.0 + 5.0  # beside the point, at the price of one clash
+
+
+def test_labels_are_placed_again_after_a_zoom(window, qtbot):
+    # labels are sized in pixels: placed for one scale they drifted off their stars at another
+    import pyqtgraph as pg
+
+    window.commands.open(files.SAMPLES_DIR / "busbar_enclosure.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    overlays, vb = window.canvas.overlays, window.canvas.plotItem.vb
+
+    def spot_label(name):
+        return next(i for i in overlays._items if isinstance(i, pg.TextItem) and i.toPlainText().startswith(name))
+
+    before = spot_label("L1:")
+    (x0, x1), (y0, y1) = vb.viewRange()
+    vb.setRange(xRange=(x0 / 2, x1 / 2), yRange=(y0 / 2, y1 / 2), padding=0)
+    qtbot.waitUntil(lambda: spot_label("L1:") is not before, timeout=3000)
+    scale = overlays.results.model.metres_per_unit
+    star = [v / scale for v in next(p for p in overlays.results.solution.peak_surface_fields if p.conductor == "L1").location_m]
+    label = spot_label("L1:")
+    rect = label.mapRectToScene(label.boundingRect())
+    corner = vb.mapViewToScene(pg.QtCore.QPointF(*star))
+    assert abs(rect.center().y() - corner.y()) < 4 * rect.height()  # beside its star at the new scale
