@@ -56,7 +56,7 @@ class Overlays:
         self.detail_runner.result_ready.connect(self._on_detail_ready)
         self._detail_for = None  # the results the running detail job belongs to
         self._drawn_view: tuple | None = None  # the view the labels were placed for
-        self._relabel_timer = QTimer()
+        self._relabel_timer = QTimer(plot_item.vb)  # goes with the view: never fires on a deleted one
         self._relabel_timer.setSingleShot(True)
         self._relabel_timer.setInterval(RELABEL_DELAY_MS)
         self._relabel_timer.timeout.connect(self._on_view_settled)
