@@ -70,6 +70,8 @@ class CopyableTable(QTableWidget):
         self._fit_timer.setSingleShot(True)
         self._fit_timer.timeout.connect(self._fit_width)
         self.setEditTriggers(QAbstractItemView.NoEditTriggers)
+        self.setStyleSheet(f"QTableWidget {{ selection-background-color: {colours.TABLE_SELECTION};"
+                           f" selection-color: {colours.TEXT}; }}")
         self.setSelectionMode(QAbstractItemView.ExtendedSelection)
         QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
 
