@@ -44,6 +44,10 @@ EARTH_FILL = (110, 110, 110, 40)
 DIELECTRIC_OUTLINE = "#3d3d3d"
 DIELECTRIC_HATCH = (40, 40, 40, 90)
 
+#: Selected cells of a table: a light neutral under body text, so a selection never reads as a
+#: conductor's identity colour (the system highlight is a blue close to the first conductor's).
+TABLE_SELECTION = "#d6dbe0"
+
 #: Outline of a shape being drawn (before it is placed).
 PREVIEW = "#8c8c8c"
 

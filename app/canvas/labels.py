@@ -37,6 +37,15 @@ class PartMask:
         r0, r1 = np.searchsorted(self.y, [box[1], box[3]])
         return bool(self.mask[max(r0 - 1, 0):r1 + 1, max(c0 - 1, 0):c1 + 1].any())
 
+    def covered_fraction(self, box) -> float:
+        """The share of ``box`` (0 ... 1) that lies over a conductor."""
+        if not self.mask.any():
+            return 0.0
+        c0, c1 = np.searchsorted(self.x, [box[0], box[2]])
+        r0, r1 = np.searchsorted(self.y, [box[1], box[3]])
+        cells = self.mask[max(r0 - 1, 0):r1 + 1, max(c0 - 1, 0):c1 + 1]
+        return float(cells.mean()) if cells.size else 0.0
+
 
 def centred_box(x: float, y: float, w: float, h: float):
     return (x - w / 2, y - h / 2, x + w / 2, y + h / 2)
@@ -49,15 +58,31 @@ def anchor_point(box, anchor) -> tuple[float, float]:
 
 
 #: Besides the four places beside the point, a label may stand this many label heights
-#: farther up or down (labels of close points stack instead of covering each other).
-STACK_STEPS = 4
+#: farther up or down (labels of close points stack instead of covering each other); each
+#: step away counts this fraction of a clash, so a label stays near its point when it can.
+STACK_STEPS = 2
+STEP_COST = 0.4
+#: A place moved into the view counts this fraction of a clash; covering conductors counts the
+#: share of the label that lies over them.
+MOVED_COST = 0.25
+
+
+def _moved_into_view(box, view):
+    """``box`` moved the least distance that puts it in ``view`` (its left and bottom edges win
+    when it is larger than the view)."""
+    v0, v1, w0, w1 = view
+    x0, y0, x1, y1 = box
+    dx = max(v0 - x0, 0.0) or -max(x1 - v1, 0.0)
+    dy = max(w0 - y0, 0.0) or -max(y1 - w1, 0.0)
+    return x0 + dx, y0 + dy, x1 + dx, y1 + dy
 
 
 def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None):
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
     places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
-    down, the one with the fewest clashes with ``placed`` boxes and conductors, in view if
-    possible (ties go to the nearest place, then the outward side, then upwards)."""
+    down, the one with the fewest clashes with ``placed`` boxes and conductors (the share of the
+    label over them). A place that leaves the view is moved into it (never cut off) and counts
+    :data:`MOVED_COST` of a clash, each step away :data:`STEP_COST` of one; ties go to the nearest place, then the outward side, then upwards."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
@@ -67,10 +92,10 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
             x0 = x + gap_x if right else x - gap_x - w
             y0 = y + gap_y + step * h if up else y - gap_y - h - step * h
             box = (x0, y0, x0 + w, y0 + h)
-            inside = v0 <= box[0] and box[2] <= v1 and w0 <= box[1] and box[3] <= w1
-            clashes = sum(overlap(box, other) for other in placed)
-            on_part = mask is not None and mask.covers(box)
-            candidates.append((clashes + on_part + (0 if inside else 2), step, order,
-                               (0.0 if right else 1.0, 1.0 if up else 0.0), box))
+            moved = _moved_into_view(box, view)
+            clashes = sum(overlap(moved, other) for other in placed)
+            on_part = mask.covered_fraction(moved) if mask is not None else 0.0
+            candidates.append((clashes + on_part + (MOVED_COST if moved != box else 0.0) + STEP_COST * step, step, order,
+                               (0.0 if right else 1.0, 1.0 if up else 0.0), moved))
     best = min(candidates, key=lambda c: c[:3])
     return best[3], best[4]

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QPointF
+from PySide6.QtCore import QPointF, QTimer
 from scipy import ndimage
 
 import solver
@@ -26,6 +26,10 @@ from app.jobs.figure_jobs import FigureJobRunner
 from app.units import format_field, format_potential
 
 __all__ = ["SHADINGS", "Overlays"]
+
+#: After the view stops changing (zoom, pan, resize) for this long, labels are placed again
+#: for the new scale, ms.
+RELABEL_DELAY_MS = 200
 
 
 
@@ -51,6 +55,27 @@ class Overlays:
         self.detail_runner = FigureJobRunner(plot_item)
         self.detail_runner.result_ready.connect(self._on_detail_ready)
         self._detail_for = None  # the results the running detail job belongs to
+        self._drawn_view: tuple | None = None  # the view the labels were placed for
+        self._relabel_timer = QTimer(plot_item.vb)  # goes with the view: never fires on a deleted one
+        self._relabel_timer.setSingleShot(True)
+        self._relabel_timer.setInterval(RELABEL_DELAY_MS)
+        self._relabel_timer.timeout.connect(self._on_view_settled)
+        plot_item.vb.sigRangeChanged.connect(lambda *_: self._relabel_timer.start())
+        plot_item.vb.sigResized.connect(lambda *_: self._relabel_timer.start())
+
+    def _view_key(self) -> tuple:
+        (v0, v1), (w0, w1) = self.plot.vb.viewRange()
+        return v0, v1, w0, w1, self.plot.vb.width(), self.plot.vb.height()
+
+    def _on_view_settled(self) -> None:
+        """Labels are sized in pixels and placed in model units: after a zoom, pan or resize
+        they are placed again (labels kept apart and in view at the new scale)."""
+        if self.results is None or self._drawn_view is None:
+            return
+        old, new = np.array(self._drawn_view), np.array(self._view_key())
+        span = max(abs(old[1] - old[0]), abs(old[3] - old[2]), 1e-300)
+        if np.any(np.abs(new[:4] - old[:4]) > 1e-3 * span) or np.any(np.abs(new[4:] - old[4:]) > 0.5):
+            self.redraw()
 
     # ---- public ----------------------------------------------------------------------------
     def set_results(self, results) -> None:
@@ -141,6 +166,7 @@ class Overlays:
         if self.show["surface charge"]:
             self._draw_surface_charge(r, scale)
         self.set_stale(self.stale)
+        self._drawn_view = self._view_key()
 
     def _units_per_pixel(self) -> tuple[float, float]:
         """Model units per screen pixel, across and up, in the current view."""
@@ -255,16 +281,20 @@ class Overlays:
         (v0, v1), (w0, w1) = self.plot.vb.viewRange()
         px, py = self._units_per_pixel()
         order = sorted(range(len(peaks)), key=lambda k: -peaks[k].field_V_per_m)
+        star = 18  # px: no label, of any layer, covers a star
+        self._label_boxes += [labels.centred_box(x, y, star * px, star * py) for x, y in zip(xs, ys)]
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")
-            w, h = labels.label_size(text, px, py)
+            bold = p.field_V_per_m == top
+            label = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL),
+                                border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
+            rect = label.textItem.boundingRect()  # the text as drawn, not a guess from its length
+            w, h = (rect.width() + 4) * px, (rect.height() + 2) * py
             anchor, box = labels.free_place(x, y, w, h, 10 * px, 10 * py, self._label_boxes, (v0, v1, w0, w1),
                                             self._mask)
             self._label_boxes.append(box)
-            bold = p.field_V_per_m == top
-            label = pg.TextItem(text, color=colours.TEXT, anchor=anchor, fill=pg.mkBrush(*colours.LABEL_FILL),
-                                border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
+            label.setAnchor(anchor)
             label.setPos(QPointF(*labels.anchor_point(box, anchor)))
             self._add(label, 36)
 

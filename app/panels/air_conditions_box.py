@@ -39,7 +39,9 @@ class AirConditionsBox(QGroupBox):
         form = QFormLayout(self)
         form.setRowWrapPolicy(QFormLayout.WrapLongRows)  # labels above their fields in a narrow panel
         self.mode = QComboBox()
-        self.mode.addItems(["altitude (standard-atmosphere pressure)", "measured pressure and temperature"])
+        self.mode.addItems(["altitude (standard atmosphere)", "measured pressure, temperature"])
+        self.mode.setToolTip("Altitude: the pressure of the standard atmosphere at that height, at the "
+                             "temperature given. Measured: the pressure and temperature at the site.")
         self.altitude_edit = _edit("0", "m", "altitude above sea level", "m")
         self.pressure_edit = _edit("101.325", "Pa", "pressure", "kPa")
         self.temperature_edit = _edit("20", "K", "temperature", "°C")

@@ -142,6 +142,7 @@ class HotSpotsView(QWidget):
         self.sweep_part.mark_stale(stale)
         self.radius_part.mark_stale(stale)
         self.table.setEnabled(not stale)
+        self._paint_statuses()
         if stale:
             if self.runner.is_busy:
                 self._pending = True
@@ -152,6 +153,20 @@ class HotSpotsView(QWidget):
             self._set_status(*self._last_status)
             if self._pending and self.isVisible():
                 self._start(self._corner_radius_m)
+
+    def _paint_statuses(self) -> None:
+        """Each status cell in its severity colours; in the stale colours while the drawing has
+        changed, so no verdict speaks at full strength for a drawing it was not made for."""
+        row = self.table.rowCount() - 1
+        for j, status in enumerate(getattr(self, "_statuses", [])):
+            cell = self.table.item(row, j)
+            if cell is None:
+                continue
+            badge = colours.SEVERITY.get(status, colours.SEVERITY["not assessed"])
+            text, background = ((colours.STALE_TEXT, colours.FRESHNESS["stale"].background) if self._stale
+                                else (badge.text, badge.background))
+            cell.setBackground(QColor(background))
+            cell.setForeground(QColor(text))
 
     def showEvent(self, event) -> None:
         super().showEvent(event)
@@ -279,11 +294,8 @@ class HotSpotsView(QWidget):
         # one column per conductor, so that every figure stays in view in a narrow panel; long
         # headings wrap onto two lines rather than push the table past the panel's edge
         self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [], wrap=14)
-        for j, status in enumerate(statuses):
-            badge = colours.SEVERITY.get(status, colours.SEVERITY["not assessed"])
-            cell = self.table.item(len(quantities) - 1, j)
-            cell.setBackground(QColor(badge.background))
-            cell.setForeground(QColor(badge.text))
+        self._statuses = statuses
+        self._paint_statuses()
         notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
                      "potential. Fields are crest values at the model's potentials. Voltage basis: "
                      f"{m.voltage_basis.describe()}"

@@ -9,7 +9,7 @@ from __future__ import annotations
 import textwrap
 
 import numpy as np
-from PySide6.QtCore import QSize, Qt
+from PySide6.QtCore import QSize, Qt, QTimer
 from PySide6.QtGui import QGuiApplication, QKeySequence, QShortcut
 from PySide6.QtWidgets import (
     QAbstractItemView,
@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
-from app.units import digits_for, format_measured, format_percent, format_plain, format_point
+from app.units import digits_for, format_measured, format_percent, format_plain, format_point, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -40,6 +40,19 @@ TO_EARTH_TIP = (
     "of the mutual form; the off-diagonal entries there are the capacitances between pairs.")
 
 
+#: A table that does not fit its place wraps its headings down to lines this many characters long.
+NARROWEST_WRAP = 6
+
+#: Room a row heading takes beside its text (the header's margins), pixels.
+HEADING_PADDING_PX = 12
+
+
+def _wrap_words(text: str, width: int) -> str:
+    """A cell's text with its worded lines wrapped to ``width`` characters (numbers never break)."""
+    return "\n".join(wrap_heading(line, width) if " " in line and len(line) > width else line
+                     for line in text.split("\n"))
+
+
 def wrap_heading(text: str, width: int) -> str:
     """``text`` broken between words into lines of at most ``width`` characters (a longer word
     keeps its own line), e.g. "air-breakdown field (MV/m)" -> "air-breakdown\\nfield (MV/m)"."""
@@ -51,15 +64,26 @@ class CopyableTable(QTableWidget):
 
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
+        self._texts = None
+        self._fitted_width = -1
+        self._fit_timer = QTimer(self)  # the fit runs once the view's own changes after a fill are in
+        self._fit_timer.setSingleShot(True)
+        self._fit_timer.timeout.connect(self._fit_width)
         self.setEditTriggers(QAbstractItemView.NoEditTriggers)
+        self.setStyleSheet(f"QTableWidget {{ selection-background-color: {colours.TABLE_SELECTION};"
+                           f" selection-color: {colours.TEXT}; }}")
         self.setSelectionMode(QAbstractItemView.ExtendedSelection)
         QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
 
     def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
         """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
         ``wrap`` characters break onto lines between words, so that a narrow panel shows them
-        whole without scrolling sideways (cells may hold line breaks too). With no ``rows`` the
-        table has no row headings (its first column says what each row is)."""
+        whole without scrolling sideways (cells may hold line breaks too); when the table is
+        still wider than its place, headings and worded cells wrap narrower (down to
+        :data:`NARROWEST_WRAP` characters) as the table is filled and resized. With no ``rows``
+        the table has no row headings (its first column says what each row is)."""
+        self._texts = (list(rows), list(columns), [list(r) for r in cells], wrap) if wrap else None
+        self._fitted_width = -1
         if wrap:
             rows, columns = [wrap_heading(r, wrap) for r in rows], [wrap_heading(c, wrap) for c in columns]
         self.clear()
@@ -73,11 +97,57 @@ class CopyableTable(QTableWidget):
                 item = QTableWidgetItem(text)
                 item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 self.setItem(i, j, item)
+        self._fit_height()
+        self._fit_timer.start(0)
+
+    def _fit_height(self) -> None:
         self.resizeColumnsToContents()
         self.resizeRowsToContents()
         self.horizontalHeader().resizeSections(QHeaderView.ResizeToContents)
         height = self.horizontalHeader().sizeHint().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
         self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
+
+    def _needed_width(self) -> int:
+        header = self.verticalHeader()
+        heading = 0
+        if not header.isHidden():  # its size hint may lag behind new texts: measure them too
+            metrics = header.fontMetrics()
+            texts = [self.verticalHeaderItem(i).text() for i in range(self.rowCount()) if self.verticalHeaderItem(i)]
+            widest = max((metrics.horizontalAdvance(line) for t in texts for line in t.split("\n")), default=0)
+            heading = max(header.sizeHint().width(), widest + HEADING_PADDING_PX)
+        return heading + sum(self.columnWidth(j) for j in range(self.columnCount()))
+
+    def _fit_width(self) -> None:
+        """Wrap headings and worded cells narrower until the table fits its width (or the
+        narrowest wrap is reached); item colours set by a view are kept."""
+        if self._texts is None or not self.isVisible() or self.width() == self._fitted_width:
+            return
+        self._fitted_width = self.width()
+        rows, columns, cells, wrap = self._texts
+        room = self.width() - 2 * self.frameWidth()
+        for width in range(wrap, NARROWEST_WRAP - 1, -2):
+            for i, text in enumerate(rows):
+                if self.verticalHeaderItem(i) is not None:
+                    self.verticalHeaderItem(i).setText(wrap_heading(text, width))
+            for j, text in enumerate(columns):
+                if self.horizontalHeaderItem(j) is not None:
+                    self.horizontalHeaderItem(j).setText(wrap_heading(text, width))
+            for i, row in enumerate(cells):
+                for j, text in enumerate(row):
+                    item = self.item(i, j)
+                    if item is not None and width < wrap:
+                        item.setText(_wrap_words(text, width))
+            self._fit_height()
+            if self._needed_width() <= room:
+                break
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        self._fit_timer.start(0)
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        self._fit_timer.start(0)
 
     def minimumSizeHint(self) -> QSize:
         """As narrow as a scroll area may be: the panel, not the table, sets the width."""
@@ -204,21 +274,24 @@ class MatricesView(QWidget):
         largest_field = max((p.field_V_per_m for p in peaks.values() if np.isfinite(p.field_V_per_m)), default=None)
         largest_charge = float(np.max(np.abs(sol.conductor_charges_C_per_m))) if len(model.conductors) else None
         names, columns = [], []
-        for k, c in enumerate(model.conductors):
+        for c in model.conductors:
             p = peaks.get(c.name)
             radius = results.equivalent_radius_m.get(c.name)
             x, y = ("", "") if p is None else (format_coordinate(p.location_m[0] / scale, size / scale),
                                                format_coordinate(p.location_m[1] / scale, size / scale))
             names.append(c.name)
-            columns.append([
-                format_measured(float(sol.conductor_potentials_V[k]), "V", digits=6),
-                format_measured(float(sol.conductor_charges_C_per_m[k]), "C/m", err, largest=largest_charge),
-                format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest_field) if p else "n/a",
-                x, y, ("yes" if p.at_sharp_corner else "no") if p else "",
-                format_plain(radius / scale, digits_for(err)) if radius else "n/a",
-            ])
+            columns.append([x, y, ("yes" if p.at_sharp_corner else "no") if p else "",
+                            format_plain(radius / scale, digits_for(err)) if radius else "n/a"])
+        # one unit per row, in its heading (cells hold numbers only: no row mixes kV and V)
+        potential_unit, potentials = cells_in_one_unit(list(sol.conductor_potentials_V), "V", 6)
+        charge_unit, charges = cells_in_one_unit(list(sol.conductor_charges_C_per_m), "C/m", digits_for(err),
+                                                 largest_charge, err)
+        field_unit, fields = cells_in_one_unit([peaks[c.name].field_V_per_m if c.name in peaks else None
+                                                for c in model.conductors], "V/m", 3, largest_field)
+        columns = [[a, b, c, *rest] for a, b, c, rest in zip(potentials, charges, fields, columns)]
         # one column per conductor (as in the High voltage section): every figure stays in view in a narrow panel
-        quantities = ["potential", "charge/length", "peak |E| at surface", f"peak at x ({model.unit})",
+        quantities = [f"potential ({potential_unit})", f"charge/length ({charge_unit})",
+                      f"peak |E| at surface ({field_unit})", f"peak at x ({model.unit})",
                       f"peak at y ({model.unit})", "peak at a sharp corner", f"equivalent radius ({model.unit})"]
         self.conductors.fill(quantities, names, [list(row) for row in zip(*columns)] if columns else [], wrap=14)
 
@@ -243,6 +316,26 @@ class MatricesView(QWidget):
         else:
             self.status.setText(self._status_text)
             self.status.setStyleSheet("")
+
+
+def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = None,
+                      relative_error: float | None = None) -> tuple[str, list[str]]:
+    """(prefixed unit, cells): ``values`` (SI; None for none) shown in one unit with the SI prefix
+    of the largest of them, to ``digits`` figures; round-off below ``ROUND_OFF`` x ``largest``
+    reads 0, and so does a value below ``relative_error`` x ``largest`` (the solve cannot tell it
+    from 0). E.g. [5091.2, -2545.6, 0.0] V -> ("kV", ["5.0912", "−2.5456", "0"])."""
+    finite = [abs(v) for v in values if v is not None and np.isfinite(v)]
+    top = max(finite, default=0.0)
+    factor, prefix = si_scale(top)
+    cells = []
+    for v in values:
+        if v is None or not np.isfinite(v):
+            cells.append("n/a")
+        elif v == 0 or (largest is not None and abs(v) <= max(ROUND_OFF, relative_error or 0.0) * abs(largest)):
+            cells.append("0")
+        else:
+            cells.append(format_plain(v / factor, digits))
+    return prefix + unit, cells
 
 
 def matrix_rows(results) -> tuple[list[str], np.ndarray, np.ndarray]:

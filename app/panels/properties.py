@@ -84,6 +84,7 @@ class PropertiesPanel(QWidget):
     def _on_model_changed(self, model) -> None:
         self.title_edit.blockSignals(True)
         self.title_edit.setText(model.title)
+        self.title_edit.setCursorPosition(0)  # a long title shows its start, not its end
         self.title_edit.blockSignals(False)
         self.eps_edit.show_value(model.background_eps_r, self.typed.text_for("background_eps_r", model.background_eps_r))
         for combo, text in ((self.unit_combo, model.unit), (self.density_combo, model.mesh_density)):

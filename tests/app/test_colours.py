@@ -28,6 +28,7 @@ def text_pairs():
         pairs += [(badge.text, badge.background), (badge.text, colours.PAGE)]
     label_fill = "#{:02x}{:02x}{:02x}".format(*colours.LABEL_FILL[:3])
     pairs.append((colours.TEXT, label_fill))
+    pairs.append((colours.TEXT, colours.TABLE_SELECTION))
     return pairs
 
 
@@ -49,6 +50,7 @@ def test_reserved_meanings_do_not_share_a_colour():
     freshness = {b.text for b in colours.FRESHNESS.values()} | {b.background for b in colours.FRESHNESS.values()}
     assert not (severity & freshness - {colours.PAGE})  # "thin" and "out of date" no longer share a colour
     assert colours.EARTH not in colours.CONDUCTOR_PALETTE and colours.INVALID not in severity
+    assert colours.TABLE_SELECTION not in colours.CONDUCTOR_PALETTE + tuple(severity | freshness)
     assert len(set(colours.CONDUCTOR_PALETTE)) == len(colours.CONDUCTOR_PALETTE)
     assert [colours.conductor_colour(i) for i in range(7)][6] == colours.CONDUCTOR_PALETTE[0]
     assert colours.conductor_colour(2, "reference") == colours.EARTH

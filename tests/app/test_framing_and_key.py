@@ -189,3 +189,87 @@ def test_charge_sticks_stand_apart_on_a_fine_mesh_and_keep_the_charge():
     x, _ = items[0].getData()
     assert len(x) // 2 == n // STICK_GAP_PX
     assert np.min(np.diff(x[::2])) >= STICK_GAP_PX * 0.01 * 0.999
+
+
+def test_a_label_with_no_place_in_view_is_moved_into_it():
+    view = (0.0, 100.0, 0.0, 100.0)
+    anchor, box = labels.free_place(50.0, 50.0, 60.0, 5.0, 1.0, 1.0, [], view)  # wider than either side
+    assert 0.0 <= box[0] and box[2] <= 100.0
+
+
+def test_hot_spot_labels_of_the_three_traces_stay_apart_and_in_view(window, qtbot):
+    import pyqtgraph as pg
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / "three_traces_over_ground.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    qtbot.wait(50)
+    vb = window.canvas.plotItem.vb
+    view = vb.mapRectToScene(vb.boundingRect())
+    spots = [i for i in window.canvas.overlays._items if isinstance(i, pg.TextItem) and "V/m" in i.toPlainText()]
+    assert len(spots) == 3
+    rects = [s.mapRectToScene(s.boundingRect()) for s in spots]
+    for k, r in enumerate(rects):
+        assert view.adjusted(-1, -1, 1, 1).contains(r), spots[k].toPlainText()
+        for other in rects[k + 1:]:
+            overlap = r.intersected(other)
+            assert overlap.width() < 2 or overlap.height() < 2
+
+
+def test_no_label_covers_a_hot_spot_star(window, qtbot):
+    # the three-phase line's "−11.3 kV" equipotential label sat on the star of L3
+    import pyqtgraph as pg
+    from PySide6.QtCore import QPointF
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / "three_phase_line.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    qtbot.wait(50)
+    overlays = window.canvas.overlays
+    scale = overlays.results.model.metres_per_unit
+    stars = [QPointF(p.location_m[0] / scale, p.location_m[1] / scale)
+             for p in overlays.results.solution.peak_surface_fields]
+    texts = [i for i in overlays._items if isinstance(i, pg.TextItem)]
+    assert len(texts) > len(stars)  # equipotential labels and hot-spot labels
+    vb = window.canvas.plotItem.vb
+    for item in texts:
+        rect = item.mapRectToScene(item.boundingRect())
+        for star in stars:
+            assert not rect.contains(vb.mapViewToScene(star)), item.toPlainText()
+
+
+def test_a_label_stays_near_its_point_rather_than_wander_off():
+    # the busbar's "L2: 496 kV/m" once stood five label heights below its star, outside the enclosure
+    view = (0.0, 100.0, 0.0, 100.0)
+    crowd = (20.0, 50.0 - 21.0, 80.0, 50.0 + 21.0)  # one box around the point, 4 label heights each way
+    anchor, box = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [crowd], view)
+    assert abs(0.5 * (box[1] + box[3]) - 50.0) <= 1.0 + 5.0  # beside the point, at the price of one clash
+
+
+def test_labels_are_placed_again_after_a_zoom(window, qtbot):
+    # labels are sized in pixels: placed for one scale they drifted off their stars at another
+    import pyqtgraph as pg
+
+    window.commands.open(files.SAMPLES_DIR / "busbar_enclosure.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    overlays, vb = window.canvas.overlays, window.canvas.plotItem.vb
+
+    def spot_label(name):
+        return next(i for i in overlays._items if isinstance(i, pg.TextItem) and i.toPlainText().startswith(name))
+
+    before = spot_label("L1:")
+    (x0, x1), (y0, y1) = vb.viewRange()
+    vb.setRange(xRange=(x0 / 2, x1 / 2), yRange=(y0 / 2, y1 / 2), padding=0)
+    qtbot.waitUntil(lambda: spot_label("L1:") is not before, timeout=3000)
+    scale = overlays.results.model.metres_per_unit
+    star = [v / scale for v in next(p for p in overlays.results.solution.peak_surface_fields if p.conductor == "L1").location_m]
+    label = spot_label("L1:")
+    rect = label.mapRectToScene(label.boundingRect())
+    corner = vb.mapViewToScene(pg.QtCore.QPointF(*star))
+    assert abs(rect.center().y() - corner.y()) < 4 * rect.height()  # beside its star at the new scale

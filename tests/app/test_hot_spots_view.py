@@ -206,3 +206,21 @@ def test_default_radii_of_every_sample_conductor_with_corners_are_accepted():
         assert len(radii) == 5 and radii == sorted(radii)
         for r in radii:
             solver.round_sharp_corners(model, r * model.metres_per_unit, [name], replace_radius=True)
+
+
+def test_status_cells_lose_their_severity_colour_while_out_of_date(qtbot):
+    # the electrode at 700 kV: "exceeded" stayed red at full strength on a dimmed, changed drawing
+    from app import colours
+    from app import edits as app_edits
+
+    model = app_edits.update_conductor(solver.load_project(HV_SAMPLE).with_mesh_density("coarse"), 0,
+                                       potential_V=700e3)
+    view = open_view(qtbot, model)
+    cell = view.table.item(view.table.rowCount() - 1, 0)
+    assert cell.text() == "exceeded"
+    assert cell.foreground().color().name() == colours.SEVERITY["exceeded"].text
+    view.mark_stale(True)
+    assert cell.foreground().color().name() == colours.STALE_TEXT
+    assert cell.background().color().name() == colours.FRESHNESS["stale"].background
+    view.mark_stale(False)
+    assert cell.foreground().color().name() == colours.SEVERITY["exceeded"].text

@@ -57,3 +57,23 @@ def test_no_empty_table_frames_before_a_solve(qtbot, results):
     assert v.status.isVisible() and "Solve" in v.status.text()
     v.show_results(results)
     assert all(t.isVisible() and t.columnCount() == 3 for t in tables) and all(b.isVisible() for b in v.copy_buttons)
+
+
+def test_each_row_of_the_per_conductor_table_has_one_unit_in_its_heading():
+    # a column once mixed "5.09117 kV" and "0 V" per cell, and four conductors scrolled sideways
+    from app.panels.matrices_view import cells_in_one_unit
+
+    assert cells_in_one_unit([5091.168825, -2545.584412, 0.0], "V", 6) == ("kV", ["5.09117", "\u22122.54558", "0"])
+    assert cells_in_one_unit([7.4211e-7, 3.1e-20, None], "C/m", 4, largest=7.4211e-7) == ("nC/m", ["742.1", "0", "n/a"])
+    assert cells_in_one_unit([0.0, 0.0], "V", 4) == ("V", ["0", "0"])
+    # the shielded cable's screen carries 3.1e-14 C/m beside 7.4e-7 C/m known to 1e-4: not "3.1222e-05"
+    assert cells_in_one_unit([7.4211e-7, 3.1222e-14], "C/m", 4, 7.4211e-7, 1e-4)[1] == ["742.1", "0"]
+
+
+def test_per_conductor_cells_are_numbers_under_a_heading_with_the_unit(view):
+    rows = [view.conductors.verticalHeaderItem(i).text().replace("\n", " ") for i in range(view.conductors.rowCount())]
+    assert rows[0] == "potential (V)" and rows[1].startswith("charge/length (") and rows[1].endswith("C/m)")
+    assert rows[2].startswith("peak |E| at surface (") and rows[2].endswith("V/m)")
+    for i in range(3):
+        for j in range(view.conductors.columnCount()):
+            float(view.conductors.item(i, j).text().replace("\u2212", "-"))  # a bare number

@@ -21,6 +21,9 @@ import solver
 from app import edits
 from app.files import project_files as files
 
+#: Room a drop-down list takes beside its text (frame and arrow), pixels.
+COMBO_ARROW_PX = 28
+
 SIZES = ((1366, 768), (1500, 900), (1920, 1080), (1024, 640))
 
 #: Widgets whose inside is their own business (scroll areas clip by design; plots draw themselves).
@@ -54,6 +57,9 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
                 found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
         if isinstance(a, QLabel) and not a.wordWrap() and a.text() and a.sizeHint().width() > a.width() + 1:
             found.append(f"{where}: label '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
+        if isinstance(a, QComboBox) and a.currentText() and (
+                a.fontMetrics().horizontalAdvance(a.currentText()) > a.width() - COMBO_ARROW_PX):
+            found.append(f"{where}: choice '{a.currentText()[:40]}' is cut off at {a.width()} px")
         if isinstance(a, QAbstractScrollArea) and a.horizontalScrollBar().maximum() > 0:
             # sideways scrolling hides columns or the ends of headings at this width
             found.append(f"{where}: {name(a)} scrolls sideways by {a.horizontalScrollBar().maximum()} px")
@@ -131,6 +137,7 @@ def test_every_section_fits_at_every_size(hv_twin, qtbot, size):
 
 @pytest.mark.parametrize(("sample", "size"), [("busbar_enclosure.json", (1366, 768)),
                                             ("three_traces_over_ground.json", (1366, 768)),
+                                            ("shielded_three_core_cable.json", (1366, 768)),
                                             ("busbar_enclosure.json", (1920, 1080))])
 def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(window, qtbot, sample, size):
     """Three conductors and an enclosure (or a ground plane): the High voltage table, the
@@ -298,3 +305,25 @@ def test_filled_sweep_and_cross_check_fit_at_every_size(window, qtbot):
     fill_on_demand_views(window, qtbot, cross_check=True)
     found = [p for size in SIZES for p in filled_problems(window, qtbot, size, ["High voltage", "Cross-check"])]
     assert found == [], "\n".join(found)
+
+
+def test_a_table_wider_than_its_place_wraps_narrower_and_keeps_its_colours(qtbot):
+    # the High voltage table of the shielded three-core cable (four columns of "not assessed")
+    # scrolled sideways at 1366 x 768; the table now wraps its headings and worded cells narrower
+    from PySide6.QtGui import QColor
+
+    from app.panels.matrices_view import CopyableTable
+
+    table = CopyableTable()
+    qtbot.addWidget(table)
+    table.resize(380, 200)  # room for the wrapped table, not for "not assessed" on one line
+    table.show()
+    rows = ["air-breakdown field (MV/m)", "corona-onset margin", "status"]
+    table.fill(rows, ["L1", "L2", "L3", "screen"], [["3.9"] * 4, ["—"] * 4, ["not assessed"] * 4], wrap=14)
+    table.item(2, 0).setBackground(QColor("#e8e8e8"))  # a colour a view sets after filling
+    before = table.horizontalScrollBar()
+    settle(qtbot)
+    assert table._needed_width() <= table.width() - 2 * table.frameWidth()
+    assert before.maximum() == 0 and table.item(2, 0).text() == "not\nassessed"
+    assert table.item(2, 0).background().color().name() == "#e8e8e8"
+    assert table.as_text().splitlines()[3].split("\t")[:2] == ["status", "not assessed"]  # copied whole

@@ -121,3 +121,12 @@ def test_picking_on_the_canvas_selects_the_row_in_the_parts_list(window):
     click(window.canvas, (-10, 15))
     (row,) = window.parts.selectedItems()
     assert row.text(0) == "conductor 1"
+
+
+def test_a_long_title_shows_its_start(window):
+    # the busbar's title read "arthed steel enclosure": the field showed the end of it
+    from app.files import project_files as files
+
+    window.commands.open(files.SAMPLES_DIR / "busbar_enclosure.json")
+    edit = window.properties.title_edit
+    assert len(edit.text()) > 30 and edit.cursorPosition() == 0
