@@ -46,6 +46,7 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.linalg
 
+from solver.bem.assembly import right_hand_sides
 from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
@@ -53,6 +54,7 @@ from solver.bem.far_blocks import compressed_far_evaluation, separation
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
+from solver.bem.superposition import solve_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.errors import MeshTooLargeError
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
@@ -323,7 +325,8 @@ class GeometryEditSolver:
                 return None
             u, moment_map = compressed_far_evaluation(disc, system.mesh.midpoints[p] / system.length_scale_m,
                                                       system.plane)
-        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map)
+        rhs = right_hand_sides(system.mesh, system.layout, *solve_columns(system.model)[2:])
+        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map, also=rhs[p])
         return solves if solves.usable else None
 
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,

@@ -10,7 +10,9 @@
   plus its 120 x 120 map (what the window draws first), the same after an edit solved
   afresh, then the figures that follow (error estimate, field lines, equivalent radii).
 
-The 100-conductor bus is in :mod:`solver.bench.bus`.
+The 100-conductor bus is in :mod:`solver.bench.bus`. Click-to-drawn in the desktop program
+itself (the real window driven offscreen, the drawing timed too) is ``python -m app.bench_window``
+(the solver does not import Qt).
 
 Wall-clock times on a shared machine are noisy: compare ratios and run twice.
 """
@@ -98,6 +100,8 @@ def interactive() -> None:
     print(f"    after an edit solved afresh       {t_first:9.3f} s   (edited model solved, 120 x 120 map)")
     print(f"  figures after the drawing           {t_rest:9.3f} s   (error estimate, field lines, "
           "equivalent radii)")
+    print("  click-to-drawn in the desktop program itself (the window driven offscreen, solver part and "
+          "drawing apart): python -m app.bench_window")
 
 
 def _drag_steps(model):
