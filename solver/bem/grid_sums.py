@@ -324,11 +324,11 @@ def grid_potential_and_gradient_sums(
 
     # corrections and exact terms only at wanted grid nodes (not at lattice nodes outside the
     # grid, nor at skipped ones): fewer terms to compute and to add up
-    wanted = np.zeros((lat.ny, lat.nx), dtype=bool)
+    wanted_nodes = np.zeros((lat.ny, lat.nx), dtype=bool)
     rows = slice(lat.grid_j0, lat.grid_j0 + len(y))
     cols = slice(lat.grid_i0, lat.grid_i0 + len(x))
-    wanted[rows, cols] = True if skip is None else ~np.asarray(skip, dtype=bool).reshape(len(y), len(x))
-    wanted = wanted.ravel()
+    wanted_nodes[rows, cols] = True if skip is None else ~np.asarray(skip, dtype=bool).reshape(len(y), len(x))
+    wanted = wanted_nodes.ravel()
     core_i, core_j = ti[core], tj[core]
     core_target = ((home_j[:, None] + core_j[None, :]) * lat.nx + (home_i[:, None] + core_i[None, :])).ravel()
     sub = np.repeat(np.arange(len(qs)), len(core_i))
