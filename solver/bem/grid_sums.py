@@ -319,7 +319,6 @@ def grid_potential_and_gradient_sums(
     )
     moments = gather @ per_sub
     data = np.hstack([moments.real, moments.imag, patches.reshape(n_cells, n_patch * n_patch)])
-    correction = data @ operator  # (cells, 3 window)
     size = lat.nx * lat.ny
 
     # corrections and exact terms only at wanted grid nodes (not at lattice nodes outside the
@@ -338,11 +337,15 @@ def grid_potential_and_gradient_sums(
     exact = np.stack(log_potential_and_gradient_pairs(tgt, a[sub], b[sub])) * qs[sub]
     window_target = ((cj[:, None] + tj[None, :]) * lat.nx + (ci[:, None] + ti[None, :])).ravel()
     kept = wanted[window_target]
-    per_layer = correction.reshape(n_cells, 3, len(ti)).transpose(1, 0, 2).reshape(3, -1)[:, kept]
     target = np.concatenate([window_target[kept], core_target])
-    s, sx, sy = (
-        layer[rows, cols] + np.bincount(target, np.concatenate([per_layer[k], exact[k]]), minlength=size)
-        .reshape(lat.ny, lat.nx)[rows, cols]
-        for k, layer in enumerate((s, sx, sy))
-    )
+    n_window = len(ti)
+
+    def corrected(k: int, layer: np.ndarray) -> np.ndarray:
+        """Layer k (S, dS/dx, dS/dy) on the grid with the window corrections (the product
+        taken one layer at a time: its columns are the windows of S, then dS/dx, then dS/dy)."""
+        correction = data @ operator[:, k * n_window:(k + 1) * n_window]  # (cells, window)
+        added = np.bincount(target, np.concatenate([correction.ravel()[kept], exact[k]]), minlength=size)
+        return layer[rows, cols] + added.reshape(lat.ny, lat.nx)[rows, cols]
+
+    s, sx, sy = (corrected(k, layer) for k, layer in enumerate((s, sx, sy)))
     return s, np.stack([sx, sy], axis=-1)
