@@ -11,8 +11,8 @@ model is then solved by block elimination (a Schur complement):
     x_Q = S^-1 (b_Q - A_QP A_PP^-1 b_P),   x_P = A_PP^-1 b_P - Y x_Q,
 
 where Q holds the unknowns of the edited conductors, the floating potentials and phi_inf.
-Only the rows and columns of the edited panels are assembled again; the rest of the matrix
-is copied from the previous one. The solves with A_PP come from the LU factors of the last
+Only the rows and columns of the edited panels are assembled again, into the previous
+matrix itself when the unchanged panels keep their places (:mod:`solver.bem.edit_blocks`). The solves with A_PP come from the LU factors of the last
 fresh solve's whole matrix when the low-rank blocks below allow it
 (:class:`solver.bem.block_solves.BorderedSolves`: the first edit of a conductor factorises
 nothing), else from A_PP's own factors, made at the first edit and reused by every further
@@ -21,7 +21,8 @@ edit of the same conductor, as a drag does.
 When the edited conductors keep clear of the others (a disc around them, R / D <= 0.6 of
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
 multipole and local expansions (:mod:`solver.bem.far_blocks`, 80 to 110 terms on the busbar
-sample instead of |Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc
+sample instead of |Q| columns, the far terms compressed to about 65 by an SVD), so Y costs
+r + |X| solves with A_PP instead of |Q|. The disc
 of the expansions is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the
 edited panels stay inside it, so during a drag those solves are reused too and a step costs
 the new rows and columns in low-rank form,
