@@ -84,12 +84,20 @@ class _Watch:
 
 
 def _wait(app, condition, timeout_s: float = 120.0) -> None:
+    """Process events until ``condition()`` holds, sleeping in between (the solver thread has
+    the processor to itself, as when the user waits)."""
+    from PySide6.QtCore import QEventLoop, QTimer
+
+    wake = QTimer()
+    wake.start(20)  # wakes the wait below now and then, to check the clock
     end = time.perf_counter() + timeout_s
-    while not condition():
-        if time.perf_counter() > end:
-            raise TimeoutError("the window did not draw the results in time")
-        app.processEvents()
-        time.sleep(0.0005)
+    try:
+        while not condition():
+            if time.perf_counter() > end:
+                raise TimeoutError("the window did not draw the results in time")
+            app.processEvents(QEventLoop.WaitForMoreEvents)
+    finally:
+        wake.stop()
 
 
 def measure(repeat: int = 3) -> list[Click]:

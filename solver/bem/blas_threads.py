@@ -53,9 +53,12 @@ def blas_threads_for(n_unknowns: int) -> AbstractContextManager[object]:
     >>> with blas_threads_for(10):
     ...     lu = scipy.linalg.lu_factor(np.eye(10))
     """
-    if n_unknowns >= SINGLE_THREAD_BELOW or ThreadpoolController is None:
+    if ThreadpoolController is None:
         return contextlib.nullcontext()
-    return _blas_controller().limit(limits=1, user_api="blas")
+    controller = _blas_controller()  # made at the first large solve too, not at the first edit after it
+    if n_unknowns >= SINGLE_THREAD_BELOW:
+        return contextlib.nullcontext()
+    return controller.limit(limits=1, user_api="blas")
 
 
 def one_blas_thread() -> AbstractContextManager[object]:

@@ -64,13 +64,21 @@ class LUSolves:
     def __init__(self, lu: tuple, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> None:
         self.lu, self.starts, self.ends, self.ell, self.plane = lu, starts, ends, ell, plane
         self._z: tuple | None = None
+        self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
 
     def matches(self, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> bool:
         return (ell == self.ell and plane == self.plane and starts.shape == self.starts.shape
                 and np.array_equal(starts, self.starts) and np.array_equal(ends, self.ends))
 
     def solve(self, x: np.ndarray) -> np.ndarray:
-        return scipy.linalg.lu_solve(self.lu, x, check_finite=False)
+        """A_PP^-1 x (the last one kept: a drag's right-hand sides repeat from step to step)."""
+        last = self._last
+        if last is not None and last[0].shape == x.shape and np.array_equal(last[0], x):
+            return last[1].copy()
+        out = scipy.linalg.lu_solve(self.lu, x, check_finite=False)
+        if x.ndim == 2 and x.shape[1] <= 8:  # right-hand sides, not the columns of a block
+            self._last = (np.array(x), out.copy())
+        return out
 
     def z_for(self, u: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:
         """(A_PP^-1 [U | A_PX], reused): kept while U is the same array (the same disc)."""
@@ -89,11 +97,13 @@ class BorderedSolves:
     panels of the full system (the edited conductors' old panels); ``disc`` must hold them.
     ``usable`` is False (and the solves must not be used) when I - W is ill-conditioned.
     ``moment_map``: C when ``u`` is compressed (U = Q, moments C @ V; see
-    :func:`solver.bem.far_blocks.compressed_far_evaluation`).
+    :func:`solver.bem.far_blocks.compressed_far_evaluation`). ``also``: right-hand sides
+    (rows P) expected at the first :meth:`solve`, solved in the same pass as the border.
     """
 
     def __init__(self, full: FullFactor, p_full: np.ndarray, q_old: np.ndarray, disc: Separation,
-                 u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None) -> None:
+                 u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None,
+                 also: np.ndarray | None = None) -> None:
         self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
         size = full.lu[0].shape[0]
         self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
@@ -101,15 +111,19 @@ class BorderedSolves:
         if moment_map is not None:  # U is compressed (far_blocks.compressed_far_evaluation)
             self.v_old = moment_map @ self.v_old
         self.a_px = np.array(a_px)
-        columns = np.hstack([u, self.a_px])
-        y = self._full_solve(columns)
-        border = np.eye(len(columns.T)) - self._old_columns(y[self.q_full])
+        n_border = u.shape[1] + self.a_px.shape[1]
+        # the right-hand sides ``also`` go along in the same pass over the factors
+        y = self._full_solve(np.hstack([u, self.a_px] + ([] if also is None else [also])))
+        border = np.eye(n_border) - self._old_columns(y[self.q_full, :n_border])
         self.usable = bool(np.all(np.isfinite(border)) and np.linalg.cond(border) <= MAX_BORDER_CONDITION)
-        self.t = y[p_full]
+        self.t = y[p_full, :n_border]
         if self.usable:
-            self.t = scipy.linalg.solve(border.T, y[p_full].T, check_finite=False).T
+            self.t = scipy.linalg.solve(border.T, self.t.T, check_finite=False).T
         self._used = False
         self._z: tuple | None = None
+        self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
+        if also is not None and self.usable:
+            self._last = (np.array(also), self._combined(y[:, n_border:]))
 
     def _full_solve(self, x_p: np.ndarray) -> np.ndarray:
         padded = np.zeros((self.full.lu[0].shape[0],) + x_p.shape[1:])
@@ -128,7 +142,15 @@ class BorderedSolves:
                 and np.array_equal(a_px, self.a_px))
 
     def solve(self, x: np.ndarray) -> np.ndarray:
-        y = self._full_solve(x)
+        """A_PP^-1 x (the last one kept: a drag's right-hand sides repeat from step to step)."""
+        last = self._last
+        if last is not None and last[0].shape == x.shape and np.array_equal(last[0], x):
+            return last[1].copy()
+        out = self._combined(self._full_solve(x))
+        self._last = (np.array(x), out.copy())
+        return out
+
+    def _combined(self, y: np.ndarray) -> np.ndarray:
         return y[self.p_full] + self.t @ self._old_columns(y[self.q_full])
 
     def z_for(self, u: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:

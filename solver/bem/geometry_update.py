@@ -11,8 +11,8 @@ model is then solved by block elimination (a Schur complement):
     x_Q = S^-1 (b_Q - A_QP A_PP^-1 b_P),   x_P = A_PP^-1 b_P - Y x_Q,
 
 where Q holds the unknowns of the edited conductors, the floating potentials and phi_inf.
-Only the rows and columns of the edited panels are assembled again; the rest of the matrix
-is copied from the previous one. The solves with A_PP come from the LU factors of the last
+Only the rows and columns of the edited panels are assembled again, into the previous
+matrix itself when the unchanged panels keep their places (:mod:`solver.bem.edit_blocks`). The solves with A_PP come from the LU factors of the last
 fresh solve's whole matrix when the low-rank blocks below allow it
 (:class:`solver.bem.block_solves.BorderedSolves`: the first edit of a conductor factorises
 nothing), else from A_PP's own factors, made at the first edit and reused by every further
@@ -21,7 +21,8 @@ edit of the same conductor, as a drag does.
 When the edited conductors keep clear of the others (a disc around them, R / D <= 0.6 of
 the distance to the nearest other panel), A_PQ and A_QP are taken in low-rank form from
 multipole and local expansions (:mod:`solver.bem.far_blocks`, 80 to 110 terms on the busbar
-sample instead of |Q| columns), so Y costs r + |X| solves with A_PP instead of |Q|. The disc
+sample instead of |Q| columns, the far terms compressed to about 65 by an SVD), so Y costs
+r + |X| solves with A_PP instead of |Q|. The disc
 of the expansions is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the
 edited panels stay inside it, so during a drag those solves are reused too and a step costs
 the new rows and columns in low-rank form,
@@ -46,6 +47,7 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.linalg
 
+from solver.bem.assembly import right_hand_sides
 from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
 from solver.bem.edit_blocks import FarParts, ReusedBlock, block
@@ -53,6 +55,7 @@ from solver.bem.far_blocks import compressed_far_evaluation, separation
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
+from solver.bem.superposition import solve_columns
 from solver.bem.system import BoundarySystem, build_system
 from solver.errors import MeshTooLargeError
 from solver.mesh.panels import MeshSettings, PanelMesh, discretize_boundary
@@ -323,7 +326,8 @@ class GeometryEditSolver:
                 return None
             u, moment_map = compressed_far_evaluation(disc, system.mesh.midpoints[p] / system.length_scale_m,
                                                       system.plane)
-        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map)
+        rhs = right_hand_sides(system.mesh, system.layout, *solve_columns(system.model)[2:])
+        solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map, also=rhs[p])
         return solves if solves.usable else None
 
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
