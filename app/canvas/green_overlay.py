@@ -22,6 +22,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+import contourpy
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import QObject, QPointF, Qt, Signal
@@ -172,11 +173,12 @@ class GreenOverlay(QObject):
         pen = pg.mkPen(colours.CONSTRUCTION, width=1.2)  # solid: contours
         min_gap = LABEL_GAP * (m.x[-1] - m.x[0])
         placed: list[np.ndarray] = []
+        contours = contourpy.contour_generator(z=filled, line_type=contourpy.LineType.Separate)
         for level in contour_levels(m.g):
             longest = None
-            for line in pg.functions.isocurve(filled, level, connected=True):
-                pts = np.asarray(line) - 0.5  # isocurve's points sit half a cell off the samples
-                xs, ys = m.x[0] + pts[:, 1] * dx, m.y[0] + pts[:, 0] * dy
+            for line in contours.lines(level):
+                cols, rows = np.asarray(line, dtype=float).T  # in sample steps
+                xs, ys = m.x[0] + cols * dx, m.y[0] + rows * dy
                 self._add(pg.PlotCurveItem(xs, ys, pen=pen))
                 longest = (xs, ys) if longest is None or len(xs) > len(longest[0]) else longest
             if longest is None:

@@ -108,6 +108,7 @@ class CornerRadiusPart(QWidget):
         self.runner.cancel()
         self._clear()
         model = results.model
+        before = (self.conductor_box.currentText(), self.radii_label.text())
         self.radii_label.setText(f"radii ({model.unit})")
         self.conductor_box.blockSignals(True)
         self.conductor_box.clear()
@@ -116,7 +117,10 @@ class CornerRadiusPart(QWidget):
         if sharp:
             self.conductor_box.setCurrentText(sharp[0])
         self.conductor_box.blockSignals(False)
-        self._on_conductor_changed(self.conductor_box.currentText())
+        # radii the user typed (or were offered) for the same conductor in the same unit are kept
+        # through a re-solve, such as every step of a drag
+        if (self.conductor_box.currentText(), self.radii_label.text()) != before or not self.radii_edit.text().strip():
+            self._on_conductor_changed(self.conductor_box.currentText())
         self._set_axes(model.unit, "kV/m")
         self._set_status("Pick a conductor and radii, then run the sweep." if sharp else
                          "No conductor has sharp corners as drawn. The sweep gives each corner of a one-rectangle "

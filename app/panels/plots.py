@@ -66,6 +66,7 @@ class BoundaryPlot(QWidget):
         self._marker_row: pg.PlotItem | None = None
         self.plot.scene().sigMouseClicked.connect(self._on_scene_clicked)
         self.rows: list[tuple[pg.PlotItem, np.ndarray, np.ndarray, np.ndarray]] = []
+        self._items: list[pg.PlotItem] = []
         self._factor = 1.0
         self._stale = False
 
@@ -94,9 +95,16 @@ class BoundaryPlot(QWidget):
         mesh, sigma = sol.mesh, sol.surface_charge_density_C_per_m2
         scale = model.metres_per_unit
         self._remove_marker()
-        self.plot.clear()
-        self.rows = []
         shown = self._shown()
+        # the plot items are kept while the number of rows stays (a drag re-solves many times a
+        # second, and making a plot item costs more than drawing its curve)
+        if len(self._items) != len(shown):
+            self.plot.clear()
+            self._items = [self.plot.addPlot(row=r, col=0) for r in range(len(shown))]
+            for item in self._items:
+                style_axes(item)
+                item.showGrid(x=True, y=True, alpha=0.2)
+        self.rows = []
         per_conductor = {}
         for k in shown:
             idx = np.flatnonzero(mesh.conductor_index == k)
@@ -111,13 +119,11 @@ class BoundaryPlot(QWidget):
             colour = colours.display_colour(c, k)
             values, clipped, _limit = clip_spikes(sigma[idx])
             y = values / self._factor
-            item = self.plot.addPlot(row=r, col=0)
-            style_axes(item)
-            item.showGrid(x=True, y=True, alpha=0.2)
+            item = self._items[r]
+            item.clear()
             item.setTitle(c.name, color=colours.TEXT, size="9pt")
             item.setLabel("left", f"σ ({prefix}C/m²)")
-            if r == len(shown) - 1:
-                item.setLabel("bottom", f"distance along boundary ({model.unit})")
+            item.setLabel("bottom", f"distance along boundary ({model.unit})" if r == len(shown) - 1 else None)
             rings = mesh.ring_index[idx]  # break the curve between rings so separate outlines are not joined
             connect = np.r_[rings[1:] == rings[:-1], False]
             item.plot(s, y, pen=pg.mkPen(colour, width=2), connect=connect)

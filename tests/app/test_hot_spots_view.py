@@ -128,6 +128,19 @@ def test_sharp_corner_is_singular_and_a_radius_rounds_it(qtbot):
     assert not view.verdicts[-1].alarming
 
 
+def test_typed_radii_are_kept_through_a_re_solve_of_the_same_conductor(qtbot):
+    model = solver.load_project(HV_SAMPLE)
+    view = open_view(qtbot, model)
+    part = view.sweep_part
+    offered = part.radii_edit.text()
+    part.radii_edit.setText("0.01, 0.02, 0.03")
+    view.show_results(compute_results(model, grid_points=0, n_field_lines=0))  # e.g. a drag step
+    assert part.radii_edit.text() == "0.01, 0.02, 0.03"
+    part.radii_edit.setText("")  # an empty field is offered the defaults again
+    view.show_results(compute_results(model, grid_points=0, n_field_lines=0))
+    assert part.radii_edit.text() == offered
+
+
 def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
     view = open_view(qtbot, solver.load_project(HV_SAMPLE))
     part = view.sweep_part
