@@ -14,6 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import QRectF
+from scipy import ndimage
 
 from app import colours
 from app.canvas.colour_key import colour_map
@@ -40,11 +41,26 @@ class Shading:
         """``grid`` as an image item in model units, on this shading's levels."""
         x, y = grid.x_m / metres_per_unit, grid.y_m / metres_per_unit
         dx, dy = x[1] - x[0], y[1] - y[0]
-        img = pg.ImageItem(self.values(grid))
+        img = pg.ImageItem(under_metal_filled(self.values(grid), grid))
         img.setRect(QRectF(x[0] - dx / 2, y[0] - dy / 2, dx * len(x), dy * len(y)))
         img.setColorMap(self.cmap)
         img.setLevels((self.lo, self.hi if self.hi > self.lo else self.lo + 1.0))
         return img
+
+
+def under_metal_filled(values: np.ndarray, grid) -> np.ndarray:
+    """``values`` with the rim of cells inside metal (no potential there, within 1.5 cells of
+    the field) given their nearest field cell's value. The conductors are drawn over those
+    cells; without this, cells whose centres lie inside a conductor but which reach past its
+    drawn edge showed as white slivers along straight edges."""
+    metal = ~np.isfinite(grid.potential_V)
+    if not metal.any() or metal.all():
+        return values
+    distance, nearest = ndimage.distance_transform_edt(metal, return_indices=True)
+    # only the rim next to the field; rows without any field cell lie below a ground plane,
+    # where the earth band, not a colour, belongs
+    rim = metal & (distance <= 1.5) & ~metal.all(axis=1, keepdims=True)
+    return np.where(rim, values[tuple(nearest)], values)
 
 
 def shading_of(kind: str, grid, conductor_potentials_V) -> Shading | None:
