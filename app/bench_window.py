@@ -129,7 +129,10 @@ def measure(repeat: int = 3) -> list[Click]:
         window.runner.edits = solver.GeometryEditSolver()  # the next solve is a fresh one
         window.load(original, None)
         window.solve()
-        _wait(app, lambda: window.results is not None and window.results.complete and not window.runner.is_busy)
+        # the user looks at the results: the solver thread ends (it makes each part's first edit
+        # ready after reporting, solver.GeometryEditSolver.prepare) before the mouse is pressed
+        _wait(app, lambda: window.results is not None and window.results.complete and not window.runner.is_busy
+              and not window.runner.is_running)
         step = canvas.snap_step()
         x, y = PRESS_AT
         QTest.mousePress(viewport, Qt.LeftButton, Qt.NoModifier, pixel(x, y))

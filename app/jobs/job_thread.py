@@ -39,6 +39,10 @@ class JobThread(QThread):
         """The job; runs in the worker thread. Subclasses define it."""
         raise NotImplementedError
 
+    def after_report(self) -> None:
+        """Work done in the worker thread after a successful report (none by default): idle-time
+        work whose failure is logged, not reported, as the result is already out."""
+
     def run(self) -> None:
         try:
             result = self.work()
@@ -48,3 +52,7 @@ class JobThread(QThread):
             self.finished_with.emit(None, exc)
             return
         self.finished_with.emit(result, None)
+        try:
+            self.after_report()
+        except Exception:  # the result is out; this work only makes the next one faster
+            logger.exception("%s: work after the report failed", type(self).__name__)

@@ -9,6 +9,8 @@ solution and maps can be drawn, then exactly one of ``solution_ready(results)``,
 Concurrency: one solver thread at a time. A solve requested while one runs asks the running
 one to stop and waits as the *pending* solve; a newer request replaces the pending one (only
 the latest drawing is worth solving). When the running thread ends, the pending solve starts.
+After reporting a full solve, the thread makes the first edit of each part ready
+(:meth:`solver.GeometryEditSolver.prepare`) until a new request stops it.
 Only the latest request's outcome is reported. A *live* solve (while the mouse drags a part)
 stops after the first stage: it draws the solution and maps and skips the figures. A live
 solve is not stopped by a newer live request: it finishes and is drawn while the newer one
@@ -47,6 +49,12 @@ class _SolveThread(JobThread):
             first, lambda f, m: self.progressed.emit(0.5 + 0.5 * f, m), self.stop.is_set,
             n_field_lines=self.options.get("n_field_lines", 48),
         )
+
+    def after_report(self) -> None:
+        """After a full solve, make the first edit of each part ready while the user looks at
+        the results (:meth:`solver.GeometryEditSolver.prepare`); a new request stops it."""
+        if not self.live and not self.stop.is_set():
+            self.edits.prepare(cancel=self.stop.is_set)
 
 
 class SolveRunner(QObject):

@@ -42,16 +42,23 @@ from __future__ import annotations
 
 import contextlib
 import logging
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
 import scipy.linalg
 
-from solver.bem.assembly import right_hand_sides
+from solver.bem.assembly import SystemLayout, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
-from solver.bem.edit_blocks import FarParts, ReusedBlock, block
-from solver.bem.far_blocks import compressed_far_evaluation, separation
+from solver.bem.edit_blocks import DRAG_MARGIN, FarParts, ReusedBlock, block
+from solver.bem.far_blocks import (
+    compressed_far_evaluation,
+    local_coefficients,
+    near_evaluation,
+    panel_moments,
+    separation,
+)
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -73,6 +80,26 @@ class _Previous:
     ell: float
     plane: float | None
     matrix: np.ndarray
+    layout: SystemLayout
+
+
+@dataclass(frozen=True)
+class _Prepared:
+    """What the first edit of one conductor after a fresh solve reuses (see
+    :meth:`GeometryEditSolver.prepare`): the low-rank blocks on a disc around its panels and
+    the solves with the others' block from the fresh solve's factors."""
+
+    far: FarParts
+    solves: BorderedSolves
+
+    @property
+    def nbytes(self) -> int:
+        arrays = (*self.far.kept_from_edited, *self.far.edited_from_kept, self.far.self_block, self.solves.t)
+        return int(sum(a.nbytes for a in arrays))
+
+
+#: Most memory (bytes) the preparations of :meth:`GeometryEditSolver.prepare` may hold together.
+PREPARED_BYTES = 64 * 2**20
 
 
 class GeometryEditSolver:
@@ -96,6 +123,8 @@ class GeometryEditSolver:
         and floating charges, and was answered by superposition (:meth:`Solution.with_potentials`).
     reused_solves : True when the edited panels stayed inside the previous expansion disc
         and A_PP^-1 [U_PE | A_PX] was reused (no solve with A_PP but the right-hand sides).
+    prepared : True when the last solve was the first edit of a conductor made ready by
+        :meth:`prepare`.
     """
 
     def __init__(self, low_rank: bool = True) -> None:
@@ -105,6 +134,8 @@ class GeometryEditSolver:
         self._full: FullFactor | None = None
         self._far: FarParts | None = None
         self._last: Solution | None = None
+        self._fresh = False  # the last system was solved afresh (its factors are self._full)
+        self._prepared: dict[str, _Prepared] = {}
         self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
@@ -113,6 +144,7 @@ class GeometryEditSolver:
         self.far_blocks = False
         self.reused_self_block = False
         self.reused_solves = False
+        self.prepared = False
 
     def solve(self, model: Model, settings: MeshSettings | None = None,
               cancel: CancelCallback | None = None) -> Solution:
@@ -129,18 +161,21 @@ class GeometryEditSolver:
         except BaseException:
             if not self._consistent:
                 self._previous, self._far, self._full, self._solves, self._last = None, None, None, None, None
+                self._fresh = False
             raise
 
     def _solve(self, model: Model, settings: MeshSettings | None, cancel: CancelCallback | None) -> Solution:
         settings = settings or MeshSettings.for_density(model.mesh_density)
         self.reused_panels, self.reused_factor, self.far_blocks, self.reused_self_block = 0, False, False, False
-        self.reused_solves = self.bordered = False
+        self.reused_solves = self.bordered = self.prepared = False
         self.superposed = False
         superposed = self._superposed(model, settings)
         if superposed is not None:
             self.superposed = True
-            return superposed
+            return superposed  # the system is unchanged: preparations still hold
         self._last = None
+        prepared, self._prepared = self._prepared, {}
+        fresh, self._fresh = self._fresh, False
         mesh = discretize_boundary(model, settings)
         if model.dielectrics:
             self._previous, self._far, self._full = None, None, None
@@ -153,6 +188,8 @@ class GeometryEditSolver:
             return large
         kept_new, kept_old = self._unchanged(model, mesh)
         block, full_parts, prev = None, None, self._previous
+        if len(kept_new) and fresh:
+            self._take_prepared(model, mesh, kept_new, prepared)
         if len(kept_new):
             assert prev is not None
             full_parts = self._in_full(model, mesh, kept_new)
@@ -164,7 +201,7 @@ class GeometryEditSolver:
             system = build_system(model, mesh, block)  # thin products U @ V of the low-rank blocks
         self._far = None if block is None else block.far
         self._previous = _Previous(model.conductor_names, system.mesh, system.length_scale_m,
-                                   system.plane, system.matrix)
+                                   system.plane, system.matrix, system.layout)
         self._consistent = True
         self.reused_self_block = block is not None and block.moved_rigidly
         linear_solve = None
@@ -176,7 +213,89 @@ class GeometryEditSolver:
             linear_solve = self._fresh_solver(system)
         solution = solve_system(system, cancel, linear_solve)
         self._last = solution
+        self._fresh = block is None and self._full is not None
         return solution
+
+    # ---- making the first edit ready -----------------------------------------------------
+    def prepare(self, names: Sequence[str] | None = None, cancel: CancelCallback | None = None) -> tuple[str, ...]:
+        """Make the first edit of each named conductor (default: every one) cheap, in idle time
+        after a fresh solve; returns the names made ready.
+
+        For a conductor whose panels keep clear of the others' (the disc of
+        :mod:`solver.bem.far_blocks`, widened by :data:`solver.bem.edit_blocks.DRAG_MARGIN`),
+        this does now what its first edit would: the expansion terms at the others' panels and
+        their compression (an SVD), the local coefficients, and the solves with the others'
+        block from the fresh solve's LU factors (:class:`BorderedSolves`). An edit that keeps
+        the conductor's panels inside that disc then solves without any of it; one that
+        leaves the disc, or edits two conductors, is solved as without preparation. The
+        preparations are dropped by the next solve that changes the system (a potential-only
+        change keeps them), and are held to :data:`PREPARED_BYTES` together. Nothing is
+        prepared unless the last solve was a fresh one without dielectrics; the result does
+        not depend on it (tested to 1e-12 against a fresh solve).
+
+        ``cancel`` is polled between the steps; a cancelled preparation keeps what it finished.
+        """
+        full, prev, last = self._full, self._previous, self._last
+        if not (self._fresh and self.low_rank and full is not None and prev is not None and last is not None):
+            return ()
+        if full.ell != prev.ell or full.plane != prev.plane or full.names != prev.names:
+            return ()
+        wanted = prev.names if names is None else tuple(n for n in prev.names if n in set(names))
+        rhs = right_hand_sides(prev.mesh, prev.layout, *solve_columns(last.model)[2:])
+        targets = prev.mesh.midpoints / prev.ell
+        held = sum(p.nbytes for p in self._prepared.values())
+        done = []
+        for name in wanted:
+            if name in self._prepared:
+                done.append(name)
+                continue
+            if cancel is not None and cancel():
+                break
+            made = self._prepare_one(name, full, prev, targets, rhs, cancel)
+            if made is None:
+                continue
+            if held + made.nbytes > PREPARED_BYTES:
+                break
+            held += made.nbytes
+            self._prepared[name] = made
+            done.append(name)
+        return tuple(done)
+
+    def _prepare_one(self, name: str, full: FullFactor, prev: _Previous, targets: np.ndarray, rhs: np.ndarray,
+                     cancel: CancelCallback | None) -> _Prepared | None:
+        others = [n for n in full.names if n != name]
+        p_full, q_old = full.panels_of(others), full.panels_of([name])
+        if not len(p_full) or not len(q_old):
+            return None
+        plane = full.plane
+        p_starts, p_ends = full.starts[p_full], full.ends[p_full]
+        e_starts, e_ends = full.starts[q_old], full.ends[q_old]
+        disc = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
+        if not disc.usable:
+            return None
+        with one_blas_thread():
+            u_pe, moment_map = compressed_far_evaluation(disc, targets[p_full], plane)
+            if cancel is not None and cancel():
+                return None
+            far = FarParts(
+                q_old, (u_pe, moment_map @ panel_moments(disc, e_starts, e_ends, plane)),
+                (near_evaluation(disc, targets[q_old], plane), local_coefficients(disc, p_starts, p_ends, plane)),
+                e_starts, e_ends, plane, np.array(block(prev.matrix, q_old, q_old)), disc, p_starts, p_ends,
+                anchored=True, kept=p_full, deferred=False, moment_map=moment_map,
+            )
+            solves = BorderedSolves(full, p_full, q_old, disc, u_pe, full.extra_columns[p_full], moment_map,
+                                    also=rhs[p_full])
+        return _Prepared(far, solves) if solves.usable else None
+
+    def _take_prepared(self, model: Model, mesh: PanelMesh, kept_new: np.ndarray,
+                       prepared: dict[str, _Prepared]) -> None:
+        """Start from the preparation of the one edited conductor, when there is one."""
+        kept = {model.conductor_names[k] for k in np.unique(mesh.conductor_index[kept_new])}
+        edited = [n for n in model.conductor_names if n not in kept]
+        if len(edited) == 1 and edited[0] in prepared and self._far is None:
+            ready = prepared[edited[0]]
+            self._far, self._solves = ready.far, ready.solves
+            self.prepared = True
 
     def _superposed(self, model: Model, settings: MeshSettings) -> Solution | None:
         """The last solution at ``model``'s potentials and floating charges, when ``model``

@@ -236,3 +236,30 @@ def test_wheel_over_a_dimension_field_edits_and_solves_at_once(window, qtbot):
     assert window.results.model == window.document.model
     after = window.results.solution.capacitance_maxwell_F_per_m[0, 0]
     assert after > before
+
+
+def test_after_a_full_solve_the_first_drag_step_starts_from_the_prepared_part(window, qtbot):
+    """The solver thread, after reporting a full solve, makes each part's first edit ready
+    (solver.GeometryEditSolver.prepare); the first live step of a drag then starts from it,
+    and a new request stops a preparation that is still running."""
+    window.auto_solve = True
+    window.load(_coax(1.0).with_conductors((
+        Conductor("inner", (Circle((0.0, 20.0), 2.0),), potential_V=1000.0),
+        Conductor("shield", (Ring((0.0, 20.0), 14.0, 16.0),), role="reference"),
+    )), None)
+    window.canvas.plotItem.vb.setRange(xRange=(-20, 20), yRange=(0, 40), padding=0)
+    qtbot.wait(10)
+    window.solve()
+    qtbot.waitUntil(lambda: window.results is not None and window.results.complete
+                    and not window.runner.is_running, timeout=60000)
+    assert set(window.runner.edits._prepared) == {"inner"}  # the shield's disc would hold everything
+    vp = window.canvas.viewport()
+    step = window.canvas.snap_step()
+    QTest.mousePress(vp, Qt.LeftButton, Qt.NoModifier, to_pixel(window.canvas, 0.0, 20.0))
+    QTest.mouseMove(vp, to_pixel(window.canvas, step, 20.0))
+    qtbot.waitUntil(lambda: not window.runner.is_busy, timeout=60000)
+    assert window.runner.edits.prepared and window.runner.edits.reused_panels > 0
+    assert window.results.model == window._dragged_model
+    QTest.mouseRelease(vp, Qt.LeftButton, Qt.NoModifier, to_pixel(window.canvas, step, 20.0))
+    qtbot.waitUntil(lambda: window.results is not None and window.results.complete
+                    and window.results.model == window.document.model, timeout=60000)

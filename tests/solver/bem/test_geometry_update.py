@@ -234,3 +234,63 @@ def test_a_conductor_dragged_far_from_where_it_was_still_uses_the_fresh_factors(
         edited = edits.solve(model)
         assert edits.far_blocks and edits.bordered and not edits._far.anchored
         _assert_same(edited, solver.solve(model, estimate_error=False))
+
+
+def test_a_prepared_first_edit_reuses_the_preparation_and_equals_a_fresh_solve():
+    """prepare() does the first edit's disc, compression and solves ahead; the edit then only
+    assembles the moved panels' own terms, and equals a fresh solve. The enclosure's disc
+    would hold everything: it is not prepared."""
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    assert edits.prepare() == ("L1", "L2")
+    ready = edits._prepared["L1"]
+    for dx, dy in ((1.0, 0.0), (0.5, -0.5)):  # then a drag step after the prepared edit
+        model = _moved(model, "L1", dx, dy)
+        edited = edits.solve(model)
+        _assert_same(edited, solver.solve(model, estimate_error=False))
+        assert edits.far_blocks and edits.bordered and edits.reused_self_block
+    assert edits._solves is ready.solves  # the prepared solves serve the drag
+    assert edits._prepared == {}  # the system changed: what was prepared for L2 is gone
+    assert edits.prepare() == ()  # the last solve was an edit, not a fresh one
+
+
+def test_a_prepared_edit_is_taken_only_for_its_own_conductor():
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    assert edits.prepare(["L1"]) == ("L1",)
+    moved = _moved(model, "L2", -1.0, 0.0)
+    _assert_same(edits.solve(moved), solver.solve(moved, estimate_error=False))
+    assert not edits.prepared and edits.bordered  # L2's first edit, made as without preparation
+    both = _moved(_moved(model, "L1", 1.0, 0.0), "L2", 0.0, 1.0)
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    edits.prepare()
+    _assert_same(edits.solve(both), solver.solve(both, estimate_error=False))
+    assert not edits.prepared  # two conductors edited
+
+
+def test_a_prepared_edit_that_leaves_the_disc_and_a_potential_change_keep_results_right():
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    edits.prepare()
+    other = model.with_potentials({"L1": 5e3, "L2": 2e3})
+    edits.solve(other)
+    assert edits.superposed and set(edits._prepared) == {"L1", "L2"}  # the system is unchanged
+    far = _moved(other, "L1", 30.0, 0.0)  # out of the prepared disc
+    _assert_same(edits.solve(far), solver.solve(far, estimate_error=False))
+    assert edits.prepared and edits.reused_panels > 0
+
+
+def test_prepare_stops_when_asked_and_does_nothing_for_a_large_or_dielectric_model():
+    model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
+    edits = GeometryEditSolver()
+    assert edits.prepare() == ()  # nothing solved yet
+    edits.solve(model)
+    assert edits.prepare(cancel=lambda: True) == ()
+    assert edits.prepare(["L2"]) == ("L2",)
+    microstrip = solver.load_project("sample_geometries/microstrip_on_substrate.json")
+    edits.solve(microstrip)
+    assert edits.prepare() == ()
