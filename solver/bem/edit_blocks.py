@@ -8,7 +8,7 @@ of the others (:class:`FarParts`), else in closed form.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -20,12 +20,18 @@ from solver.bem.far_blocks import (
     near_evaluation,
     panel_moments,
     separation,
+    split_separation,
 )
 
 #: The disc of the expansions is widened by this factor around an edited group, so that a
 #: drag keeps the group inside it for a while and the terms at the unchanged panels (and
 #: their solves with A_PP) are reused from step to step.
 DRAG_MARGIN = 1.25
+
+#: Most unchanged panels, as a fraction of them, taken in closed form beside the expansions
+#: when the edited group comes close to some of them (:class:`FarParts` ``near``); with more,
+#: the blocks are assembled in closed form.
+MOST_NEAR_FRACTION = 0.5
 
 #: Largest difference (fraction of the edited group's radius) between the panels of an edited
 #: conductor and the previous ones moved rigidly for which their own block is reused.
@@ -53,7 +59,15 @@ def block(a: np.ndarray, rows: np.ndarray, cols: np.ndarray) -> np.ndarray:
 
 @dataclass(frozen=True)
 class FarParts:
-    """Low-rank blocks between the edited panels E and the kept panels P (scaled), as (U, V)."""
+    """Low-rank blocks between the edited panels E and the kept panels P (scaled), as (U, V).
+
+    When the edited group comes close to some unchanged panels (``near``: their positions in
+    P), those stay exact: A_PE = [S_far Q | S_near] [[C M_E], [A_near,E]] and
+    A_EP = [N_E | A_E,near] [[L_far S_far^T], [S_near^T]] (Q, C the compressed far terms,
+    M_E the moments of the edited panels, N_E and L the local terms, S the row selections),
+    so the U of A_PE and the V of A_EP still depend on the disc and P alone and are reused
+    while a drag stays in the disc; only the closed-form parts are assembled at each step.
+    """
 
     edited: np.ndarray
     kept_from_edited: tuple[np.ndarray, np.ndarray]  # A_PE = U @ V
@@ -69,6 +83,7 @@ class FarParts:
     kept: np.ndarray  # indices of the unchanged panels
     deferred: bool  # A_PE and A_EP are not yet written into the matrix (see ReusedBlock)
     moment_map: np.ndarray  # C of far_blocks.compressed_far_evaluation: V_E = C @ panel moments
+    near: np.ndarray = field(default_factory=lambda: np.zeros(0, dtype=int))  # positions in P, closed form
 
     def write_into(self, matrix: np.ndarray) -> None:
         """Write A_PE and A_EP (the products of the low-rank factors) into ``matrix``."""
@@ -190,11 +205,12 @@ class ReusedBlock:
 
     def _far_parts(self, targets: np.ndarray, starts: np.ndarray, ends: np.ndarray, plane: float | None,
                    keep: np.ndarray, other: np.ndarray, deferred: bool) -> FarParts | None:
-        """The low-rank blocks, or None when the edited panels come too close to the others."""
+        """The low-rank blocks, or None when the edited panels come close to too many others."""
         e_starts, e_ends, p_starts, p_ends = starts[other], ends[other], starts[keep], ends[keep]
         earlier, anchor = self.earlier, self.anchor
+        near = np.zeros(0, dtype=int)
         if earlier is not None and earlier.same_disc_for(p_starts, p_ends, e_starts, e_ends, plane):
-            sep = earlier.disc
+            sep, near = earlier.disc, earlier.near
             anchored = earlier.anchored and anchor is not None and sep.holds(*anchor)
             u_pe, v_ep, moment_map = earlier.kept_from_edited[0], earlier.edited_from_kept[1], earlier.moment_map
         else:
@@ -205,10 +221,14 @@ class ReusedBlock:
                 anchored = sep.usable
             if not anchored:
                 sep = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
-            if not sep.usable:
-                return None
-            u_pe, moment_map = compressed_far_evaluation(sep, targets[keep], plane)
-            v_ep = local_coefficients(sep, p_starts, p_ends, plane)
+            if sep.usable:
+                u_pe, moment_map = compressed_far_evaluation(sep, targets[keep], plane)
+                v_ep = local_coefficients(sep, p_starts, p_ends, plane)
+            else:
+                mixed = _near_and_far_terms(targets[keep], e_starts, e_ends, p_starts, p_ends, plane)
+                if mixed is None:
+                    return None
+                sep, near, u_pe, v_ep, moment_map = mixed
         a_ee = None
         if earlier is not None:
             a_ee = earlier.self_block_if_moved(e_starts, e_ends, plane, sep.radius)
@@ -218,10 +238,35 @@ class ReusedBlock:
         self.moved_rigidly = a_ee is not None
         if a_ee is None:
             a_ee = single_layer_potential_matrix(targets[other], e_starts, e_ends, plane)
-        return FarParts(other, (u_pe, moment_map @ panel_moments(sep, e_starts, e_ends, plane)),
-                        (near_evaluation(sep, targets[other], plane), v_ep),
-                        e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends, anchored, keep, deferred,
-                        moment_map)
+        v_e = moment_map @ panel_moments(sep, e_starts, e_ends, plane)
+        u_ep = near_evaluation(sep, targets[other], plane)
+        if len(near):
+            near_p = keep[near]
+            v_e = np.vstack([v_e, single_layer_potential_matrix(targets[near_p], e_starts, e_ends, plane)])
+            u_ep = np.hstack([u_ep, single_layer_potential_matrix(targets[other], starts[near_p], ends[near_p],
+                                                                  plane)])
+        return FarParts(other, (u_pe, v_e), (u_ep, v_ep), e_starts, e_ends, plane, a_ee, sep, p_starts, p_ends,
+                        anchored, keep, deferred, moment_map, near)
+
+
+def _near_and_far_terms(p_targets: np.ndarray, e_starts: np.ndarray, e_ends: np.ndarray, p_starts: np.ndarray,
+                        p_ends: np.ndarray, plane: float | None):
+    """(disc, near, U of A_PE, V of A_EP, C) for an edited group close to some unchanged
+    panels (see :class:`FarParts`), or None when none is far or too many are near."""
+    sep, far_mask = split_separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
+    near, far = np.flatnonzero(~far_mask), np.flatnonzero(far_mask)
+    if not len(far) or len(near) > MOST_NEAR_FRACTION * len(p_starts):
+        return None
+    q, moment_map = compressed_far_evaluation(sep, p_targets[far], plane)
+    rank, n_p, n_near = q.shape[1], len(p_starts), len(near)
+    u_pe = np.zeros((n_p, rank + n_near))
+    u_pe[far, :rank] = q
+    u_pe[near, rank + np.arange(n_near)] = 1.0
+    local = local_coefficients(sep, p_starts[far], p_ends[far], plane)
+    v_ep = np.zeros((len(local) + n_near, n_p))
+    v_ep[:len(local), far] = local
+    v_ep[len(local) + np.arange(n_near), near] = 1.0
+    return sep, near, u_pe, v_ep, moment_map
 
 
 def put(out: np.ndarray, rows: np.ndarray, cols: np.ndarray, values: np.ndarray) -> None:

@@ -107,6 +107,28 @@ def separation(q_starts: np.ndarray, q_ends: np.ndarray, p_starts: np.ndarray, p
     return Separation(centre, radius, ratio, terms)
 
 
+def split_separation(q_starts: np.ndarray, q_ends: np.ndarray, p_starts: np.ndarray, p_ends: np.ndarray,
+                     plane: float | None, margin: float = 1.0) -> tuple[Separation, np.ndarray]:
+    """The disc around panels Q (as :func:`separation`, widened by ``margin``) and which P
+    panels keep far enough from it for the expansions: those at least R / :data:`MAX_RATIO`
+    from the centre (and, with a plane, from its mirror image). The Separation's ratio and
+    terms are those of the far panels alone (ratio inf and no terms when none is far); the
+    others are for closed-form integrals.
+    """
+    pts = np.vstack([q_starts, q_ends])
+    centre = 0.5 * (pts.min(axis=0) + pts.max(axis=0))
+    radius = margin * float(np.max(np.hypot(*(pts - centre).T)))
+    gaps = _segment_distances(centre, p_starts, p_ends)
+    if plane is not None:
+        gaps = np.minimum(gaps, _segment_distances(mirrored(centre[None, :], plane)[0], p_starts, p_ends))
+    far = gaps * MAX_RATIO >= radius
+    if radius == 0.0 or not far.any():
+        return Separation(centre, radius, math.inf, 0), far
+    ratio = radius / float(np.min(gaps[far]))
+    terms = max(1, math.ceil(math.log(TRUNCATION * (1.0 - ratio)) / math.log(ratio)))
+    return Separation(centre, radius, ratio, terms), far
+
+
 def _complete_sums(a: np.ndarray, b: np.ndarray, k_max: int) -> np.ndarray:
     """h_k = sum_{j=0..k} a^j b^(k-j) for k = 0 ... k_max - 1, as (k_max, n): the quotient
     (b^(k+1) - a^(k+1)) / (b - a) without the cancellation of the difference on short panels."""

@@ -26,7 +26,12 @@ r + |X| solves with A_PP instead of |Q|. The disc
 of the expansions is widened (:data:`solver.bem.edit_blocks.DRAG_MARGIN`) and kept while the
 edited panels stay inside it, so during a drag those solves are reused too and a step costs
 the new rows and columns in low-rank form,
-a Schur complement of |Q| unknowns and the right-hand sides; when the edited panels are the
+a Schur complement of |Q| unknowns and the right-hand sides. When the edited conductors come
+close to some unchanged panels (another bar a few millimetres away), those panels' rows and
+columns are assembled in closed form beside the low-rank terms of the rest
+(:class:`solver.bem.edit_blocks.FarParts` ``near``), so the solves with A_PP are still made
+once per disc and a drag step past a neighbour costs its closed-form strips (about a third of
+the fully closed-form step on the busbar sample); when the edited panels are the
 previous ones moved rigidly (along the ground plane, when there is one), their own block
 A_QQ is reused as well.
 
@@ -136,6 +141,7 @@ class GeometryEditSolver:
         self._last: Solution | None = None
         self._fresh = False  # the last system was solved afresh (its factors are self._full)
         self._prepared: dict[str, _Prepared] = {}
+        self._vz: tuple | None = None  # (V_EP, Z, V_EP @ Z) of the last step in low-rank form
         self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
@@ -436,6 +442,8 @@ class GeometryEditSolver:
         known = self._solves
         if isinstance(known, BorderedSolves) and known.serves(self._full, p_full, a_px):
             return known
+        if len(far.near):  # the border would need the closed-form rows of the near panels too
+            return None
         if far.anchored:
             disc, u, moment_map = far.disc, far.kept_from_edited[0], far.moment_map
         else:  # the conductor went far from where it was: a disc of its own for its old panels
@@ -466,7 +474,12 @@ class GeometryEditSolver:
         u_ep, v_ep = far.edited_from_kept
         rank, n_x = u_pe.shape[1], len(x_idx)
         z, self.reused_solves = solves.z_for(u_pe, a_px)  # A_PP^-1 [U_PE | A_PX]
-        vz = v_ep @ z
+        kept = self._vz
+        if kept is not None and kept[0] is v_ep and kept[1] is z:  # a drag step inside the same disc
+            vz = kept[2]
+        else:
+            vz = v_ep @ z
+            self._vz = (v_ep, z, vz)
 
         def from_kept(values: np.ndarray, v_values: np.ndarray | None = None) -> np.ndarray:
             """A_QP @ values for (n_p, m) values (``v_values``: V_EP @ values when known)."""

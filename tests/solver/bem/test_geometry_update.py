@@ -84,12 +84,55 @@ def test_dragging_a_busbar_at_normal_density_equals_fresh_solves():
     assert rigid == [True, True] and solves == [False, True]
 
 
-def test_an_edit_close_to_another_conductor_is_assembled_in_closed_form():
-    """L1 moved next to L2: the expansions would not converge fast enough, the dense
-    blocks are used, and the answer is still a fresh solve's."""
+def test_an_edit_close_to_another_conductor_keeps_that_conductor_exact():
+    """L1 moved next to L2 (5 mm gap): the expansions would not converge fast enough for L2's
+    panels, so those blocks are assembled in closed form beside the enclosure's low-rank
+    ones (FarParts.near), the solves with A_PP are reused from the first step to the next,
+    and the answer is still a fresh solve's."""
     model = solver.load_project("sample_geometries/busbar_enclosure.json").with_mesh_density("coarse")
-    model = _moved(model, "L1", 60.0, 0.0)  # 5 mm gap to L2
-    _drag(model, "L1", [(1.0, 0.0), (0.0, 1.0)], far=False)
+    model = _moved(model, "L1", 60.0, 0.0)
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    l2 = np.flatnonzero(edits._previous.mesh.conductor_index == 1)
+    _, solves = _drag(model, "L1", [(1.0, 0.0), (0.0, 1.0), (-0.5, 0.5)], far=True, bordered=False)
+    assert solves == [False, True, True]
+    edits.solve(_moved(model, "L1", 1.0, 0.0))
+    near = edits._far.kept[edits._far.near]
+    assert set(near) == set(l2)  # exactly L2's panels are near; the enclosure's are far
+
+
+def test_near_blocks_over_a_ground_plane_and_after_a_far_start_equal_fresh_solves():
+    """A wire dragged from far to near another over a ground plane: the images are near too
+    (the plane's mirror of the disc), and the bordered solves of the first edit serve."""
+    model = Model(unit="mm", mesh_density="coarse", ground_plane=GroundPlane(0.0), conductors=(
+        Conductor("L1", (Rectangle((-40.0, 50.0), 10.0, 60.0, 3.0),), potential_V=100.0),
+        Conductor("L2", (Rectangle((40.0, 50.0), 10.0, 60.0, 3.0),), potential_V=-40.0),
+        Conductor("L3", (Rectangle((150.0, 50.0), 10.0, 10.0, 1.0),), potential_V=10.0),
+        Conductor("L0", (Rectangle((-150.0, 50.0), 10.0, 10.0, 1.0),), role="floating"),
+    ))
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    nears = []
+    for dx in (5.0, 50.0, 5.0, -2.0):  # L1 ends with a 7 mm gap to L2
+        model = _moved(model, "L1", dx, 0.0)
+        edited = edits.solve(model)
+        assert edits.reused_panels > 0
+        nears.append(len(edits._far.near) if edits.far_blocks else None)
+        _assert_same(edited, solver.solve(model, estimate_error=False))
+    assert nears[0] == 0 and all(n for n in nears[2:])  # far at first, then b kept exact
+
+
+def test_an_edit_with_most_others_near_is_assembled_in_closed_form():
+    """The inner wire of a coax: the shield is all near, no low-rank form pays."""
+    model = Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("inner", (Circle((0.0, 0.0), 1.0),), potential_V=1.0),
+        Conductor("shield", (Ring((0.0, 0.0), 1.6, 2.0),), role="reference"),
+    ))
+    edits = GeometryEditSolver()
+    edits.solve(model)
+    moved = _moved(model, "inner", 0.1, 0.0)
+    _assert_same(edits.solve(moved), solver.solve(moved, estimate_error=False))
+    assert edits.reused_panels > 0 and not edits.far_blocks
 
 
 def test_a_reshaped_conductor_does_not_reuse_its_own_block():
