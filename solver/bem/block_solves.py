@@ -58,13 +58,48 @@ class FullFactor:
         return np.concatenate(parts) if parts else np.zeros(0, dtype=int)
 
 
-class LUSolves:
+class _InverseColumns:
+    """Columns of A_PP^-1 kept by panel, for the exact rows of near panels
+    (:class:`solver.bem.edit_blocks.FarParts` ``near``): a drag that passes a neighbour makes
+    a new disc at every long step, but the neighbour's panels, and so these columns, stay."""
+
+    def _init_columns(self) -> None:
+        self._columns: np.ndarray | None = None  # (n_p, k)
+        self._column_of: np.ndarray | None = None  # (n_p,) position in _columns, -1 if not kept
+
+    def solve(self, x: np.ndarray) -> np.ndarray:
+        raise NotImplementedError
+
+    def columns(self, idx: np.ndarray) -> np.ndarray:
+        """A_PP^-1 e_j for each j in ``idx`` (positions in P), (n_p, len(idx)); the missing
+        ones solved together and kept."""
+        n_p = len(self.p_rows())
+        if self._column_of is None:
+            self._column_of, self._columns = np.full(n_p, -1), np.zeros((n_p, 0))
+        assert self._columns is not None
+        missing = idx[self._column_of[idx] < 0]
+        if len(missing):
+            unit = np.zeros((n_p, len(missing)))
+            unit[missing, np.arange(len(missing))] = 1.0
+            self._column_of[missing] = self._columns.shape[1] + np.arange(len(missing))
+            self._columns = np.hstack([self._columns, self.solve(unit)])
+        return self._columns[:, self._column_of[idx]]
+
+    def p_rows(self) -> np.ndarray:
+        raise NotImplementedError
+
+
+class LUSolves(_InverseColumns):
     """A_PP^-1 by the LU factors of A_PP (``starts``, ``ends``: its panels, scaled)."""
 
     def __init__(self, lu: tuple, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> None:
         self.lu, self.starts, self.ends, self.ell, self.plane = lu, starts, ends, ell, plane
+        self._init_columns()
         self._z: tuple | None = None
         self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
+
+    def p_rows(self) -> np.ndarray:
+        return self.starts
 
     def matches(self, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> bool:
         return (ell == self.ell and plane == self.plane and starts.shape == self.starts.shape
@@ -90,7 +125,7 @@ class LUSolves:
         return out, False
 
 
-class BorderedSolves:
+class BorderedSolves(_InverseColumns):
     """A_PP^-1 from the full factors (see the module docstring).
 
     ``p_full``: the panels P in the full system (in the order of P); ``q_old``: the other
@@ -105,6 +140,7 @@ class BorderedSolves:
                  u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None,
                  also: np.ndarray | None = None) -> None:
         self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
+        self._init_columns()
         size = full.lu[0].shape[0]
         self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
         self.v_old = panel_moments(disc, full.starts[q_old], full.ends[q_old], full.plane)
@@ -124,6 +160,9 @@ class BorderedSolves:
         self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
         if also is not None and self.usable:
             self._last = (np.array(also), self._combined(y[:, n_border:]))
+
+    def p_rows(self) -> np.ndarray:
+        return self.p_full
 
     def _full_solve(self, x_p: np.ndarray) -> np.ndarray:
         padded = np.zeros((self.full.lu[0].shape[0],) + x_p.shape[1:])

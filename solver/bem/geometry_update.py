@@ -142,6 +142,7 @@ class GeometryEditSolver:
         self._fresh = False  # the last system was solved afresh (its factors are self._full)
         self._prepared: dict[str, _Prepared] = {}
         self._vz: tuple | None = None  # (V_EP, Z, V_EP @ Z) of the last step in low-rank form
+        self._mixed: tuple | None = None  # (U_PE, solves, A_PX, Z) of the last step with near panels
         self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
@@ -457,6 +458,20 @@ class GeometryEditSolver:
         solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map, also=rhs[p])
         return solves if solves.usable else None
 
+    def _mixed_z(self, solves: LUSolves | BorderedSolves, u_pe: np.ndarray, near: np.ndarray,
+                 a_px: np.ndarray) -> tuple[np.ndarray, bool]:
+        """(A_PP^-1 [S_far Q | S_near | A_PX], reused) for blocks with near panels: the
+        columns of the near panels from those kept by panel (:meth:`LUSolves.columns`), the
+        rest solved; the whole kept while U_PE is the same array (the same disc)."""
+        kept = self._mixed
+        if kept is not None and kept[0] is u_pe and kept[1] is solves and np.array_equal(kept[2], a_px):
+            return kept[3], True
+        rank = u_pe.shape[1] - len(near)
+        solved = solves.solve(np.hstack([u_pe[:, :rank], a_px]))
+        z = np.hstack([solved[:, :rank], solves.columns(near), solved[:, rank:]])
+        self._mixed = (u_pe, solves, np.array(a_px), z)
+        return z, False
+
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
                     far: FarParts):
         """Block elimination with A_PQ and A_QP in low-rank form.
@@ -473,12 +488,15 @@ class GeometryEditSolver:
         u_pe, v_e = far.kept_from_edited
         u_ep, v_ep = far.edited_from_kept
         rank, n_x = u_pe.shape[1], len(x_idx)
-        z, self.reused_solves = solves.z_for(u_pe, a_px)  # A_PP^-1 [U_PE | A_PX]
+        if len(far.near):
+            z, self.reused_solves = self._mixed_z(solves, u_pe, far.near, a_px)
+        else:
+            z, self.reused_solves = solves.z_for(u_pe, a_px)  # A_PP^-1 [U_PE | A_PX]
         kept = self._vz
         if kept is not None and kept[0] is v_ep and kept[1] is z:  # a drag step inside the same disc
             vz = kept[2]
         else:
-            vz = v_ep @ z
+            vz = _local_terms_times(v_ep, far.near, z)
             self._vz = (v_ep, z, vz)
 
         def from_kept(values: np.ndarray, v_values: np.ndarray | None = None) -> np.ndarray:
@@ -506,3 +524,13 @@ class GeometryEditSolver:
             return x
 
         return linear_solve
+
+
+def _local_terms_times(v_ep: np.ndarray, near: np.ndarray, z: np.ndarray) -> np.ndarray:
+    """V_EP @ Z, where the last len(near) rows of V_EP select the near panels' rows of Z and
+    the others are zero on those columns (:class:`solver.bem.edit_blocks.FarParts`)."""
+    if not len(near):
+        return v_ep @ z
+    n_local = v_ep.shape[0] - len(near)
+    far = np.setdiff1d(np.arange(v_ep.shape[1]), near)
+    return np.vstack([v_ep[:n_local, far] @ z[far], z[near]])

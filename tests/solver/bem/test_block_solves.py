@@ -41,3 +41,12 @@ def test_bordered_solves_equal_the_blocks_own_lu():
     # measured 1e-10: T takes A0's border in low-rank form (1e-14 from the closed form),
     # which A_PP's condition number (3.7e6 here, measured) amplifies
     assert np.max(np.abs(z_bordered - z_own)) <= 1e-9 * np.max(np.abs(z_own))
+    # columns of A_PP^-1 kept by panel: equal to solving the unit vectors, computed once
+    inverse = scipy.linalg.inv(a[np.ix_(p, p)])
+    for solves in (own, bordered):
+        first = solves.columns(np.array([5, 40, 7]))
+        again = solves.columns(np.array([7, 5, 41]))
+        assert solves._columns.shape[1] == 4  # 41 was the one missing
+        assert np.max(np.abs(first - inverse[:, [5, 40, 7]])) <= 1e-9 * np.max(np.abs(inverse))
+        assert np.array_equal(again[:, :2], first[:, [2, 0]])
+        assert np.max(np.abs(again[:, 2] - inverse[:, 41])) <= 1e-9 * np.max(np.abs(inverse))

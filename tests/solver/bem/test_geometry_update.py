@@ -99,6 +99,11 @@ def test_an_edit_close_to_another_conductor_keeps_that_conductor_exact():
     edits.solve(_moved(model, "L1", 1.0, 0.0))
     near = edits._far.kept[edits._far.near]
     assert set(near) == set(l2)  # exactly L2's panels are near; the enclosure's are far
+    kept_columns = edits._solves._columns.shape[1]
+    longer = _moved(model, "L1", 1.0, 20.0)  # out of the disc: a new one, the same near panels
+    _assert_same(edits.solve(longer), solver.solve(longer, estimate_error=False))
+    assert len(edits._far.near) and not edits.reused_solves
+    assert edits._solves._columns.shape[1] == kept_columns  # their columns of A_PP^-1 were kept
 
 
 def test_near_blocks_over_a_ground_plane_and_after_a_far_start_equal_fresh_solves():
