@@ -33,6 +33,9 @@ from solver.bem.far_blocks import Separation, panel_moments
 #: on its own panels); round-off in T grows with it.
 MAX_BORDER_CONDITION = 1e6
 
+#: Most memory (bytes) the columns of A_PP^-1 kept by panel may take (:meth:`LUSolves.columns`).
+MOST_KEPT_COLUMN_BYTES = 64 * 2**20
+
 
 @dataclass(frozen=True)
 class FullFactor:
@@ -78,6 +81,13 @@ class _InverseColumns:
             self._column_of, self._columns = np.full(n_p, -1), np.zeros((n_p, 0))
         assert self._columns is not None
         missing = idx[self._column_of[idx] < 0]
+        if len(missing) and 8 * n_p * (self._columns.shape[1] + len(missing)) > MOST_KEPT_COLUMN_BYTES:
+            self._column_of, self._columns = np.full(n_p, -1), np.zeros((n_p, 0))  # start over
+            missing = np.unique(idx)
+            if 8 * n_p * len(missing) > MOST_KEPT_COLUMN_BYTES:  # too many to keep: solved, not kept
+                unit = np.zeros((n_p, len(idx)))
+                unit[idx, np.arange(len(idx))] = 1.0
+                return self.solve(unit)
         if len(missing):
             unit = np.zeros((n_p, len(missing)))
             unit[missing, np.arange(len(missing))] = 1.0

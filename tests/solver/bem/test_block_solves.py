@@ -50,3 +50,18 @@ def test_bordered_solves_equal_the_blocks_own_lu():
         assert np.max(np.abs(first - inverse[:, [5, 40, 7]])) <= 1e-9 * np.max(np.abs(inverse))
         assert np.array_equal(again[:, :2], first[:, [2, 0]])
         assert np.max(np.abs(again[:, 2] - inverse[:, 41])) <= 1e-9 * np.max(np.abs(inverse))
+
+
+def test_columns_beyond_the_memory_bound_are_solved_not_kept(monkeypatch):
+    import solver.bem.block_solves as block_solves
+
+    rng = np.random.default_rng(5)
+    a = rng.standard_normal((30, 30)) + 30 * np.eye(30)
+    solves = LUSolves(scipy.linalg.lu_factor(a), np.zeros((30, 2)), np.zeros((30, 2)), 1.0, None)
+    monkeypatch.setattr(block_solves, "MOST_KEPT_COLUMN_BYTES", 8 * 30 * 5)  # five columns
+    inverse = np.linalg.inv(a)
+    assert np.allclose(solves.columns(np.array([1, 2, 3])), inverse[:, [1, 2, 3]], rtol=0, atol=1e-13)
+    assert np.allclose(solves.columns(np.array([4, 5, 6])), inverse[:, [4, 5, 6]], rtol=0, atol=1e-13)
+    assert solves._columns.shape[1] == 3  # started over with the new ones
+    assert np.allclose(solves.columns(np.arange(8)), inverse[:, :8], rtol=0, atol=1e-13)
+    assert solves._columns.shape[1] == 0  # eight would not fit: solved, not kept
