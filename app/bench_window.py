@@ -2,8 +2,9 @@
 
 Drives the real main window offscreen on the busbar sample (normal density, 120 x 120 map,
 as the program opens it): after a full solve, the mouse presses on bar L1 and moves it one
-snap step (the first edit after a fresh solve, solved live), moves it one more step (a drag
-step), then releases it (the full solve of the released drawing). For each it reports the
+snap step (the first edit after a fresh solve, solved live), moves it one more step (to 30 mm
+from L2, whose panels are then taken exactly beside the low-rank terms) and one more (a new
+disc past L2), then releases it (the full solve of the released drawing). For each it reports the
 wall-clock time from the mouse event to the moment the window has drawn the solution and the
 map (the results shown and the window repainted), split into
 
@@ -136,14 +137,16 @@ def measure(repeat: int = 3) -> list[Click]:
         step = canvas.snap_step()
         x, y = PRESS_AT
         QTest.mousePress(viewport, Qt.LeftButton, Qt.NoModifier, pixel(x, y))
-        for k, name in ((1, f"first edit of L1 after a fresh solve (drag by {step:g} mm)"), (2, "a drag step")):
+        for k, name in ((1, f"first edit of L1 after a fresh solve (drag by {step:g} mm)"),
+                        (2, "a drag step that reaches L2 (its panels exact)"),
+                        (3, "a further step past L2 (a new disc)")):
             watch.arm()
             QTest.mouseMove(viewport, pixel(x + k * step, y))
             _wait(app, lambda: watch.results is not None)
             _keep_best(best, watch.click(name))
             _wait(app, lambda: not window.runner.is_busy)
         watch.arm()
-        QTest.mouseRelease(viewport, Qt.LeftButton, Qt.NoModifier, pixel(x + 2 * step, y))
+        QTest.mouseRelease(viewport, Qt.LeftButton, Qt.NoModifier, pixel(x + 3 * step, y))
         _wait(app, lambda: watch.results is not None)
         _keep_best(best, watch.click("release (the full solve of the drawing left)"))
         _wait(app, lambda: not window.runner.is_busy)
