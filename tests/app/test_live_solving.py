@@ -167,16 +167,25 @@ def test_equivalent_radii_are_kept_per_conductor_geometry():
         solver.equivalent_radius_m(again.solution, ["b"]), rel=1e-15)
 
 
+def _wire_in_shield() -> Model:
+    return Model(unit="mm", mesh_density="coarse", conductors=(
+        Conductor("inner", (Circle((0.0, 20.0), 2.0),), potential_V=1000.0),
+        Conductor("shield", (Ring((0.0, 20.0), 14.0, 16.0),), role="reference"),
+    ))
+
+
+def _open_wire_in_shield(window, qtbot) -> None:
+    """The wire-in-shield model in the window, solved on edits, the view on the shield."""
+    window.auto_solve = True
+    window.load(_wire_in_shield(), None)
+    window.canvas.plotItem.vb.setRange(xRange=(-20, 20), yRange=(0, 40), padding=0)
+    qtbot.wait(10)
+
+
 def test_dragging_a_conductor_updates_the_capacitance_while_the_mouse_moves(window, qtbot):
     from app.main_window import live_figures_text
 
-    window.auto_solve = True
-    window.load(_coax(1.0).with_conductors((
-        Conductor("inner", (Circle((0.0, 20.0), 2.0),), potential_V=1000.0),
-        Conductor("shield", (Ring((0.0, 20.0), 14.0, 16.0),), role="reference"),
-    )), None)
-    window.canvas.plotItem.vb.setRange(xRange=(-20, 20), yRange=(0, 40), padding=0)
-    qtbot.wait(10)
+    _open_wire_in_shield(window, qtbot)
     step = window.canvas.snap_step()
     assert 4 * step <= 10.0  # the inner wire stays inside the shield
     window.solve()
@@ -240,15 +249,8 @@ def test_wheel_over_a_dimension_field_edits_and_solves_at_once(window, qtbot):
 
 def test_after_a_full_solve_the_first_drag_step_starts_from_the_prepared_part(window, qtbot):
     """The solver thread, after reporting a full solve, makes each part's first edit ready
-    (solver.GeometryEditSolver.prepare); the first live step of a drag then starts from it,
-    and a new request stops a preparation that is still running."""
-    window.auto_solve = True
-    window.load(_coax(1.0).with_conductors((
-        Conductor("inner", (Circle((0.0, 20.0), 2.0),), potential_V=1000.0),
-        Conductor("shield", (Ring((0.0, 20.0), 14.0, 16.0),), role="reference"),
-    )), None)
-    window.canvas.plotItem.vb.setRange(xRange=(-20, 20), yRange=(0, 40), padding=0)
-    qtbot.wait(10)
+    (solver.GeometryEditSolver.prepare); the first live step of a drag then starts from it."""
+    _open_wire_in_shield(window, qtbot)
     window.solve()
     qtbot.waitUntil(lambda: window.results is not None and window.results.complete
                     and not window.runner.is_running, timeout=60000)
@@ -263,3 +265,18 @@ def test_after_a_full_solve_the_first_drag_step_starts_from_the_prepared_part(wi
     QTest.mouseRelease(vp, Qt.LeftButton, Qt.NoModifier, to_pixel(window.canvas, step, 20.0))
     qtbot.waitUntil(lambda: window.results is not None and window.results.complete
                     and window.results.model == window.document.model, timeout=60000)
+
+
+def test_no_preparation_after_a_live_solve_or_once_stopped():
+    model = _wire_in_shield()
+    for live, stopped in ((True, False), (False, True)):
+        edits = solver.GeometryEditSolver()
+        edits.solve(model)
+        thread = worker._SolveThread(model, {}, live, edits)
+        if stopped:
+            thread.stop.set()  # a newer request came in
+        thread.after_report()
+        assert edits._prepared == {}
+    thread = worker._SolveThread(model, {}, False, edits)
+    thread.after_report()
+    assert set(edits._prepared) == {"inner"}
