@@ -19,11 +19,11 @@ same angular step the mesher uses at the given resolution ``level`` so they refi
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Iterable
 from dataclasses import replace
 
-import numpy as np
 import shapely
 from shapely.geometry import MultiPolygon
 from shapely.geometry import Polygon as ShapelyPolygon
@@ -41,14 +41,32 @@ def conductors_with_sharp_corners(model: Model) -> tuple[str, ...]:
     Uses the corner detection of the mesher (a vertex turning by more than 25 degrees with the
     field region opening wider than pi) and the weak corners of
     :mod:`solver.hot_spots.weak_corners` (convex vertices turning by less, arcs excepted).
+    Both are properties of a conductor's own outline, so each conductor is looked at alone
+    and the answer kept by its shapes (a drag changes one conductor: the others are not
+    meshed again).
     """
+    return tuple(c.name for c in model.conductors if _has_sharp_corner(c.shapes, model.unit))
+
+
+def _has_sharp_corner(shapes: tuple, unit: str) -> bool:
+    try:
+        return _kept_sharp_corner(shapes, unit)
+    except TypeError:  # a shape that cannot be hashed: looked at, not kept
+        return _sharp_corner(shapes, unit)
+
+
+@functools.lru_cache(maxsize=256)
+def _kept_sharp_corner(shapes: tuple, unit: str) -> bool:
+    return _sharp_corner(shapes, unit)
+
+
+def _sharp_corner(shapes: tuple, unit: str) -> bool:
     from solver.hot_spots.weak_corners import weak_corner_turns
 
-    mesh = discretize_boundary(model, MeshSettings(0.5))
+    alone = Model(unit=unit, conductors=(Conductor("alone", shapes),))
+    mesh = discretize_boundary(alone, MeshSettings(0.5))
     _, _, pairs = weak_corner_turns(mesh)
-    weak = mesh.conductor_index[pairs[:, 0]] if pairs.size else np.zeros(0, dtype=int)
-    found = sorted(set(int(k) for k in mesh.corner_conductor) | set(int(k) for k in weak))
-    return tuple(model.conductors[k].name for k in found)
+    return bool(len(mesh.corner_conductor) or pairs.size)
 
 
 def _quad_segs(level: float) -> int:

@@ -13,6 +13,7 @@ shape and the reason.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -57,8 +58,18 @@ def shape_geometry(shape: Shape, scale: float, arc_step_rad: float, where: str):
     """Shapely geometry of one shape in metres (``scale`` = metres per model unit).
 
     ``where`` names the shape in error messages, e.g. "Conductor 'bar', shape 2 (circle)".
-    The shape builds it itself (:meth:`solver.model.shapes.Shape.geometry_m`).
+    The shape builds it itself (:meth:`solver.model.shapes.Shape.geometry_m`); the result is
+    kept by shape (shapes and shapely geometries are immutable), so the parts a drag leaves
+    alone are not built again at every step.
     """
+    try:
+        return _kept_geometry(shape, scale, arc_step_rad, where)
+    except TypeError:  # a shape that cannot be hashed: built, not kept
+        return shape.geometry_m(scale, arc_step_rad, where)
+
+
+@functools.lru_cache(maxsize=256)
+def _kept_geometry(shape: Shape, scale: float, arc_step_rad: float, where: str):
     return shape.geometry_m(scale, arc_step_rad, where)
 
 

@@ -57,3 +57,16 @@ def test_arcs_and_dents_are_not_weak_corners():
     mesh = discretize_boundary(dent, MeshSettings(1.0))
     near = int(np.argmin(np.hypot(mesh.midpoints[:, 0], mesh.midpoints[:, 1] - 0.012)))
     assert weak_corner_at(mesh, near) is None
+
+
+def test_sharp_corners_are_found_per_conductor_whatever_the_others():
+    """The answer is kept by each conductor's shapes: the same conductor next to different
+    neighbours (closer, so the mesh around it is finer) gets the same answer."""
+    bar = solver.Conductor("bar", (solver.Rectangle((0.0, 0.0), 10.0, 2.0),), potential_V=1.0)
+    rounded = solver.Conductor("rounded", (solver.Rectangle((0.0, 8.0), 10.0, 2.0, 0.9),), role="reference")
+    wire = solver.Conductor("wire", (solver.Circle((0.0, -5.0), 1.0),), role="reference")
+    for gap in (5.0, 0.2):
+        moved = solver.Conductor("wire", (solver.Circle((0.0, -1.0 - gap - 1.0), 1.0),), role="reference")
+        model = solver.Model(unit="mm", conductors=(bar, rounded, moved))
+        assert solver.conductors_with_sharp_corners(model) == ("bar",)
+    assert solver.conductors_with_sharp_corners(solver.Model(unit="mm", conductors=(wire, bar))) == ("bar",)
