@@ -33,6 +33,12 @@ def format_engineering(value: float, unit: str, digits: int = 3) -> str:
 #: A value smaller than this fraction of the largest value it is shown with is round-off of
 #: the solve (double precision through a dense solve), not data, and is shown as 0.
 ROUND_OFF = 1e-9
+
+#: A peak below this share of the largest shown beside it reads "≈ 0": negligible beside the
+#: others, and where the field should vanish (behind an earthed screen) what the solver leaves
+#: there is numerical (common practice for a display; the value is ours).
+NEGLIGIBLE_SHARE = 1e-4
+
 MINUS = "\u2212"
 
 
@@ -128,6 +134,13 @@ def format_point(x: float, y: float, unit: str, size: float, digits: int = 4) ->
         return "0" if abs(v) <= ROUND_OFF * abs(size) else format_plain(v, digits)
 
     return f"({one(x)}, {one(y)}) {unit}"
+
+
+def format_location(model: Model, x: float, y: float, digits: int = 4) -> str:
+    """:func:`format_point` for a point of ``model`` (model units), its size from its bounds."""
+    bounds = model.bounds()
+    size = 1.0 if bounds is None else max(bounds[2] - bounds[0], bounds[3] - bounds[1])
+    return format_point(x, y, model.unit, size, digits)
 
 
 def format_optional(value: float | None, unit: str = "", digits: int = 3) -> str:

@@ -25,7 +25,7 @@ from dataclasses import dataclass
 from solver.bem.high_order.solution import HighOrderSolution
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, ProgressCallback
-from solver.cli.formatting import format_optional, text_table
+from solver.cli.formatting import format_location, format_optional, text_table
 from solver.cli.large_model import bundle_comparison, is_large_solution
 from solver.cli.options import ReportOptions
 from solver.errors import InvalidModelError
@@ -131,7 +131,7 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         else:
             assert spot.estimated_relative_error is not None  # a peak that is not singular has an estimate
             error = f"{100 * spot.estimated_relative_error:.2g} %"
-        rows.append([spot.conductor, _fmt(spot.field_V_per_m, "V/m"), error, f"({x:.4g}, {y:.4g}) {model.unit}",
+        rows.append([spot.conductor, _fmt(spot.field_V_per_m, "V/m"), error, format_location(model, x, y),
                      _fmt(spot.enhancement_factor), _fmt(m.air_breakdown_margin),
                      _fmt(m.corona_onset_field_V_per_m, "V/m"), _fmt(m.corona_onset_margin), m.deciding_margin or "-",
                      m.status])
@@ -183,7 +183,7 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
             assert ar.estimated_relative_error is not None  # air_region_peak estimates all but these two cases
             error = f"error {100 * ar.estimated_relative_error:.2g} %"
         lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
-                     f"{ar.where} at ({x:.4g}, {y:.4g}) {model.unit}; air margin {_fmt(margins.air_region_margin)}, "
+                     f"{ar.where} at {format_location(model, x, y)}; air margin {_fmt(margins.air_region_margin)}, "
                      f"{margins.air_region_status}.")
     for b in figures.bundles:
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "

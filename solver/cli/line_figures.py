@@ -13,7 +13,10 @@ name, eps_r, peak field in V/m, its location in metres and where it sits).
 
 from __future__ import annotations
 
+import math
+
 from solver.bem.solution import Solution
+from solver.cli.formatting import NEGLIGIBLE_SHARE, format_location, format_plain
 from solver.figures.transmission_line import (
     TransmissionLineFigures,
     figures_from_solution,
@@ -84,12 +87,22 @@ def dielectric_section(solution: Solution) -> list[str]:
         return []
     m = solution.model
     lines = ["Largest field in each dielectric region (operating point)"]
+    largest = max((p.field_V_per_m for p in peaks if math.isfinite(p.field_V_per_m)), default=0.0)
+    negligible = False
     for p in peaks:
         x, y = (v / m.metres_per_unit for v in p.location_m)
+        if math.isfinite(p.field_V_per_m) and p.field_V_per_m < NEGLIGIBLE_SHARE * largest:
+            field, negligible = "≈ 0 MV/m (°)", True
+        else:
+            field = f"{format_plain(p.field_V_per_m / 1e6, 4)} MV/m"
         lines.append(
-            f"  {p.region} (eps_r {p.eps_r:g}): {p.field_V_per_m / 1e6:.4g} MV/m at ({x:.4g}, {y:.4g}) {m.unit}, "
+            f"  {p.region} (eps_r {p.eps_r:g}): {field} at {format_location(m, x, y)}, "
             f"on {p.where}" + (" *" if p.at_sharp_corner else "")
         )
+    if negligible:
+        lines.append(f"  (°) Under {NEGLIGIBLE_SHARE:g} of the largest region's peak: negligible beside it; in a "
+                     "region screened from the field (outside an earthed screen) what the solver leaves there is "
+                     "numerical, not a field. The JSON output keeps the computed value.")
     if any(p.at_sharp_corner for p in peaks):
         lines.append(
             "  * Next to a sharp corner or edge: the 2-D field is singular there and this value grows as the "

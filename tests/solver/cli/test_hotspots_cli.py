@@ -179,3 +179,10 @@ def test_the_full_caution_appears_word_for_word_whenever_the_model_is_high_volta
         assert " ".join(HIGH_VOLTAGE_CAUTION.split()) in text
     else:
         assert data["high_voltage_caution"] == "" and "Caution - high voltage" not in text
+
+
+def test_hot_spot_locations_carry_true_minus_signs(capsys):
+    assert main([str(ROOT / "sample_geometries" / "busbar_enclosure.json"), "--density", "coarse"]) == 0
+    out = capsys.readouterr().out
+    row = next(line for line in out.splitlines() if line.strip().startswith("L1") and "%" in line and "kV/m" in line)
+    assert "(−" in row and "(-" not in row  # L1 sits at x = -40 mm: its peak's x is negative

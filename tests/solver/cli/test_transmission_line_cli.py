@@ -18,6 +18,12 @@ def test_summary_has_impedance_and_layer_stress(capsys):
     assert "Largest field in each dielectric region" in out
     assert "inner insulation (eps_r 2.3)" in out and "outer insulation (eps_r 5)" in out
     assert "characteristic impedance Z0" in out
+    # outside the earthed screen the field vanishes (Gauss's law, any textbook): the solver's
+    # few V/m there are numerical and read "≈ 0"; locations carry true minus signs
+    background = next(line for line in out.splitlines() if line.strip().startswith("background (eps_r 1)"))
+    assert "≈ 0 MV/m (°)" in background and "(°) Under 0.0001 of the largest" in out
+    inner = next(line for line in out.splitlines() if line.strip().startswith("inner insulation"))
+    assert "≈ 0" not in inner and "−" in inner and "-" not in inner.split(" at ")[1]
 
 
 def _json_part(name):
