@@ -56,14 +56,9 @@ import scipy.linalg
 from solver.bem.assembly import SystemLayout, right_hand_sides
 from solver.bem.blas_threads import blas_threads_for, one_blas_thread
 from solver.bem.block_solves import BorderedSolves, FullFactor, LUSolves
-from solver.bem.edit_blocks import DRAG_MARGIN, FarParts, ReusedBlock, block
-from solver.bem.far_blocks import (
-    compressed_far_evaluation,
-    local_coefficients,
-    near_evaluation,
-    panel_moments,
-    separation,
-)
+from solver.bem.edit_blocks import FarParts, ReusedBlock, block
+from solver.bem.edit_preparation import PREPARED_BYTES, PreparedEdit, prepared_edit
+from solver.bem.far_blocks import compressed_far_evaluation, separation
 from solver.bem.fast_solve import solve_if_large
 from solver.bem.solution import Solution
 from solver.bem.solve import CancelCallback, solve_mesh, solve_system
@@ -88,23 +83,6 @@ class _Previous:
     layout: SystemLayout
 
 
-@dataclass(frozen=True)
-class _Prepared:
-    """What the first edit of one conductor after a fresh solve reuses (see
-    :meth:`GeometryEditSolver.prepare`): the low-rank blocks on a disc around its panels and
-    the solves with the others' block from the fresh solve's factors."""
-
-    far: FarParts
-    solves: BorderedSolves
-
-    @property
-    def nbytes(self) -> int:
-        arrays = (*self.far.kept_from_edited, *self.far.edited_from_kept, self.far.self_block, self.solves.t)
-        return int(sum(a.nbytes for a in arrays))
-
-
-#: Most memory (bytes) the preparations of :meth:`GeometryEditSolver.prepare` may hold together.
-PREPARED_BYTES = 64 * 2**20
 
 
 class GeometryEditSolver:
@@ -140,7 +118,7 @@ class GeometryEditSolver:
         self._far: FarParts | None = None
         self._last: Solution | None = None
         self._fresh = False  # the last system was solved afresh (its factors are self._full)
-        self._prepared: dict[str, _Prepared] = {}
+        self._prepared: dict[str, PreparedEdit] = {}
         self._vz: tuple | None = None  # (V_EP, Z, V_EP @ Z) of the last step in low-rank form
         self._mixed: tuple | None = None  # (U_PE, solves, A_PX, Z) of the last step with near panels
         self._consistent = True  # what is kept describes one system (False while it is rewritten)
@@ -229,7 +207,8 @@ class GeometryEditSolver:
         after a fresh solve; returns the names made ready.
 
         For a conductor whose panels keep clear of the others' (the disc of
-        :mod:`solver.bem.far_blocks`, widened by :data:`solver.bem.edit_blocks.DRAG_MARGIN`),
+        :mod:`solver.bem.far_blocks`, widened by :data:`solver.bem.edit_blocks.DRAG_MARGIN`;
+        :mod:`solver.bem.edit_preparation`),
         this does now what its first edit would: the expansion terms at the others' panels and
         their compression (an SVD), the local coefficients, and the solves with the others'
         block from the fresh solve's LU factors (:class:`BorderedSolves`). An edit that keeps
@@ -258,7 +237,7 @@ class GeometryEditSolver:
                 continue
             if cancel is not None and cancel():
                 break
-            made = self._prepare_one(name, full, prev, targets, rhs, cancel)
+            made = prepared_edit(name, full, prev.matrix, targets, rhs, cancel)
             if made is None:
                 continue
             if held + made.nbytes > PREPARED_BYTES:
@@ -268,34 +247,8 @@ class GeometryEditSolver:
             done.append(name)
         return tuple(done)
 
-    def _prepare_one(self, name: str, full: FullFactor, prev: _Previous, targets: np.ndarray, rhs: np.ndarray,
-                     cancel: CancelCallback | None) -> _Prepared | None:
-        others = [n for n in full.names if n != name]
-        p_full, q_old = full.panels_of(others), full.panels_of([name])
-        if not len(p_full) or not len(q_old):
-            return None
-        plane = full.plane
-        p_starts, p_ends = full.starts[p_full], full.ends[p_full]
-        e_starts, e_ends = full.starts[q_old], full.ends[q_old]
-        disc = separation(e_starts, e_ends, p_starts, p_ends, plane, DRAG_MARGIN)
-        if not disc.usable:
-            return None
-        with one_blas_thread():
-            u_pe, moment_map = compressed_far_evaluation(disc, targets[p_full], plane)
-            if cancel is not None and cancel():
-                return None
-            far = FarParts(
-                q_old, (u_pe, moment_map @ panel_moments(disc, e_starts, e_ends, plane)),
-                (near_evaluation(disc, targets[q_old], plane), local_coefficients(disc, p_starts, p_ends, plane)),
-                e_starts, e_ends, plane, np.array(block(prev.matrix, q_old, q_old)), disc, p_starts, p_ends,
-                anchored=True, kept=p_full, deferred=False, moment_map=moment_map,
-            )
-            solves = BorderedSolves(full, p_full, q_old, disc, u_pe, full.extra_columns[p_full], moment_map,
-                                    also=rhs[p_full])
-        return _Prepared(far, solves) if solves.usable else None
-
     def _take_prepared(self, model: Model, mesh: PanelMesh, kept_new: np.ndarray,
-                       prepared: dict[str, _Prepared]) -> None:
+                       prepared: dict[str, PreparedEdit]) -> None:
         """Start from the preparation of the one edited conductor, when there is one."""
         kept = {model.conductor_names[k] for k in np.unique(mesh.conductor_index[kept_new])}
         edited = [n for n in model.conductor_names if n not in kept]
