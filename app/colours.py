@@ -72,6 +72,9 @@ LABEL_FILL = (255, 255, 255, 215)
 HOT_SPOT_FILL = "#000000"
 HOT_SPOT_RIM = "#ffffff"
 
+#: The thin line from a label stacked away from its point (a hot-spot star) to that point.
+LABEL_LEADER = (20, 20, 20, 200)
+
 #: Surface charge drawn as sticks over a shading (the shading holds the one colour key).
 CHARGE_STICK = "#1a1a1a"
 
