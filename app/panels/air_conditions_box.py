@@ -19,6 +19,7 @@ from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLab
 import solver
 from app import colours
 from app.panels.quantity_edit import QuantityEdit
+from app.units import format_measured, format_plain
 from solver import AirConditions, VoltageBasis
 
 
@@ -157,9 +158,10 @@ class AirConditionsBox(QGroupBox):
             return None, None
         self.label.setStyleSheet("")
         self.label.setText(
-            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Strength of air in a "
-            f"uniform field {at_1_cm / 1e6:.3g} MV/m across 1 cm, {long_gap / 1e6:.3g} MV/m for long gaps (Kuffel, "
-            f"Zaengl & Kuffel 2000; each peak uses its own gap; times the surface factor {air.surface_factor:g}); "
+            f"Relative air density δ = {format_plain(air.relative_air_density, 5)} ({air.description}). Strength of "
+            f"air in a uniform field {format_measured(at_1_cm, 'V/m', digits=3)} across 1 cm, "
+            f"{format_measured(long_gap, 'V/m', digits=3)} for long gaps (Kuffel, Zaengl & Kuffel 2000; each peak "
+            f"uses its own gap; times the surface factor {format_plain(air.surface_factor, 4)}); "
             f"corona onset of round conductors by Peek (1929), {self.peek_form.currentText()} form. "
             f"Voltage basis: {basis.describe()}.")
         return air, basis

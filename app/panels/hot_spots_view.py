@@ -27,7 +27,7 @@ from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
-from app.units import digits_for, format_plain, true_minus
+from app.units import digits_for, format_percent, format_plain
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -75,7 +75,7 @@ class HotSpotsView(QWidget):
         self.runner.job_cancelled.connect(
             lambda: None if self._stale else self._set_status("Hot-spot analysis cancelled; solve again to restart it."))
         self.table_label = QLabel("Peak surface field per conductor (crest values; margin = threshold / peak, "
-                                  f"below {THIN_MARGIN:g} is thin)")
+                                  f"below {format_plain(THIN_MARGIN, 3)} is thin)")
         self.table_label.setWordWrap(True)
         layout.addWidget(self.table_label)
         self.table = CopyableTable()
@@ -179,7 +179,7 @@ class HotSpotsView(QWidget):
         self._pending = False
         self._corner_radius_m = corner_radius_m
         rounded = "" if corner_radius_m is None else " with sharp corners rounded"
-        self._set_status(f"Refining the peak surface fields{rounded} to {100 * TARGET:g} %…")
+        self._set_status(f"Refining the peak surface fields{rounded} to {format_percent(TARGET)}…")
         self.runner.start_with_progress(solver.analyse_hot_spots, self.results.solution, TARGET, corner_radius_m)
 
     def _on_corner_radius_applied(self) -> None:
@@ -232,9 +232,9 @@ class HotSpotsView(QWidget):
     def _on_report_ready(self, report) -> None:
         self.report = report
         rounded = ("" if report.corner_radius_m is None else
-                   f", sharp corners rounded to {report.corner_radius_m / self.results.model.metres_per_unit:g} "
+                   f", sharp corners rounded to {format_plain(report.corner_radius_m / self.results.model.metres_per_unit, 4)} "
                    f"{self.results.model.unit}")
-        self._set_status(f"Peak fields refined to an error target of {100 * report.target_relative_error:g} % "
+        self._set_status(f"Peak fields refined to an error target of {format_percent(report.target_relative_error)} "
                          f"({report.n_panels[-1]} panels on the finest mesh{rounded}).")
         self._assess()
 
@@ -256,7 +256,7 @@ class HotSpotsView(QWidget):
         for spot, margin in zip(r.hot_spots, m.margins):
             rows.append(spot.conductor)
             if spot.singular:
-                corner = "yes" if spot.corner_exponent is None else f"yes,\nσ ~ r^{true_minus(f'{spot.corner_exponent:.3f}')}"
+                corner = "yes" if spot.corner_exponent is None else f"yes,\nσ ~ r^{format_plain(spot.corner_exponent, 3)}"
                 notes.append(f"'{spot.conductor}': {spot.note}")
             else:
                 corner = "no"
@@ -299,7 +299,7 @@ class HotSpotsView(QWidget):
         notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
                      "potential. Fields are crest values at the model's potentials. Voltage basis: "
                      f"{m.voltage_basis.describe()}"
-                     + (f"; the margins compare the thresholds with these peaks × {m.voltage_basis.field_factor:.4g}."
+                     + (f"; the margins compare the thresholds with these peaks × {format_plain(m.voltage_basis.field_factor, 4)}."
                         if m.voltage_basis.field_factor != 1.0 else "."))
         self.notes.setText("\n".join(notes))
         self._show_caution()
