@@ -14,7 +14,7 @@ user presses the button (the owner then saves them in the project). No physics h
 from __future__ import annotations
 
 from PySide6.QtCore import Signal
-from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton
+from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton, QVBoxLayout
 
 import solver
 from app import colours
@@ -37,7 +37,9 @@ class AirConditionsBox(QGroupBox):
 
     def __init__(self, parent=None) -> None:
         super().__init__("Air at the site", parent)
-        form = QFormLayout(self)
+        outer = QVBoxLayout(self)
+        form = QFormLayout()
+        outer.addLayout(form)
         form.setRowWrapPolicy(QFormLayout.WrapLongRows)  # labels above their fields in a narrow panel
         self.mode = QComboBox()
         self.mode.addItems(["altitude (standard atmosphere)", "measured pressure, temperature"])
@@ -73,7 +75,9 @@ class AirConditionsBox(QGroupBox):
         form.addRow("overvoltage factor", self.factor_edit.with_unit())
         form.addRow(self.rms_box)
         form.addRow(self.apply_button)
-        form.addRow(self.label)
+        # below the form, not in it: a form row gave the wrapped note less height than it needs
+        # (its last lines were cut off at 1366 x 768); a box layout asks the label's height for its width
+        outer.addWidget(self.label)
         self.apply_button.clicked.connect(self.applied)
         self.mode.currentIndexChanged.connect(self._on_mode_changed)
         self.basis.currentIndexChanged.connect(self._on_basis_changed)
