@@ -75,13 +75,15 @@ class CopyableTable(QTableWidget):
         self.setSelectionMode(QAbstractItemView.ExtendedSelection)
         QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
 
-    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
+    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None,
+             row_tips: list[str] | None = None, column_tips: list[str] | None = None) -> None:
         """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
         ``wrap`` characters break onto lines between words, so that a narrow panel shows them
         whole without scrolling sideways (cells may hold line breaks too); when the table is
         still wider than its place, headings and worded cells wrap narrower (down to
         :data:`NARROWEST_WRAP` characters) as the table is filled and resized. With no ``rows``
-        the table has no row headings (its first column says what each row is)."""
+        the table has no row headings (its first column says what each row is). ``row_tips``
+        and ``column_tips`` are the headings' tooltips: what a short heading stands for."""
         self._texts = (list(rows), list(columns), [list(r) for r in cells], wrap) if wrap else None
         self._fitted_width = -1
         if wrap:
@@ -92,6 +94,10 @@ class CopyableTable(QTableWidget):
         self.setHorizontalHeaderLabels(columns)
         self.setVerticalHeaderLabels(rows)
         self.verticalHeader().setVisible(bool(rows) or not cells)
+        for header_item, tips in ((self.verticalHeaderItem, row_tips), (self.horizontalHeaderItem, column_tips)):
+            for k, tip in enumerate(tips or []):
+                if header_item(k) is not None and tip:
+                    header_item(k).setToolTip(tip)
         for i, row in enumerate(cells):
             for j, text in enumerate(row):
                 item = QTableWidgetItem(text)

@@ -1,6 +1,8 @@
 """The results area at every window size: every section one click away, no widget drawn over
 another or cut off, the summary block whole, and every section marked when out of date."""
 
+import re
+
 import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import (
@@ -156,6 +158,39 @@ def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(wi
         settle(qtbot)
         found = problems_in(panel, f"{sample} {size} {title}")
         assert found == [], "\n".join(found)
+
+
+@pytest.mark.parametrize("sample", ["shielded_three_core_cable.json", "two_layer_coax_cable.json"])
+def test_the_high_voltage_table_fits_1366_with_short_headings_that_say_what_they_are(window, qtbot, sample):
+    """Four columns (three cores and the screen, or a conductor and the air at the insulation's
+    surface): no sideways scrolling at 1366 x 768, every heading at most two lines, each with a
+    tooltip saying what it stands for."""
+    from app.panels.hot_spots_view import ROW_HEADINGS
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / sample)
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    panel = window.results_panel
+    panel.show_section("High voltage")
+    qtbot.waitUntil(lambda: panel.hot_spots.margins is not None, timeout=60000)
+    settle(qtbot)
+    table = panel.hot_spots.table
+    assert table.rowCount() == len(ROW_HEADINGS) and table.columnCount() >= 2
+    found = problems_in(panel, f"{sample} High voltage")
+    assert found == [], "\n".join(found)
+    assert table.horizontalScrollBar().maximum() == 0
+    for i in range(table.rowCount()):
+        heading = table.verticalHeaderItem(i)
+        assert heading.text().count("\n") <= 1, heading.text()
+        assert len(heading.toolTip()) > len(heading.text()), heading.text()
+    for j in range(table.columnCount()):
+        assert table.horizontalHeaderItem(j).toolTip()
+        for i in range(table.rowCount()):  # no exponents (the coax's negligible peak in air read 6.039e-05)
+            assert not re.search(r"\de[-+\u2212]?\d", table.item(i, j).text()), table.item(i, j).text()
+    # the row headings take at most a third of the table: the figures get the room
+    assert table.verticalHeader().width() <= table.width() / 3
 
 
 def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
