@@ -25,6 +25,8 @@ from app.files import project_files as files
 
 #: Room a drop-down list takes beside its text (frame and arrow), pixels.
 COMBO_ARROW_PX = 28
+#: Room a table cell takes beside its text (Qt's item margins), pixels.
+CELL_PADDING_PX = 4
 
 SIZES = ((1366, 768), (1500, 900), (1920, 1080), (1024, 640))
 
@@ -59,6 +61,8 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
                 found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
         if isinstance(a, QLabel) and not a.wordWrap() and a.text() and a.sizeHint().width() > a.width() + 1:
             found.append(f"{where}: label '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
+        if isinstance(a, QAbstractButton) and a.text() and a.sizeHint().width() > a.width() + 1:
+            found.append(f"{where}: button '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
         if isinstance(a, QComboBox) and a.currentText() and (
                 a.fontMetrics().horizontalAdvance(a.currentText()) > a.width() - COMBO_ARROW_PX):
             found.append(f"{where}: choice '{a.currentText()[:40]}' is cut off at {a.width()} px")
@@ -75,7 +79,8 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
 
 
 def _cut_headers(table: QTableWidget, where: str) -> list[str]:
-    """Header texts (every line of them) wider than their header section."""
+    """Header texts (every line of them) wider than their header section, and cell texts wider or
+    taller than their cell (drawn cut off or elided)."""
     found = []
     metrics = table.horizontalHeader().fontMetrics()
     for j in range(table.columnCount()):
@@ -83,6 +88,16 @@ def _cut_headers(table: QTableWidget, where: str) -> list[str]:
         need = max((metrics.horizontalAdvance(line) for line in (item.text() if item else "").split("\n")), default=0)
         if need > table.columnWidth(j):
             found.append(f"{where}: column heading '{item.text()[:30]}' needs {need} px, has {table.columnWidth(j)}")
+    cell_metrics = table.fontMetrics()
+    for i in range(table.rowCount()):
+        for j in range(table.columnCount()):
+            cell = table.item(i, j)
+            lines = (cell.text() if cell else "").split("\n")
+            wide = max((cell_metrics.horizontalAdvance(line) for line in lines), default=0)
+            if cell is not None and cell.text() and (wide + CELL_PADDING_PX > table.columnWidth(j)
+                                                     or len(lines) * cell_metrics.lineSpacing() > table.rowHeight(i)):
+                found.append(f"{where}: cell '{cell.text()[:30]}' needs {wide + CELL_PADDING_PX} x "
+                             f"{len(lines) * cell_metrics.lineSpacing()} px, has {table.columnWidth(j)} x {table.rowHeight(i)}")
     vertical = table.verticalHeader()
     for i in range(table.rowCount()):
         item = table.verticalHeaderItem(i)
@@ -259,6 +274,26 @@ def test_the_walk_finds_overlaps_cut_offs_and_squeezed_labels(qtbot):
     found = "\n".join(problems_in(parent, "probe"))
     assert "QLineEdit() overlaps QLineEdit() by 20x20 px" in found
     assert "is cut off by" in found and "needs" in found
+
+
+def test_the_walk_finds_cut_table_cells_and_cut_button_texts(qtbot):
+    from PySide6.QtWidgets import QCheckBox, QTableWidgetItem
+
+    parent = QWidget()
+    qtbot.addWidget(parent)
+    parent.resize(400, 300)
+    table = QTableWidget(2, 2, parent)
+    table.setGeometry(0, 0, 400, 200)
+    table.setItem(0, 0, QTableWidgetItem("a cell far wider than its column"))
+    table.setItem(1, 1, QTableWidgetItem("three\nlines\ntall"))
+    table.setItem(1, 0, QTableWidgetItem("12"))
+    table.setColumnWidth(0, 60)
+    box = QCheckBox("potentials are rms values", parent)
+    box.setGeometry(0, 210, 80, 30)
+    parent.show()
+    found = "\n".join(problems_in(parent, "probe"))
+    assert "cell 'a cell far wider than its col" in found and "cell 'three" in found and "cell '12'" not in found
+    assert "button 'potentials are rms values' needs" in found
 
 
 def test_old_section_names_still_lead_to_their_section(hv_twin):
