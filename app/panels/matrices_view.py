@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
-from app.units import digits_for, format_measured, format_percent, format_plain, format_point, si_scale
+from app.units import digits_for, format_percent, format_plain, format_point, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -110,8 +110,15 @@ class CopyableTable(QTableWidget):
         self.resizeColumnsToContents()
         self.resizeRowsToContents()
         self.horizontalHeader().resizeSections(QHeaderView.ResizeToContents)
+        self._set_height()
+
+    def _set_height(self) -> None:
+        """Rows and headings in full; room for a sideways scroll bar only while the table is wider
+        than its place (an empty strip under every table otherwise)."""
         height = self.horizontalHeader().sizeHint().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
-        self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
+        too_wide = self._needed_width() > self.width() - 2 * self.frameWidth() or not self.isVisible()
+        bar = self.horizontalScrollBar().sizeHint().height() if too_wide else 0
+        self.setFixedHeight(height + 2 * self.frameWidth() + bar + 2)
 
     def _needed_width(self) -> int:
         header = self.verticalHeader()
@@ -126,6 +133,8 @@ class CopyableTable(QTableWidget):
     def _fit_width(self) -> None:
         """Wrap headings and worded cells narrower until the table fits its width (or the
         narrowest wrap is reached); item colours set by a view are kept."""
+        if self.isVisible():
+            self._set_height()
         if self._texts is None or not self.isVisible() or self.width() == self._fitted_width:
             return
         self._fitted_width = self.width()
@@ -309,11 +318,13 @@ class MatricesView(QWidget):
         scale, size = model.metres_per_unit, drawing_size(sol)
         largest = max((p.field_V_per_m for p in peaks if np.isfinite(p.field_V_per_m)), default=None)
         rows = [p.region for p in peaks]
-        cells = [[format_plain(p.eps_r, 3), format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest),
+        # one unit for the column, in its heading (no cell mixes kV/m and MV/m)
+        field_unit, fields = cells_in_one_unit([p.field_V_per_m for p in peaks], "V/m", 3, largest)
+        cells = [[format_plain(p.eps_r, 3), field,
                   format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip(),
                   wrap_heading(p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else ""), 22)]
-                 for p in peaks]
-        self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells, wrap=14)
+                 for p, field in zip(peaks, fields)]
+        self.regions.fill(rows, ["εr", f"largest |E| ({field_unit})", f"at ({model.unit})", "on"], cells, wrap=14)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:
