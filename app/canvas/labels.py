@@ -50,6 +50,11 @@ class PartMask:
         return float(cells.mean()) if cells.size else 0.0
 
 
+def grown(box, dx: float, dy: float):
+    """``box`` grown by ``dx`` across and ``dy`` up on every side."""
+    return box[0] - dx, box[1] - dy, box[2] + dx, box[3] + dy
+
+
 def centred_box(x: float, y: float, w: float, h: float):
     return (x - w / 2, y - h / 2, x + w / 2, y + h / 2)
 

@@ -34,6 +34,9 @@ __all__ = ["SHADINGS", "Overlays"]
 #: for the new scale, ms.
 RELABEL_DELAY_MS = 200
 
+#: Room kept free around a hot-spot label, screen pixels.
+LABEL_MARGIN_PX = 4
+
 
 
 class Overlays:
@@ -309,7 +312,9 @@ class Overlays:
             others = [(xs[j], ys[j]) for j in range(len(peaks)) if j != k]
             anchor, box = labels.free_place(x, y, w, h, 10 * px, 10 * py, self._label_boxes, (v0, v1, w0, w1),
                                             self._mask, leaders=leader_segments, others=others)
-            self._label_boxes.append(box)
+            # kept clear with a margin: its frame is drawn just outside the box, and labels placed
+            # later (equipotentials) size themselves from an estimate of their text
+            self._label_boxes.append(labels.grown(box, LABEL_MARGIN_PX * px, LABEL_MARGIN_PX * py))
             label.setAnchor(anchor)
             label.setPos(QPointF(*labels.anchor_point(box, anchor)))
             self._add(label, 36)
