@@ -72,6 +72,9 @@ LABEL_FILL = (255, 255, 255, 215)
 HOT_SPOT_FILL = "#000000"
 HOT_SPOT_RIM = "#ffffff"
 
+#: The thin line from a label stacked away from its point (a hot-spot star) to that point.
+LABEL_LEADER = (20, 20, 20, 200)
+
 #: Surface charge drawn as sticks over a shading (the shading holds the one colour key).
 CHARGE_STICK = "#1a1a1a"
 
@@ -211,15 +214,20 @@ def rgba(colour: str | tuple, alpha: int | None = None) -> str:
     return f"rgba({r}, {g}, {b}, {a})"
 
 
+#: The Solve button's fill while the results are up to date: a light tint of the "up to date"
+#: colour, so the one primary action never reads as a plain tool button.
+SOLVE_FRESH_FILL = "#e0eff1"
+
 #: The primary action (Solve) by the state of the results: (text on the button, text colour,
-#: fill, outline). It is filled when the results need it (not solved, out of date, failed) in
-#: that state's freshness colour, and drawn plain once the results are up to date.
+#: fill, outline). It is filled strongly when the results need it (not solved, out of date,
+#: failed) in that state's freshness colour, and lightly tinted while solving or up to date:
+#: never white like the drawing tools beside it.
 SOLVE_BUTTON = {
     "none": ("\u25b6 Solve", "#ffffff", FRESHNESS["stale"].text, FRESHNESS["stale"].text),
     "stale": ("\u25b6 Solve \u2014 out of date", "#ffffff", FRESHNESS["stale"].text, FRESHNESS["stale"].text),
     "solving": ("\u2026 Solving", FRESHNESS["solving"].text, FRESHNESS["solving"].background,
                 FRESHNESS["solving"].text),
-    "fresh": ("\u2713 Up to date", FRESHNESS["fresh"].text, PAGE, FRESHNESS["fresh"].text),
+    "fresh": ("\u2713 Up to date", FRESHNESS["fresh"].text, SOLVE_FRESH_FILL, FRESHNESS["fresh"].text),
     "failed": ("! Cannot solve \u2014 retry", "#ffffff", FRESHNESS["failed"].text, FRESHNESS["failed"].text),
 }
 
@@ -228,4 +236,4 @@ def solve_button_style(state: str) -> str:
     """A Qt style sheet for the Solve button in ``state`` (a key of :data:`SOLVE_BUTTON`)."""
     _, text, fill, outline = SOLVE_BUTTON[state]
     return (f"QToolButton {{ color: {text}; background: {fill}; border: 2px solid {outline}; border-radius: 4px;"
-            " padding: 3px 12px; font-weight: bold; }")
+            " padding: 4px 14px; margin-left: 6px; font-weight: bold; }")

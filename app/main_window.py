@@ -43,7 +43,7 @@ from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.panels.wheel_steps import WheelSteps
 from app.study_menus import StudyMenus
-from app.units import format_field, format_potential, format_si
+from app.units import format_field, format_plain, format_potential, format_si
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -383,7 +383,8 @@ class MainWindow(QMainWindow):
     # ---- readouts --------------------------------------------------------------------------
     def _on_cursor_moved(self, x: float, y: float) -> None:
         model = self.document.model
-        text = f"x = {x:.4g} {model.unit}, y = {y:.4g} {model.unit}   (snap {self.canvas.snap_step():g} {model.unit})"
+        text = (f"x = {format_plain(x, 4)} {model.unit}, y = {format_plain(y, 4)} {model.unit}"
+                f"   (snap {format_plain(self.canvas.snap_step(), 4)} {model.unit})")
         if self.results is not None:
             scale = self.results.model.metres_per_unit
             phi, e = solver.evaluate_at_points(self.results.solution, np.array([[x * scale, y * scale]]))

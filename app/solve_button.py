@@ -1,9 +1,10 @@
 """The Solve button: the program's primary action, showing the state of the results.
 
-It sits at the end of the drawing-tools bar and says, in the freshness colours of
-:mod:`app.colours`, whether the results need a solve ("▶ Solve — out of date", filled),
-are being computed ("… Solving") or match the drawing ("✓ Up to date", plain). It follows the
-summary block's state, so the two never disagree.
+It sits at the end of the drawing-tools bar, in larger bold type, always filled (never white
+like the tools), one width in every state, and says in the freshness colours of
+:mod:`app.colours` whether the results need a solve ("▶ Solve — out of date", strongly
+filled), are being computed ("… Solving", tinted) or match the drawing ("✓ Up to date",
+tinted). It follows the summary block's state, so the two never disagree.
 """
 
 from __future__ import annotations
@@ -13,6 +14,9 @@ from PySide6.QtGui import QAction
 from PySide6.QtWidgets import QToolButton
 
 from app import colours
+
+#: The button's text against the drawing tools' text.
+FONT_SCALE = 1.15
 
 #: Tooltips by state.
 TIPS = {
@@ -32,7 +36,17 @@ class SolveButton(QToolButton):
         self.setDefaultAction(action)
         self.setToolButtonStyle(Qt.ToolButtonTextOnly)
         self.setObjectName("solve_button")
+        font = self.font()
+        font.setPointSizeF(font.pointSizeF() * FONT_SCALE)  # a step above the tools beside it
+        font.setBold(True)
+        self.setFont(font)
         self.state = ""
+        widest = 0
+        for state in colours.SOLVE_BUTTON:  # one width for every state: the bar never shifts
+            self.set_state(state)
+            self.ensurePolished()
+            widest = max(widest, self.sizeHint().width())
+        self.setMinimumWidth(widest)
         self.set_state("none")
 
     def set_state(self, state: str) -> None:

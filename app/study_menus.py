@@ -15,6 +15,7 @@ from PySide6.QtGui import QAction
 
 from app.canvas.green_overlay import GreenOverlay
 from app.messages import show_message
+from app.units import format_plain
 
 
 class StudyMenus(QObject):
@@ -91,9 +92,9 @@ class StudyMenus(QObject):
         (x0, x1), (y0, y1) = self.green_overlay.view_range()
         self.w.canvas.plotItem.vb.setRange(xRange=(x0, x1), yRange=(y0, y1), padding=0.02)
         unit = m.unit
-        self._say(f"Green's function of {' + '.join(m.names)}: equivalent radius {m.equivalent_radius:.5g} {unit}, "
-                  f"Robin constant {m.robin_constant:.5g} (lengths in {unit}); round wire within 1 % beyond "
-                  f"{m.round_wire_distance:.4g} {unit} from the charge centre.", 20000)
+        self._say(f"Green's function of {' + '.join(m.names)}: equivalent radius {format_plain(m.equivalent_radius, 5)} "
+                  f"{unit}, Robin constant {format_plain(m.robin_constant, 5)} (lengths in {unit}); round wire within "
+                  f"1 % beyond {format_plain(m.round_wire_distance, 4)} {unit} from the charge centre.", 20000)
 
     # ---- dialogs ---------------------------------------------------------------------------
     def open_sweep_dialog(self):

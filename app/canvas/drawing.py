@@ -11,6 +11,7 @@ from PySide6.QtGui import QBrush, QColor, QPainterPath, QPen
 from PySide6.QtWidgets import QGraphicsPathItem
 
 from app import colours
+from app.units import format_plain
 from solver import Shape
 
 #: Outline colour of a shape the solver rejects.
@@ -81,7 +82,7 @@ def dielectric_item(shape: Shape, eps_r: float, where: str | None = None) -> QGr
     brush = QBrush(QColor(*colours.DIELECTRIC_HATCH), Qt.BDiagPattern)
     item.setBrush(brush)
     item.setPen(cosmetic_pen(colours.DIELECTRIC_OUTLINE, 1.2, Qt.DashLine))
-    item.setToolTip(f"{where or 'Dielectric'}: relative permittivity {eps_r:g}")
+    item.setToolTip(f"{where or 'Dielectric'}: relative permittivity {format_plain(eps_r, 10)}")
     mark_if_invalid(item, shape, where)
     return item
 

@@ -29,6 +29,7 @@ from PySide6.QtCore import QObject, QPointF, Qt, Signal
 
 from app import colours
 from app.jobs.study_runner import StudyRunner
+from app.units import format_percent, format_plain
 from solver import Model, equilibrium_charge
 from solver.cross_check import green_function_on_grid, robin_constant, round_wire_distance_m
 from solver.cross_check.robin import ROUND_WIRE_TOLERANCE, charge_centre_m
@@ -189,7 +190,7 @@ class GreenOverlay(QObject):
             at = np.array([longest[0][k], longest[1][k]])
             if all(np.hypot(*(at - p)) >= min_gap for p in placed):
                 placed.append(at)
-                label = pg.TextItem(f"g = {level:g}", color=colours.TEXT, anchor=(0, 1),
+                label = pg.TextItem(f"g = {format_plain(level, 4)}", color=colours.TEXT, anchor=(0, 1),
                                     fill=pg.mkBrush(*colours.LABEL_FILL))
                 label.setPos(QPointF(*at))
                 self._add(label, 31)
@@ -200,7 +201,7 @@ class GreenOverlay(QObject):
         if math.isfinite(m.round_wire_distance):
             rx, ry = _circle(m.centre, m.round_wire_distance)
             self._add(pg.PlotCurveItem(rx, ry, pen=pg.mkPen(colours.CONSTRUCTION, width=2, style=Qt.DashLine)), 33)
-            text = f"round wire within {m.tolerance:.0%} beyond {m.round_wire_distance:.4g} {m.unit}"
+            text = f"round wire within {format_percent(m.tolerance, 2)} beyond {format_plain(m.round_wire_distance, 4)} {m.unit}"
             label = pg.TextItem(text, color=colours.TEXT, anchor=(0.5, 1.0), fill=pg.mkBrush(*colours.LABEL_FILL),
                                 border=pg.mkPen(colours.TEXT_MUTED))
             label.setPos(QPointF(m.centre[0], m.centre[1] + m.round_wire_distance))

@@ -1,10 +1,13 @@
-"""Keeping labels on the drawing apart: from each other, from the conductors and inside the view.
+"""Keeping labels on the drawing apart: from each other, from the conductors and inside the view;
+a label that cannot stand beside its point is led back to it by a thin line.
 
 Boxes are (x0, y0, x1, y1) in model units; a label's size comes from its text and the current
 model-units-per-pixel of the view.
 """
 
 from __future__ import annotations
+
+import math
 
 import numpy as np
 from scipy import ndimage
@@ -47,6 +50,11 @@ class PartMask:
         return float(cells.mean()) if cells.size else 0.0
 
 
+def grown(box, dx: float, dy: float):
+    """``box`` grown by ``dx`` across and ``dy`` up on every side."""
+    return box[0] - dx, box[1] - dy, box[2] + dx, box[3] + dy
+
+
 def centred_box(x: float, y: float, w: float, h: float):
     return (x - w / 2, y - h / 2, x + w / 2, y + h / 2)
 
@@ -65,6 +73,10 @@ STEP_COST = 0.4
 #: A place moved into the view counts this fraction of a clash; covering conductors counts the
 #: share of the label that lies over them.
 MOVED_COST = 0.25
+#: A leader line under a label counts this fraction of a clash (text over text counts one);
+#: so does a label nearer to another labelled point than to its own.
+LEADER_COST = 0.5
+OTHER_POINT_COST = 0.5
 
 
 def _moved_into_view(box, view):
@@ -77,12 +89,20 @@ def _moved_into_view(box, view):
     return x0 + dx, y0 + dy, x1 + dx, y1 + dy
 
 
-def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None):
+def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = None, *,
+               leaders=(), others=()):
     """Anchor and box of a ``w`` x ``h`` label beside the point (x, y): of the four diagonal
     places, and the same places moved up to :data:`STACK_STEPS` label heights farther up or
     down, the one with the fewest clashes with ``placed`` boxes and conductors (the share of the
     label over them). A place that leaves the view is moved into it (never cut off) and counts
-    :data:`MOVED_COST` of a clash, each step away :data:`STEP_COST` of one; ties go to the nearest place, then the outward side, then upwards."""
+    :data:`MOVED_COST` of a clash, each step away :data:`STEP_COST` of one; ties go to the nearest
+    place, then the outward side, then upwards.
+
+    A place away from the point has a leader (:func:`leader_line`): a leader that crosses a
+    ``placed`` box, or a box that crosses one of the ``leaders`` already drawn (segments), counts
+    :data:`LEADER_COST` of a clash; a box nearer to one of the ``others`` points (labelled points
+    of other labels) than to its own point, which would read as that point's label,
+    :data:`OTHER_POINT_COST`."""
     v0, v1, w0, w1 = view
     outward_right = x >= 0.5 * (v0 + v1)
     candidates = []
@@ -94,8 +114,59 @@ def free_place(x, y, w, h, gap_x, gap_y, placed, view, mask: PartMask | None = N
             box = (x0, y0, x0 + w, y0 + h)
             moved = _moved_into_view(box, view)
             clashes = sum(overlap(moved, other) for other in placed)
+            leader = leader_line(x, y, moved, gap_x, gap_y)
+            if leader is not None:  # its own point's box (the star) holds the leader's start
+                clashes += LEADER_COST * sum(segment_crosses(leader, other) for other in placed
+                                             if not (other[0] <= x <= other[2] and other[1] <= y <= other[3]))
+            clashes += LEADER_COST * sum(segment_crosses(segment, moved) for segment in leaders)
+            own = _gap_distance(x, y, moved, gap_x, gap_y)
+            clashes += OTHER_POINT_COST * any(_gap_distance(ox, oy, moved, gap_x, gap_y) < own for ox, oy in others)
             on_part = mask.covered_fraction(moved) if mask is not None else 0.0
             candidates.append((clashes + on_part + (MOVED_COST if moved != box else 0.0) + STEP_COST * step, step, order,
                                (0.0 if right else 1.0, 1.0 if up else 0.0), moved))
     best = min(candidates, key=lambda c: c[:3])
     return best[3], best[4]
+
+
+def _gap_distance(x: float, y: float, box, gap_x: float, gap_y: float) -> float:
+    """Distance from (x, y) to the nearest point of ``box``, in gaps (across and up alike)."""
+    x_end, y_end = min(max(x, box[0]), box[2]), min(max(y, box[1]), box[3])
+    return math.hypot((x_end - x) / gap_x, (y_end - y) / gap_y)
+
+
+def segment_crosses(segment, box) -> bool:
+    """True when the ``segment`` ((x0, y0), (x1, y1)) passes through the inside of ``box``
+    (touching its edge does not count): Liang & Barsky's clipping (1984)."""
+    (xa, ya), (xb, yb) = segment
+    dx, dy = xb - xa, yb - ya
+    t0, t1 = 0.0, 1.0
+    for p, q in ((-dx, xa - box[0]), (dx, box[2] - xa), (-dy, ya - box[1]), (dy, box[3] - ya)):
+        if p == 0.0:
+            if q <= 0.0:
+                return False
+            continue
+        t = q / p
+        if p < 0.0:
+            t0 = max(t0, t)
+        else:
+            t1 = min(t1, t)
+    return t1 - t0 > 1e-9
+
+
+#: A label farther from its point than this many times its gap beside the point (a place stacked
+#: away or moved into the view) gets a leader line to the point.
+LEADER_AFTER = 1.5
+
+
+def leader_line(x: float, y: float, box, gap_x: float, gap_y: float):
+    """The leader of a label placed at ``box`` for the point (x, y): the segment from the point
+    to the nearest point of the box, when the box stands away from the point (more than
+    :data:`LEADER_AFTER` times the gap of a label beside it, ``gap_x`` across and ``gap_y`` up,
+    model units); None for a label beside its point.
+
+    Returns ((x, y), (x_end, y_end)) in model units, or None.
+    """
+    beside = math.hypot(1.0, 1.0)  # the corner of a label beside its point, in gaps
+    if _gap_distance(x, y, box, gap_x, gap_y) <= LEADER_AFTER * beside:
+        return None
+    return (x, y), (min(max(x, box[0]), box[2]), min(max(y, box[1]), box[3]))

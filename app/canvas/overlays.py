@@ -34,6 +34,9 @@ __all__ = ["SHADINGS", "Overlays"]
 #: for the new scale, ms.
 RELABEL_DELAY_MS = 200
 
+#: Room kept free around a hot-spot label, screen pixels.
+LABEL_MARGIN_PX = 4
+
 
 
 class Overlays:
@@ -53,6 +56,8 @@ class Overlays:
         self.plot.addItem(self._marker)
         self.stale = False
         self._label_boxes: list = []
+        self.leaders: list = []
+        self._leader_segments: list = []
         self._mask: labels.PartMask | None = None
         self._detail = None  # a finer map of the framed view (app.canvas.detail_map), for self.results
         self.detail_runner = FigureJobRunner(plot_item)
@@ -152,6 +157,8 @@ class Overlays:
                 note.scene().removeItem(note)
         self._notes = []
         self._label_boxes: list = []  # labels placed so far, kept apart (app.canvas.labels)
+        self.leaders: list = []  # (hot-spot label, its leader line) for labels away from their star
+        self._leader_segments: list = []  # the same lines as segments, kept clear by later labels
         r = self.results
         if r is None:
             return
@@ -239,7 +246,8 @@ class Overlays:
                 if near_part[row, col]:
                     continue
                 box = labels.centred_box(lx, ly, *size)
-                if not any(labels.overlap(box, other) for other in self._label_boxes) and not self._mask.covers(box):
+                if (not any(labels.overlap(box, other) for other in self._label_boxes) and not self._mask.covers(box)
+                        and not any(labels.segment_crosses(seg, box) for seg in self._leader_segments)):
                     self._label_boxes.append(box)
                     label = pg.TextItem(text, color=colours.TEXT, anchor=(0.5, 0.5),
                                         fill=pg.mkBrush(*colours.LABEL_FILL))
@@ -292,6 +300,7 @@ class Overlays:
         order = sorted(range(len(peaks)), key=lambda k: -peaks[k].field_V_per_m)
         star = 18  # px: no label, of any layer, covers a star
         self._label_boxes += [labels.centred_box(x, y, star * px, star * py) for x, y in zip(xs, ys)]
+        leader_segments = self._leader_segments
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
             text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")
@@ -300,10 +309,20 @@ class Overlays:
                                 border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
             rect = label.textItem.boundingRect()  # the text as drawn, not a guess from its length
             w, h = (rect.width() + 4) * px, (rect.height() + 2) * py
+            others = [(xs[j], ys[j]) for j in range(len(peaks)) if j != k]
             anchor, box = labels.free_place(x, y, w, h, 10 * px, 10 * py, self._label_boxes, (v0, v1, w0, w1),
-                                            self._mask)
-            self._label_boxes.append(box)
+                                            self._mask, leaders=leader_segments, others=others)
+            # kept clear with a margin: its frame is drawn just outside the box, and labels placed
+            # later (equipotentials) size themselves from an estimate of their text
+            self._label_boxes.append(labels.grown(box, LABEL_MARGIN_PX * px, LABEL_MARGIN_PX * py))
             label.setAnchor(anchor)
             label.setPos(QPointF(*labels.anchor_point(box, anchor)))
             self._add(label, 36)
+            leader = labels.leader_line(x, y, box, 10 * px, 10 * py)
+            if leader is not None:  # stacked away or moved into view: a thin line says whose it is
+                leader_segments.append(leader)
+                (xa, ya), (xb, yb) = leader
+                line = pg.PlotCurveItem([xa, xb], [ya, yb], pen=pg.mkPen(colours.LABEL_LEADER, width=1.5))
+                self._add(line, 34)  # under the star, which it leaves from, and under the label
+                self.leaders.append((label, line))
 

@@ -14,11 +14,12 @@ user presses the button (the owner then saves them in the project). No physics h
 from __future__ import annotations
 
 from PySide6.QtCore import Signal
-from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton
+from PySide6.QtWidgets import QCheckBox, QComboBox, QFormLayout, QGroupBox, QLabel, QPushButton, QVBoxLayout
 
 import solver
 from app import colours
 from app.panels.quantity_edit import QuantityEdit
+from app.units import format_measured, format_plain
 from solver import AirConditions, VoltageBasis
 
 
@@ -36,7 +37,9 @@ class AirConditionsBox(QGroupBox):
 
     def __init__(self, parent=None) -> None:
         super().__init__("Air at the site", parent)
-        form = QFormLayout(self)
+        outer = QVBoxLayout(self)
+        form = QFormLayout()
+        outer.addLayout(form)
         form.setRowWrapPolicy(QFormLayout.WrapLongRows)  # labels above their fields in a narrow panel
         self.mode = QComboBox()
         self.mode.addItems(["altitude (standard atmosphere)", "measured pressure, temperature"])
@@ -72,7 +75,9 @@ class AirConditionsBox(QGroupBox):
         form.addRow("overvoltage factor", self.factor_edit.with_unit())
         form.addRow(self.rms_box)
         form.addRow(self.apply_button)
-        form.addRow(self.label)
+        # below the form, not in it: a form row gave the wrapped note less height than it needs
+        # (its last lines were cut off at 1366 x 768); a box layout asks the label's height for its width
+        outer.addWidget(self.label)
         self.apply_button.clicked.connect(self.applied)
         self.mode.currentIndexChanged.connect(self._on_mode_changed)
         self.basis.currentIndexChanged.connect(self._on_basis_changed)
@@ -157,9 +162,10 @@ class AirConditionsBox(QGroupBox):
             return None, None
         self.label.setStyleSheet("")
         self.label.setText(
-            f"Relative air density δ = {air.relative_air_density:.4f} ({air.description}). Strength of air in a "
-            f"uniform field {at_1_cm / 1e6:.3g} MV/m across 1 cm, {long_gap / 1e6:.3g} MV/m for long gaps (Kuffel, "
-            f"Zaengl & Kuffel 2000; each peak uses its own gap; times the surface factor {air.surface_factor:g}); "
+            f"Relative air density δ = {format_plain(air.relative_air_density, 5)} ({air.description}). Strength of "
+            f"air in a uniform field {format_measured(at_1_cm, 'V/m', digits=3)} across 1 cm, "
+            f"{format_measured(long_gap, 'V/m', digits=3)} for long gaps (Kuffel, Zaengl & Kuffel 2000; each peak "
+            f"uses its own gap; times the surface factor {format_plain(air.surface_factor, 4)}); "
             f"corona onset of round conductors by Peek (1929), {self.peek_form.currentText()} form. "
             f"Voltage basis: {basis.describe()}.")
         return air, basis

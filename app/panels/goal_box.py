@@ -1,9 +1,9 @@
 """The goal-search box of the sweep dialog: a figure, a target, Find, and the value found.
 
 Only widgets and wording; the search itself is the solver's (:func:`solver.studies.search`),
-started by :class:`app.panels.sweep_dialog.SweepDialog`. The target is read with the figure's
-unit ("50 ohm", "110 pF/m", "6 ns/m", "2" for a margin) by the solver's
-:func:`solver.read_quantity`, and the outcome is written with the shared formatter: the value
+started by :class:`app.panels.sweep_dialog.SweepDialog`. The target is the program's unit-aware
+entry (:class:`app.panels.quantity_edit.QuantityEdit`), read with the figure's unit ("50 ohm",
+"110 pF/m", "6 ns/m", "2" for a margin), the unit shown beside it, and the outcome is written with the shared formatter: the value
 found to the figures the root finder's tolerance supports, the figure with an SI prefix.
 """
 
@@ -12,10 +12,11 @@ from __future__ import annotations
 import html
 import math
 
-from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QLabel, QLineEdit, QPushButton
+from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QLabel, QPushButton
 
+from app.panels.quantity_edit import QuantityEdit
 from app.units import digits_for, format_measured, format_plain
-from solver import LENGTH_UNITS, read_quantity, unit_choices
+from solver import LENGTH_UNITS
 from solver.studies.plot import figure_unit
 
 #: What to show as an example target, by the figure's unit.
@@ -36,8 +37,8 @@ class GoalBox(QGroupBox):
         super().__init__("Find the value that gives ...", parent)
         self.length_unit = length_unit
         self.figure = QComboBox()
-        self.target = QLineEdit()
-        self.target_unit = QLabel()
+        self.target = QuantityEdit("", "Target")  # the unit-aware entry of every other field
+        self.target_unit = self.target.unit_label
         self.find_button = QPushButton("Find")
         self.apply_button = QPushButton("Use this value")
         self.apply_button.setEnabled(False)
@@ -45,10 +46,7 @@ class GoalBox(QGroupBox):
         self.result.setWordWrap(True)
         form = QFormLayout(self)
         form.addRow("Figure", self.figure)
-        target_row = QHBoxLayout()
-        target_row.addWidget(self.target, 1)
-        target_row.addWidget(self.target_unit)
-        form.addRow("equal to", target_row)
+        form.addRow("equal to", self.target.with_unit())
         buttons = QHBoxLayout()
         buttons.addWidget(self.find_button)
         buttons.addWidget(self.apply_button)
@@ -64,16 +62,13 @@ class GoalBox(QGroupBox):
 
     def _on_figure_changed(self, _text: str) -> None:
         unit, bare = self._units()
-        shown = bare or unit
-        self.target_unit.setText(shown)
+        self.target.unit = unit
+        self.target.set_display_unit(bare or unit)  # the unit beside the field and its tooltip
         self.target.setPlaceholderText(f"e.g. {EXAMPLES.get(unit, '1')}")
-        self.target.setToolTip(f"A number in {shown or 'plain figures'}"
-                               + (f", or with a unit: {unit_choices(unit)}; SI prefixes are accepted." if unit else "."))
 
     def target_si(self) -> float:
         """The target typed, in the figure's SI unit (raises :class:`solver.QuantityError`)."""
-        unit, bare = self._units()
-        return read_quantity(self.target.text(), unit, "Target", default_unit=bare).value_si
+        return self.target.value_si()
 
     def show_found(self, found, label: str, unit: str) -> None:
         """Say what the search found: ``found`` is a SearchResult, ``label``/``unit`` the field's."""

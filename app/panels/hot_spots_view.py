@@ -27,11 +27,35 @@ from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
-from app.units import digits_for, format_plain, true_minus
+from app.units import digits_for, format_percent, format_plain
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
 TARGET = 0.01
+
+#: Rows of the table: a short heading with its unit ({field}: the peak's unit, {length}: the
+#: model's) and what it stands for, shown as the heading's tooltip.
+ROW_HEADINGS = (
+    ("peak |E| ({field})", "Peak surface field strength |E|, refined to the error target; a crest value at the "
+                           "model's potentials."),
+    ("error (%)", "Estimated relative error of the peak, from the refinement (Richardson estimate); '—' where the "
+                  "field is singular."),
+    ("x ({length})", "Where the peak lies: x."),
+    ("y ({length})", "Where the peak lies: y."),
+    ("sharp corner", "Whether the peak sits at a sharp corner. There the field is singular (σ ~ r^exponent): it "
+                     "grows as the mesh is refined, and the value shown is the mesh's. Give the corner a radius."),
+    ("enhancement", "Enhancement factor: peak / (potential difference / gap) to the nearest conductor at another "
+                    "potential."),
+    ("breakdown (MV/m)", "Air-breakdown field: the uniform-field strength of air for the peak's gap in the "
+                         "project's air conditions, times the surface factor."),
+    ("breakdown margin", "Air-breakdown margin: air-breakdown field / peak (at the voltage basis)."),
+    ("corona (MV/m)", "Corona-onset field of a round conductor of this radius by Peek's formula, in the project's "
+                      "air conditions ('—' where it does not apply)."),
+    ("corona margin", "Corona-onset margin: corona-onset field / peak (at the voltage basis)."),
+    ("decided by", "The margin that decides the status (the smaller one)."),
+    ("status", f"The verdict: exceeded (margin below 1), approaching (below {format_plain(THIN_MARGIN, 3)}), "
+               "ample, or not assessed (no threshold applies)."),
+)
 
 
 def _margin(value: float | None) -> str:
@@ -41,8 +65,16 @@ def _margin(value: float | None) -> str:
     return "∞" if not math.isfinite(value) else format_plain(value, 3)
 
 
-def _peak(value: float, relative_error: float | None) -> str:
-    """A peak field (already in the column's unit) to the figures its error estimate supports."""
+#: A peak below this share of the largest one shown reads "≈ 0" (it would need an exponent in
+#: the row's unit, and is negligible beside the others).
+NEGLIGIBLE_SHARE = 1e-4
+
+
+def _peak(value: float, relative_error: float | None, largest: float | None = None) -> str:
+    """A peak field (already in the row's unit) to the figures its error estimate supports;
+    "≈ 0" when it is below :data:`NEGLIGIBLE_SHARE` of ``largest`` (same unit)."""
+    if largest is not None and abs(value) < NEGLIGIBLE_SHARE * abs(largest):
+        return "≈ 0"
     return format_plain(value, digits_for(relative_error))
 
 
@@ -75,7 +107,7 @@ class HotSpotsView(QWidget):
         self.runner.job_cancelled.connect(
             lambda: None if self._stale else self._set_status("Hot-spot analysis cancelled; solve again to restart it."))
         self.table_label = QLabel("Peak surface field per conductor (crest values; margin = threshold / peak, "
-                                  f"below {THIN_MARGIN:g} is thin)")
+                                  f"below {format_plain(THIN_MARGIN, 3)} is thin)")
         self.table_label.setWordWrap(True)
         layout.addWidget(self.table_label)
         self.table = CopyableTable()
@@ -179,7 +211,7 @@ class HotSpotsView(QWidget):
         self._pending = False
         self._corner_radius_m = corner_radius_m
         rounded = "" if corner_radius_m is None else " with sharp corners rounded"
-        self._set_status(f"Refining the peak surface fields{rounded} to {100 * TARGET:g} %…")
+        self._set_status(f"Refining the peak surface fields{rounded} to {format_percent(TARGET)}…")
         self.runner.start_with_progress(solver.analyse_hot_spots, self.results.solution, TARGET, corner_radius_m)
 
     def _on_corner_radius_applied(self) -> None:
@@ -232,9 +264,9 @@ class HotSpotsView(QWidget):
     def _on_report_ready(self, report) -> None:
         self.report = report
         rounded = ("" if report.corner_radius_m is None else
-                   f", sharp corners rounded to {report.corner_radius_m / self.results.model.metres_per_unit:g} "
+                   f", sharp corners rounded to {format_plain(report.corner_radius_m / self.results.model.metres_per_unit, 4)} "
                    f"{self.results.model.unit}")
-        self._set_status(f"Peak fields refined to an error target of {100 * report.target_relative_error:g} % "
+        self._set_status(f"Peak fields refined to an error target of {format_percent(report.target_relative_error)} "
                          f"({report.n_panels[-1]} panels on the finest mesh{rounded}).")
         self._assess()
 
@@ -256,7 +288,7 @@ class HotSpotsView(QWidget):
         for spot, margin in zip(r.hot_spots, m.margins):
             rows.append(spot.conductor)
             if spot.singular:
-                corner = "yes" if spot.corner_exponent is None else f"yes,\nσ ~ r^{true_minus(f'{spot.corner_exponent:.3f}')}"
+                corner = "yes" if spot.corner_exponent is None else f"yes,\nσ ~ r^{format_plain(spot.corner_exponent, 3)}"
                 notes.append(f"'{spot.conductor}': {spot.note}")
             else:
                 corner = "no"
@@ -278,28 +310,32 @@ class HotSpotsView(QWidget):
         if r.air_region is not None:
             ar = r.air_region
             place = "outer surface of insulation" if ar.where == "interface" else ar.where.replace("conductor", "bare")
-            rows.append(f"largest in air ({place}{', negligible' if ar.negligible else ''})")
+            rows.append(f"in air ({place}{', negligible' if ar.negligible else ''})")
             breakdown = m.air_region_breakdown_field_V_per_m
             error = ar.estimated_relative_error
-            cells.append([_peak(ar.field_V_per_m / factor, error), "—" if error is None else format_plain(100 * error, 2),
+            top = max((s.field_V_per_m for s in r.hot_spots), default=None)
+            cells.append([_peak(ar.field_V_per_m / factor, error, None if top is None else top / factor), "—" if error is None else format_plain(100 * error, 2),
                           format_coordinate(ar.location_m[0] / scale, size), format_coordinate(ar.location_m[1] / scale, size),
                           "yes" if ar.at_sharp_corner else "no", "—",
                           "n/a" if breakdown is None else format_plain(breakdown / 1e6, 3),
                           _margin(m.air_region_margin), "—", "—",
                           "air breakdown" if m.air_region_margin is not None else "—", m.air_region_status or "—"])
             statuses.append(m.air_region_status or "not assessed")
-        quantities = [f"peak |E| ({label})", "estimated error (%)", f"place x ({unit})", f"place y ({unit})",
-                      "at a sharp corner", "enhancement factor", "air-breakdown field (MV/m)", "air-breakdown margin",
-                      "corona-onset field (MV/m)", "corona-onset margin", "status decided by", "status"]
-        # one column per conductor, so that every figure stays in view in a narrow panel; long
-        # headings wrap onto two lines rather than push the table past the panel's edge
-        self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [], wrap=14)
+        quantities = [heading.format(field=label, length=unit) for heading, _ in ROW_HEADINGS]
+        # one column per conductor, so that every figure stays in view in a narrow panel; short
+        # headings with units (what each stands for in its tooltip) that wrap rather than push
+        # the table past the panel's edge
+        self.table.fill(quantities, rows, [list(col) for col in zip(*cells)] if cells else [], wrap=14,
+                        row_tips=[tip for _, tip in ROW_HEADINGS],
+                        column_tips=[f"Conductor '{name}'" if k < len(r.hot_spots) else
+                                     "The largest field in the air around the conductors (a bare conductor's surface "
+                                     "or the outer surface of its insulation)" for k, name in enumerate(rows)])
         self._statuses = statuses
         self._paint_statuses()
         notes.append("Enhancement = peak / (potential difference / gap) to the nearest conductor at another "
                      "potential. Fields are crest values at the model's potentials. Voltage basis: "
                      f"{m.voltage_basis.describe()}"
-                     + (f"; the margins compare the thresholds with these peaks × {m.voltage_basis.field_factor:.4g}."
+                     + (f"; the margins compare the thresholds with these peaks × {format_plain(m.voltage_basis.field_factor, 4)}."
                         if m.voltage_basis.field_factor != 1.0 else "."))
         self.notes.setText("\n".join(notes))
         self._show_caution()

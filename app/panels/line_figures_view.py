@@ -18,7 +18,7 @@ import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
-from app.units import digits_for, format_measured, format_percent, format_plain
+from app.units import digits_for, format_percent, format_plain
 from solver.cli.formatting import ROUND_OFF
 
 MODES_CAPTION = ("Modes (slowest first, one column each): effective permittivity, velocity, modal impedance "
@@ -35,19 +35,6 @@ LIGHT = solver.SPEED_OF_LIGHT_M_PER_S
 def inductance_unit(matrix_H_per_m: np.ndarray) -> tuple[float, str]:
     """(factor, label) for an inductance matrix: µH/m from 1 µH/m up, else nH/m."""
     return (1e-6, "µH/m") if np.max(np.abs(matrix_H_per_m)) >= 1e-6 else (1e-9, "nH/m")
-
-
-def delay_text(delay_s_per_m: float, relative_error: float | None = None) -> str:
-    """Delay per metre with an SI prefix (ns/m, ps/m), with the same per millimetre, to the
-    figures ``relative_error`` supports."""
-    return (f"{format_measured(delay_s_per_m, 's/m', relative_error)}  "
-            f"({format_measured(delay_s_per_m * 1e-3, 's/mm', relative_error)})")
-
-
-def velocity_text(velocity_m_per_s: float, relative_error: float | None = None) -> str:
-    digits = digits_for(relative_error)
-    return (f"{format_plain(velocity_m_per_s / 1e8, digits)} × 10⁸ m/s  "
-            f"({format_plain(100 * velocity_m_per_s / LIGHT, digits)} % of c)")
 
 
 def plain_cells(values, relative_error: float | None, digits: int | None = None) -> list[str]:
@@ -196,23 +183,27 @@ class LineFiguresView(QWidget):
         entries = plain_cells(np.asarray(f.inductance_H_per_m) / scale, err)
         self.inductance.fill(names, names, [entries[i * n:(i + 1) * n] for i in range(n)], wrap=14)
         self._show(self.inductance_label, self.inductance)
+        # units in the row headings (one quantity and one unit per row), numbers only in the cells
+        digits = digits_for(err)
         if f.characteristic_impedance_ohm is not None:
             self.line_label.setText(f"Single line '{names[0]}'")
-            rows = ["characteristic impedance Z₀", "effective permittivity ε_eff", "propagation delay",
-                    "phase velocity"]
-            cells = [[format_measured(f.characteristic_impedance_ohm, "Ω", err)],
-                     plain_cells([f.effective_permittivity], err),
-                     [delay_text(f.delay_s_per_m, err)], [velocity_text(f.velocity_m_per_s, err)]]
-            self.line_table.fill(rows, ["value"], cells, wrap=18)
+            rows = ["characteristic impedance Z₀ (Ω)", "effective permittivity ε_eff", "propagation delay (ns/m)",
+                    "phase velocity (10⁸ m/s)", "phase velocity / c (%)"]
+            cells = [[format_plain(f.characteristic_impedance_ohm, digits)], plain_cells([f.effective_permittivity], err),
+                     [format_plain(f.delay_s_per_m * 1e9, digits)], [format_plain(f.velocity_m_per_s / 1e8, digits)],
+                     [format_plain(100 * f.velocity_m_per_s / LIGHT, digits)]]
+            self.line_table.fill(rows, ["value"], cells, wrap=18, row_tips=[
+                "", "", "Delay per metre of line; 1 ns/m is 1 ps/mm.", "", "The phase velocity as a share of the "
+                "speed of light in vacuum (1 / √ε_eff)."])
             self._show(self.line_label, self.line_table)
         elif f.is_symmetric_pair:
             self.line_label.setText(f"Symmetric pair '{names[0]}' and '{names[1]}'")
-            rows = ["even-mode impedance Z_even", "odd-mode impedance Z_odd", "even-mode ε_eff", "odd-mode ε_eff",
-                    "differential impedance 2 Z_odd", "common-mode impedance Z_even / 2"]
+            rows = ["even-mode impedance Z_even (Ω)", "odd-mode impedance Z_odd (Ω)", "even-mode ε_eff", "odd-mode ε_eff",
+                    "differential impedance 2 Z_odd (Ω)", "common-mode impedance Z_even / 2 (Ω)"]
             ohms = [f.even_mode_impedance_ohm, f.odd_mode_impedance_ohm, None, None, f.differential_impedance_ohm,
                     f.common_mode_impedance_ohm]
             eps = plain_cells([f.even_mode_effective_permittivity, f.odd_mode_effective_permittivity], err)
-            cells = [[format_measured(z, "Ω", err)] if z is not None else [eps.pop(0)] for z in ohms]
+            cells = [[format_plain(z, digits)] if z is not None else [eps.pop(0)] for z in ohms]
             self.line_table.fill(rows, ["value"], cells, wrap=18)
             self._show(self.line_label, self.line_table)
         if len(names) > 1:

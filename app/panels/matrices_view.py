@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
-from app.units import digits_for, format_measured, format_percent, format_plain, format_point, si_scale
+from app.units import digits_for, format_percent, format_plain, format_point, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -75,13 +75,15 @@ class CopyableTable(QTableWidget):
         self.setSelectionMode(QAbstractItemView.ExtendedSelection)
         QShortcut(QKeySequence.Copy, self, activated=self.copy_to_clipboard)
 
-    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None) -> None:
+    def fill(self, rows: list[str], columns: list[str], cells: list[list[str]], *, wrap: int | None = None,
+             row_tips: list[str] | None = None, column_tips: list[str] | None = None) -> None:
         """Show ``cells`` under ``columns`` beside ``rows``; with ``wrap``, headings longer than
         ``wrap`` characters break onto lines between words, so that a narrow panel shows them
         whole without scrolling sideways (cells may hold line breaks too); when the table is
         still wider than its place, headings and worded cells wrap narrower (down to
         :data:`NARROWEST_WRAP` characters) as the table is filled and resized. With no ``rows``
-        the table has no row headings (its first column says what each row is)."""
+        the table has no row headings (its first column says what each row is). ``row_tips``
+        and ``column_tips`` are the headings' tooltips: what a short heading stands for."""
         self._texts = (list(rows), list(columns), [list(r) for r in cells], wrap) if wrap else None
         self._fitted_width = -1
         if wrap:
@@ -92,6 +94,10 @@ class CopyableTable(QTableWidget):
         self.setHorizontalHeaderLabels(columns)
         self.setVerticalHeaderLabels(rows)
         self.verticalHeader().setVisible(bool(rows) or not cells)
+        for header_item, tips in ((self.verticalHeaderItem, row_tips), (self.horizontalHeaderItem, column_tips)):
+            for k, tip in enumerate(tips or []):
+                if header_item(k) is not None and tip:
+                    header_item(k).setToolTip(tip)
         for i, row in enumerate(cells):
             for j, text in enumerate(row):
                 item = QTableWidgetItem(text)
@@ -104,8 +110,15 @@ class CopyableTable(QTableWidget):
         self.resizeColumnsToContents()
         self.resizeRowsToContents()
         self.horizontalHeader().resizeSections(QHeaderView.ResizeToContents)
+        self._set_height()
+
+    def _set_height(self) -> None:
+        """Rows and headings in full; room for a sideways scroll bar only while the table is wider
+        than its place (an empty strip under every table otherwise)."""
         height = self.horizontalHeader().sizeHint().height() + sum(self.rowHeight(i) for i in range(self.rowCount()))
-        self.setFixedHeight(height + 2 * self.frameWidth() + self.horizontalScrollBar().sizeHint().height() + 2)
+        too_wide = self._needed_width() > self.width() - 2 * self.frameWidth() or not self.isVisible()
+        bar = self.horizontalScrollBar().sizeHint().height() if too_wide else 0
+        self.setFixedHeight(height + 2 * self.frameWidth() + bar + 2)
 
     def _needed_width(self) -> int:
         header = self.verticalHeader()
@@ -120,6 +133,8 @@ class CopyableTable(QTableWidget):
     def _fit_width(self) -> None:
         """Wrap headings and worded cells narrower until the table fits its width (or the
         narrowest wrap is reached); item colours set by a view are kept."""
+        if self.isVisible():
+            self._set_height()
         if self._texts is None or not self.isVisible() or self.width() == self._fitted_width:
             return
         self._fitted_width = self.width()
@@ -303,11 +318,13 @@ class MatricesView(QWidget):
         scale, size = model.metres_per_unit, drawing_size(sol)
         largest = max((p.field_V_per_m for p in peaks if np.isfinite(p.field_V_per_m)), default=None)
         rows = [p.region for p in peaks]
-        cells = [[format_plain(p.eps_r, 3), format_measured(p.field_V_per_m, "V/m", digits=3, largest=largest),
+        # one unit for the column, in its heading (no cell mixes kV/m and MV/m)
+        field_unit, fields = cells_in_one_unit([p.field_V_per_m for p in peaks], "V/m", 3, largest)
+        cells = [[format_plain(p.eps_r, 3), field,
                   format_point(p.location_m[0] / scale, p.location_m[1] / scale, "", size / scale).strip(),
                   wrap_heading(p.where + (" (sharp corner: mesh value)" if p.at_sharp_corner else ""), 22)]
-                 for p in peaks]
-        self.regions.fill(rows, ["εr", "largest |E|", f"at ({model.unit})", "on"], cells, wrap=14)
+                 for p, field in zip(peaks, fields)]
+        self.regions.fill(rows, ["εr", f"largest |E| ({field_unit})", f"at ({model.unit})", "on"], cells, wrap=14)
 
     def mark_stale(self, stale: bool) -> None:
         if stale:

@@ -26,6 +26,12 @@ def role_text(conductor) -> str:
     return "reference, 0 V"
 
 
+def shape_text(shape, unit: str) -> str:
+    """A shape's one-line description with its dimensions through the shared formatter
+    (no exponent for ordinary sizes, true minus, no round-off of a unit conversion)."""
+    return shape.describe(unit, lambda v: format_plain(v, TYPED_DIGITS))
+
+
 def swatch(colour: str) -> QIcon:
     """A small square of a conductor's identity colour (coloured text would be too faint to read)."""
     pixmap = QPixmap(12, 12)
@@ -58,12 +64,12 @@ class PartsList(QTreeWidget):
             self._items[PartRef("conductor", i, 0)] = top
             if len(c.shapes) > 1:
                 for j, s in enumerate(c.shapes):
-                    child = QTreeWidgetItem([s.describe(model.unit), ""])
+                    child = QTreeWidgetItem([shape_text(s, model.unit), ""])
                     top.addChild(child)
                     self._items[PartRef("conductor", i, j)] = child
                 top.setExpanded(True)
             else:
-                top.setText(1, f"{value}  ({c.shapes[0].describe(model.unit)})")
+                top.setText(1, f"{value}  ({shape_text(c.shapes[0], model.unit)})")
         for i, d in enumerate(model.dielectrics):
             item = QTreeWidgetItem([d.name, f"εr = {format_plain(d.eps_r, TYPED_DIGITS)}"])
             self.addTopLevelItem(item)

@@ -14,7 +14,7 @@ from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBox
 
 from app import colours
 from app.canvas.drawing import plot_widget, style_axes
-from app.units import si_scale
+from app.units import format_point, si_scale
 
 #: A corner spike is clipped above this many times the 95th percentile of |sigma| on its conductor.
 SPIKE_CLIP = 1.6
@@ -245,7 +245,9 @@ class ProbePlot(QWidget):
         """Plot a profile: ``distance`` in model units along the line from ``ends[0]`` to ``ends[1]``."""
         self.profile = (distance, potential_V, field_V_per_m, unit)
         (ax, ay), (bx, by) = ends
-        self.note.setText(f"Probe from ({ax:.4g}, {ay:.4g}) to ({bx:.4g}, {by:.4g}) {unit}; "
+        size = max(abs(ax), abs(ay), abs(bx), abs(by))
+        self.note.setText(f"Probe from {format_point(ax, ay, '', size).strip()} to "
+                          f"{format_point(bx, by, unit, size)}; "
                           "gaps are inside conductors.")
         pf, pp = si_scale(np.nanmax(np.abs(potential_V)) if np.isfinite(potential_V).any() else 1.0)
         ef, ep = si_scale(np.nanmax(field_V_per_m) if np.isfinite(field_V_per_m).any() else 1.0)

@@ -12,7 +12,7 @@ from PySide6.QtWidgets import QFormLayout, QLabel, QLineEdit, QVBoxLayout, QWidg
 
 import solver
 from app import cautions, edits
-from app.units import format_si
+from app.units import format_plain, format_si
 
 PART_LENGTH_KEY = "part_length"
 
@@ -87,7 +87,7 @@ class CaveatsView(QWidget):
         length_m = length * model.metres_per_unit
         c = r.solution.capacitance_maxwell_F_per_m
         parts = [f"{name}: {format_si(c[i, i] * length_m, 'F')}" for i, name in enumerate(r.solution.signal_names)]
-        self.totals.setText(f"Maxwell self capacitance C'ii times the part length ({length:g} {model.unit}), "
+        self.totals.setText(f"Maxwell self capacitance C'ii times the part length ({format_plain(length, 10)} {model.unit}), "
                             "a 2-D estimate without end effects: " + "; ".join(parts) + ".")
 
     def _on_length_edited(self) -> None:

@@ -41,6 +41,7 @@ import solver
 from app.jobs.study_runner import StudyRunner
 from app.messages import show_message
 from app.panels.goal_box import GoalBox
+from app.panels.quantity_edit import display_number
 from app.panels.study_views import CautionLine, StudyPlot, StudyTableView
 from solver import LENGTH_UNITS, SolverError, read_quantity
 from solver.hot_spots.verdict import largest_potential_difference_V
@@ -178,8 +179,8 @@ class SweepDialog(QDialog):
     def _on_field_changed(self) -> None:
         f = self.field()
         low, high = (0.5 * f.value, 1.5 * f.value) if f.value else (0.0, 1.0)
-        self.start_edit.setText(f"{min(low, high):.6g}")
-        self.stop_edit.setText(f"{max(low, high):.6g}")
+        self.start_edit.setText(display_number(min(low, high), ""))  # as the unit-aware fields show values
+        self.stop_edit.setText(display_number(max(low, high), ""))
         self.unit_label.setText(f.unit)
 
     def _x_label(self) -> str:

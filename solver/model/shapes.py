@@ -21,6 +21,7 @@ A new kind is one new subclass with a unique ``kind``; it registers itself in
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field, replace
 from typing import Any, ClassVar, Protocol
 
@@ -359,8 +360,9 @@ class Shape:
         extended-data pairs), so that a drawing written by Edgewise reads back exactly."""
         raise NotImplementedError(f"{self.kind} has no CAD form")
 
-    def describe(self, unit: str) -> str:
-        """A one-line description, e.g. "rectangle 10 x 5 mm"."""
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
+        """A one-line description, e.g. "rectangle 10 x 5 mm"; ``number`` writes each dimension
+        (in ``unit``): a view passes its own number formatter."""
         raise NotImplementedError
 
     # ---- project file ----------------------------------------------------------------------
@@ -432,8 +434,8 @@ class Circle(Shape):
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
         return [msp.add_circle(self.center, self.radius, dxfattribs=attribs)], []
 
-    def describe(self, unit: str) -> str:
-        return f"circle r = {self.radius:g} {unit}"
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
+        return f"circle r = {number(self.radius)} {unit}"
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "center": _pt(self.center), "radius": float(self.radius)}
@@ -501,8 +503,8 @@ class Ring(Shape):
         return [msp.add_circle(self.center, self.outer_radius, dxfattribs=attribs),
                 msp.add_circle(self.center, self.inner_radius, dxfattribs=attribs)], []
 
-    def describe(self, unit: str) -> str:
-        return f"tube {self.inner_radius:g}/{self.outer_radius:g} {unit}"
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
+        return f"tube {number(self.inner_radius)}/{number(self.outer_radius)} {unit}"
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "center": _pt(self.center),
@@ -642,9 +644,9 @@ class Rectangle(Shape):
         exact = [(1040, float(v)) for v in (*self.center, self.width, self.height, self.corner_radius)]
         return [entity], exact
 
-    def describe(self, unit: str) -> str:
-        rounded = f", corners r = {self.corner_radius:g}" if self.corner_radius > 0 else ""
-        return f"rectangle {self.width:g} x {self.height:g} {unit}{rounded}"
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
+        rounded = f", corners r = {number(self.corner_radius)}" if self.corner_radius > 0 else ""
+        return f"rectangle {number(self.width)} x {number(self.height)} {unit}{rounded}"
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "center": _pt(self.center), "width": float(self.width),
@@ -742,7 +744,7 @@ class Polygon(Shape):
         return [msp.add_lwpolyline(ring, format="xy", close=True, dxfattribs=attribs)
                 for ring in (self.exterior, *self.holes)], []
 
-    def describe(self, unit: str) -> str:
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
         holes = f", {len(self.holes)} hole{'s' * (len(self.holes) != 1)}" if self.holes else ""
         return f"polygon, {len(self.exterior)} vertices{holes}"
 
@@ -813,7 +815,7 @@ class Strip(Shape):
     def cad_entities(self, msp, attribs: dict) -> tuple[list, list]:
         return [msp.add_lwpolyline(self.points, format="xy", close=False, dxfattribs=attribs)], []
 
-    def describe(self, unit: str) -> str:
+    def describe(self, unit: str, number: Callable[[float], str] = "{:g}".format) -> str:
         return f"strip, {len(self.points)} points"
 
     def to_dict(self) -> dict:

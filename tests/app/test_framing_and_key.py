@@ -273,3 +273,73 @@ def test_labels_are_placed_again_after_a_zoom(window, qtbot):
     rect = label.mapRectToScene(label.boundingRect())
     corner = vb.mapViewToScene(pg.QtCore.QPointF(*star))
     assert abs(rect.center().y() - corner.y()) < 4 * rect.height()  # beside its star at the new scale
+
+
+def test_a_label_stacked_away_from_its_point_gets_a_leader_and_one_beside_it_none():
+    view = (0.0, 100.0, 0.0, 100.0)
+    anchor, beside = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [], view)
+    assert labels.leader_line(50.0, 50.0, beside, 1.0, 1.0) is None
+    # the four places beside the point taken: the label stacks a label height away
+    taken = [labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, [], view)[1]]
+    for _ in range(3):
+        taken.append(labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, taken, view)[1])
+    anchor, stacked = labels.free_place(50.0, 50.0, 20.0, 5.0, 1.0, 1.0, taken, view)
+    assert not any(labels.overlap(stacked, other) for other in taken)
+    (x0, y0), (x1, y1) = labels.leader_line(50.0, 50.0, stacked, 1.0, 1.0)
+    assert (x0, y0) == (50.0, 50.0)
+    # the line ends on the label's edge, at its nearest point to the star
+    assert stacked[0] <= x1 <= stacked[2] and y1 in (stacked[1], stacked[3])
+    assert abs(y1 - 50.0) >= 5.0
+
+
+def test_hot_spot_labels_away_from_their_stars_are_led_back_to_them(window, qtbot):
+    # the three traces: the outer traces' labels stack above the middle one's, far from their stars
+    import pyqtgraph as pg
+    from PySide6.QtCore import QPointF
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / "three_traces_over_ground.json")
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    qtbot.wait(50)
+    overlays, vb = window.canvas.overlays, window.canvas.plotItem.vb
+    scale = overlays.results.model.metres_per_unit
+    stars = {p.conductor: vb.mapViewToScene(QPointF(p.location_m[0] / scale, p.location_m[1] / scale))
+             for p in overlays.results.solution.peak_surface_fields}
+    led = {label.toPlainText().split(":")[0]: line for label, line in overlays.leaders}
+    spots = [i for i in overlays._items if isinstance(i, pg.TextItem) and "V/m" in i.toPlainText()]
+    assert len(spots) == 3 and led  # at 1366 x 768 at least one label cannot stand beside its star
+    for label in spots:
+        name = label.toPlainText().split(":")[0]
+        rect = label.mapRectToScene(label.boundingRect())
+        star = stars[name]
+        gap = math.hypot(max(rect.left() - star.x(), star.x() - rect.right(), 0.0),
+                         max(rect.top() - star.y(), star.y() - rect.bottom(), 0.0))
+        if name not in led:
+            assert gap < 2.5 * 10 * math.sqrt(2), name  # beside its star: no leader needed
+            continue
+        xs, ys = led[name].getData()
+        start, end = vb.mapViewToScene(QPointF(xs[0], ys[0])), vb.mapViewToScene(QPointF(xs[-1], ys[-1]))
+        assert (start - star).manhattanLength() < 1.0, name  # from its own star ...
+        assert rect.adjusted(-3, -3, 3, 3).contains(end), name  # ... to its own label
+        assert (end - star).manhattanLength() > 15, name
+        assert led[name].zValue() < label.zValue()
+
+
+def test_a_label_does_not_stand_nearer_another_point_than_its_own():
+    # the edge-coupled pair: n's label stood under p's star and read as p's
+    view = (0.0, 100.0, 0.0, 100.0)
+    _, alone = labels.free_place(45.0, 50.0, 15.0, 5.0, 1.0, 1.0, [], view)
+    assert alone[2] < 45.0  # outward (left) when nothing else is near
+    _, beside_other = labels.free_place(45.0, 50.0, 15.0, 5.0, 1.0, 1.0, [], view, others=[(30.0, 50.0)])
+    assert beside_other[0] > 45.0  # the point at x = 30 keeps the left side
+
+
+def test_a_segment_crosses_a_box_only_through_its_inside():
+    box = (0.0, 0.0, 10.0, 5.0)
+    assert labels.segment_crosses(((-5.0, 2.0), (15.0, 2.0)), box)
+    assert labels.segment_crosses(((5.0, 2.0), (5.0, 20.0)), box)  # from inside out
+    assert not labels.segment_crosses(((-5.0, 6.0), (15.0, 6.0)), box)  # above it
+    assert not labels.segment_crosses(((-5.0, 5.0), (15.0, 5.0)), box)  # along its edge
+    assert not labels.segment_crosses(((11.0, -3.0), (20.0, 8.0)), box)  # beside it

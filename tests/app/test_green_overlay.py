@@ -72,7 +72,9 @@ def test_the_overlay_draws_contours_where_g_has_their_value(window, qtbot):
             checked += 1
     assert checked >= 1
     texts = [i.toPlainText() for i in window.studies.green_overlay.items if hasattr(i, "toPlainText")]
-    assert f"round wire within 1% beyond {m.round_wire_distance:.4g} mm" in texts
+    from app.units import format_plain
+
+    assert f"round wire within 1 % beyond {format_plain(m.round_wire_distance, 4)} mm" in texts
     labels = [t for t in texts if t.startswith("g = ")]
     assert 2 <= len(labels) <= len(levels)
     assert "Robin constant" in window.statusBar().currentMessage()

@@ -5,8 +5,8 @@ starves a Python worker thread; :func:`wait_until` spins a QEventLoop instead, w
 """
 
 import math
-import re
 
+import pytest
 from PySide6.QtCore import QEventLoop, QTimer
 
 import solver
@@ -59,13 +59,13 @@ def hammerstad_jensen_thick(w: float, h: float, t: float, eps_r: float) -> tuple
 
 
 def ohms(value: float, figures) -> str:
-    """An impedance as shown: the digits the figures' error estimate supports (an impedance of
-    tens to hundreds of ohms keeps the plain unit)."""
+    """An impedance as shown under its heading's unit (Ω): the digits the figures' error
+    estimate supports."""
     from solver.cli.formatting import digits_for
 
     digits = digits_for(figures.estimated_relative_error)
     assert 2 <= digits <= 6 and 1.0 <= value < 1000.0
-    return f"{value:.{digits}g} Ω"
+    return f"{value:.{digits}g}"
 
 
 def shown_value(view, row_name: str) -> str:
@@ -86,13 +86,15 @@ def test_microstrip_sample_shows_its_impedance(qtbot):
     view.show_results(results_of(model))
     wait_until(lambda: view.figures is not None)
     own = solver.transmission_line_figures(model, estimate_error=True)
-    shown_z0 = float(re.match(r"([\d.]+) Ω", shown_value(view, "characteristic impedance")).group(1))
+    assert "characteristic impedance Z₀ (Ω)" in view.line_table.as_text()  # the unit in the heading
+    shown_z0 = float(shown_value(view, "characteristic impedance"))
     assert shown_value(view, "characteristic impedance") == ohms(own.characteristic_impedance_ohm, own)
     trace, board = model.conductors[0].shapes[0], model.dielectrics[0]
     z0_hj, eps_hj = hammerstad_jensen_thick(trace.width, board.shapes[0].height, trace.height, board.eps_r)
     assert abs(shown_z0 / z0_hj - 1) < 0.01
     assert abs(float(shown_value(view, "effective permittivity")) / eps_hj - 1) < 0.01
-    assert "ns/m" in shown_value(view, "propagation delay")
+    assert "propagation delay (ns/m)" in view.line_table.as_text()
+    assert float(shown_value(view, "propagation delay")) == pytest.approx(own.delay_s_per_m * 1e9, rel=1e-3)
     assert "nH/m" in view.inductance_label.text() and view.inductance.rowCount() == 1
     assert "quasi-tem" in view.note.text().lower() and "skin effect" in view.note.text()
 

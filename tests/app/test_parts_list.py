@@ -25,3 +25,38 @@ def test_values_read_as_typed_with_prefixes(qtbot):
     first = parts.topLevelItem(0)
     colour = first.icon(0).pixmap(12, 12).toImage().pixelColor(6, 6).name()
     assert colour == colours.display_colour(model.conductors[0], 0)
+
+
+def test_shape_sizes_go_through_the_shared_formatter(qtbot):
+    # ":g" wrote a 1010 mm bar as "1.01e+03" and a converted radius with its round-off
+    from app.document import Document
+    from solver import Ring
+
+    model = Model(unit="mm", conductors=(
+        Conductor("bar", (Rectangle((0.0, 5.0), 1010.0, 0.1 + 0.2, corner_radius=0.1 + 0.05),), "fixed", 1.0),
+        Conductor("tube", (Ring((5.0, 5.0), 1234.5, 2345.6),), "reference"),
+        Conductor("pair", (Circle((-5.0, 5.0), 1.0), Circle((-9.0, 5.0), 0.0025)), "fixed", 2.0)))
+    parts = PartsList(Document(model))
+    qtbot.addWidget(parts)
+    rows = {parts.topLevelItem(i).text(0): parts.topLevelItem(i) for i in range(parts.topLevelItemCount())}
+    assert rows["bar"].text(1).endswith("(rectangle 1010 x 0.3 mm, corners r = 0.15)")
+    assert rows["tube"].text(1).endswith("(tube 1234.5/2345.6 mm)")
+    pair = rows["pair"]
+    assert [pair.child(k).text(0) for k in range(pair.childCount())] == ["circle r = 1 mm", "circle r = 0.0025 mm"]
+
+
+def test_the_goal_target_is_the_unit_aware_entry(qtbot):
+    from app.panels.goal_box import GoalBox
+    from app.panels.quantity_edit import QuantityEdit
+
+    box = GoalBox(length_unit="mil")
+    qtbot.addWidget(box)
+    box.figure.addItems(["Z0_ohm", "equivalent_radius_m.wire"])
+    box.figure.setCurrentText("equivalent_radius_m.wire")
+    assert isinstance(box.target, QuantityEdit) and box.target.unit_label.text() == "mil"
+    assert "mil" in box.target.toolTip() and "SI prefixes" in box.target.toolTip()
+    box.target.setText("2")
+    assert box.target_si() == 2 * 25.4e-6
+    box.figure.setCurrentText("Z0_ohm")
+    box.target.setText("0.05 kohm")
+    assert box.target_si() == 50.0 and box.target.unit_label.text() == "\u03a9"

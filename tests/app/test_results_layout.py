@@ -1,6 +1,8 @@
 """The results area at every window size: every section one click away, no widget drawn over
 another or cut off, the summary block whole, and every section marked when out of date."""
 
+import re
+
 import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import (
@@ -23,6 +25,8 @@ from app.files import project_files as files
 
 #: Room a drop-down list takes beside its text (frame and arrow), pixels.
 COMBO_ARROW_PX = 28
+#: Room a table cell takes beside its text (Qt's item margins), pixels.
+CELL_PADDING_PX = 4
 
 SIZES = ((1366, 768), (1500, 900), (1920, 1080), (1024, 640))
 
@@ -57,6 +61,8 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
                 found.append(f"{where}: label '{a.text()[:40]}' needs {need} px, has {a.height()}")
         if isinstance(a, QLabel) and not a.wordWrap() and a.text() and a.sizeHint().width() > a.width() + 1:
             found.append(f"{where}: label '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
+        if isinstance(a, QAbstractButton) and a.text() and a.sizeHint().width() > a.width() + 1:
+            found.append(f"{where}: button '{a.text()[:40]}' needs {a.sizeHint().width()} px across, has {a.width()}")
         if isinstance(a, QComboBox) and a.currentText() and (
                 a.fontMetrics().horizontalAdvance(a.currentText()) > a.width() - COMBO_ARROW_PX):
             found.append(f"{where}: choice '{a.currentText()[:40]}' is cut off at {a.width()} px")
@@ -73,7 +79,8 @@ def problems_in(widget: QWidget, where: str) -> list[str]:
 
 
 def _cut_headers(table: QTableWidget, where: str) -> list[str]:
-    """Header texts (every line of them) wider than their header section."""
+    """Header texts (every line of them) wider than their header section, and cell texts wider or
+    taller than their cell (drawn cut off or elided)."""
     found = []
     metrics = table.horizontalHeader().fontMetrics()
     for j in range(table.columnCount()):
@@ -81,6 +88,16 @@ def _cut_headers(table: QTableWidget, where: str) -> list[str]:
         need = max((metrics.horizontalAdvance(line) for line in (item.text() if item else "").split("\n")), default=0)
         if need > table.columnWidth(j):
             found.append(f"{where}: column heading '{item.text()[:30]}' needs {need} px, has {table.columnWidth(j)}")
+    cell_metrics = table.fontMetrics()
+    for i in range(table.rowCount()):
+        for j in range(table.columnCount()):
+            cell = table.item(i, j)
+            lines = (cell.text() if cell else "").split("\n")
+            wide = max((cell_metrics.horizontalAdvance(line) for line in lines), default=0)
+            if cell is not None and cell.text() and (wide + CELL_PADDING_PX > table.columnWidth(j)
+                                                     or len(lines) * cell_metrics.lineSpacing() > table.rowHeight(i)):
+                found.append(f"{where}: cell '{cell.text()[:30]}' needs {wide + CELL_PADDING_PX} x "
+                             f"{len(lines) * cell_metrics.lineSpacing()} px, has {table.columnWidth(j)} x {table.rowHeight(i)}")
     vertical = table.verticalHeader()
     for i in range(table.rowCount()):
         item = table.verticalHeaderItem(i)
@@ -158,6 +175,39 @@ def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(wi
         assert found == [], "\n".join(found)
 
 
+@pytest.mark.parametrize("sample", ["shielded_three_core_cable.json", "two_layer_coax_cable.json"])
+def test_the_high_voltage_table_fits_1366_with_short_headings_that_say_what_they_are(window, qtbot, sample):
+    """Four columns (three cores and the screen, or a conductor and the air at the insulation's
+    surface): no sideways scrolling at 1366 x 768, every heading at most two lines, each with a
+    tooltip saying what it stands for."""
+    from app.panels.hot_spots_view import ROW_HEADINGS
+
+    window.resize(1366, 768)
+    window.commands.open(files.SAMPLES_DIR / sample)
+    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
+    window.solve()
+    wait_for_solve(qtbot, window)
+    panel = window.results_panel
+    panel.show_section("High voltage")
+    qtbot.waitUntil(lambda: panel.hot_spots.margins is not None, timeout=60000)
+    settle(qtbot)
+    table = panel.hot_spots.table
+    assert table.rowCount() == len(ROW_HEADINGS) and table.columnCount() >= 2
+    found = problems_in(panel, f"{sample} High voltage")
+    assert found == [], "\n".join(found)
+    assert table.horizontalScrollBar().maximum() == 0
+    for i in range(table.rowCount()):
+        heading = table.verticalHeaderItem(i)
+        assert heading.text().count("\n") <= 1, heading.text()
+        assert len(heading.toolTip()) > len(heading.text()), heading.text()
+    for j in range(table.columnCount()):
+        assert table.horizontalHeaderItem(j).toolTip()
+        for i in range(table.rowCount()):  # no exponents (the coax's negligible peak in air read 6.039e-05)
+            assert not re.search(r"\de[-+\u2212]?\d", table.item(i, j).text()), table.item(i, j).text()
+    # the row headings take at most a third of the table: the figures get the room
+    assert table.verticalHeader().width() <= table.width() / 3
+
+
 def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
     panel = hv_twin.results_panel
     hv_twin.resize(1366, 768)
@@ -224,6 +274,26 @@ def test_the_walk_finds_overlaps_cut_offs_and_squeezed_labels(qtbot):
     found = "\n".join(problems_in(parent, "probe"))
     assert "QLineEdit() overlaps QLineEdit() by 20x20 px" in found
     assert "is cut off by" in found and "needs" in found
+
+
+def test_the_walk_finds_cut_table_cells_and_cut_button_texts(qtbot):
+    from PySide6.QtWidgets import QCheckBox, QTableWidgetItem
+
+    parent = QWidget()
+    qtbot.addWidget(parent)
+    parent.resize(400, 300)
+    table = QTableWidget(2, 2, parent)
+    table.setGeometry(0, 0, 400, 200)
+    table.setItem(0, 0, QTableWidgetItem("a cell far wider than its column"))
+    table.setItem(1, 1, QTableWidgetItem("three\nlines\ntall"))
+    table.setItem(1, 0, QTableWidgetItem("12"))
+    table.setColumnWidth(0, 60)
+    box = QCheckBox("potentials are rms values", parent)
+    box.setGeometry(0, 210, 80, 30)
+    parent.show()
+    found = "\n".join(problems_in(parent, "probe"))
+    assert "cell 'a cell far wider than its col" in found and "cell 'three" in found and "cell '12'" not in found
+    assert "button 'potentials are rms values' needs" in found
 
 
 def test_old_section_names_still_lead_to_their_section(hv_twin):
