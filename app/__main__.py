@@ -1,7 +1,8 @@
 """Start the desktop program: ``python -m app [MODEL.json]``.
 
 With no argument it opens the coaxial feeder sample, already solved. If the last session
-ended with unsaved work, it offers to recover it first.
+ended with unsaved work, it offers to recover it first; with a file named, only unsaved work on
+that file is offered (work on other files waits for a start without a file).
 """
 
 from __future__ import annotations
@@ -21,14 +22,16 @@ def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True)
     from app.messages import ask
 
     window = MainWindow(settings)
-    recovered = files.read_recovery() if ask_recovery else None
+    # a file named on the command line is what opens: only unsaved work on that file is offered
+    recovered = files.read_recovery(path) if ask_recovery else None
     if recovered is not None:
         model, original = recovered
-        answer = ask(
-            window, "Recover unsaved work?",
-            "Edgewise closed last time with unsaved changes"
-            + (f" to {original}" if original else "") + ". Recover them?",
-            QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
+        question = ("Edgewise closed last time with unsaved changes"
+                    + (f" to {original}" if original else "") + ". Recover them?")
+        if path is not None:
+            question = (f"Edgewise closed last time with unsaved changes to {path}. Open those changes "
+                        "instead of the saved file?")
+        answer = ask(window, "Recover unsaved work?", question, QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
         if answer == QMessageBox.Yes and window.load_or_keep(model, original, modified=True):
             window.solve()
             return window

@@ -180,12 +180,14 @@ def _process_running(pid: int) -> bool:
     return True
 
 
-def read_recovery() -> tuple[Model, Path | None] | None:
+def read_recovery(for_file: Path | None = None) -> tuple[Model, Path | None] | None:
     """Unsaved work left by an instance that is no longer running, or None.
 
     The file is first claimed (renamed to this instance's recovery file, which is atomic), so
     two programs starting together never both offer it, and a running instance's file is
-    never offered. Declining is :func:`discard_recovery`.
+    never offered. Declining is :func:`discard_recovery`. With ``for_file`` (a project file
+    the user asked to open), only unsaved work on that same file is looked at; work on other
+    files stays for a start without a file.
     """
     folder = recovery_dir()
     if not folder.is_dir():
@@ -198,6 +200,8 @@ def read_recovery() -> tuple[Model, Path | None] | None:
         pid = _owner_pid(path)
         if pid is not None and _process_running(pid):
             continue
+        if for_file is not None and not _same_file(_original_of(path), for_file):
+            continue
         try:
             path.replace(mine)  # atomic claim
         except OSError:
@@ -207,6 +211,24 @@ def read_recovery() -> tuple[Model, Path | None] | None:
             return found
         discard_recovery()
     return None
+
+
+def _original_of(path: Path) -> Path | None:
+    """The project file a recovery file's work belongs to (None: unsaved or unreadable)."""
+    try:
+        original = json.loads(path.read_text(encoding="utf-8")).get("original_path")
+    except (OSError, ValueError, AttributeError):
+        return None
+    return Path(original) if isinstance(original, str) and original else None
+
+
+def _same_file(a: Path | None, b: Path) -> bool:
+    if a is None:
+        return False
+    try:
+        return a.resolve() == b.resolve()
+    except OSError:
+        return False
 
 
 def read_recovery_file(path: Path) -> tuple[Model, Path | None] | None:

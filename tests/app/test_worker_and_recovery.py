@@ -74,3 +74,35 @@ def test_declined_recovery_is_discarded_and_the_sample_opens(qtbot, settings, tm
         window.runner.cancel()
         window.runner.wait()
         window.close()
+
+
+def test_a_file_named_at_start_opens_and_only_its_own_unsaved_work_is_offered(qtbot, settings, tmp_path,
+                                                                                shown_messages):
+    from app.__main__ import build_window
+
+    other, _ = edits.add_conductor(Model(), Circle((0.0, 5.0), 2.0))
+    files.write_recovery(other, tmp_path / "other.json", instance=GONE)
+    asked = files.sample_paths()[0]
+    window = build_window(asked, settings)
+    try:
+        assert [m[1] for m in shown_messages] == []  # nothing offered
+        assert window.document.path == asked
+    finally:
+        window.runner.cancel()
+        window.runner.wait()
+        window.close()
+    assert files.read_recovery() is not None  # the other file's work waits for a start without a file
+    files.discard_recovery()
+
+    mine, _ = edits.add_conductor(files.open_model(asked), Circle((50.0, 50.0), 2.0))
+    files.write_recovery(mine, asked, instance=GONE)
+    shown_messages.answer = QMessageBox.Yes
+    window = build_window(asked, settings)
+    try:
+        assert [m[1] for m in shown_messages] == ["Recover unsaved work?"]
+        assert window.document.model == mine and window.document.is_modified
+    finally:
+        window.runner.cancel()
+        window.runner.wait()
+        window.document.mark_saved(tmp_path / "mine.json")
+        window.close()
