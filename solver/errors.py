@@ -54,5 +54,14 @@ class NetChargeError(InvalidModelError):
     """
 
 
+class NoFieldError(InvalidModelError):
+    """Nothing in the model drives a field (every conductor ends at one potential, no charge).
+
+    Without a reference conductor or a ground plane the net charge is zero; when the fixed
+    conductors share one potential and no floating conductor carries a charge, the exact
+    solution has no charge and no field anywhere, and a solver would return round-off.
+    """
+
+
 class NonFiniteResultError(SolverError):
     """The solve produced a non-finite (infinite or NaN) value, or its system was singular."""

@@ -21,7 +21,7 @@ from solver.bem.assembly import (
     free_charge_operator,
     source_panels,
 )
-from solver.errors import InvalidModelError, MeshTooLargeError, NetChargeError
+from solver.errors import InvalidModelError, MeshTooLargeError, NetChargeError, NoFieldError
 from solver.mesh.interfaces import (
     InterfaceMesh,
     conductor_side_regions,
@@ -112,6 +112,31 @@ def check_charge_balance(model: Model) -> None:
     )
 
 
+def check_field_is_driven(model: Model) -> None:
+    """Refuse a model in which nothing drives a field (see :class:`NoFieldError`): no
+    reference conductor, no ground plane, every fixed conductor at one potential and no
+    floating conductor with a charge. Its exact solution is no charge and no field, which
+    the solver could only show as round-off.
+
+    Raises
+    ------
+    NoFieldError
+    """
+    if model.ground_plane is not None or any(c.role == "reference" for c in model.conductors):
+        return
+    fixed = sorted({c.potential_V for c in model.conductors if c.role == "fixed"})
+    if len(fixed) > 1 or any(c.role == "floating" and c.charge_C_per_m != 0 for c in model.conductors):
+        return
+    held = (f"every conductor is held at {fixed[0]:g} V" if fixed
+            else "no conductor is held at a potential and none carries a charge")
+    raise NoFieldError(
+        f"Nothing drives a field: {held}, and with neither a reference conductor nor a ground plane "
+        "the net charge must be zero, so there is no charge and no field anywhere (a field needs a "
+        "potential difference and a return path). Set one conductor's role to 'reference', add a "
+        "ground plane, or give the conductors different potentials."
+    )
+
+
 def build_system(model: Model, mesh: PanelMesh, panel_block=None) -> BoundarySystem:
     """Mesh the interfaces of ``model`` at ``mesh.settings`` and assemble the system
     (``panel_block``: see :func:`solver.bem.assembly.assemble_system`).
@@ -127,6 +152,7 @@ def build_system(model: Model, mesh: PanelMesh, panel_block=None) -> BoundarySys
     if not model.conductors:
         raise InvalidModelError("The model has no conductors; draw at least one.")
     check_charge_balance(model)
+    check_field_is_driven(model)
     settings = mesh.settings
     interfaces = InterfaceMesh.empty()
     dgeoms: list = []

@@ -29,7 +29,7 @@ from solver.bem.blas_threads import blas_threads_for
 from solver.bem.high_order.memory import check_system_memory
 from solver.bem.high_order.operator import potential_and_field, potential_matrix
 from solver.bem.superposition import UnitSolutions, solve_columns
-from solver.bem.system import check_charge_balance
+from solver.bem.system import check_charge_balance, check_field_is_driven
 from solver.constants import EPSILON_0_F_PER_M
 from solver.errors import InvalidModelError, MeshTooLargeError, NonFiniteResultError, SolverError
 from solver.mesh.curved_panels import CurvedPanels
@@ -75,6 +75,7 @@ class NodalSolve:
             raise InvalidModelError("The model has no conductors; draw at least one.")
         check_supported(model)
         check_charge_balance(model)
+        check_field_is_driven(model)
         self.model, self.panels = model, panels
         self.ell = length_scale_m(panels)
         self.scaled = panels.scaled(1.0 / self.ell)

@@ -19,6 +19,7 @@ from solver.errors import (
     InvalidGeometryError,
     MeshTooLargeError,
     NetChargeError,
+    NoFieldError,
     SolverError,
 )
 from solver.mesh.grading import graded_panel_count, graded_panels
@@ -217,6 +218,34 @@ def test_polygon_sleeve_drawn_on_a_round_wire_gives_the_layered_coax(n_sides):
 def test_net_floating_charge_without_return_path_is_refused(conductors):
     with pytest.raises(NetChargeError, match=r"potential of a net line charge relative to infinity is undefined"):
         solve(Model(conductors=conductors), estimate_error=False)
+
+
+@pytest.mark.parametrize(
+    "conductors, says",
+    [
+        ((Conductor("go", (Circle((0, 0), 1.0),), potential_V=1.0),), "every conductor is held at 1 V"),
+        ((Conductor("a", (Circle((0, 0), 1.0),), potential_V=5.0),
+          Conductor("b", (Circle((5, 0), 1.0),), potential_V=5.0),
+          Conductor("f", (Circle((10, 0), 1.0),), role="floating")), "every conductor is held at 5 V"),
+        ((Conductor("f", (Circle((0, 0), 1.0),), role="floating"),), "none carries a charge"),
+    ],
+    ids=["one wire at 1 V", "two at 5 V and an uncharged floating one", "one uncharged floating wire"],
+)
+def test_a_model_that_drives_no_field_is_refused_not_solved_to_round_off(conductors, says):
+    """With no reference and no plane the net charge is zero; one potential everywhere then
+    means no charge and no field (uniqueness of the Dirichlet problem, e.g. Jackson, Classical
+    Electrodynamics, 3rd ed., 1999, sec. 1.9). Solved, it gave 451 pV/m of round-off."""
+    for tolerance in (None, 1e-6):  # the low-order and the high-order solver
+        with pytest.raises(NoFieldError, match=says):
+            solve(Model(conductors=conductors), estimate_error=False, tolerance=tolerance)
+
+
+def test_one_reference_or_a_plane_or_a_difference_makes_a_field():
+    wire = Conductor("go", (Circle((0, 5), 1.0),), potential_V=1.0)
+    for model in (Model(conductors=(wire,), ground_plane=GroundPlane(0.0)),
+                  Model(conductors=(wire, Conductor("r", (Circle((5, 5), 1.0),), role="reference"))),
+                  Model(conductors=(wire, Conductor("b", (Circle((5, 5), 1.0),), potential_V=-1.0)))):
+        assert np.max(np.abs(solve(model, estimate_error=False).conductor_charges_C_per_m)) > 1e-12
 
 
 def test_balanced_floating_pair_is_taken_relative_to_infinity():
