@@ -52,7 +52,7 @@ logger = logging.getLogger(__name__)
 AUTO_SOLVE_MAX_CONDUCTORS = 8
 
 #: Starting width of the results area: this share of the window, within these bounds, px
-#: (the drawing keeps the larger share).
+#: (the drawing keeps the larger share); it cannot be narrowed below the smaller bound.
 RESULTS_SHARE, RESULTS_MIN_WIDTH, RESULTS_MAX_WIDTH = 0.3, 470, 640
 
 
@@ -88,6 +88,9 @@ class MainWindow(QMainWindow):
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
+        # the narrowest results area whose tables and texts all fit (the layout walk's width): a
+        # splitter dragged farther left cut the summary's lines and scrolled tables sideways
+        results_dock.setMinimumWidth(RESULTS_MIN_WIDTH)
         self._build_status_bar()
         self.commands = Commands(self)
         self.results_panel.summary.state_changed.connect(self.commands.solve_button.set_state)

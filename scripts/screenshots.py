@@ -169,6 +169,17 @@ def run(out: Path, width: int, height: int) -> None:
     s.shoot("hv_electrode_out_of_date")
     w.auto_solve = True
 
+    # the sweep and goal-search dialog (not modal): on the microstrip, a 50-ohm target typed with its unit
+    s.open_sample("microstrip_on_substrate.json")
+    sweep = w.studies.open_sweep_dialog()
+    if sweep is not None:
+        sweep.goal_figure.setCurrentText("Z0_ohm")
+        sweep.goal_target.setText("50 ohm")
+        s.settle(0.3)
+        s.shoot("dialog_sweep_and_goal_search", sweep)
+        sweep.close()
+        s.settle(0.1)
+
     # dialogs: the ones the program opens itself, then every action of the Help menu
     s.dialog("mouse_and_keys", w.commands.show_keys)
     w.document.apply(edits.update_conductor(w.document.model, 0, potential_V=200e3), "Potential")

@@ -208,6 +208,29 @@ def test_the_high_voltage_table_fits_1366_with_short_headings_that_say_what_they
     assert table.verticalHeader().width() <= table.width() / 3
 
 
+@pytest.mark.parametrize("size", ((1366, 768), (1024, 640)))
+def test_the_results_area_cannot_be_dragged_narrower_than_it_fits(hv_twin, qtbot, size):
+    # dragged to 300 px the summary's lines were cut and the tables scrolled sideways
+    from PySide6.QtCore import Qt
+
+    from app.main_window import RESULTS_MIN_WIDTH
+
+    window, panel = hv_twin, hv_twin.results_panel
+    window.resize(*size)
+    settle(qtbot)
+    window.resizeDocks([window.results_dock], [300], Qt.Horizontal)
+    settle(qtbot)
+    assert window.results_dock.width() >= RESULTS_MIN_WIDTH
+    for title in ("Numbers", "High voltage"):
+        panel.show_section(title)
+        runner = getattr(panel.sections[title], "runner", None)
+        if runner is not None:
+            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
+        settle(qtbot)
+        found = problems_in(panel, f"{size} narrowest {title}")
+        assert found == [], "\n".join(found)
+
+
 def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
     panel = hv_twin.results_panel
     hv_twin.resize(1366, 768)

@@ -68,3 +68,8 @@ def test_solve_is_the_one_primary_action_of_the_window(window, qtbot):
         widths.add(button.width())
         assert button.width() >= button.sizeHint().width() - 1, state
     assert len(widths) == 1
+    # at the smallest window the layout walk covers, the button stays on the bar (not in its overflow menu)
+    window.resize(1024, 640)
+    qtbot.wait(20)
+    bar = button.parentWidget()
+    assert button.isVisible() and bar.rect().contains(button.geometry())
