@@ -50,6 +50,12 @@ class BoundaryRing:
     edge_arc_radii: np.ndarray = field(default_factory=lambda: np.zeros(0))
 
 
+#: Conductors closer than this fraction of the drawing's size (to each other or to the ground
+#: plane) touch: the graded mesh would need panels of about that size along the whole part
+#: (over 10^7 of them), so the gap cannot be solved and is reported as contact.
+TOUCHING_GAP_FRACTION = 1e-7
+
+
 def _describe(owner: str, index: int, shape: Shape) -> str:
     return f"{owner}, shape {index + 1} ({shape.kind})"
 
@@ -105,14 +111,32 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
             geom = solid
         merged.append(geom)
 
+    boxes = np.array([g.bounds for g in merged])
+    size = float(np.hypot(*(boxes[:, 2:].max(axis=0) - boxes[:, :2].min(axis=0))))
+    touching = TOUCHING_GAP_FRACTION * size
+
+    def point(p) -> str:
+        def one(v: float) -> str:
+            return "0" if abs(v) <= 1e-9 * size else f"{v / scale:.6g}"
+        return f"({one(p.x)}, {one(p.y)}) {model.unit}"
+
     for i, gi in enumerate(merged):
         for j in range(i + 1, len(merged)):
-            if gi.intersects(merged[j]):
+            gj = merged[j]
+            apart = max(boxes[j, 0] - boxes[i, 2], boxes[i, 0] - boxes[j, 2],
+                        boxes[j, 1] - boxes[i, 3], boxes[i, 1] - boxes[j, 3])
+            if apart > touching:
+                continue
+            overlap = gi.intersects(gj)
+            if overlap or gi.distance(gj) <= touching:
                 a, b = model.conductors[i].name, model.conductors[j].name
-                where = gi.intersection(merged[j]).representative_point()
+                where = (gi.intersection(gj).representative_point() if overlap
+                         else shapely.shortest_line(gi, gj).interpolate(0.5, normalized=True))
+                how = "touch or overlap" if overlap else (
+                    f"touch (their gap, {gi.distance(gj) / scale:.3g} {model.unit}, is below "
+                    f"{TOUCHING_GAP_FRACTION:g} of the drawing's size: no mesh can resolve it)")
                 raise InvalidGeometryError(
-                    f"Conductors '{a}' and '{b}' touch or overlap near "
-                    f"({where.x / scale:.6g}, {where.y / scale:.6g}) {model.unit}; "
+                    f"Conductors '{a}' and '{b}' {how} near {point(where)}; "
                     "separate them, or make them one conductor with two shapes."
                 )
     if model.ground_plane is not None:
@@ -123,6 +147,12 @@ def conductor_geometries(model: Model, arc_step_rad: float) -> list:
                     f"Conductor '{conductor.name}' reaches down to y = {g.bounds[1] / scale:.6g} {model.unit}, "
                     f"at or below the ground plane (y = {model.ground_plane.y:.6g} {model.unit}); "
                     "move it above the plane."
+                )
+            if g.bounds[1] - y_plane <= touching:
+                raise InvalidGeometryError(
+                    f"Conductor '{conductor.name}' touches the ground plane: its gap to it, "
+                    f"{(g.bounds[1] - y_plane) / scale:.3g} {model.unit}, is below {TOUCHING_GAP_FRACTION:g} of "
+                    "the drawing's size (no mesh can resolve it); raise it above the plane."
                 )
     return merged
 
