@@ -182,9 +182,11 @@ def hot_spot_section(solution: Solution, figures: HotSpotFigures) -> list[str]:
         else:
             assert ar.estimated_relative_error is not None  # air_region_peak estimates all but these two cases
             error = f"error {100 * ar.estimated_relative_error:.2g} %"
+        graded = (f"air margin {_fmt(margins.air_region_margin)}, {margins.air_region_status}"
+                  if margins.air_region_status is not None
+                  else "on a bare conductor, whose own row above grades it")
         lines.append(f"  Largest field in the surrounding air: {_fmt(ar.field_V_per_m, 'V/m')} ({error}) on the "
-                     f"{ar.where} at {format_location(model, x, y)}; air margin {_fmt(margins.air_region_margin)}, "
-                     f"{margins.air_region_status}.")
+                     f"{ar.where} at {format_location(model, x, y)}; {graded}.")
     for b in figures.bundles:
         text = (f"  Conductors {', '.join(b.conductors)} (same potential) together: equivalent radius "
                 f"{b.equivalent_radius_m / model.metres_per_unit:.5g} {model.unit}")
