@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 
 from solver.bem.solution import Solution
-from solver.cli.formatting import NEGLIGIBLE_SHARE, format_location, format_plain
+from solver.cli.formatting import NEGLIGIBLE_SHARE, format_location, format_plain, true_minus
 from solver.figures.transmission_line import (
     TransmissionLineFigures,
     figures_from_solution,
@@ -65,7 +65,7 @@ def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
     lines.append("  modes (eigenvectors of L C), slowest first:")
     names = f.signal_names
     for k in range(len(names)):
-        vec = ", ".join(f"{v:+.3g}" for v in f.modal_voltages[:, k])
+        vec = ", ".join(_modal_component(v) for v in f.modal_voltages[:, k])
         lines.append(
             f"    {k + 1}: Z {_ohm(f.modal_impedances_ohm[k])}, eps_eff {f.modal_effective_permittivities[k]:.5g}, "
             f"voltages ({vec})"
@@ -78,6 +78,13 @@ def transmission_line_section(f: TransmissionLineFigures | None) -> list[str]:
     ]
     lines.append("  coupling coefficients: " + "; ".join(pairs))
     return lines
+
+
+def _modal_component(value: float) -> str:
+    """One entry of a modal voltage vector (largest entry +-1) to three decimals, true minus
+    signs, and 0 for what rounds to zero (a component that symmetry makes 0, solved as 1e-9)."""
+    text = f"{value:+.3f}"
+    return "0" if text in ("+0.000", "-0.000") else true_minus(text)
 
 
 def dielectric_section(solution: Solution) -> list[str]:

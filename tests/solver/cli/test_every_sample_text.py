@@ -20,4 +20,5 @@ def test_the_summary_has_no_placeholders_or_non_finite_values(sample, capsys):
     out = capsys.readouterr().out
     for word in ("None", "nan", "NaN", "inf ", "Infinity"):
         assert word not in out, f"{word!r} in the summary of {sample.name}"
-    assert not re.search(r"\(-\d", out), "an ASCII minus in a location"
+    assert not re.search(r"\(-\d[\d.e+-]*, ", out), "an ASCII minus in a location or a vector"
+    assert not re.search(r"\de-(0[5-9]|[1-9]\d)\b", out), "round-off shown as a figure"
