@@ -8,7 +8,6 @@ my_section))`` with ``my_section(report) -> list[str]``.
 from __future__ import annotations
 
 import math
-
 from collections.abc import Callable, Sequence
 
 import numpy as np
