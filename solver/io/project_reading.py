@@ -112,10 +112,29 @@ def _list(value: Any, path: str, min_items: int = 0, what: str = "items") -> lis
     return value
 
 
+#: Largest potential a project may set (volts): beyond the highest transmission voltages by
+#: far, so a larger one is a typing or unit slip (common practice: UHV lines run at about 1 MV).
+LARGEST_POTENTIAL_V = 1e8
+
+
+def _potential(value: Any, path: str) -> float:
+    v = _number(value, path)
+    if abs(v) > LARGEST_POTENTIAL_V:
+        raise FieldProblem(path, f"{v:.6g} V is more than {LARGEST_POTENTIAL_V / 1e6:g} MV in size; potentials are in "
+                                 "volts: check the number and the unit")
+    return v
+
+
+def _show_length(x: float, scale: float) -> str:
+    """A length as read (model units) and in metres, for messages: "1e-09 (1e-12 m)"."""
+    return f"{x:.6g} ({x * scale:.3g} m)"
+
+
 def _coordinate(value: Any, path: str, scale: float) -> float:
     x = _number(value, path)
     if abs(x) * scale > LARGEST_LENGTH_M:
-        raise FieldProblem(path, f"{value} is more than {LARGEST_LENGTH_M:g} m from the origin; check the number and the unit")
+        raise FieldProblem(path, f"{_show_length(x, scale)} is more than {LARGEST_LENGTH_M:g} m from the origin; "
+                                 "check the number and the unit")
     return x
 
 
@@ -123,9 +142,11 @@ def _size(value: Any, path: str, scale: float) -> float:
     """A positive length (radius, width...) within the range the mesher handles."""
     x = _number(value, path, positive=True)
     if x * scale > LARGEST_LENGTH_M:
-        raise FieldProblem(path, f"{value} is larger than {LARGEST_LENGTH_M:g} m; check the number and the unit")
+        raise FieldProblem(path, f"{_show_length(x, scale)} is larger than {LARGEST_LENGTH_M:g} m; "
+                                 "check the number and the unit")
     if x * scale < SMALLEST_LENGTH_M:
-        raise FieldProblem(path, f"{value} is smaller than {SMALLEST_LENGTH_M:g} m; check the number and the unit")
+        raise FieldProblem(path, f"{_show_length(x, scale)} is smaller than {SMALLEST_LENGTH_M:g} m; "
+                                 "check the number and the unit")
     return x
 
 
@@ -206,7 +227,7 @@ def _conductor_from(value: Any, path: str, scale: float) -> Conductor:
             name,
             tuple(_shape_from(s, f"{path}.shapes[{i}]", True, scale) for i, s in enumerate(shapes)),
             role=cast(Role, role),  # _string checked it against ROLES
-            potential_V=_number(v.get("potential_V", 0.0), f"{path}.potential_V"),
+            potential_V=_potential(v.get("potential_V", 0.0), f"{path}.potential_V"),
             charge_C_per_m=_number(v.get("charge_C_per_m", 0.0), f"{path}.charge_C_per_m"),
             color=color,
         )

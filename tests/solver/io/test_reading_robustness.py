@@ -42,13 +42,15 @@ BIG = "1" + "0" * 400
         (_with('"radius": 1.0}', f'"radius": {BIG}}}'), r"conductors\[0\]\.shapes\[0\]\.radius: number with 401 digits"),
         (_with('"potential_V": 1.0', f'"potential_V": -{BIG}'), r"conductors\[0\]\.potential_V: number with 401 digits"),
         (_with('"version": 1', f'"version": {BIG}'), r"version 1000.* is newer"),
-        (_with('"radius": 1.0}', '"radius": 1e-300}'), r"conductors\[0\]\.shapes\[0\]\.radius: 1e-300 is smaller"),
-        (_with('"radius": 1.0}', '"radius": 1e300}'), r"conductors\[0\]\.shapes\[0\]\.radius: 1e\+300 is larger"),
-        (_with('"center": [0, 0]', '"center": [1e300, 0]'), r"conductors\[0\]\.shapes\[0\]\.center\[0\]: 1e\+300 is more than"),
+        (_with('"radius": 1.0}', '"radius": 1e-300}'),
+         r"conductors\[0\]\.shapes\[0\]\.radius: 1e-300 \(1e-303 m\) is smaller than 1e-10 m"),
+        (_with('"radius": 1.0}', '"radius": 1e300}'), r"conductors\[0\]\.shapes\[0\]\.radius: 1e\+300 \(1e\+297 m\) is larger"),
+        (_with('"center": [0, 0]', '"center": [1e300, 0]'), r"conductors\[0\]\.shapes\[0\]\.center\[0\]: 1e\+300 \(1e\+297 m\) is more than"),
+        (_with('"potential_V": 1.0', '"potential_V": 1e30'), r"conductors\[0\]\.potential_V: 1e\+30 V is more than 100 MV"),
         (_with('"unit": "mm"', '"unit": "mm", "ground_plane": {"y": -1e200}'), r"ground_plane\.y: .* is more than"),
     ],
     ids=["deep list", "deep extras", "huge radius int", "huge potential", "huge version", "tiny radius",
-         "huge radius", "far centre", "far plane"],
+         "huge radius", "far centre", "implausible potential", "far plane"],
 )
 def test_extreme_files_give_one_line_naming_the_field(tmp_path, capsys, text, message):
     path = _write(tmp_path, text)
