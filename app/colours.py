@@ -25,6 +25,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from solver import STATUS_WORDS
+
 #: Body text, secondary text (axis ticks, notes) and the page they sit on.
 TEXT = "#1a1a1a"
 TEXT_MUTED = "#505050"
@@ -106,13 +108,13 @@ class Badge:
     background: str
 
 
-#: High-voltage verdicts, most severe first. Words are the solver's statuses; "thin" reads
-#: "approaching" in the caution line.
+#: High-voltage verdicts, most severe first, keyed by the solver's statuses; the words are the
+#: solver's (solver.STATUS_WORDS: "thin" reads "approaching (thin margin)" everywhere).
 SEVERITY = {
-    "exceeded": Badge("✕", "exceeded", "#a00018", "#fde3e3"),
-    "thin": Badge("▲", "approaching (thin margin)", "#7a4100", "#fff0cc"),
-    "not assessed": Badge("?", "not assessed", "#3f3f3f", "#e8e8e8"),
-    "ample": Badge("✓", "ample", "#17602f", "#e2f2e5"),
+    "exceeded": Badge("✕", STATUS_WORDS["exceeded"], "#a00018", "#fde3e3"),
+    "thin": Badge("▲", STATUS_WORDS["thin"], "#7a4100", "#fff0cc"),
+    "not assessed": Badge("?", STATUS_WORDS["not assessed"], "#3f3f3f", "#e8e8e8"),
+    "ample": Badge("✓", STATUS_WORDS["ample"], "#17602f", "#e2f2e5"),
 }
 
 #: The state of the results shown.

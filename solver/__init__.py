@@ -60,6 +60,7 @@ from solver.hot_spots.hot_spot import HotSpot, HotSpotReport
 from solver.hot_spots.margins import ConductorMargin, MarginReport, assess_margins
 from solver.hot_spots.verdict import (
     LOW_VOLTAGE_THRESHOLD_V,
+    STATUS_WORDS,
     CautionVerdict,
     PeakVerdict,
     judge_peak,
@@ -113,7 +114,7 @@ __all__ = [
     "air_conditions_of", "with_air_conditions",
     "AirStrength", "air_strength", "uniform_field_breakdown_voltage_V",
     "OPERATING_CREST", "VOLTAGE_BASES", "VoltageBasis", "voltage_basis_of", "with_voltage_basis",
-    "LOW_VOLTAGE_THRESHOLD_V", "CautionVerdict", "PeakVerdict", "judge_peak", "judge_solution",
+    "LOW_VOLTAGE_THRESHOLD_V", "STATUS_WORDS", "CautionVerdict", "PeakVerdict", "judge_peak", "judge_solution",
     "largest_potential_difference_V", "solution_potential_difference_V", "summarise_verdicts",
     "Medium", "background_is_air", "is_air_material", "region_is_air",
     "BundleComparison", "bundle_equivalent_radius_formula_m", "compare_bundle",

@@ -183,7 +183,7 @@ def report_html(results, document_name: str, image_name: str = "drawing", settin
         statuses = "; ".join(f"{v.where}: {v.status}" + ("" if v.margin is None else f", margin {v.margin:.3g}")
                              for v in verdict.verdicts)
         body = cautions.caution_body(verdict).replace(cautions.STANDING_STATEMENT, "").strip()
-        parts.append(f"<p style='color:{colour}'><b>High-voltage verdict: {html.escape(verdict.status)}. "
+        parts.append(f"<p style='color:{colour}'><b>High-voltage verdict: {html.escape(solver.STATUS_WORDS[verdict.status])}. "
                      f"{html.escape(verdict.headline)}</b> {html.escape(body)} ({html.escape(statuses)})</p>")
     length = settings_model.extras.get(PART_LENGTH_KEY)
     parts.append("<p><b>What 2-D cannot tell.</b> "

@@ -36,7 +36,7 @@ from solver.hot_spots.analysis import analyse_hot_spots
 from solver.hot_spots.corner_sweep import CornerRadiusSweep, peak_field_vs_corner_radius
 from solver.hot_spots.hot_spot import HotSpotReport
 from solver.hot_spots.margins import MarginReport, assess_margins
-from solver.hot_spots.verdict import solution_potential_difference_V
+from solver.hot_spots.verdict import STATUS_WORDS, solution_potential_difference_V
 
 
 @dataclass(frozen=True)
@@ -214,7 +214,7 @@ def caution_lines(figures: HotSpotFigures) -> list[str]:
     if v is None:
         return []
     basis = figures.margins.voltage_basis
-    head = f"High-voltage verdict: {v.status} (voltage basis: {basis.describe()})."
+    head = f"High-voltage verdict: {STATUS_WORDS[v.status]} (voltage basis: {basis.describe()})."
     if v.caution.startswith(v.headline):
         return [head, v.caution]
     return [head, v.headline, *([v.caution] if v.caution else [])]

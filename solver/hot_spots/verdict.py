@@ -80,6 +80,11 @@ LOW_VOLTAGE_THRESHOLD_V = 300.0
 #: Statuses from the most to the least severe (the order a summary uses).
 STATUSES = ("exceeded", "thin", "not assessed", "ample")
 
+#: How each status reads to a person: the same words on the command line, in the desktop
+#: program's caution line and in the PDF report (the JSON keeps the status itself).
+STATUS_WORDS = {"exceeded": "exceeded", "thin": "approaching (thin margin)", "not assessed": "not assessed",
+                "ample": "ample"}
+
 #: The part of every reason that says why a peak was not graded (the first words).
 NON_FINITE, LOW_VOLTAGE, SHARP_CORNER, NOT_IN_AIR = "non-finite value", "low voltage", "at a sharp corner", "not in air"
 

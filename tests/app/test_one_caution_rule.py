@@ -84,13 +84,13 @@ def test_every_view_shows_the_same_verdict(window, qtbot, tmp_path, capsys, near
 
     # PDF report text
     report = _words(report_html(window.results, "wire.json", settings_model=window.document.model))
-    assert f"High-voltage verdict: thin. {_words(headline)}" in report
+    assert f"High-voltage verdict: approaching (thin margin). {_words(headline)}" in report
     assert _words(HIGH_VOLTAGE_CAUTION) in report
 
     # command line: text and JSON
     assert main([str(path)]) == 0
     text = _words(capsys.readouterr().out)
-    assert "High-voltage verdict: thin (voltage basis: operating voltage (crest))." in text and _words(caution) in text
+    assert "High-voltage verdict: approaching (thin margin) (voltage basis: operating voltage (crest))." in text and _words(caution) in text
     assert main([str(path), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["margin_status"] == ["thin"] and data["caution_status"] == "thin"
