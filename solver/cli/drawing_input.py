@@ -20,6 +20,7 @@ exactly like a project file, and ``--save-project FILE`` keeps it as one.
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import re
 from collections.abc import Sequence
 from pathlib import Path
@@ -154,6 +155,8 @@ def load_model(args: argparse.Namespace) -> Model:
     mapping = layer_map(args.layer)
     check_layer_map(path, drawing_layers(path), mapping)
     model = read_drawing(path, mapping, unit=args.drawing_unit)
+    if not model.title:  # a drawing carries no title: the file names the model
+        model = dataclasses.replace(model, title=Path(path).name)
     if args.save_project:
         from solver.io.project_file import save_project
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import dataclasses
 import json
 from pathlib import Path
 
@@ -71,7 +72,9 @@ def test_a_layer_mapped_twice_is_refused():
 
 @pytest.mark.parametrize("drawing", [POST_DXF, POST_SVG])
 def test_the_drawing_reads_as_the_hand_built_model(drawing):
-    assert _model(drawing, *LAYERS) == hand_built_bus_on_post()
+    read = _model(drawing, *LAYERS)
+    assert read.title == Path(drawing).name  # a drawing carries no title: its file names it
+    assert dataclasses.replace(read, title="") == hand_built_bus_on_post()
 
 
 def test_the_drawing_solves_from_the_command_line_like_the_hand_built_model(capsys):
@@ -130,3 +133,8 @@ def test_svg_layers_count_text_but_only_shapes_hold_outlines():
     found = {layer.name: layer for layer in drawing_layers(POST_SVG)}
     assert found["NOTES"].counts == (("text", 1),) and not found["NOTES"].holds_outlines
     assert found["EARTH"].counts == (("rect", 1),) and found["EARTH"].holds_outlines
+
+
+def test_a_drawing_without_a_title_is_named_by_its_file():
+    args = build_parser().parse_args([str(POST_DXF), *LAYERS])
+    assert load_model(args).title == "bus_on_post.dxf"
