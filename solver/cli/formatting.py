@@ -129,7 +129,16 @@ def format_percent(fraction: float | None, digits: int = 2) -> str:
 
 def format_point(x: float, y: float, unit: str, size: float, digits: int = 4) -> str:
     """A point in model units, e.g. "(0, 12.5) mm"; coordinates below ``ROUND_OFF`` times
-    ``size`` (the drawing's extent, same unit) are round-off and shown as 0."""
+    ``size`` (the drawing's extent, same unit) are round-off and shown as 0. A drawing far
+    from the origin gets more digits, so a point is placed as finely within it as near 0.
+
+    >>> format_point(10000.35, 2.0, "mm", 10.0)
+    '(10000.35, 2) mm'
+    """
+    far = max(abs(x), abs(y))
+    if size > 0 and far > size:  # a drawing far from the origin: as many digits within it as near it
+        digits += math.ceil(math.log10(far / size))
+
     def one(v: float) -> str:
         return "0" if abs(v) <= ROUND_OFF * abs(size) else format_plain(v, digits)
 
