@@ -18,7 +18,7 @@ from solver.cli.formatting import (
     true_minus,
 )
 
-__all__ = ["digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
+__all__ = ["count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
            "format_point", "format_potential", "format_si", "si_scale", "true_minus"]
 
 _PREFIXES = ((1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),
@@ -52,3 +52,9 @@ def format_potential(value_V: float | None) -> str:
 def format_length(value_m: float, unit: str, metres_per_unit: float) -> str:
     """A length in metres shown in the model's unit, without exponent ("1010 mm")."""
     return f"{format_plain(value_m / metres_per_unit, 4)} {unit}"
+
+
+def count_of(n: int, noun: str, plural: str | None = None) -> str:
+    """``n`` things with the noun agreeing: count_of(1, "conductor") -> "1 conductor",
+    count_of(2, "conductor") -> "2 conductors"."""
+    return f"{n} {noun if n == 1 else (plural or noun + 's')}"

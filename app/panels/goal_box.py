@@ -15,7 +15,7 @@ import math
 from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QLabel, QPushButton
 
 from app.panels.quantity_edit import QuantityEdit
-from app.units import digits_for, format_measured, format_plain
+from app.units import count_of, digits_for, format_measured, format_plain
 from solver import LENGTH_UNITS
 from solver.studies.plot import figure_unit
 
@@ -81,7 +81,7 @@ class GoalBox(QGroupBox):
         self.result.setText(
             f"<b>{html.escape(label)} = {html.escape(value)}</b> gives "
             f"{html.escape(found.figure)} = {html.escape(got)} (target {html.escape(wanted)}; "
-            f"{found.n_solves} solves; root finder's tolerance {html.escape(tolerance)}, "
+            f"{count_of(found.n_solves, 'solve')}; root finder's tolerance {html.escape(tolerance)}, "
             "the figure's own error comes on top).")
         self.apply_button.setEnabled(True)
 

@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
-from app.units import digits_for, format_percent, format_plain, format_point, si_scale
+from app.units import count_of, digits_for, format_percent, format_plain, format_point, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -257,7 +257,7 @@ class MatricesView(QWidget):
         if sol.has_capacitance:
             self.maxwell.fill(names, names, matrix_cells(sol.capacitance_maxwell_F_per_m, sol.estimated_relative_error))
             self.mutual.fill(names, names, matrix_cells(sol.capacitance_mutual_F_per_m, sol.estimated_relative_error))
-            self.status.setText(f"Solved: {len(model.conductors)} conductors, {sol.mesh.n_panels} boundary panels.")
+            self.status.setText(f"Solved: {count_of(len(model.conductors), 'conductor')}, {count_of(sol.mesh.n_panels, 'boundary panel')}.")
         else:
             self.maxwell.fill([], [], [])
             self.mutual.fill([], [], [])

@@ -43,6 +43,7 @@ from app.messages import show_message
 from app.panels.goal_box import GoalBox
 from app.panels.quantity_edit import display_number
 from app.panels.study_views import CautionLine, StudyPlot, StudyTableView
+from app.units import count_of
 from solver import LENGTH_UNITS, SolverError, read_quantity
 from solver.hot_spots.verdict import largest_potential_difference_V
 from solver.studies import NOT_RUN, SearchResult, model_with_values, search, sweep
@@ -204,7 +205,7 @@ class SweepDialog(QDialog):
         job = functools.partial(_sweep_job, self.document.model, {self.field().path: values}, figures)
         self.found = None
         self._searching = False
-        self.status.setText(f"Running {len(values)} cases...")
+        self.status.setText(f"Running {count_of(len(values), 'case')}...")
         self.runner.start(job)
         return True
 
@@ -235,7 +236,7 @@ class SweepDialog(QDialog):
     def _on_progress(self, done: int, total: int) -> None:
         self.progress.setRange(0, max(total, 1))
         self.progress.setValue(done)
-        self.progress.setFormat(f"{done} / {total} cases")
+        self.progress.setFormat(f"{done} / {count_of(total, 'case')}")
 
     def _on_finished(self, result) -> None:
         if isinstance(result, SearchResult):
@@ -247,7 +248,7 @@ class SweepDialog(QDialog):
         self.table = result
         not_run = sum(1 for r in result.rows if r.get("error") == NOT_RUN)
         failed = len(result.failed) - not_run
-        text = f"{len(result) - not_run} of {len(result)} cases run"
+        text = f"{len(result) - not_run} of {count_of(len(result), 'case')} run"
         text += ", cancelled." if not_run else "."
         if failed:
             text += f" {failed} without figures (see the note column)."

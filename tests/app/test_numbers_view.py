@@ -77,3 +77,14 @@ def test_per_conductor_cells_are_numbers_under_a_heading_with_the_unit(view):
     for i in range(3):
         for j in range(view.conductors.columnCount()):
             float(view.conductors.item(i, j).text().replace("\u2212", "-"))  # a bare number
+
+
+def test_counts_agree_with_their_nouns(qtbot):
+    """One conductor reads "1 conductor", not "1 conductors"."""
+    one = compute_results(solver.load_project("sample_geometries/microstrip_on_substrate.json"),
+                          grid_points=0, n_field_lines=0)
+    v = MatricesView()
+    qtbot.addWidget(v)
+    v.show_results(one)
+    assert len(one.model.conductors) == 1
+    assert "Solved: 1 conductor," in v.status.text() and "conductors" not in v.status.text()
