@@ -348,6 +348,7 @@ class MainWindow(QMainWindow):
         self.banner.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"]) + " padding: 6px;")
         self.banner.setVisible(True)
         self.results_panel.summary.set_state("failed")
+        self.results_panel.show_failure(message)
 
     def _update_verdict(self) -> None:
         """The solver's verdict on the solve's peaks (one caution rule) in the summary block's

@@ -27,6 +27,7 @@ from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
+from app.panels.status_text import NOT_SOLVED, failure_text
 from app.units import digits_for, format_percent, format_plain
 from solver import THIN_MARGIN
 
@@ -99,7 +100,7 @@ class HotSpotsView(QWidget):
         self.runner.job_failed.connect(lambda m: self._set_status(f"No hot-spot analysis: {m}", error=True))
 
         layout = QVBoxLayout(self)
-        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status = QLabel(NOT_SOLVED)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
         self.progress = JobProgress(self.runner)  # progress and Cancel while the peaks are refined
@@ -251,6 +252,11 @@ class HotSpotsView(QWidget):
         self.air_box.show_project_air(model)
         if self.report is not None and not self._stale:
             self._assess()
+
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if self.results is None:
+            self._set_status(failure_text(message), error=True)
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:

@@ -18,6 +18,7 @@ import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
+from app.panels.status_text import NOT_SOLVED, failure_text
 from app.units import digits_for, format_percent, format_plain
 from solver.cli.formatting import ROUND_OFF
 
@@ -61,7 +62,7 @@ class LineFiguresView(QWidget):
         self.runner.job_failed.connect(self._on_job_failed)
 
         layout = QVBoxLayout(self)
-        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status = QLabel(NOT_SOLVED)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
         self.progress = JobProgress(self.runner)
@@ -148,6 +149,11 @@ class LineFiguresView(QWidget):
         self.figures = figures
         self._show_figures_status()
         self._fill(figures)
+
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if self.results is None:
+            self._set_status(failure_text(message), colours.status_style(error=True))
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "") -> None:

@@ -24,6 +24,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
+from app.panels.status_text import FAILED, NOT_SOLVED, failure_text
 from app.units import count_of, digits_for, format_percent, format_plain, format_point, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
@@ -191,7 +192,7 @@ class MatricesView(QWidget):
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         layout = QVBoxLayout(self)
-        self._status_text = "Not solved yet: press Solve (F5)."
+        self._status_text = NOT_SOLVED
         self.status = QLabel(self._status_text)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
@@ -326,13 +327,20 @@ class MatricesView(QWidget):
                  for p, field in zip(peaks, fields)]
         self.regions.fill(rows, ["εr", f"largest |E| ({field_unit})", f"at ({model.unit})", "on"], cells, wrap=14)
 
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if not self.conductors.isVisibleTo(self):  # nothing solved shown (the table comes with results)
+            self._status_text = failure_text(message)
+            self.status.setText(self._status_text)
+            self.status.setStyleSheet(colours.status_style(error=True))
+
     def mark_stale(self, stale: bool) -> None:
         if stale:
             self.status.setText("OUT OF DATE: the drawing changed after this solve. Solve again (F5).")
             self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["stale"], bold=True))
         else:
             self.status.setText(self._status_text)
-            self.status.setStyleSheet("")
+            self.status.setStyleSheet(colours.status_style(error=self._status_text.startswith(FAILED)))
 
 
 def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = None,
