@@ -38,6 +38,7 @@ from PySide6.QtWidgets import (
 )
 
 import solver
+from app.figure_names import figure_label
 from app.jobs.study_runner import StudyRunner
 from app.messages import show_message
 from app.panels.goal_box import GoalBox
@@ -86,12 +87,13 @@ class SweepDialog(QDialog):
         for f in self.fields:
             self.field_combo.addItem(f"{f.label} ({f.unit})" if f.unit else f.label, f.path)
         for choice in figure_choices(self.model):
-            item = QListWidgetItem(choice.name)
+            item = QListWidgetItem(figure_label(choice.name, length_unit=self.model.unit))
+            item.setData(Qt.UserRole, choice.name)
             item.setToolTip(choice.label)
             item.setFlags(item.flags() | Qt.ItemIsUserCheckable)
             item.setCheckState(Qt.Checked if len(self.checked_figures()) < 1 else Qt.Unchecked)
             self.figure_list.addItem(item)
-            self.goal_figure.addItem(choice.name)
+            self.goal_box.add_figure(choice.name)
         self.field_combo.currentIndexChanged.connect(self._on_field_changed)
         self._on_field_changed()
         self.resize(1060, 660)
@@ -170,12 +172,12 @@ class SweepDialog(QDialog):
 
     def checked_figures(self) -> list[str]:
         items = (self.figure_list.item(i) for i in range(self.figure_list.count()))
-        return [it.text() for it in items if it.checkState() == Qt.Checked]
+        return [it.data(Qt.UserRole) for it in items if it.checkState() == Qt.Checked]
 
     def set_figures(self, names) -> None:
         for i in range(self.figure_list.count()):
             item = self.figure_list.item(i)
-            item.setCheckState(Qt.Checked if item.text() in names else Qt.Unchecked)
+            item.setCheckState(Qt.Checked if item.data(Qt.UserRole) in names else Qt.Unchecked)
 
     def _on_field_changed(self) -> None:
         f = self.field()
@@ -218,7 +220,7 @@ class SweepDialog(QDialog):
         except (ValueError, SolverError) as e:
             self.goal_result.setText(str(e))
             return False
-        job = functools.partial(_search_job, self.document.model, self.field().path, self.goal_figure.currentText(),
+        job = functools.partial(_search_job, self.document.model, self.field().path, self.goal_box.figure_name(),
                                 target, (start, stop))
         self.goal_result.setText("Searching...")
         self._searching = True

@@ -51,12 +51,13 @@ def test_the_goal_target_is_the_unit_aware_entry(qtbot):
 
     box = GoalBox(length_unit="mil")
     qtbot.addWidget(box)
-    box.figure.addItems(["Z0_ohm", "equivalent_radius_m.wire"])
-    box.figure.setCurrentText("equivalent_radius_m.wire")
+    box.add_figure("Z0_ohm")
+    box.add_figure("equivalent_radius_m.wire")
+    box.choose_figure("equivalent_radius_m.wire")
     assert isinstance(box.target, QuantityEdit) and box.target.unit_label.text() == "mil"
     assert "mil" in box.target.toolTip() and "SI prefixes" in box.target.toolTip()
     box.target.setText("2")
     assert box.target_si() == 2 * 25.4e-6
-    box.figure.setCurrentText("Z0_ohm")
+    box.choose_figure("Z0_ohm")
     box.target.setText("0.05 kohm")
     assert box.target_si() == 50.0 and box.target.unit_label.text() == "\u03a9"
