@@ -43,7 +43,7 @@ from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.panels.wheel_steps import WheelSteps
 from app.study_menus import StudyMenus
-from app.units import format_field, format_plain, format_potential, format_si
+from app.units import format_field, format_plain, format_potential, format_si, keep_units
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -344,7 +344,7 @@ class MainWindow(QMainWindow):
     def _show_error(self, message: str, names: list[str]) -> None:
         self.canvas.show_errors(names, message)
         self._banner_is_error = True
-        self.banner.setText(f"<b>{colours.FRESHNESS['failed'].symbol} Cannot solve:</b> {html.escape(message)}")
+        self.banner.setText(f"<b>{colours.FRESHNESS['failed'].symbol} Cannot solve:</b> {keep_units(html.escape(message))}")
         self.banner.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"]) + " padding: 6px;")
         self.banner.setVisible(True)
         self.results_panel.summary.set_state("failed")

@@ -20,7 +20,7 @@ from app import colours
 from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
-from app.units import digits_for, format_percent, format_plain, true_minus
+from app.units import digits_for, format_percent, format_plain, keep_units, true_minus
 from solver.hot_spots.corner_limits import largest_corner_radius_m
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
@@ -160,7 +160,7 @@ class CornerRadiusPart(QWidget):
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_busy_changed(self, busy: bool) -> None:

@@ -16,7 +16,7 @@ from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QL
 
 from app.figure_names import figure_label, figure_title
 from app.panels.quantity_edit import QuantityEdit
-from app.units import count_of, digits_for, format_measured, format_plain
+from app.units import count_of, digits_for, format_measured, format_plain, keep_units
 from solver import LENGTH_UNITS
 from solver.studies.plot import figure_unit
 
@@ -91,11 +91,11 @@ class GoalBox(QGroupBox):
         largest = max(abs(found.target), abs(found.figure_value))
         got = format_measured(found.figure_value, f_unit, largest=largest) if f_unit else format_plain(found.figure_value)
         wanted = format_measured(found.target, f_unit, largest=largest) if f_unit else format_plain(found.target)
-        self.result.setText(
+        self.result.setText(keep_units(
             f"<b>{html.escape(label)} = {html.escape(value)}</b> gives "
             f"{html.escape(figure_title(found.figure))} = {html.escape(got)} (target {html.escape(wanted)}; "
             f"{count_of(found.n_solves, 'solve')}; root finder's tolerance {html.escape(tolerance)}, "
-            "the figure's own error comes on top).")
+            "the figure's own error comes on top)."))
         self.apply_button.setEnabled(True)
 
 

@@ -28,7 +28,7 @@ from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.panels.status_text import NOT_SOLVED, failure_text
-from app.units import digits_for, format_percent, format_plain
+from app.units import digits_for, format_percent, format_plain, keep_units
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -264,7 +264,7 @@ class HotSpotsView(QWidget):
         self._last_status = (text, style)
         if self._stale:
             return
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(style)
 
     def _on_report_ready(self, report) -> None:
@@ -343,7 +343,7 @@ class HotSpotsView(QWidget):
                      f"{m.voltage_basis.describe()}"
                      + (f"; the margins compare the thresholds with these peaks × {format_plain(m.voltage_basis.field_factor, 4)}."
                         if m.voltage_basis.field_factor != 1.0 else "."))
-        self.notes.setText("\n".join(notes))
+        self.notes.setText(keep_units("\n".join(notes)))
         self._show_caution()
 
     def _show_caution(self) -> None:

@@ -19,7 +19,7 @@ from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
 from app.panels.status_text import NOT_SOLVED, failure_text
-from app.units import digits_for, format_percent, format_plain
+from app.units import digits_for, format_percent, format_plain, keep_units
 from solver.cli.formatting import ROUND_OFF
 
 MODES_CAPTION = ("Modes (slowest first, one column each): effective permittivity, velocity, modal impedance "
@@ -160,7 +160,7 @@ class LineFiguresView(QWidget):
         self._last_status = (text, style)
         if self._stale:
             return
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(style)
 
     def _show_figures_status(self) -> None:
@@ -231,7 +231,7 @@ class LineFiguresView(QWidget):
                                 for i, j in pairs], wrap=14)
             self._show(self.coupling_label, self.coupling)
         err = f.estimated_relative_error
-        self.error_label.setText(
+        self.error_label.setText(keep_units(
             "" if err is None or not math.isfinite(err) else
             f"Estimated relative error of the capacitances behind these figures: {format_percent(err)} "
-            "(change against meshes at half the resolution).")
+            "(change against meshes at half the resolution)."))

@@ -25,7 +25,7 @@ from PySide6.QtWidgets import (
 
 from app import colours
 from app.panels.status_text import FAILED, NOT_SOLVED, failure_text
-from app.units import count_of, digits_for, format_percent, format_plain, format_point, si_scale
+from app.units import count_of, digits_for, format_percent, format_plain, format_point, keep_units, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -269,18 +269,18 @@ class MatricesView(QWidget):
                 reason = str(exc)
             self.status.setText(reason)
         self._status_text = self.status.text()
-        self.asymmetry_label.setText(
-            f"Accuracy check: the computed matrix was asymmetric by {100 * sol.capacitance_asymmetry:.2g} % "
-            "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else "")
+        self.asymmetry_label.setText(keep_units(
+            f"Accuracy check: the computed matrix was asymmetric by {format_percent(sol.capacitance_asymmetry)} "
+            "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else ""))
         self._fill_conductors(results)
         self._fill_regions(results)
         self._show_matrices(True, sol.has_capacitance)
         err = sol.estimated_relative_error
-        self.error_label.setText(
+        self.error_label.setText(keep_units(
             "Estimated relative error of the matrix: n/a" if err is None else
             f"Estimated relative error: {format_percent(err)}, the change against a mesh at half the "
             f"resolution ({sol.coarse_mesh_panels} panels against {sol.mesh.n_panels}); figures are shown "
-            f"to {digits_for(err)} significant digits.")
+            f"to {digits_for(err)} significant digits."))
 
     def _fill_conductors(self, results) -> None:
         sol, model = results.solution, results.model

@@ -171,7 +171,7 @@ def test_equivalent_radius_of_a_regular_bundle(qtbot):
     assert part.checked_names() == ["a", "b"]
     part.compute()
     wait_until(lambda: part.comparison is not None)
-    text = part.result.text()
+    text = part.result.text().replace("\u00a0", " ")  # numbers and units are joined by no-break spaces
     from app.units import digits_for, format_plain
 
     digits = digits_for(part.comparison.estimated_relative_error)  # figures the error supports

@@ -88,3 +88,11 @@ def test_counts_agree_with_their_nouns(qtbot):
     v.show_results(one)
     assert len(one.model.conductors) == 1
     assert "Solved: 1 conductor," in v.status.text() and "conductors" not in v.status.text()
+
+
+def test_a_number_and_its_unit_stay_on_one_line_of_a_wrapping_label(view):
+    """"0.029 %" must not break between the number and the % sign: a no-break space joins them."""
+    text = view.error_label.text()
+    assert view.error_label.wordWrap()
+    assert re.search(r"\d\u00a0%", text) and not re.search(r"\d %", text), text
+    assert re.search(r"\d\u00a0%", view.asymmetry_label.text()), view.asymmetry_label.text()

@@ -93,8 +93,8 @@ def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_
     assert found.target == pytest.approx(target, rel=1e-11)
     assert found.value == pytest.approx(7.0, rel=2e-3)  # the solver's error on C is well under 1e-3
     text = html.unescape(re.sub("<[^>]+>", "", dialog.goal_result.text()))
-    shown = re.search(r"wire: centre y = ([0-9.]+) mm gives C wire–wire = ([0-9.]+) pF/m \(target "
-                      r"([0-9.]+) pF/m", text)
+    shown = re.search(r"wire: centre y = ([0-9.]+)\s+mm gives C wire–wire = ([0-9.]+)\s+pF/m \(target "
+                      r"([0-9.]+)\s+pF/m", text)
     assert shown, text
     # The value is shown to the figures the root finder's tolerance supports: rounding it moved it
     # by less than the tolerance, and one figure fewer would move it by more than a tenth of it.
