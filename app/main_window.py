@@ -43,7 +43,7 @@ from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.panels.wheel_steps import WheelSteps
 from app.study_menus import StudyMenus
-from app.units import format_field, format_plain, format_potential, format_si, keep_units
+from app.units import format_field, format_measured, format_plain, format_potential, keep_units
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -448,7 +448,9 @@ def live_figures_text(solution) -> str:
     parts = []
     if solution.has_capacitance:
         name = solution.signal_names[0]
-        parts.append(f"C'({name}) {format_si(float(solution.capacitance_maxwell_F_per_m[0, 0]), 'F/m', 5)}")
+        # the digits the error estimate supports, as in the summary and the Numbers section
+        c = float(solution.capacitance_maxwell_F_per_m[0, 0])
+        parts.append(f"C'({name}) {format_measured(c, 'F/m', solution.estimated_relative_error)}")
     peaks = [p for p in solution.peak_surface_fields if np.isfinite(p.field_V_per_m)]
     if peaks:
         top = max(peaks, key=lambda p: p.field_V_per_m)
