@@ -160,6 +160,13 @@ def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
     rows = list(csv.DictReader(io.StringIO(path.read_text())))
     assert [float(r["corner_radius_m"]) for r in rows] == [0.01, 0.02, 0.03]
     assert [float(r["peak_field_V_per_m"]) for r in rows] == [float(f"{v:.9g}") for v in part.sweep.peak_field_V_per_m]
+    # one number of figures down the peak column: those the largest estimated error supports
+    from app.units import digits_for, format_plain
+
+    errors = [e for e in part.sweep.estimated_relative_error if e == e]
+    digits = digits_for(max(errors) if errors else None)
+    shown = [line.split("\t")[1] for line in copied[1:]]
+    assert shown == [format_plain(v, digits) for v in y]
 
 
 def test_equivalent_radius_of_a_regular_bundle(qtbot):
