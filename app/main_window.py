@@ -85,6 +85,7 @@ class MainWindow(QMainWindow):
         self.results_panel = ResultsPanel(self.document)
         self.stale_label = self.results_panel.stale_strip  # shown while the results are out of date
         self.results_panel.summary.show_where.connect(self.show_worst_peak)
+        self.results_panel.hot_spots.peak_digits_ready.connect(self.canvas.overlays.set_peak_digits)
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)

@@ -84,6 +84,9 @@ class HotSpotsView(QWidget):
     verdict on the refined peaks goes out by ``verdict_ready(solver.CautionVerdict)``."""
 
     verdict_ready = Signal(object)
+    #: {conductor: figures} of each refined peak (those its error estimate supports), for the
+    #: drawing's peak labels to show the table's number.
+    peak_digits_ready = Signal(dict)
 
     def __init__(self, document=None, parent=None) -> None:
         super().__init__(parent)
@@ -269,6 +272,7 @@ class HotSpotsView(QWidget):
 
     def _on_report_ready(self, report) -> None:
         self.report = report
+        self.peak_digits_ready.emit({s.conductor: digits_for(s.estimated_relative_error) for s in report.hot_spots})
         rounded = ("" if report.corner_radius_m is None else
                    f", sharp corners rounded to {format_plain(report.corner_radius_m / self.results.model.metres_per_unit, 4)} "
                    f"{self.results.model.unit}")
