@@ -88,8 +88,10 @@ class Overlays:
 
     # ---- public ----------------------------------------------------------------------------
     def set_peak_digits(self, digits: dict[str, int]) -> None:
-        """Figures for each conductor's peak label, those its refined peak's error estimate
-        supports (the High voltage table's), so the drawing and the table show one number."""
+        """Figures each conductor's refined peak supports (the High voltage table's); a peak
+        label shows at most 3 (as the summary and the status bar), fewer when the estimate
+        supports fewer, so a peak known to 2 figures reads "71 kV/m" on the drawing and in the
+        table alike."""
         if digits != self.peak_digits:
             self.peak_digits = dict(digits)
             self.redraw()
@@ -313,7 +315,9 @@ class Overlays:
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
             digits = self.peak_digits.get(p.conductor)
-            field = format_field(p.field_V_per_m) if digits is None else _field_to(p.field_V_per_m, digits)
+            # the summary's and status bar's 3 figures, fewer where the refined peak's estimate
+            # supports fewer (then the High voltage table shows that many too)
+            field = format_field(p.field_V_per_m) if digits is None else _field_to(p.field_V_per_m, min(3, digits))
             text = f"{p.conductor}: {field}" + (" (sharp corner)" if p.at_sharp_corner else "")
             bold = p.field_V_per_m == top
             label = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL),
