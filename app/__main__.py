@@ -14,7 +14,9 @@ from pathlib import Path
 
 
 def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True):
-    """Create the main window, offer recovery, open ``path`` (or the default sample) and solve."""
+    """Create and show the main window, then offer recovery, open ``path`` (or the default
+    sample) and solve; a dialog on the way (recovery, a file that cannot be opened) has the
+    shown window as its parent."""
     from PySide6.QtWidgets import QMessageBox
 
     from app.files import project_files as files
@@ -22,6 +24,7 @@ def build_window(path: Path | None, settings=None, *, ask_recovery: bool = True)
     from app.messages import ask
 
     window = MainWindow(settings)
+    window.show()  # the window first: a question or a file error below is a dialog over it
     # a file named on the command line is what opens: only unsaved work on that file is offered
     recovered = files.read_recovery(path) if ask_recovery else None
     if recovered is not None:

@@ -43,7 +43,7 @@ from app.panels.results_panel import ResultsPanel
 from app.panels.safety_views import caution_for
 from app.panels.wheel_steps import WheelSteps
 from app.study_menus import StudyMenus
-from app.units import format_field, format_plain, format_potential, format_si
+from app.units import format_field, format_measured, format_plain, format_potential, keep_units
 from solver import Model, SolverError
 
 logger = logging.getLogger(__name__)
@@ -85,6 +85,7 @@ class MainWindow(QMainWindow):
         self.results_panel = ResultsPanel(self.document)
         self.stale_label = self.results_panel.stale_strip  # shown while the results are out of date
         self.results_panel.summary.show_where.connect(self.show_worst_peak)
+        self.results_panel.hot_spots.peak_digits_ready.connect(self.canvas.overlays.set_peak_digits)
         self._dock("Parts", self.parts, Qt.LeftDockWidgetArea)
         self._dock("Properties", self.properties, Qt.LeftDockWidgetArea)
         results_dock = self._dock("Results", self.results_panel, Qt.RightDockWidgetArea)
@@ -344,10 +345,11 @@ class MainWindow(QMainWindow):
     def _show_error(self, message: str, names: list[str]) -> None:
         self.canvas.show_errors(names, message)
         self._banner_is_error = True
-        self.banner.setText(f"<b>{colours.FRESHNESS['failed'].symbol} Cannot solve:</b> {html.escape(message)}")
+        self.banner.setText(f"<b>{colours.FRESHNESS['failed'].symbol} Cannot solve:</b> {keep_units(html.escape(message))}")
         self.banner.setStyleSheet(colours.style_sheet(colours.FRESHNESS["failed"]) + " padding: 6px;")
         self.banner.setVisible(True)
         self.results_panel.summary.set_state("failed")
+        self.results_panel.show_failure(message)
 
     def _update_verdict(self) -> None:
         """The solver's verdict on the solve's peaks (one caution rule) in the summary block's
@@ -447,7 +449,9 @@ def live_figures_text(solution) -> str:
     parts = []
     if solution.has_capacitance:
         name = solution.signal_names[0]
-        parts.append(f"C'({name}) {format_si(float(solution.capacitance_maxwell_F_per_m[0, 0]), 'F/m', 5)}")
+        # the digits the error estimate supports, as in the summary and the Numbers section
+        c = float(solution.capacitance_maxwell_F_per_m[0, 0])
+        parts.append(f"C'({name}) {format_measured(c, 'F/m', solution.estimated_relative_error)}")
     peaks = [p for p in solution.peak_surface_fields if np.isfinite(p.field_V_per_m)]
     if peaks:
         top = max(peaks, key=lambda p: p.field_V_per_m)

@@ -8,6 +8,7 @@ estimate supports, round-off shown as 0, true minus signs.
 from __future__ import annotations
 
 import math
+import re
 
 from solver.cli.formatting import (
     digits_for,
@@ -18,8 +19,8 @@ from solver.cli.formatting import (
     true_minus,
 )
 
-__all__ = ["digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
-           "format_point", "format_potential", "format_si", "si_scale", "true_minus"]
+__all__ = ["NBSP", "count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
+           "format_point", "format_potential", "format_si", "keep_units", "si_scale", "true_minus"]
 
 _PREFIXES = ((1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),
              (1e-9, "n"), (1e-12, "p"), (1e-15, "f"))
@@ -52,3 +53,26 @@ def format_potential(value_V: float | None) -> str:
 def format_length(value_m: float, unit: str, metres_per_unit: float) -> str:
     """A length in metres shown in the model's unit, without exponent ("1010 mm")."""
     return f"{format_plain(value_m / metres_per_unit, 4)} {unit}"
+
+
+def count_of(n: int, noun: str, plural: str | None = None) -> str:
+    """``n`` things with the noun agreeing: count_of(1, "conductor") -> "1 conductor",
+    count_of(2, "conductor") -> "2 conductors"."""
+    return f"{n} {noun if n == 1 else (plural or noun + 's')}"
+
+
+#: No-break space: a number and its unit stay on one line of a wrapping label.
+NBSP = "\u00a0"
+
+_NUMBER_THEN_UNIT = re.compile(
+    r"(?<=\d) (?=(?:%|°C|[TGMkmµunpf]?(?:V/mm|V/m|V|F/m|F|Ω|s/m|s|Hz|m)|ohm|mil|in|cm)(?![\w/]))")
+
+
+def keep_units(text: str) -> str:
+    """``text`` with a no-break space between each number and the unit after it, so that a
+    wrapping label never breaks "0.029 %" or "120.8 pF/m" across two lines.
+
+    >>> keep_units("error 0.029 %, C 120.8 pF/m") == "error 0.029\u00a0%, C 120.8\u00a0pF/m"
+    True
+    """
+    return _NUMBER_THEN_UNIT.sub(NBSP, text)

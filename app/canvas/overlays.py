@@ -26,7 +26,7 @@ from app.canvas.colour_key import ColourKey
 from app.canvas.detail_map import detail_axes
 from app.canvas.shading import SHADINGS, shading_of
 from app.jobs.figure_jobs import FigureJobRunner
-from app.units import format_field, format_potential
+from app.units import format_field, format_plain, format_potential, si_scale
 
 __all__ = ["SHADINGS", "Overlays"]
 
@@ -45,6 +45,7 @@ class Overlays:
     def __init__(self, plot_item: pg.PlotItem) -> None:
         self.plot = plot_item
         self.results = None
+        self.peak_digits: dict[str, int] = {}
         self.shading = "potential"
         self.show = {"equipotentials": True, "field lines": False, "surface charge": False, "hot spots": True}
         self._items: list = []
@@ -86,8 +87,18 @@ class Overlays:
             self.redraw()
 
     # ---- public ----------------------------------------------------------------------------
+    def set_peak_digits(self, digits: dict[str, int]) -> None:
+        """Figures each conductor's refined peak supports (the High voltage table's); a peak
+        label shows at most 3 (as the summary and the status bar), fewer when the estimate
+        supports fewer, so a peak known to 2 figures reads "71 kV/m" on the drawing and in the
+        table alike."""
+        if digits != self.peak_digits:
+            self.peak_digits = dict(digits)
+            self.redraw()
+
     def set_results(self, results) -> None:
         self.results = results
+        self.peak_digits = {}  # until the refined peaks of this solve say otherwise
         self.stale = False
         self._detail = None
         self._start_detail(results)
@@ -303,7 +314,11 @@ class Overlays:
         leader_segments = self._leader_segments
         for k in order:
             p, x, y = peaks[k], xs[k], ys[k]
-            text = f"{p.conductor}: {format_field(p.field_V_per_m)}" + (" (sharp corner)" if p.at_sharp_corner else "")
+            digits = self.peak_digits.get(p.conductor)
+            # the summary's and status bar's 3 figures, fewer where the refined peak's estimate
+            # supports fewer (then the High voltage table shows that many too)
+            field = format_field(p.field_V_per_m) if digits is None else _field_to(p.field_V_per_m, min(3, digits))
+            text = f"{p.conductor}: {field}" + (" (sharp corner)" if p.at_sharp_corner else "")
             bold = p.field_V_per_m == top
             label = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL),
                                 border=pg.mkPen(colours.TEXT if bold else colours.TEXT_MUTED, width=1.5 if bold else 1))
@@ -326,3 +341,10 @@ class Overlays:
                 self._add(line, 34)  # under the star, which it leaves from, and under the label
                 self.leaders.append((label, line))
 
+
+
+def _field_to(value_V_per_m: float, digits: int) -> str:
+    """A field with an SI prefix to ``digits`` figures without exponent ("150 kV/m" at 2 figures,
+    where the engineering form would read "1.5e+02 kV/m"), as the High voltage table writes it."""
+    factor, prefix = si_scale(value_V_per_m)
+    return f"{format_plain(value_V_per_m / factor, digits)} {prefix}V/m"

@@ -20,7 +20,7 @@ from app import colours
 from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
-from app.units import digits_for, format_percent, format_plain, true_minus
+from app.units import digits_for, format_percent, format_plain, keep_units, true_minus
 from solver.hot_spots.corner_limits import largest_corner_radius_m
 
 #: Default radii as fractions of the conductor's smaller bounding-box side.
@@ -160,7 +160,7 @@ class CornerRadiusPart(QWidget):
 
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_busy_changed(self, busy: bool) -> None:
@@ -196,10 +196,13 @@ class CornerRadiusPart(QWidget):
         self.plot.enableAutoRange()
         size = drawing_size(self.results.solution) / scale
         cells = []  # the radius in a column of its own: narrower than a row heading "r = 0.2 mm"
+        # one number of figures for the whole peak column: those the largest estimated error supports
+        finite = sweep.estimated_relative_error[np.isfinite(sweep.estimated_relative_error)]
+        peak_digits = digits_for(float(finite.max()) if finite.size else None)
         for k, r in enumerate(x):
             err = sweep.estimated_relative_error[k]
             enh = sweep.enhancement_factor[k]
-            cells.append([format_plain(r, 6), format_plain(y[k], digits_for(None if math.isnan(err) else err)),
+            cells.append([format_plain(r, 6), format_plain(y[k], peak_digits),
                           "n/a" if math.isnan(err) else format_plain(100 * err, 2),
                           "n/a" if math.isnan(enh) else format_plain(enh, 3),
                           format_coordinate(sweep.location_m[k, 0] / scale, size),

@@ -18,7 +18,7 @@ from app import colours
 from app.canvas.drawing import plot_widget
 from app.jobs.figure_jobs import FigureJobRunner
 from app.panels.matrices_view import CopyableTable
-from app.units import format_plain
+from app.units import format_plain, keep_units
 
 STALE_TEXT = "OUT OF DATE: the drawing changed after this solve. Solve again (F5)."
 #: The table's rows (one column per conductor, so that a narrow panel shows every figure);
@@ -146,5 +146,5 @@ class CrossCheckView(QWidget):
         self.plot.setTitle(f"Fekete points, N = {check.fekete_points.n_points} ({check.unit})", color=colours.TEXT)
 
     def _set_status(self, text: str, *, error: bool = False, stale: bool = False) -> None:
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(colours.status_style(error=error, stale=stale))

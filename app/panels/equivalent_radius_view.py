@@ -13,7 +13,7 @@ from PySide6.QtWidgets import QHBoxLayout, QLabel, QListWidget, QListWidgetItem,
 import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
-from app.units import digits_for, format_percent, format_plain
+from app.units import digits_for, format_percent, format_plain, keep_units
 
 
 def default_group(model) -> list[str]:
@@ -102,7 +102,7 @@ class EquivalentRadiusPart(QWidget):
         self._set_result("Cancelled: press the button to compute again.")
 
     def _set_result(self, text: str, *, error: bool = False, stale: bool = False) -> None:
-        self.result.setText(text)
+        self.result.setText(keep_units(text))
         self.result.setStyleSheet(colours.status_style(error=error, stale=stale))
 
     def _on_comparison_ready(self, b) -> None:

@@ -14,8 +14,9 @@ import math
 
 from PySide6.QtWidgets import QComboBox, QFormLayout, QGroupBox, QHBoxLayout, QLabel, QPushButton
 
+from app.figure_names import figure_label, figure_title
 from app.panels.quantity_edit import QuantityEdit
-from app.units import digits_for, format_measured, format_plain
+from app.units import count_of, digits_for, format_measured, format_plain, keep_units
 from solver import LENGTH_UNITS
 from solver.studies.plot import figure_unit
 
@@ -55,9 +56,21 @@ class GoalBox(QGroupBox):
         self.figure.currentTextChanged.connect(self._on_figure_changed)
         self._on_figure_changed(self.figure.currentText())
 
+    def add_figure(self, name: str) -> None:
+        """Offer figure ``name`` (a study's figure name), shown by its plain name and unit."""
+        self.figure.addItem(figure_label(name, length_unit=self.length_unit), name)
+
+    def figure_name(self) -> str:
+        """The study's name of the chosen figure ("" for none)."""
+        return self.figure.currentData() or ""
+
+    def choose_figure(self, name: str) -> None:
+        """Choose figure ``name`` (a study's figure name)."""
+        self.figure.setCurrentIndex(self.figure.findData(name))
+
     def _units(self) -> tuple[str, str | None]:
         """(SI unit of the chosen figure, unit of a bare number or None for the SI unit)."""
-        unit = figure_unit(self.figure.currentText())
+        unit = figure_unit(self.figure_name())
         return unit, (self.length_unit if unit == "m" else None)
 
     def _on_figure_changed(self, _text: str) -> None:
@@ -78,11 +91,11 @@ class GoalBox(QGroupBox):
         largest = max(abs(found.target), abs(found.figure_value))
         got = format_measured(found.figure_value, f_unit, largest=largest) if f_unit else format_plain(found.figure_value)
         wanted = format_measured(found.target, f_unit, largest=largest) if f_unit else format_plain(found.target)
-        self.result.setText(
+        self.result.setText(keep_units(
             f"<b>{html.escape(label)} = {html.escape(value)}</b> gives "
-            f"{html.escape(found.figure)} = {html.escape(got)} (target {html.escape(wanted)}; "
-            f"{found.n_solves} solves; root finder's tolerance {html.escape(tolerance)}, "
-            "the figure's own error comes on top).")
+            f"{html.escape(figure_title(found.figure))} = {html.escape(got)} (target {html.escape(wanted)}; "
+            f"{count_of(found.n_solves, 'solve')}; root finder's tolerance {html.escape(tolerance)}, "
+            "the figure's own error comes on top)."))
         self.apply_button.setEnabled(True)
 
 

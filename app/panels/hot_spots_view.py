@@ -27,7 +27,8 @@ from app.panels.air_conditions_box import AirConditionsBox
 from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
-from app.units import digits_for, format_percent, format_plain
+from app.panels.status_text import NOT_SOLVED, failure_text
+from app.units import digits_for, format_percent, format_plain, keep_units
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -83,6 +84,9 @@ class HotSpotsView(QWidget):
     verdict on the refined peaks goes out by ``verdict_ready(solver.CautionVerdict)``."""
 
     verdict_ready = Signal(object)
+    #: {conductor: figures} of each refined peak (those its error estimate supports), for the
+    #: drawing's peak labels to show the table's number.
+    peak_digits_ready = Signal(dict)
 
     def __init__(self, document=None, parent=None) -> None:
         super().__init__(parent)
@@ -99,7 +103,7 @@ class HotSpotsView(QWidget):
         self.runner.job_failed.connect(lambda m: self._set_status(f"No hot-spot analysis: {m}", error=True))
 
         layout = QVBoxLayout(self)
-        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status = QLabel(NOT_SOLVED)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
         self.progress = JobProgress(self.runner)  # progress and Cancel while the peaks are refined
@@ -252,17 +256,23 @@ class HotSpotsView(QWidget):
         if self.report is not None and not self._stale:
             self._assess()
 
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if self.results is None:
+            self._set_status(failure_text(message), error=True)
+
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "", *, error: bool = False) -> None:
         style = colours.style_sheet(colours.FRESHNESS["failed"], bold=True) if error else style
         self._last_status = (text, style)
         if self._stale:
             return
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(style)
 
     def _on_report_ready(self, report) -> None:
         self.report = report
+        self.peak_digits_ready.emit({s.conductor: digits_for(s.estimated_relative_error) for s in report.hot_spots})
         rounded = ("" if report.corner_radius_m is None else
                    f", sharp corners rounded to {format_plain(report.corner_radius_m / self.results.model.metres_per_unit, 4)} "
                    f"{self.results.model.unit}")
@@ -337,7 +347,7 @@ class HotSpotsView(QWidget):
                      f"{m.voltage_basis.describe()}"
                      + (f"; the margins compare the thresholds with these peaks × {format_plain(m.voltage_basis.field_factor, 4)}."
                         if m.voltage_basis.field_factor != 1.0 else "."))
-        self.notes.setText("\n".join(notes))
+        self.notes.setText(keep_units("\n".join(notes)))
         self._show_caution()
 
     def _show_caution(self) -> None:

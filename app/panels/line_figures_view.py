@@ -18,7 +18,8 @@ import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner, JobProgress
 from app.panels.matrices_view import CopyableTable
-from app.units import digits_for, format_percent, format_plain
+from app.panels.status_text import NOT_SOLVED, failure_text
+from app.units import digits_for, format_percent, format_plain, keep_units
 from solver.cli.formatting import ROUND_OFF
 
 MODES_CAPTION = ("Modes (slowest first, one column each): effective permittivity, velocity, modal impedance "
@@ -61,7 +62,7 @@ class LineFiguresView(QWidget):
         self.runner.job_failed.connect(self._on_job_failed)
 
         layout = QVBoxLayout(self)
-        self.status = QLabel("Not solved yet: press Solve (F5).")
+        self.status = QLabel(NOT_SOLVED)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
         self.progress = JobProgress(self.runner)
@@ -149,12 +150,17 @@ class LineFiguresView(QWidget):
         self._show_figures_status()
         self._fill(figures)
 
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if self.results is None:
+            self._set_status(failure_text(message), colours.status_style(error=True))
+
     # ---- display -----------------------------------------------------------------------------
     def _set_status(self, text: str, style: str = "") -> None:
         self._last_status = (text, style)
         if self._stale:
             return
-        self.status.setText(text)
+        self.status.setText(keep_units(text))
         self.status.setStyleSheet(style)
 
     def _show_figures_status(self) -> None:
@@ -225,7 +231,7 @@ class LineFiguresView(QWidget):
                                 for i, j in pairs], wrap=14)
             self._show(self.coupling_label, self.coupling)
         err = f.estimated_relative_error
-        self.error_label.setText(
+        self.error_label.setText(keep_units(
             "" if err is None or not math.isfinite(err) else
             f"Estimated relative error of the capacitances behind these figures: {format_percent(err)} "
-            "(change against meshes at half the resolution).")
+            "(change against meshes at half the resolution)."))

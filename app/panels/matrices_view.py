@@ -24,7 +24,8 @@ from PySide6.QtWidgets import (
 )
 
 from app import colours
-from app.units import digits_for, format_percent, format_plain, format_point, si_scale
+from app.panels.status_text import FAILED, NOT_SOLVED, failure_text
+from app.units import count_of, digits_for, format_percent, format_plain, format_point, keep_units, si_scale
 from solver import NoReferenceError
 from solver.cli.formatting import ROUND_OFF
 
@@ -191,7 +192,7 @@ class MatricesView(QWidget):
     def __init__(self, parent=None) -> None:
         super().__init__(parent)
         layout = QVBoxLayout(self)
-        self._status_text = "Not solved yet: press Solve (F5)."
+        self._status_text = NOT_SOLVED
         self.status = QLabel(self._status_text)
         self.status.setWordWrap(True)
         layout.addWidget(self.status)
@@ -257,7 +258,7 @@ class MatricesView(QWidget):
         if sol.has_capacitance:
             self.maxwell.fill(names, names, matrix_cells(sol.capacitance_maxwell_F_per_m, sol.estimated_relative_error))
             self.mutual.fill(names, names, matrix_cells(sol.capacitance_mutual_F_per_m, sol.estimated_relative_error))
-            self.status.setText(f"Solved: {len(model.conductors)} conductors, {sol.mesh.n_panels} boundary panels.")
+            self.status.setText(f"Solved: {count_of(len(model.conductors), 'conductor')}, {count_of(sol.mesh.n_panels, 'boundary panel')}.")
         else:
             self.maxwell.fill([], [], [])
             self.mutual.fill([], [], [])
@@ -268,18 +269,18 @@ class MatricesView(QWidget):
                 reason = str(exc)
             self.status.setText(reason)
         self._status_text = self.status.text()
-        self.asymmetry_label.setText(
-            f"Accuracy check: the computed matrix was asymmetric by {100 * sol.capacitance_asymmetry:.2g} % "
-            "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else "")
+        self.asymmetry_label.setText(keep_units(
+            f"Accuracy check: the computed matrix was asymmetric by {format_percent(sol.capacitance_asymmetry)} "
+            "(largest |C_ij − C_ji| / largest |C_ij|) before it was symmetrised." if sol.has_capacitance else ""))
         self._fill_conductors(results)
         self._fill_regions(results)
         self._show_matrices(True, sol.has_capacitance)
         err = sol.estimated_relative_error
-        self.error_label.setText(
+        self.error_label.setText(keep_units(
             "Estimated relative error of the matrix: n/a" if err is None else
             f"Estimated relative error: {format_percent(err)}, the change against a mesh at half the "
             f"resolution ({sol.coarse_mesh_panels} panels against {sol.mesh.n_panels}); figures are shown "
-            f"to {digits_for(err)} significant digits.")
+            f"to {digits_for(err)} significant digits."))
 
     def _fill_conductors(self, results) -> None:
         sol, model = results.solution, results.model
@@ -326,13 +327,20 @@ class MatricesView(QWidget):
                  for p, field in zip(peaks, fields)]
         self.regions.fill(rows, ["εr", f"largest |E| ({field_unit})", f"at ({model.unit})", "on"], cells, wrap=14)
 
+    def show_failure(self, message: str) -> None:
+        """No results to show: the solve failed, and ``message`` says why (and what to change)."""
+        if not self.conductors.isVisibleTo(self):  # nothing solved shown (the table comes with results)
+            self._status_text = failure_text(message)
+            self.status.setText(self._status_text)
+            self.status.setStyleSheet(colours.status_style(error=True))
+
     def mark_stale(self, stale: bool) -> None:
         if stale:
             self.status.setText("OUT OF DATE: the drawing changed after this solve. Solve again (F5).")
             self.status.setStyleSheet(colours.style_sheet(colours.FRESHNESS["stale"], bold=True))
         else:
             self.status.setText(self._status_text)
-            self.status.setStyleSheet("")
+            self.status.setStyleSheet(colours.status_style(error=self._status_text.startswith(FAILED)))
 
 
 def cells_in_one_unit(values, unit: str, digits: int, largest: float | None = None,

@@ -17,12 +17,17 @@ from app.units import format_measured, format_plain
 TYPED_DIGITS = 10
 
 
+#: Figures of a potential or charge in the list: a value as typed ("9.8 kV") reads as typed, a
+#: computed one (400 kV x sqrt(2/3) = 326598.632 V) reads "326.599 kV", not ten figures.
+LISTED_DIGITS = 6
+
+
 def role_text(conductor) -> str:
     """A conductor's role and value, e.g. "9.8 kV", "floating, 2 nC/m", "reference, 0 V"."""
     if conductor.role == "fixed":
-        return format_measured(conductor.potential_V, "V", digits=TYPED_DIGITS)
+        return format_measured(conductor.potential_V, "V", digits=LISTED_DIGITS)
     if conductor.role == "floating":
-        return f"floating, {format_measured(conductor.charge_C_per_m, 'C/m', digits=TYPED_DIGITS)}"
+        return f"floating, {format_measured(conductor.charge_C_per_m, 'C/m', digits=LISTED_DIGITS)}"
     return "reference, 0 V"
 
 

@@ -176,6 +176,13 @@ class ResultsPanel(QWidget):
             if hasattr(widget, "show_results"):
                 widget.show_results(results)
 
+    def show_failure(self, message: str) -> None:
+        """The solve failed: sections with nothing solved to show say why, in the words of
+        ``message``, as the summary's "cannot solve" does (results from before stay shown)."""
+        for widget in self.sections.values():
+            if hasattr(widget, "show_failure"):
+                widget.show_failure(message)
+
     def mark_stale(self, stale: bool) -> None:
         """Dim every section and say so when the drawing changed after the solve shown."""
         self.stale = stale

@@ -8,8 +8,10 @@ text field "x, y; x, y; ..." (key ``points``). Every length may be typed with a 
 
 from __future__ import annotations
 
+import re
+
 from app.panels.quantity_edit import display_number
-from solver import Shape, parse_quantity
+from solver import PROJECT_FORMAT_VERSION, ProjectFileError, Shape, model_from_dict, parse_quantity
 
 
 def _label(name: str) -> str:
@@ -91,8 +93,29 @@ def shape_from_values(values: dict[str, str], old: Shape, unit: str, metres_per_
         elif _is_point_list(value) and "points" in values:
             data[name] = [list(p) for p in parse_points(values["points"], unit, metres_per_unit,
                                                         f"vertices of {part}")]
+    _check_as_in_a_file(data, values, labels, unit, part)
     shape = Shape.from_dict(data)
-    problem = shape.problem(f"The {shape.kind}")
+    problem = shape.problem(f"The {shape.kind} of {part}")
     if problem is not None:
         raise ValueError(problem)
     return shape
+
+
+def _check_as_in_a_file(data: dict, values: dict[str, str], labels: dict[str, str], unit: str, part: str) -> None:
+    """Refuse the shape's fields as the solver's project reader would refuse them in a file (a
+    size that is not positive, or outside what it meshes safely), with that reason, naming the
+    part, the field, what was typed and the unit; raises ValueError."""
+    probe = {"format": "edgewise-project", "version": PROJECT_FORMAT_VERSION, "unit": unit,
+             "conductors": [{"name": "probe", "role": "reference", "shapes": [data]}]}
+    try:
+        model_from_dict(probe, "shape")
+    except ProjectFileError as exc:
+        # "<source>: <field path>: <reason>", e.g. "shape: conductors[0].shapes[0].radius: must be ..."
+        _source, path, reason = (str(exc).split(": ", 2) + ["", ""])[:3]
+        match = re.search(r"\.shapes\[0\]\.([a-z_]+)(?:\[(\d)\])?", path)
+        name, axis = (match.group(1), match.group(2)) if match else ("", None)
+        key = f"{name[0]}{'xy'[int(axis)]}" if axis is not None and name and f"{name[0]}x" in values else name
+        label = labels.get(key, _label(name) or "shape")
+        typed = values.get(key, "").strip()
+        where = f"'{typed}' in '{label} of {part}'" if typed else f"'{label} of {part}'"
+        raise ValueError(f"{where}, in {unit}: {reason or exc}") from None

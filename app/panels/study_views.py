@@ -20,6 +20,7 @@ from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTableWidget, QTab
 
 from app import colours
 from app.canvas.drawing import plot_widget
+from app.figure_names import figure_label, figure_title
 from solver.studies.plot import figure_unit, unit_scale
 
 
@@ -46,7 +47,7 @@ class StudyTableView(QTableWidget):
 
     def show_table(self, table, parameter_label: str) -> None:
         scales = {f: column_scale(table.column(f), f) for f in table.figures}
-        headers = [parameter_label] + [f"{f} ({u})" if u else f for f, (_, u) in scales.items()] + ["note"]
+        headers = [parameter_label] + [figure_label(f, u) for f, (_, u) in scales.items()] + ["note"]
         self.clear()
         self.setColumnCount(len(headers))
         self.setHorizontalHeaderLabels(headers)
@@ -85,20 +86,29 @@ class StudyPlot(QWidget):
         """Plot ``table`` (a sweep) and/or ``search`` (a SearchResult) against the varied field."""
         self.table, self.search, self.x_label = table, search, x_label
         names = list(dict.fromkeys([*(table.figures if table else ()), *((search.figure,) if search else ())]))
-        current = self.figure_combo.currentText()
+        current = self.figure_name()
         self.figure_combo.blockSignals(True)
         self.figure_combo.clear()
-        self.figure_combo.addItems(names)
+        for name in names:
+            self.figure_combo.addItem(figure_title(name), name)
         if search is not None:
-            self.figure_combo.setCurrentText(search.figure)
+            self.choose_figure(search.figure)
         elif current in names:
-            self.figure_combo.setCurrentText(current)
+            self.choose_figure(current)
         self.figure_combo.blockSignals(False)
         self.redraw()
 
+    def figure_name(self) -> str:
+        """The study's name of the figure plotted ("" for none)."""
+        return self.figure_combo.currentData() or ""
+
+    def choose_figure(self, name: str) -> None:
+        """Plot figure ``name`` (a study's figure name)."""
+        self.figure_combo.setCurrentIndex(self.figure_combo.findData(name))
+
     def curve_data(self) -> tuple[np.ndarray, np.ndarray]:
         """(x, y in the plotted unit) of the sweep curve now shown (failed cases dropped)."""
-        figure = self.figure_combo.currentText()
+        figure = self.figure_name()
         if self.table is None or figure not in self.table.figures:
             return np.array([]), np.array([])
         x = np.array(self.table.column(self.table.parameters[0]), dtype=float)
@@ -118,11 +128,11 @@ class StudyPlot(QWidget):
 
     def redraw(self) -> None:
         self.plot.clear()
-        figure = self.figure_combo.currentText()
+        figure = self.figure_name()
         if not figure:
             return
         scale, unit = self._scale(figure)
-        self.plot.setLabel("left", f"{figure} ({unit})" if unit else figure)
+        self.plot.setLabel("left", figure_label(figure, unit))
         self.plot.setLabel("bottom", self.x_label)
         x, y = self.curve_data()
         if len(x):

@@ -28,7 +28,7 @@ from PySide6.QtWidgets import (
 import solver
 from app import colours
 from app.jobs.figure_jobs import FigureJobRunner
-from app.units import digits_for, format_field, format_measured, format_plain
+from app.units import digits_for, format_field, format_measured, format_plain, keep_units
 
 #: Freshness states of the results shown (keys of :data:`app.colours.FRESHNESS`).
 STATES = ("none", "fresh", "stale", "solving", "failed")
@@ -176,7 +176,7 @@ class CautionLine(QFrame):
         if verdict is None or not verdict.caution:
             self.setVisible(False)
             return
-        self.details.setText(verdict.caution)
+        self.details.setText(keep_units(verdict.caution))
         self._paint()
         self.setVisible(True)
 
@@ -281,7 +281,7 @@ class SummaryBlock(QWidget):
             if label == "High voltage" and self.caution.isVisibleTo(self):
                 continue  # the caution line says it, once
             name = QLabel(label)
-            value = QLabel(text)
+            value = QLabel(keep_units(text))  # a number and its unit on one line
             value.setTextFormat(Qt.PlainText)
             value.setWordWrap(True)
             name.setStyleSheet(f"color: {colours.TEXT_MUTED};")

@@ -38,11 +38,13 @@ from PySide6.QtWidgets import (
 )
 
 import solver
+from app.figure_names import figure_label
 from app.jobs.study_runner import StudyRunner
 from app.messages import show_message
 from app.panels.goal_box import GoalBox
 from app.panels.quantity_edit import display_number
 from app.panels.study_views import CautionLine, StudyPlot, StudyTableView
+from app.units import count_of
 from solver import LENGTH_UNITS, SolverError, read_quantity
 from solver.hot_spots.verdict import largest_potential_difference_V
 from solver.studies import NOT_RUN, SearchResult, model_with_values, search, sweep
@@ -85,12 +87,13 @@ class SweepDialog(QDialog):
         for f in self.fields:
             self.field_combo.addItem(f"{f.label} ({f.unit})" if f.unit else f.label, f.path)
         for choice in figure_choices(self.model):
-            item = QListWidgetItem(choice.name)
+            item = QListWidgetItem(figure_label(choice.name, length_unit=self.model.unit))
+            item.setData(Qt.UserRole, choice.name)
             item.setToolTip(choice.label)
             item.setFlags(item.flags() | Qt.ItemIsUserCheckable)
             item.setCheckState(Qt.Checked if len(self.checked_figures()) < 1 else Qt.Unchecked)
             self.figure_list.addItem(item)
-            self.goal_figure.addItem(choice.name)
+            self.goal_box.add_figure(choice.name)
         self.field_combo.currentIndexChanged.connect(self._on_field_changed)
         self._on_field_changed()
         self.resize(1060, 660)
@@ -169,12 +172,12 @@ class SweepDialog(QDialog):
 
     def checked_figures(self) -> list[str]:
         items = (self.figure_list.item(i) for i in range(self.figure_list.count()))
-        return [it.text() for it in items if it.checkState() == Qt.Checked]
+        return [it.data(Qt.UserRole) for it in items if it.checkState() == Qt.Checked]
 
     def set_figures(self, names) -> None:
         for i in range(self.figure_list.count()):
             item = self.figure_list.item(i)
-            item.setCheckState(Qt.Checked if item.text() in names else Qt.Unchecked)
+            item.setCheckState(Qt.Checked if item.data(Qt.UserRole) in names else Qt.Unchecked)
 
     def _on_field_changed(self) -> None:
         f = self.field()
@@ -204,7 +207,7 @@ class SweepDialog(QDialog):
         job = functools.partial(_sweep_job, self.document.model, {self.field().path: values}, figures)
         self.found = None
         self._searching = False
-        self.status.setText(f"Running {len(values)} cases...")
+        self.status.setText(f"Running {count_of(len(values), 'case')}...")
         self.runner.start(job)
         return True
 
@@ -217,7 +220,7 @@ class SweepDialog(QDialog):
         except (ValueError, SolverError) as e:
             self.goal_result.setText(str(e))
             return False
-        job = functools.partial(_search_job, self.document.model, self.field().path, self.goal_figure.currentText(),
+        job = functools.partial(_search_job, self.document.model, self.field().path, self.goal_box.figure_name(),
                                 target, (start, stop))
         self.goal_result.setText("Searching...")
         self._searching = True
@@ -235,7 +238,7 @@ class SweepDialog(QDialog):
     def _on_progress(self, done: int, total: int) -> None:
         self.progress.setRange(0, max(total, 1))
         self.progress.setValue(done)
-        self.progress.setFormat(f"{done} / {total} cases")
+        self.progress.setFormat(f"{done} / {count_of(total, 'case')}")
 
     def _on_finished(self, result) -> None:
         if isinstance(result, SearchResult):
@@ -247,7 +250,7 @@ class SweepDialog(QDialog):
         self.table = result
         not_run = sum(1 for r in result.rows if r.get("error") == NOT_RUN)
         failed = len(result.failed) - not_run
-        text = f"{len(result) - not_run} of {len(result)} cases run"
+        text = f"{len(result) - not_run} of {count_of(len(result), 'case')} run"
         text += ", cancelled." if not_run else "."
         if failed:
             text += f" {failed} without figures (see the note column)."

@@ -160,6 +160,13 @@ def test_sweep_plots_one_point_per_radius_and_exports_csv(qtbot, tmp_path):
     rows = list(csv.DictReader(io.StringIO(path.read_text())))
     assert [float(r["corner_radius_m"]) for r in rows] == [0.01, 0.02, 0.03]
     assert [float(r["peak_field_V_per_m"]) for r in rows] == [float(f"{v:.9g}") for v in part.sweep.peak_field_V_per_m]
+    # one number of figures down the peak column: those the largest estimated error supports
+    from app.units import digits_for, format_plain
+
+    errors = [e for e in part.sweep.estimated_relative_error if e == e]
+    digits = digits_for(max(errors) if errors else None)
+    shown = [line.split("\t")[1] for line in copied[1:]]
+    assert shown == [format_plain(v, digits) for v in y]
 
 
 def test_equivalent_radius_of_a_regular_bundle(qtbot):
@@ -171,7 +178,7 @@ def test_equivalent_radius_of_a_regular_bundle(qtbot):
     assert part.checked_names() == ["a", "b"]
     part.compute()
     wait_until(lambda: part.comparison is not None)
-    text = part.result.text()
+    text = part.result.text().replace("\u00a0", " ")  # numbers and units are joined by no-break spaces
     from app.units import digits_for, format_plain
 
     digits = digits_for(part.comparison.estimated_relative_error)  # figures the error supports
@@ -237,3 +244,35 @@ def test_status_cells_lose_their_severity_colour_while_out_of_date(qtbot):
     assert cell.background().color().name() == colours.FRESHNESS["stale"].background
     view.mark_stale(False)
     assert cell.foreground().color().name() == colours.SEVERITY["exceeded"].text
+
+
+def test_the_drawings_peak_label_has_the_figures_of_the_high_voltage_table(window, qtbot):
+    """Once the refined peaks are in, the drawing's peak label shows the figures the table shows
+    (those the peak's error estimate supports), not a fixed 3."""
+    import pyqtgraph as pg
+    from app_helpers import wait_for_solve
+
+    from app.files import project_files as files
+
+    assert window.commands.open(files.SAMPLES_DIR / "hv_electrode_over_earth.json")
+    wait_for_solve(qtbot, window)
+    overlays = window.canvas.overlays
+    digits_seen = []
+    window.results_panel.hot_spots.peak_digits_ready.connect(digits_seen.append)
+    overlays.peak_digits = {}
+    window.results_panel.show_section("High voltage")
+    view = window.results_panel.hot_spots
+    wait_until(lambda: view.report is not None and digits_seen)
+    digits = digits_for(view.report.for_conductor("electrode").estimated_relative_error)
+    assert overlays.peak_digits == {"electrode": digits}
+    labels = [i.textItem.toPlainText() for i in overlays._items if isinstance(i, pg.TextItem)]
+    peak = next(t for t in labels if t.startswith("electrode: "))
+    number = peak.split(": ")[1].split()[0]
+    assert len(number.replace(".", "").lstrip("0").rstrip("0")) <= min(3, digits)
+    overlays.set_peak_digits({"electrode": 2})
+    labels = [i.textItem.toPlainText() for i in overlays._items if isinstance(i, pg.TextItem)]
+    field = next(t for t in labels if t.startswith("electrode: ")).split(": ")[1].split()[0]
+    expected = window.results.solution.peak_surface_fields[0].field_V_per_m
+    from app.units import format_plain
+
+    assert field in (format_plain(expected / 1e3, 2), format_plain(expected / 1e6, 2)), field  # no exponent

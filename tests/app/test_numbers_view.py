@@ -77,3 +77,42 @@ def test_per_conductor_cells_are_numbers_under_a_heading_with_the_unit(view):
     for i in range(3):
         for j in range(view.conductors.columnCount()):
             float(view.conductors.item(i, j).text().replace("\u2212", "-"))  # a bare number
+
+
+def test_counts_agree_with_their_nouns(qtbot):
+    """One conductor reads "1 conductor", not "1 conductors"."""
+    one = compute_results(solver.load_project("sample_geometries/microstrip_on_substrate.json"),
+                          grid_points=0, n_field_lines=0)
+    v = MatricesView()
+    qtbot.addWidget(v)
+    v.show_results(one)
+    assert len(one.model.conductors) == 1
+    assert "Solved: 1 conductor," in v.status.text() and "conductors" not in v.status.text()
+
+
+def test_a_number_and_its_unit_stay_on_one_line_of_a_wrapping_label(view):
+    """"0.029 %" must not break between the number and the % sign: a no-break space joins them."""
+    text = view.error_label.text()
+    assert view.error_label.wordWrap()
+    assert re.search(r"\d\u00a0%", text) and not re.search(r"\d %", text), text
+    assert re.search(r"\d\u00a0%", view.asymmetry_label.text()), view.asymmetry_label.text()
+
+
+def test_the_status_bar_shows_c_to_the_digits_of_the_numbers_section(view, results):
+    """The status bar's C' has the figures the error estimate supports, as the Numbers tab."""
+    import dataclasses
+
+    from app.main_window import live_figures_text
+    from app.units import format_measured
+
+    sol = results.solution
+    c = float(sol.capacitance_maxwell_F_per_m[0, 0])
+    text = live_figures_text(sol)
+    assert f"{format_measured(c, 'F/m', sol.estimated_relative_error)} " in text
+    # an estimate of 0.3 % supports 3 figures: the status bar shows 3, not a fixed 5
+    rough = dataclasses.replace(sol, estimated_relative_error=3e-3)
+    assert f"{format_measured(c, 'F/m', digits=3)} " in live_figures_text(rough)
+    assert f"C'({sol.signal_names[0]}) {format_measured(c, 'F/m', sol.estimated_relative_error)} " in text
+    shown = re.search(r"C'\(\S+\) ([0-9.]+) pF/m", text).group(1)
+    assert len(shown.replace(".", "").lstrip("0")) <= digits_for(sol.estimated_relative_error)
+    assert shown in _cells(view.maxwell)  # the same number as the matrix's diagonal entry

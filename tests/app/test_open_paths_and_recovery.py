@@ -199,3 +199,36 @@ def test_saving_through_a_symbolic_link_updates_the_linked_file(tmp_path):
     assert link.is_symlink() and link.resolve() == real.resolve()
     assert files.open_model(real).conductors[0].potential_V == 42.0
     assert not [p for p in real.parent.iterdir() if p.name.endswith(".tmp")]
+
+
+def test_a_bad_file_on_the_command_line_is_reported_over_the_shown_window(qtbot, settings, tmp_path, monkeypatch):
+    """The message about a file that cannot be opened (here a circle without its radius) comes
+    after the main window is on screen, with the window as its parent; the window stays empty."""
+    from PySide6.QtWidgets import QMessageBox
+
+    from app.__main__ import build_window
+
+    bad = tmp_path / "missing_radius.json"
+    bad.write_text(json.dumps({
+        "format": "edgewise-project", "version": 1, "unit": "mm",
+        "conductors": [{"name": "go", "role": "fixed", "potential_V": 1.0,
+                        "shapes": [{"kind": "circle", "center": [-4.0, 0.0]}]},
+                       {"name": "return", "role": "reference",
+                        "shapes": [{"kind": "circle", "center": [4.0, 0.0], "radius": 0.65}]}]}), encoding="utf-8")
+    seen = []
+
+    def record(box):
+        parent = box.parentWidget()
+        seen.append((box.text(), parent, parent is not None and parent.isVisible()))
+        return int(QMessageBox.Ok.value)
+
+    monkeypatch.setattr(QMessageBox, "exec", record)
+    window = build_window(bad, settings, ask_recovery=False)
+    try:
+        assert len(seen) == 1
+        text, parent, parent_shown = seen[0]
+        assert "radius" in text and "missing" in text
+        assert parent is window and parent_shown
+        assert window.document.model.conductors == ()
+    finally:
+        window.close()

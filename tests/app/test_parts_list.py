@@ -51,12 +51,33 @@ def test_the_goal_target_is_the_unit_aware_entry(qtbot):
 
     box = GoalBox(length_unit="mil")
     qtbot.addWidget(box)
-    box.figure.addItems(["Z0_ohm", "equivalent_radius_m.wire"])
-    box.figure.setCurrentText("equivalent_radius_m.wire")
+    box.add_figure("Z0_ohm")
+    box.add_figure("equivalent_radius_m.wire")
+    box.choose_figure("equivalent_radius_m.wire")
     assert isinstance(box.target, QuantityEdit) and box.target.unit_label.text() == "mil"
     assert "mil" in box.target.toolTip() and "SI prefixes" in box.target.toolTip()
     box.target.setText("2")
     assert box.target_si() == 2 * 25.4e-6
-    box.figure.setCurrentText("Z0_ohm")
+    box.choose_figure("Z0_ohm")
     box.target.setText("0.05 kohm")
     assert box.target_si() == 50.0 and box.target.unit_label.text() == "\u03a9"
+
+
+def test_computed_potentials_read_to_sensible_figures(qtbot):
+    """A potential computed rather than typed (400 kV x sqrt(2/3) for a phase to earth) reads
+    "326.599 kV", not "326.598632 kV"; a typed one still reads as typed."""
+    import math
+
+    from app.document import Document
+
+    model = Model(unit="mm", conductors=(
+        Conductor("L1", (Circle((0.0, 5.0), 1.0),), "fixed", 400e3 * math.sqrt(2 / 3)),
+        Conductor("L2", (Circle((5.0, 5.0), 1.0),), "fixed", 3600 * math.sqrt(2)),
+        Conductor("L3", (Circle((9.0, 5.0), 1.0),), "fixed", 150e3),
+        Conductor("earth", (Circle((15.0, 5.0), 1.0),), "reference")))
+    parts = PartsList(Document(model))
+    qtbot.addWidget(parts)
+    rows = {parts.topLevelItem(i).text(0): parts.topLevelItem(i).text(1) for i in range(parts.topLevelItemCount())}
+    assert rows["L1"].startswith("326.599 kV")
+    assert rows["L2"].startswith("5.09117 kV")
+    assert rows["L3"].startswith("150 kV")

@@ -7,6 +7,7 @@ from PySide6.QtTest import QTest
 
 from app import cautions, edits
 from app.files import project_files as files
+from app.units import NBSP, format_percent
 
 
 @pytest.fixture
@@ -85,4 +86,5 @@ def test_numbers_show_the_raw_asymmetry_of_the_capacitance_matrix(twin):
     # accuracy check made before the matrix is symmetrised (reciprocity, common practice)
     asymmetry = twin.results.solution.capacitance_asymmetry
     text = twin.results_panel.numbers.asymmetry_label.text()
-    assert f"asymmetric by {100 * asymmetry:.2g} %" in text and "before it was symmetrised" in text
+    # through the shared formatter, the number and its % sign joined by a no-break space
+    assert f"asymmetric by {format_percent(asymmetry).replace(' ', NBSP)}" in text and "before it was symmetrised" in text

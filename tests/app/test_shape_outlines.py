@@ -54,4 +54,5 @@ def test_typing_a_corner_radius_of_half_the_short_side_makes_a_stadium(window):
     field.setText("6")
     field.editingFinished.emit()
     assert window.document.model.conductors[0].shapes == (Rectangle((0.0, 0.0), 40.0, 10.0, 5.0),)
-    assert "corner radius 6 is more than half the smaller side (5)" in window.properties.problem_label.text()
+    shown = window.properties.problem_label.text()  # the field, the part and the unit named
+    assert "'6' in 'corner radius of bar', in mm: 6 is more than half the smaller side (5)" in shown

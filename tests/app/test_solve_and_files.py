@@ -8,6 +8,7 @@ import pytest
 from app_helpers import wait_for_solve
 from PySide6.QtWidgets import QMessageBox
 
+from app import edits
 from app.files import project_files as files
 from solver import EPSILON_0_F_PER_M
 
@@ -128,3 +129,33 @@ def test_closing_and_choosing_save_writes_the_file_first(window, tmp_path):
             mock.patch.object(QFileDialog, "getSaveFileName", return_value=(str(target), "")):
         assert window.close()
     assert files.open_model(target) == model
+
+
+def test_the_error_note_stays_inside_the_plot(window, qtbot):
+    """A long message about a part at the right edge of the view is wrapped and kept inside the
+    plot (it used to start at the part's corner and run off the plot's right edge)."""
+    from solver import Circle
+
+    model, _ = edits.add_conductor(window.document.model, Circle((0, 0), 1))
+    model, _ = edits.add_conductor(model, Circle((2, 0), 1))
+    window.document.apply(model, "Draw")
+    window.resize(1366, 768)
+    qtbot.wait(100)  # the layout settles
+    name = model.conductors[-1].name
+    window.canvas.plotItem.vb.setRange(xRange=(-3, 3.1), yRange=(-3, 3), padding=0)  # the part at the right edge
+    message = (f"The mesh would need about 3.34e+19 conductor panels for its system; responsible: the gap "
+               f"between conductors '{name}' and '{model.conductors[-2].name}'; move them apart (or merge them "
+               "into one conductor). Or choose a coarser mesh.")
+    window.canvas.show_errors([name], message)
+    qtbot.wait(50)
+    vb = window.canvas.plotItem.vb
+    note = window.canvas.error_marks.note
+    assert note is not None and note.isVisible()
+    plot_box = vb.sceneBoundingRect()
+    note_box = note.sceneBoundingRect()
+    assert plot_box.contains(note_box), (plot_box, note_box)
+    window.resize(1200, 700)  # narrower: still inside
+    qtbot.wait(100)
+    assert vb.sceneBoundingRect().contains(note.sceneBoundingRect())
+    window.canvas.clear_errors()
+    assert window.canvas.error_marks.note is None

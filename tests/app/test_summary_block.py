@@ -121,3 +121,18 @@ def test_the_peak_row_gives_the_largest_field_even_when_no_peak_is_graded():
     assert peak.startswith(f"{format_field(largest.peak_field_V_per_m)} (mesh value at a sharp corner) on 'trace_mid', "
                            "no margin, not assessed")
     assert "deciding" not in peak  # one peak, named once
+
+
+def test_after_a_failed_solve_the_sections_say_why_as_the_summary_does(window, qtbot):
+    """A failed first solve: the summary says "cannot solve", and the sections no longer say
+    "Not solved yet" but give the reason; editing the drawing keeps the reason shown."""
+    window.commands.open(files.SAMPLES_DIR / "twin_lead.json")
+    window._on_solve_failed("Conductors 'go' and 'return' touch; move them apart")
+    assert window.results_panel.summary.state == "failed"
+    panel = window.results_panel
+    for status in (panel.numbers.status, panel.hot_spots.status, panel.line_figures.status):
+        assert status.text().startswith("Cannot solve: Conductors 'go' and 'return' touch; move them apart")
+        assert "Not solved yet" not in status.text()
+    panel.mark_stale(False)  # an edit without results: nothing out of date, the reason stays
+    assert panel.numbers.status.text().startswith("Cannot solve:")
+    assert panel.line_figures.status.text().startswith("Cannot solve:")

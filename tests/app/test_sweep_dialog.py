@@ -44,7 +44,13 @@ def test_the_dialog_offers_the_drawings_fields_and_figures(dialog):
     paths = [dialog.field_combo.itemData(i) for i in range(dialog.field_combo.count())]
     assert {"conductors.wire.potential_V", WIRE_R, WIRE_Y, "ground_plane.y"} <= set(paths)
     figures = [dialog.figure_list.item(i).text() for i in range(dialog.figure_list.count())]
-    assert figures[:2] == ["Z0_ohm", "eps_eff"] and "peak_field_V_per_m.wire" in figures
+    # plain names with units, not the study's names for machines
+    assert figures[:3] == ["Z0 (Ω)", "εeff", "delay (ns/m)"]
+    assert "C wire–wire (pF/m)" in figures and "peak |E| on wire (kV/m)" in figures
+    assert "equivalent radius of wire (mm)" in figures  # a length in the model's unit
+    assert not any("_" in f for f in figures)
+    goal = [dialog.goal_figure.itemText(i) for i in range(dialog.goal_figure.count())]
+    assert goal == figures
 
 
 def test_a_sweep_shows_the_solvers_table_and_plot_and_exports_its_csv(dialog, qtbot, tmp_path):
@@ -59,10 +65,10 @@ def test_a_sweep_shows_the_solvers_table_and_plot_and_exports_its_csv(dialog, qt
     assert dialog.table == expected
     assert dialog.table_view.rowCount() == 3
     header = dialog.table_view.horizontalHeaderItem(1).text()
-    assert header == "C_F_per_m.wire.wire (pF/m)"
+    assert header == "C wire–wire (pF/m)"
     c_pF = expected.column("C_F_per_m.wire.wire")[1] * 1e12
     assert dialog.table_view.item(1, 1).text() == f"{c_pF:.5g}"
-    dialog.plot.figure_combo.setCurrentText("C_F_per_m.wire.wire")
+    dialog.plot.choose_figure("C_F_per_m.wire.wire")
     x, y = dialog.plot.curve_data()
     np.testing.assert_allclose(x, [0.5, 1.0, 1.5])
     np.testing.assert_allclose(y, np.array(expected.column("C_F_per_m.wire.wire")) * 1e12)
@@ -79,7 +85,7 @@ def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_
     dialog.select_field(WIRE_Y)
     dialog.start_edit.setText("3")
     dialog.stop_edit.setText("12")
-    dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
+    dialog.goal_box.choose_figure("C_F_per_m.wire.wire")
     dialog.goal_target.setText(f"{target * 1e12:.12g} pF/m")  # the target may carry its unit
     with qtbot.waitSignal(dialog.runner.finished, timeout=120000):
         assert dialog.run_search()
@@ -87,8 +93,8 @@ def test_the_goal_search_finds_the_height_of_a_known_capacitance_and_puts_it_in_
     assert found.target == pytest.approx(target, rel=1e-11)
     assert found.value == pytest.approx(7.0, rel=2e-3)  # the solver's error on C is well under 1e-3
     text = html.unescape(re.sub("<[^>]+>", "", dialog.goal_result.text()))
-    shown = re.search(r"wire: centre y = ([0-9.]+) mm gives C_F_per_m\.wire\.wire = ([0-9.]+) pF/m \(target "
-                      r"([0-9.]+) pF/m", text)
+    shown = re.search(r"wire: centre y = ([0-9.]+)\s+mm gives C wire–wire = ([0-9.]+)\s+pF/m \(target "
+                      r"([0-9.]+)\s+pF/m", text)
     assert shown, text
     # The value is shown to the figures the root finder's tolerance supports: rounding it moved it
     # by less than the tolerance, and one figure fewer would move it by more than a tenth of it.
@@ -149,7 +155,7 @@ def test_a_target_out_of_reach_is_said_in_the_search_box(dialog, qtbot):
     dialog.select_field(WIRE_R)
     dialog.start_edit.setText("0.5")
     dialog.stop_edit.setText("1.5")
-    dialog.goal_figure.setCurrentText("C_F_per_m.wire.wire")
+    dialog.goal_box.choose_figure("C_F_per_m.wire.wire")
     dialog.goal_target.setText("1e-9")  # 1000 pF/m: far above any wire of this size
     status_before = dialog.status.text()
     with qtbot.waitSignal(dialog.runner.failed, timeout=60000):
@@ -170,7 +176,7 @@ def test_a_target_out_of_reach_is_said_in_the_search_box(dialog, qtbot):
     ("equivalent_radius_m.wire", "2", 2e-3),   # a length: a bare number is in the model's mm
 ])
 def test_the_goal_target_is_read_with_the_figures_unit(dialog, figure, typed, expected):
-    dialog.goal_figure.setCurrentText(figure)
+    dialog.goal_box.choose_figure(figure)
     dialog.goal_target.setText(typed)
     assert dialog.goal_box.target_si() == pytest.approx(expected, rel=1e-12)
     assert dialog.goal_box.target_unit.text() == {"Z0_ohm": "\u03a9", "margin.wire": "", "delay_s_per_m": "s/m",
@@ -179,7 +185,7 @@ def test_the_goal_target_is_read_with_the_figures_unit(dialog, figure, typed, ex
 
 def test_a_target_of_the_wrong_kind_is_said_and_nothing_runs(dialog):
     dialog.select_field(WIRE_R)
-    dialog.goal_figure.setCurrentText("Z0_ohm")
+    dialog.goal_box.choose_figure("Z0_ohm")
     dialog.goal_target.setText("50 pF/m")
     assert not dialog.run_search()
     assert "'50 pF/m'" in dialog.goal_result.text() and "Target" in dialog.goal_result.text()

@@ -52,7 +52,8 @@ def test_a_bad_value_is_refused_with_the_reason(window):
     window.properties.fields["height"].setText("-3")
     window.properties.fields["height"].editingFinished.emit()
     assert window.document.model == before
-    assert "height is -3" in window.properties.problem_label.text()
+    shown = window.properties.problem_label.text()
+    assert "'-3' in 'height of conductor 1', in mm" in shown and "must be greater than 0" in shown
 
 
 def test_selecting_in_the_parts_list_selects_on_the_canvas(window):

@@ -6,7 +6,7 @@ import pytest
 
 from app.document import Document, PartRef
 from app.panels.properties import PropertiesPanel
-from solver import Conductor, Dielectric, GroundPlane, Model, Polygon, Rectangle
+from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Polygon, Rectangle
 
 MIL_MM = 0.0254  # 1 mil = 0.001 inch = 0.0254 mm (common practice)
 
@@ -174,3 +174,22 @@ def test_sweep_radii_and_corner_radius_take_units(qtbot, monkeypatch):
     view.corner_edit.setText("20 mil")
     view.corner_button.click()
     assert started[-1][2] == pytest.approx(20 * 25.4e-6)
+
+
+@pytest.mark.parametrize(("text", "reason"), [
+    ("-1", "must be greater than 0"),
+    ("1e-20", "is smaller than 1e-10 m; check the number and the unit"),  # the project reader's words
+])
+def test_a_radius_the_solver_would_refuse_is_refused_at_entry_naming_part_field_and_unit(qtbot, text, reason):
+    doc = Document()
+    doc.replace(Model(conductors=(Conductor("go", (Circle((-4, 0), 0.65),), potential_V=1.0),
+                                  Conductor("return", (Circle((4, 0), 0.65),), role="reference")), unit="mm"), None)
+    panel = PropertiesPanel(doc)
+    qtbot.addWidget(panel)
+    _select(panel, "conductor")
+    before = doc.model
+    _type(panel, "radius", text)
+    assert doc.model == before  # not applied, so the solve never sees it
+    shown = panel.problem_label.text()
+    assert shown.startswith(f"Not applied: '{text}' in 'radius of go', in mm: "), shown
+    assert reason in shown
