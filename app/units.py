@@ -11,6 +11,7 @@ import math
 import re
 
 from solver.cli.formatting import (
+    NEGLIGIBLE_SHARE,
     digits_for,
     format_measured,
     format_percent,
@@ -19,7 +20,7 @@ from solver.cli.formatting import (
     true_minus,
 )
 
-__all__ = ["NBSP", "count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
+__all__ = ["NBSP", "NEGLIGIBLE_SHARE", "count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
            "format_point", "format_potential", "format_si", "keep_units", "si_scale", "true_minus"]
 
 _PREFIXES = ((1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),

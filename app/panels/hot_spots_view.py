@@ -28,7 +28,7 @@ from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.panels.status_text import NOT_SOLVED, failure_text
-from app.units import digits_for, format_percent, format_plain, keep_units
+from app.units import NEGLIGIBLE_SHARE, digits_for, format_percent, format_plain, keep_units
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -64,11 +64,6 @@ def _margin(value: float | None) -> str:
     if value is None:
         return "—"
     return "∞" if not math.isfinite(value) else format_plain(value, 3)
-
-
-#: A peak below this share of the largest one shown reads "≈ 0" (it would need an exponent in
-#: the row's unit, and is negligible beside the others).
-NEGLIGIBLE_SHARE = 1e-4
 
 
 def _peak(value: float, relative_error: float | None, largest: float | None = None) -> str:
