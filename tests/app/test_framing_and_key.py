@@ -197,15 +197,20 @@ def test_a_label_with_no_place_in_view_is_moved_into_it():
     assert 0.0 <= box[0] and box[2] <= 100.0
 
 
-def test_hot_spot_labels_of_the_three_traces_stay_apart_and_in_view(window, qtbot):
-    import pyqtgraph as pg
-
+def _three_traces_solved(window, qtbot) -> None:
+    """The three-trace sample at 1366 x 768, coarse mesh, solved and drawn."""
     window.resize(1366, 768)
     window.commands.open(files.SAMPLES_DIR / "three_traces_over_ground.json")
     window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
     window.solve()
     wait_for_solve(qtbot, window)
     qtbot.wait(50)
+
+
+def test_hot_spot_labels_of_the_three_traces_stay_apart_and_in_view(window, qtbot):
+    import pyqtgraph as pg
+
+    _three_traces_solved(window, qtbot)
     vb = window.canvas.plotItem.vb
     view = vb.mapRectToScene(vb.boundingRect())
     spots = [i for i in window.canvas.overlays._items if isinstance(i, pg.TextItem) and "V/m" in i.toPlainText()]
@@ -297,12 +302,7 @@ def test_hot_spot_labels_away_from_their_stars_are_led_back_to_them(window, qtbo
     import pyqtgraph as pg
     from PySide6.QtCore import QPointF
 
-    window.resize(1366, 768)
-    window.commands.open(files.SAMPLES_DIR / "three_traces_over_ground.json")
-    window.document.apply(window.document.model.with_mesh_density("coarse"), "Mesh")
-    window.solve()
-    wait_for_solve(qtbot, window)
-    qtbot.wait(50)
+    _three_traces_solved(window, qtbot)
     overlays, vb = window.canvas.overlays, window.canvas.plotItem.vb
     scale = overlays.results.model.metres_per_unit
     stars = {p.conductor: vb.mapViewToScene(QPointF(p.location_m[0] / scale, p.location_m[1] / scale))
