@@ -164,15 +164,7 @@ def test_the_tables_of_three_conductor_samples_fit_without_scrolling_sideways(wi
     window.solve()
     wait_for_solve(qtbot, window)
     window.resize(*size)
-    panel = window.results_panel
-    for title in panel.section_titles():
-        panel.show_section(title)
-        runner = getattr(panel.sections[title], "runner", None)
-        if runner is not None:
-            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
-        settle(qtbot)
-        found = problems_in(panel, f"{sample} {size} {title}")
-        assert found == [], "\n".join(found)
+    _assert_sections_whole(qtbot, window.results_panel, window.results_panel.section_titles(), f"{sample} {size}")
 
 
 @pytest.mark.parametrize("sample", ["shielded_three_core_cable.json", "two_layer_coax_cable.json"])
@@ -221,14 +213,7 @@ def test_the_results_area_cannot_be_dragged_narrower_than_it_fits(hv_twin, qtbot
     window.resizeDocks([window.results_dock], [300], Qt.Horizontal)
     settle(qtbot)
     assert window.results_dock.width() >= RESULTS_MIN_WIDTH
-    for title in ("Numbers", "High voltage"):
-        panel.show_section(title)
-        runner = getattr(panel.sections[title], "runner", None)
-        if runner is not None:
-            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
-        settle(qtbot)
-        found = problems_in(panel, f"{size} narrowest {title}")
-        assert found == [], "\n".join(found)
+    _assert_sections_whole(qtbot, panel, ("Numbers", "High voltage"), f"{size} narrowest")
 
 
 def test_caution_details_do_not_push_anything_out(hv_twin, qtbot):
@@ -420,3 +405,15 @@ def test_a_table_wider_than_its_place_wraps_narrower_and_keeps_its_colours(qtbot
     assert before.maximum() == 0 and table.item(2, 0).text() == "not\nassessed"
     assert table.item(2, 0).background().color().name() == "#e8e8e8"
     assert table.as_text().splitlines()[3].split("\t")[:2] == ["status", "not assessed"]  # copied whole
+
+
+def _assert_sections_whole(qtbot, panel, titles, label: str) -> None:
+    """Show each section (its figure job finished) and find no overlapping or clipped widget."""
+    for title in titles:
+        panel.show_section(title)
+        runner = getattr(panel.sections[title], "runner", None)
+        if runner is not None:
+            qtbot.waitUntil(lambda r=runner: not r.is_busy, timeout=60000)
+        settle(qtbot)
+        found = problems_in(panel, f"{label} {title}")
+        assert found == [], "\n".join(found)
