@@ -20,7 +20,7 @@ from solver.cli.formatting import (
     true_minus,
 )
 
-__all__ = ["NBSP", "NEGLIGIBLE_SHARE", "count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
+__all__ = ["FIELD_FIGURES", "NBSP", "NEGLIGIBLE_SHARE", "field_figures", "count_of", "digits_for", "format_field", "format_length", "format_measured", "format_percent", "format_plain",
            "format_point", "format_potential", "format_si", "keep_units", "si_scale", "true_minus"]
 
 _PREFIXES = ((1e12, "T"), (1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),
@@ -43,8 +43,18 @@ def format_si(value: float | None, unit: str, digits: int = 4, largest: float | 
     return format_measured(value, unit, digits=digits, largest=largest)
 
 
+#: Most significant figures a field strength is shown with anywhere in the window (fewer where
+#: its error estimate supports fewer): the summary, status bar, drawing and tables agree.
+FIELD_FIGURES = 3
+
+
+def field_figures(relative_error: float | None) -> int:
+    """The figures a field strength with this estimated relative error is shown to."""
+    return min(FIELD_FIGURES, digits_for(relative_error))
+
+
 def format_field(value_V_per_m: float | None, largest: float | None = None) -> str:
-    return format_measured(value_V_per_m, "V/m", digits=3, largest=largest)
+    return format_measured(value_V_per_m, "V/m", digits=FIELD_FIGURES, largest=largest)
 
 
 def format_potential(value_V: float | None) -> str:

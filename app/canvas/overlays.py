@@ -26,7 +26,7 @@ from app.canvas.colour_key import ColourKey
 from app.canvas.detail_map import detail_axes
 from app.canvas.shading import SHADINGS, shading_of
 from app.jobs.figure_jobs import FigureJobRunner
-from app.units import format_field, format_plain, format_potential, si_scale
+from app.units import FIELD_FIGURES, format_field, format_plain, format_potential, si_scale
 
 __all__ = ["SHADINGS", "Overlays"]
 
@@ -317,7 +317,8 @@ class Overlays:
             digits = self.peak_digits.get(p.conductor)
             # the summary's and status bar's 3 figures, fewer where the refined peak's estimate
             # supports fewer (then the High voltage table shows that many too)
-            field = format_field(p.field_V_per_m) if digits is None else _field_to(p.field_V_per_m, min(3, digits))
+            field = (format_field(p.field_V_per_m) if digits is None
+                     else _field_to(p.field_V_per_m, min(FIELD_FIGURES, digits)))
             text = f"{p.conductor}: {field}" + (" (sharp corner)" if p.at_sharp_corner else "")
             bold = p.field_V_per_m == top
             label = pg.TextItem(text, color=colours.TEXT, fill=pg.mkBrush(*colours.LABEL_FILL),

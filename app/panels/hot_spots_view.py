@@ -28,7 +28,7 @@ from app.panels.corner_radius_view import CornerRadiusPart, field_unit
 from app.panels.equivalent_radius_view import EquivalentRadiusPart
 from app.panels.matrices_view import CopyableTable, drawing_size, format_coordinate
 from app.panels.status_text import NOT_SOLVED, failure_text
-from app.units import NEGLIGIBLE_SHARE, digits_for, format_percent, format_plain, keep_units
+from app.units import NEGLIGIBLE_SHARE, field_figures, format_percent, format_plain, keep_units
 from solver import THIN_MARGIN
 
 STALE_TEXT = "Out of date: the drawing changed after this solve. Solve again (F5)."
@@ -67,11 +67,12 @@ def _margin(value: float | None) -> str:
 
 
 def _peak(value: float, relative_error: float | None, largest: float | None = None) -> str:
-    """A peak field (already in the row's unit) to the figures its error estimate supports;
+    """A peak field (already in the row's unit) to the figures its error estimate supports, at
+    most :data:`app.units.FIELD_FIGURES` (as on the drawing, the summary and the status bar);
     "≈ 0" when it is below :data:`NEGLIGIBLE_SHARE` of ``largest`` (same unit)."""
     if largest is not None and abs(value) < NEGLIGIBLE_SHARE * abs(largest):
         return "≈ 0"
-    return format_plain(value, digits_for(relative_error))
+    return format_plain(value, field_figures(relative_error))
 
 
 class HotSpotsView(QWidget):
@@ -267,7 +268,7 @@ class HotSpotsView(QWidget):
 
     def _on_report_ready(self, report) -> None:
         self.report = report
-        self.peak_digits_ready.emit({s.conductor: digits_for(s.estimated_relative_error) for s in report.hot_spots})
+        self.peak_digits_ready.emit({s.conductor: field_figures(s.estimated_relative_error) for s in report.hot_spots})
         rounded = ("" if report.corner_radius_m is None else
                    f", sharp corners rounded to {format_plain(report.corner_radius_m / self.results.model.metres_per_unit, 4)} "
                    f"{self.results.model.unit}")
