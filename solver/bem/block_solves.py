@@ -66,9 +66,11 @@ class _InverseColumns:
     (:class:`solver.bem.edit_blocks.FarParts` ``near``): a drag that passes a neighbour makes
     a new disc at every long step, but the neighbour's panels, and so these columns, stay."""
 
-    def _init_columns(self) -> None:
-        self._columns: np.ndarray | None = None  # (n_p, k)
-        self._column_of: np.ndarray | None = None  # (n_p,) position in _columns, -1 if not kept
+    def _init_columns(self, n_p: int) -> None:
+        self._n_p = n_p
+        self._columns = np.zeros((n_p, 0))  # kept columns of A_PP^-1
+        self._column_of = np.full(n_p, -1)  # position of each panel's column in _columns, -1 if not kept
+        self._mixed: tuple | None = None  # (U_PE, A_PX, Z) of the last z_with_near
 
     def solve(self, x: np.ndarray) -> np.ndarray:
         raise NotImplementedError
@@ -76,27 +78,35 @@ class _InverseColumns:
     def columns(self, idx: np.ndarray) -> np.ndarray:
         """A_PP^-1 e_j for each j in ``idx`` (positions in P), (n_p, len(idx)); the missing
         ones solved together and kept."""
-        n_p = len(self.p_rows())
-        if self._column_of is None:
-            self._column_of, self._columns = np.full(n_p, -1), np.zeros((n_p, 0))
-        assert self._columns is not None
         missing = idx[self._column_of[idx] < 0]
-        if len(missing) and 8 * n_p * (self._columns.shape[1] + len(missing)) > MOST_KEPT_COLUMN_BYTES:
-            self._column_of, self._columns = np.full(n_p, -1), np.zeros((n_p, 0))  # start over
+        if len(missing) and 8 * self._n_p * (self._columns.shape[1] + len(missing)) > MOST_KEPT_COLUMN_BYTES:
+            self._init_columns(self._n_p)  # start over
             missing = np.unique(idx)
-            if 8 * n_p * len(missing) > MOST_KEPT_COLUMN_BYTES:  # too many to keep: solved, not kept
-                unit = np.zeros((n_p, len(idx)))
-                unit[idx, np.arange(len(idx))] = 1.0
-                return self.solve(unit)
+            if 8 * self._n_p * len(missing) > MOST_KEPT_COLUMN_BYTES:  # too many to keep: solved, not kept
+                return self.solve(self._unit_columns(idx))
         if len(missing):
-            unit = np.zeros((n_p, len(missing)))
-            unit[missing, np.arange(len(missing))] = 1.0
             self._column_of[missing] = self._columns.shape[1] + np.arange(len(missing))
-            self._columns = np.hstack([self._columns, self.solve(unit)])
+            self._columns = np.hstack([self._columns, self.solve(self._unit_columns(missing))])
         return self._columns[:, self._column_of[idx]]
 
-    def p_rows(self) -> np.ndarray:
-        raise NotImplementedError
+    def _unit_columns(self, idx: np.ndarray) -> np.ndarray:
+        unit = np.zeros((self._n_p, len(idx)))
+        unit[idx, np.arange(len(idx))] = 1.0
+        return unit
+
+    def z_with_near(self, u_pe: np.ndarray, near: np.ndarray, a_px: np.ndarray) -> tuple[np.ndarray, bool]:
+        """(A_PP^-1 [U_PE | A_PX], reused) when the last len(near) columns of U_PE select the
+        near panels (:class:`solver.bem.edit_blocks.FarParts`): their columns come from those
+        kept by panel (:meth:`columns`), the rest are solved; the whole is kept while U_PE is
+        the same array (the same disc)."""
+        kept = self._mixed
+        if kept is not None and kept[0] is u_pe and np.array_equal(kept[1], a_px):
+            return kept[2], True
+        rank = u_pe.shape[1] - len(near)
+        solved = self.solve(np.hstack([u_pe[:, :rank], a_px]))
+        z = np.hstack([solved[:, :rank], self.columns(near), solved[:, rank:]])
+        self._mixed = (u_pe, np.array(a_px), z)
+        return z, False
 
 
 class LUSolves(_InverseColumns):
@@ -104,12 +114,9 @@ class LUSolves(_InverseColumns):
 
     def __init__(self, lu: tuple, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> None:
         self.lu, self.starts, self.ends, self.ell, self.plane = lu, starts, ends, ell, plane
-        self._init_columns()
+        self._init_columns(len(starts))
         self._z: tuple | None = None
         self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
-
-    def p_rows(self) -> np.ndarray:
-        return self.starts
 
     def matches(self, starts: np.ndarray, ends: np.ndarray, ell: float, plane: float | None) -> bool:
         return (ell == self.ell and plane == self.plane and starts.shape == self.starts.shape
@@ -150,7 +157,7 @@ class BorderedSolves(_InverseColumns):
                  u: np.ndarray, a_px: np.ndarray, moment_map: np.ndarray | None = None,
                  also: np.ndarray | None = None) -> None:
         self.full, self.p_full, self.disc, self.u = full, p_full, disc, u
-        self._init_columns()
+        self._init_columns(len(p_full))
         size = full.lu[0].shape[0]
         self.q_full = np.concatenate([q_old, np.arange(full.n_panels, size)])
         self.v_old = panel_moments(disc, full.starts[q_old], full.ends[q_old], full.plane)
@@ -170,9 +177,6 @@ class BorderedSolves(_InverseColumns):
         self._last: tuple | None = None  # (x, A_PP^-1 x) of the last solve
         if also is not None and self.usable:
             self._last = (np.array(also), self._combined(y[:, n_border:]))
-
-    def p_rows(self) -> np.ndarray:
-        return self.p_full
 
     def _full_solve(self, x_p: np.ndarray) -> np.ndarray:
         padded = np.zeros((self.full.lu[0].shape[0],) + x_p.shape[1:])

@@ -83,8 +83,6 @@ class _Previous:
     layout: SystemLayout
 
 
-
-
 class GeometryEditSolver:
     """Solves a sequence of models that differ by the geometry of a few conductors.
 
@@ -120,7 +118,6 @@ class GeometryEditSolver:
         self._fresh = False  # the last system was solved afresh (its factors are self._full)
         self._prepared: dict[str, PreparedEdit] = {}
         self._vz: tuple | None = None  # (V_EP, Z, V_EP @ Z) of the last step in low-rank form
-        self._mixed: tuple | None = None  # (U_PE, solves, A_PX, Z) of the last step with near panels
         self._consistent = True  # what is kept describes one system (False while it is rewritten)
         self.bordered = False
         self.superposed = False
@@ -411,20 +408,6 @@ class GeometryEditSolver:
         solves = BorderedSolves(self._full, p_full, q_old, disc, u, a_px, moment_map, also=rhs[p])
         return solves if solves.usable else None
 
-    def _mixed_z(self, solves: LUSolves | BorderedSolves, u_pe: np.ndarray, near: np.ndarray,
-                 a_px: np.ndarray) -> tuple[np.ndarray, bool]:
-        """(A_PP^-1 [S_far Q | S_near | A_PX], reused) for blocks with near panels: the
-        columns of the near panels from those kept by panel (:meth:`LUSolves.columns`), the
-        rest solved; the whole kept while U_PE is the same array (the same disc)."""
-        kept = self._mixed
-        if kept is not None and kept[0] is u_pe and kept[1] is solves and np.array_equal(kept[2], a_px):
-            return kept[3], True
-        rank = u_pe.shape[1] - len(near)
-        solved = solves.solve(np.hstack([u_pe[:, :rank], a_px]))
-        z = np.hstack([solved[:, :rank], solves.columns(near), solved[:, rank:]])
-        self._mixed = (u_pe, solves, np.array(a_px), z)
-        return z, False
-
     def _far_solver(self, a: np.ndarray, p: np.ndarray, q: np.ndarray, solves: LUSolves | BorderedSolves,
                     far: FarParts):
         """Block elimination with A_PQ and A_QP in low-rank form.
@@ -442,7 +425,7 @@ class GeometryEditSolver:
         u_ep, v_ep = far.edited_from_kept
         rank, n_x = u_pe.shape[1], len(x_idx)
         if len(far.near):
-            z, self.reused_solves = self._mixed_z(solves, u_pe, far.near, a_px)
+            z, self.reused_solves = solves.z_with_near(u_pe, far.near, a_px)
         else:
             z, self.reused_solves = solves.z_for(u_pe, a_px)  # A_PP^-1 [U_PE | A_PX]
         kept = self._vz

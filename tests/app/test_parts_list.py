@@ -6,17 +6,24 @@ from app.panels.parts_list import PartsList
 from solver import Circle, Conductor, Dielectric, GroundPlane, Model, Rectangle
 
 
-def test_values_read_as_typed_with_prefixes(qtbot):
+def _parts_and_rows(qtbot, model):
+    """The parts list of ``model`` and its rows as {part: role / value text}."""
     from app.document import Document
+
+    parts = PartsList(Document(model))
+    qtbot.addWidget(parts)
+    return parts, {parts.topLevelItem(i).text(0): parts.topLevelItem(i).text(1)
+                   for i in range(parts.topLevelItemCount())}
+
+
+def test_values_read_as_typed_with_prefixes(qtbot):
 
     model = Model(unit="mm", ground_plane=GroundPlane(0.1 + 0.2), conductors=(  # 0.30000000000000004
         Conductor("bar A", (Rectangle((0.0, 5.0), 2.0, 1.0),), "fixed", -9800.0),
         Conductor("float", (Circle((5.0, 5.0), 1.0),), "floating", charge_C_per_m=2e-9),
         Conductor("sheath", (Circle((5.0, 9.0), 1.0),), "reference")),
         dielectrics=(Dielectric("board", (Rectangle((0.0, 1.0), 20.0, 1.0),), 4.4),))
-    parts = PartsList(Document(model))
-    qtbot.addWidget(parts)
-    rows = {parts.topLevelItem(i).text(0): parts.topLevelItem(i).text(1) for i in range(parts.topLevelItemCount())}
+    parts, rows = _parts_and_rows(qtbot, model)
     assert rows["bar A"].startswith("\u22129.8 kV")
     assert rows["float"].startswith("floating, 2 nC/m")
     assert rows["sheath"].startswith("reference, 0 V")
@@ -68,16 +75,13 @@ def test_computed_potentials_read_to_sensible_figures(qtbot):
     "326.599 kV", not "326.598632 kV"; a typed one still reads as typed."""
     import math
 
-    from app.document import Document
 
     model = Model(unit="mm", conductors=(
         Conductor("L1", (Circle((0.0, 5.0), 1.0),), "fixed", 400e3 * math.sqrt(2 / 3)),
         Conductor("L2", (Circle((5.0, 5.0), 1.0),), "fixed", 3600 * math.sqrt(2)),
         Conductor("L3", (Circle((9.0, 5.0), 1.0),), "fixed", 150e3),
         Conductor("earth", (Circle((15.0, 5.0), 1.0),), "reference")))
-    parts = PartsList(Document(model))
-    qtbot.addWidget(parts)
-    rows = {parts.topLevelItem(i).text(0): parts.topLevelItem(i).text(1) for i in range(parts.topLevelItemCount())}
+    parts, rows = _parts_and_rows(qtbot, model)
     assert rows["L1"].startswith("326.599 kV")
     assert rows["L2"].startswith("5.09117 kV")
     assert rows["L3"].startswith("150 kV")
